@@ -1,0 +1,352 @@
+// The Tidemark database: studios and their people, the shot library, versions, review, bakes, assets and sharing.
+// Every row that belongs to a studio carries studio_id, so one query filter keeps studios apart.
+import {
+  mysqlTable,
+  bigint,
+  varchar,
+  text,
+  int,
+  boolean,
+  datetime,
+  date,
+  double,
+  json,
+  mysqlEnum,
+  index,
+  uniqueIndex,
+} from 'drizzle-orm/mysql-core';
+import { sql } from 'drizzle-orm';
+
+/** Auto-increment id (drizzle's serial() emits SQL that MariaDB rejects). */
+const id = () => bigint('id', { mode: 'number', unsigned: true }).autoincrement().primaryKey();
+const ref = (name: string) => bigint(name, { mode: 'number', unsigned: true });
+const createdAt = () => datetime('created_at', { mode: 'date', fsp: 3 }).notNull().default(sql`CURRENT_TIMESTAMP(3)`);
+const updatedAt = () =>
+  datetime('updated_at', { mode: 'date', fsp: 3 })
+    .notNull()
+    .default(sql`CURRENT_TIMESTAMP(3)`)
+    .$onUpdate(() => new Date());
+
+export { ROLES, SHOT_STATUSES, REVIEW_STATES, BAKE_STATES, JOB_STATES, ASSET_KINDS, type Role } from '../../vocab';
+import { ROLES, SHOT_STATUSES, REVIEW_STATES, BAKE_STATES, JOB_STATES, ASSET_KINDS } from '../../vocab';
+
+export const studios = mysqlTable('studios', {
+  id: id(),
+  slug: varchar('slug', { length: 64 }).notNull().unique(),
+  name: varchar('name', { length: 120 }).notNull(),
+  createdAt: createdAt(),
+  updatedAt: updatedAt(),
+});
+
+/** Users have string ids because the session library keys sessions by string. */
+export const users = mysqlTable('users', {
+  id: varchar('id', { length: 40 }).primaryKey(),
+  email: varchar('email', { length: 254 }).notNull().unique(),
+  name: varchar('name', { length: 120 }).notNull(),
+  passwordHash: varchar('password_hash', { length: 255 }).notNull(),
+  dailyDigest: boolean('daily_digest').notNull().default(false),
+  lastActiveAt: datetime('last_active_at', { mode: 'date' }),
+  createdAt: createdAt(),
+  updatedAt: updatedAt(),
+});
+
+export const sessions = mysqlTable(
+  'sessions',
+  {
+    id: varchar('id', { length: 255 }).primaryKey(),
+    userId: varchar('user_id', { length: 40 })
+      .notNull()
+      .references(() => users.id, { onDelete: 'cascade' }),
+    expiresAt: datetime('expires_at', { mode: 'date' }).notNull(),
+  },
+  (t) => [index('sessions_user_idx').on(t.userId)],
+);
+
+export const memberships = mysqlTable(
+  'memberships',
+  {
+    id: id(),
+    studioId: ref('studio_id')
+      .notNull()
+      .references(() => studios.id, { onDelete: 'cascade' }),
+    userId: varchar('user_id', { length: 40 })
+      .notNull()
+      .references(() => users.id, { onDelete: 'cascade' }),
+    role: mysqlEnum('role', ROLES).notNull(),
+    createdAt: createdAt(),
+    updatedAt: updatedAt(),
+  },
+  (t) => [uniqueIndex('memberships_studio_user_uq').on(t.studioId, t.userId), index('memberships_user_idx').on(t.userId)],
+);
+
+/** Single-use invitation: only the SHA-256 of the token is stored. */
+export const invitations = mysqlTable(
+  'invitations',
+  {
+    id: id(),
+    studioId: ref('studio_id')
+      .notNull()
+      .references(() => studios.id, { onDelete: 'cascade' }),
+    email: varchar('email', { length: 254 }).notNull(),
+    role: mysqlEnum('role', ROLES).notNull(),
+    tokenHash: varchar('token_hash', { length: 64 }).notNull().unique(),
+    invitedBy: varchar('invited_by', { length: 40 }).references(() => users.id, { onDelete: 'set null' }),
+    expiresAt: datetime('expires_at', { mode: 'date' }).notNull(),
+    acceptedAt: datetime('accepted_at', { mode: 'date' }),
+    revokedAt: datetime('revoked_at', { mode: 'date' }),
+    createdAt: createdAt(),
+    updatedAt: updatedAt(),
+  },
+  (t) => [index('invitations_studio_idx').on(t.studioId, t.createdAt)],
+);
+
+export const passwordResets = mysqlTable('password_resets', {
+  id: id(),
+  userId: varchar('user_id', { length: 40 })
+    .notNull()
+    .references(() => users.id, { onDelete: 'cascade' }),
+  tokenHash: varchar('token_hash', { length: 64 }).notNull().unique(),
+  expiresAt: datetime('expires_at', { mode: 'date' }).notNull(),
+  usedAt: datetime('used_at', { mode: 'date' }),
+  createdAt: createdAt(),
+  updatedAt: updatedAt(),
+});
+
+/** Sign-in attempts, kept to throttle guessing across every app server sharing this database. */
+export const signInAttempts = mysqlTable(
+  'sign_in_attempts',
+  {
+    id: id(),
+    email: varchar('email', { length: 254 }).notNull(),
+    ip: varchar('ip', { length: 64 }).notNull(),
+    succeeded: boolean('succeeded').notNull(),
+    createdAt: createdAt(),
+  },
+  (t) => [index('sign_in_attempts_email_idx').on(t.email, t.createdAt), index('sign_in_attempts_ip_idx').on(t.ip, t.createdAt)],
+);
+
+export const shows = mysqlTable(
+  'shows',
+  {
+    id: id(),
+    studioId: ref('studio_id')
+      .notNull()
+      .references(() => studios.id, { onDelete: 'cascade' }),
+    code: varchar('code', { length: 32 }).notNull(),
+    name: varchar('name', { length: 120 }).notNull(),
+    description: text('description'),
+    frameRate: varchar('frame_rate', { length: 12 }).notNull().default('24'),
+    archivedAt: datetime('archived_at', { mode: 'date' }),
+    createdAt: createdAt(),
+    updatedAt: updatedAt(),
+  },
+  (t) => [uniqueIndex('shows_studio_code_uq').on(t.studioId, t.code), index('shows_studio_updated_idx').on(t.studioId, t.updatedAt)],
+);
+
+export const assets = mysqlTable(
+  'assets',
+  {
+    id: id(),
+    studioId: ref('studio_id')
+      .notNull()
+      .references(() => studios.id, { onDelete: 'cascade' }),
+    kind: mysqlEnum('kind', ASSET_KINDS).notNull(),
+    storageKey: varchar('storage_key', { length: 400 }).notNull(),
+    contentType: varchar('content_type', { length: 100 }).notNull(),
+    byteSize: bigint('byte_size', { mode: 'number', unsigned: true }).notNull().default(0),
+    width: int('width'),
+    height: int('height'),
+    versionId: ref('version_id'),
+    shotId: ref('shot_id'),
+    format: varchar('format', { length: 16 }),
+    meta: json('meta'),
+    createdBy: varchar('created_by', { length: 40 }).references(() => users.id, { onDelete: 'set null' }),
+    createdAt: createdAt(),
+    updatedAt: updatedAt(),
+  },
+  (t) => [
+    index('assets_studio_kind_idx').on(t.studioId, t.kind),
+    index('assets_version_idx').on(t.versionId),
+    index('assets_shot_idx').on(t.shotId),
+  ],
+);
+
+export const shots = mysqlTable(
+  'shots',
+  {
+    id: id(),
+    studioId: ref('studio_id')
+      .notNull()
+      .references(() => studios.id, { onDelete: 'cascade' }),
+    showId: ref('show_id')
+      .notNull()
+      .references(() => shows.id, { onDelete: 'cascade' }),
+    code: varchar('code', { length: 64 }).notNull(),
+    description: text('description'),
+    firstFrame: int('first_frame').notNull().default(1001),
+    lastFrame: int('last_frame').notNull(),
+    handles: int('handles').notNull().default(8),
+    frameRate: varchar('frame_rate', { length: 12 }).notNull().default('24'),
+    plateWidth: int('plate_width').notNull().default(1920),
+    plateHeight: int('plate_height').notNull().default(1080),
+    pixelAspect: double('pixel_aspect').notNull().default(1),
+    assigneeId: varchar('assignee_id', { length: 40 }).references(() => users.id, { onDelete: 'set null' }),
+    dueDate: date('due_date', { mode: 'string' }),
+    status: mysqlEnum('status', SHOT_STATUSES).notNull().default('blocking'),
+    plateAssetId: ref('plate_asset_id').references(() => assets.id, { onDelete: 'set null' }),
+    thumbnailAssetId: ref('thumbnail_asset_id').references(() => assets.id, { onDelete: 'set null' }),
+    metresPerPixel: double('metres_per_pixel'),
+    archivedAt: datetime('archived_at', { mode: 'date' }),
+    createdAt: createdAt(),
+    updatedAt: updatedAt(),
+  },
+  (t) => [
+    uniqueIndex('shots_show_code_uq').on(t.showId, t.code),
+    index('shots_studio_status_idx').on(t.studioId, t.status),
+    index('shots_assignee_idx').on(t.assigneeId),
+  ],
+);
+
+export const versions = mysqlTable(
+  'versions',
+  {
+    id: id(),
+    studioId: ref('studio_id')
+      .notNull()
+      .references(() => studios.id, { onDelete: 'cascade' }),
+    shotId: ref('shot_id')
+      .notNull()
+      .references(() => shots.id, { onDelete: 'cascade' }),
+    number: int('number').notNull(),
+    authorId: varchar('author_id', { length: 40 }).references(() => users.id, { onDelete: 'set null' }),
+    comment: text('comment'),
+    scene: json('scene').notNull(),
+    sceneHash: varchar('scene_hash', { length: 64 }).notNull(),
+    plateAssetId: ref('plate_asset_id').references(() => assets.id, { onDelete: 'set null' }),
+    reviewState: mysqlEnum('review_state', REVIEW_STATES).notNull().default('draft'),
+    bakeState: mysqlEnum('bake_state', BAKE_STATES).notNull().default('none'),
+    clipAssetId: ref('clip_asset_id').references(() => assets.id, { onDelete: 'set null' }),
+    sharedWithClient: boolean('shared_with_client').notNull().default(false),
+    frozenAt: datetime('frozen_at', { mode: 'date' }),
+    createdAt: createdAt(),
+    updatedAt: updatedAt(),
+  },
+  (t) => [
+    uniqueIndex('versions_shot_number_uq').on(t.shotId, t.number),
+    index('versions_studio_review_idx').on(t.studioId, t.reviewState),
+    index('versions_scene_hash_idx').on(t.sceneHash),
+  ],
+);
+
+export const reviewEvents = mysqlTable(
+  'review_events',
+  {
+    id: id(),
+    studioId: ref('studio_id')
+      .notNull()
+      .references(() => studios.id, { onDelete: 'cascade' }),
+    versionId: ref('version_id')
+      .notNull()
+      .references(() => versions.id, { onDelete: 'cascade' }),
+    actorId: varchar('actor_id', { length: 40 }).references(() => users.id, { onDelete: 'set null' }),
+    fromState: mysqlEnum('from_state', REVIEW_STATES).notNull(),
+    toState: mysqlEnum('to_state', REVIEW_STATES).notNull(),
+    comment: text('comment'),
+    createdAt: createdAt(),
+  },
+  (t) => [index('review_events_version_idx').on(t.versionId, t.createdAt)],
+);
+
+export const notes = mysqlTable(
+  'notes',
+  {
+    id: id(),
+    studioId: ref('studio_id')
+      .notNull()
+      .references(() => studios.id, { onDelete: 'cascade' }),
+    versionId: ref('version_id')
+      .notNull()
+      .references(() => versions.id, { onDelete: 'cascade' }),
+    parentId: ref('parent_id'),
+    authorId: varchar('author_id', { length: 40 }).references(() => users.id, { onDelete: 'set null' }),
+    guestName: varchar('guest_name', { length: 120 }),
+    frame: int('frame').notNull(),
+    pointX: double('point_x'),
+    pointY: double('point_y'),
+    stroke: json('stroke'),
+    body: text('body').notNull(),
+    internal: boolean('internal').notNull().default(true),
+    resolvedAt: datetime('resolved_at', { mode: 'date' }),
+    resolvedBy: varchar('resolved_by', { length: 40 }).references(() => users.id, { onDelete: 'set null' }),
+    createdAt: createdAt(),
+    updatedAt: updatedAt(),
+  },
+  (t) => [index('notes_version_frame_idx').on(t.versionId, t.frame)],
+);
+
+export const bakeJobs = mysqlTable(
+  'bake_jobs',
+  {
+    id: id(),
+    studioId: ref('studio_id')
+      .notNull()
+      .references(() => studios.id, { onDelete: 'cascade' }),
+    versionId: ref('version_id')
+      .notNull()
+      .references(() => versions.id, { onDelete: 'cascade' }),
+    sceneHash: varchar('scene_hash', { length: 64 }).notNull(),
+    state: mysqlEnum('state', JOB_STATES).notNull().default('queued'),
+    attempts: int('attempts').notNull().default(0),
+    maxAttempts: int('max_attempts').notNull().default(3),
+    leaseOwner: varchar('lease_owner', { length: 100 }),
+    leaseExpiresAt: datetime('lease_expires_at', { mode: 'date', fsp: 3 }),
+    cancelRequested: boolean('cancel_requested').notNull().default(false),
+    framesDone: int('frames_done').notNull().default(0),
+    framesTotal: int('frames_total').notNull().default(0),
+    error: text('error'),
+    requestedBy: varchar('requested_by', { length: 40 }).references(() => users.id, { onDelete: 'set null' }),
+    startedAt: datetime('started_at', { mode: 'date', fsp: 3 }),
+    finishedAt: datetime('finished_at', { mode: 'date', fsp: 3 }),
+    createdAt: createdAt(),
+    updatedAt: updatedAt(),
+  },
+  (t) => [index('bake_jobs_state_idx').on(t.state, t.leaseExpiresAt), index('bake_jobs_version_idx').on(t.versionId)],
+);
+
+export const shareLinks = mysqlTable(
+  'share_links',
+  {
+    id: id(),
+    studioId: ref('studio_id')
+      .notNull()
+      .references(() => studios.id, { onDelete: 'cascade' }),
+    versionId: ref('version_id')
+      .notNull()
+      .references(() => versions.id, { onDelete: 'cascade' }),
+    exportAssetId: ref('export_asset_id').references(() => assets.id, { onDelete: 'set null' }),
+    tokenHash: varchar('token_hash', { length: 64 }).notNull().unique(),
+    passwordHash: varchar('password_hash', { length: 255 }),
+    expiresAt: datetime('expires_at', { mode: 'date' }).notNull(),
+    revokedAt: datetime('revoked_at', { mode: 'date' }),
+    openCount: int('open_count').notNull().default(0),
+    createdBy: varchar('created_by', { length: 40 }).references(() => users.id, { onDelete: 'set null' }),
+    createdAt: createdAt(),
+    updatedAt: updatedAt(),
+  },
+  (t) => [index('share_links_version_idx').on(t.versionId)],
+);
+
+export const auditLog = mysqlTable(
+  'audit_log',
+  {
+    id: id(),
+    studioId: ref('studio_id').references(() => studios.id, { onDelete: 'cascade' }),
+    actorId: varchar('actor_id', { length: 40 }).references(() => users.id, { onDelete: 'set null' }),
+    action: varchar('action', { length: 64 }).notNull(),
+    targetType: varchar('target_type', { length: 32 }),
+    targetId: varchar('target_id', { length: 64 }),
+    detail: json('detail'),
+    createdAt: createdAt(),
+  },
+  (t) => [index('audit_log_studio_idx').on(t.studioId, t.createdAt)],
+);

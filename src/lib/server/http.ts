@@ -1,0 +1,120 @@
+// JSON endpoint helpers: one error shape `{ error: { code, message, fields? } }`, zod parsing, no stack traces out.
+import type { APIContext, APIRoute } from 'astro';
+import { z, ZodError, type ZodTypeAny } from 'zod';
+
+export type ErrorCode =
+  | 'bad_request'
+  | 'invalid_json'
+  | 'validation_failed'
+  | 'unauthenticated'
+  | 'forbidden'
+  | 'not_found'
+  | 'conflict'
+  | 'gone'
+  | 'payload_too_large'
+  | 'unprocessable'
+  | 'too_many_requests'
+  | 'internal';
+
+const statusOf: Record<ErrorCode, number> = {
+  bad_request: 400,
+  invalid_json: 400,
+  validation_failed: 400,
+  unauthenticated: 401,
+  forbidden: 403,
+  not_found: 404,
+  conflict: 409,
+  gone: 410,
+  payload_too_large: 413,
+  unprocessable: 422,
+  too_many_requests: 429,
+  internal: 500,
+};
+
+/** An error that becomes a JSON answer with its status. `fields` maps a field path to its message. */
+export class HttpError extends Error {
+  constructor(
+    public code: ErrorCode,
+    message: string,
+    public fields?: Record<string, string>,
+    public extra?: Record<string, unknown>,
+    public headers?: Record<string, string>,
+  ) {
+    super(message);
+  }
+  get status() {
+    return statusOf[this.code];
+  }
+}
+
+export function json(body: unknown, status = 200, headers: Record<string, string> = {}): Response {
+  return new Response(status === 204 ? null : JSON.stringify(body), {
+    status,
+    headers: { 'content-type': 'application/json; charset=utf-8', 'cache-control': 'no-store', ...headers },
+  });
+}
+
+export function errorResponse(err: HttpError): Response {
+  const body = { error: { code: err.code, message: err.message, ...(err.fields ? { fields: err.fields } : {}), ...(err.extra ?? {}) } };
+  return json(body, err.status, err.headers);
+}
+
+/** Turns zod issues into `{ "a.b": "message" }` and a sentence naming the fields. */
+export function fromZod(error: ZodError): HttpError {
+  const fields: Record<string, string> = {};
+  for (const issue of error.issues) {
+    const key = issue.path.length ? issue.path.join('.') : '(body)';
+    if (!fields[key]) fields[key] = issue.message;
+  }
+  const names = Object.keys(fields);
+  const message =
+    names.length === 1 ? `${names[0]}: ${fields[names[0]]}` : `Please fix these fields: ${names.join(', ')}`;
+  return new HttpError('validation_failed', message, fields);
+}
+
+const MAX_JSON_BYTES = 1_000_000;
+
+/** Reads the request body as JSON and parses it with the schema; throws HttpError on bad input. */
+export async function readJson<S extends ZodTypeAny>(request: Request, schema: S, maxBytes = MAX_JSON_BYTES): Promise<z.infer<S>> {
+  const length = Number(request.headers.get('content-length') ?? '0');
+  if (length > maxBytes) throw new HttpError('payload_too_large', `Request body is larger than ${maxBytes} bytes`);
+  const text = await request.text();
+  if (text.length > maxBytes) throw new HttpError('payload_too_large', `Request body is larger than ${maxBytes} bytes`);
+  let data: unknown;
+  try {
+    data = text === '' ? {} : JSON.parse(text);
+  } catch {
+    throw new HttpError('invalid_json', 'Request body is not valid JSON', { '(body)': 'not valid JSON' });
+  }
+  const parsed = schema.safeParse(data);
+  if (!parsed.success) throw fromZod(parsed.error);
+  return parsed.data;
+}
+
+/** Parses URL search parameters with the schema. */
+export function readQuery<S extends ZodTypeAny>(url: URL, schema: S): z.infer<S> {
+  const parsed = schema.safeParse(Object.fromEntries(url.searchParams));
+  if (!parsed.success) throw fromZod(parsed.error);
+  return parsed.data;
+}
+
+/** Parses a route parameter as a positive integer id. */
+export function idParam(params: Record<string, string | undefined>, name: string): number {
+  const raw = params[name] ?? '';
+  if (!/^[1-9][0-9]{0,15}$/.test(raw)) throw new HttpError('not_found', `No such ${name.replace(/Id$/, '')}`);
+  return Number(raw);
+}
+
+/** Wraps an endpoint: HttpError → its JSON answer; anything else → a logged 500 without details. */
+export function endpoint(fn: (ctx: APIContext) => Promise<Response>): APIRoute {
+  return async (ctx) => {
+    try {
+      return await fn(ctx);
+    } catch (err) {
+      if (err instanceof HttpError) return errorResponse(err);
+      if (err instanceof ZodError) return errorResponse(fromZod(err));
+      console.error(`[api] ${ctx.request.method} ${ctx.url.pathname}:`, err);
+      return errorResponse(new HttpError('internal', 'Something went wrong on our side. Please try again.'));
+    }
+  };
+}

@@ -1,0 +1,47 @@
+// Outgoing e-mail through nodemailer (the mail catcher locally, the studio's SMTP server in production).
+import nodemailer, { type Transporter } from 'nodemailer';
+import { config } from './config';
+
+let transport: Transporter | undefined;
+
+function transporter(): Transporter {
+  if (!transport) {
+    const s = config.smtp;
+    transport = nodemailer.createTransport({
+      host: s.host,
+      port: s.port,
+      secure: s.secure,
+      ignoreTLS: !s.secure && !s.user,
+      auth: s.user ? { user: s.user, pass: s.pass ?? '' } : undefined,
+    });
+  }
+  return transport;
+}
+
+export interface Message {
+  to: string;
+  subject: string;
+  /** Plain-text body; the HTML body is built from the same paragraphs. */
+  paragraphs: string[];
+  /** A call-to-action link shown as a button in HTML and as a bare URL in text. */
+  action?: { label: string; url: string };
+}
+
+const escape = (s: string) => s.replace(/[&<>"']/g, (c) => `&#${c.charCodeAt(0)};`);
+
+/** Renders a message to plain text and HTML in Tidemark's own plain layout. */
+export function render(m: Message): { text: string; html: string } {
+  const text = [...m.paragraphs, ...(m.action ? [`${m.action.label}: ${m.action.url}`] : []), '— Tidemark'].join('\n\n');
+  const html = `<!doctype html><html><body style="font-family:'Space Grotesk',Arial,sans-serif;background:#f4f1ea;color:#13232b;padding:24px">
+<div style="max-width:560px;margin:auto;background:#fff;border-radius:10px;padding:24px;border-top:6px solid #0d7a78">
+<p style="font-weight:700;letter-spacing:.04em;color:#0d7a78;margin-top:0">TIDEMARK</p>
+${m.paragraphs.map((p) => `<p>${escape(p)}</p>`).join('\n')}
+${m.action ? `<p><a href="${escape(m.action.url)}" style="display:inline-block;background:#0d7a78;color:#fff;padding:10px 16px;border-radius:6px;text-decoration:none">${escape(m.action.label)}</a></p><p style="font-size:12px;color:#5b6b72">${escape(m.action.url)}</p>` : ''}
+</div></body></html>`;
+  return { text, html };
+}
+
+export async function sendMail(m: Message): Promise<void> {
+  const { text, html } = render(m);
+  await transporter().sendMail({ from: config.smtp.from, to: m.to, subject: m.subject, text, html });
+}

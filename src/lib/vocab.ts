@@ -1,0 +1,14 @@
+// Tidemark's own words for roles and states, shared by the database schema, the API and the browser.
+
+export const ROLES = ['owner', 'supervisor', 'artist', 'client'] as const;
+export type Role = (typeof ROLES)[number];
+
+export const SHOT_STATUSES = ['blocking', 'in review', 'approved', 'on hold', 'omitted'] as const;
+export type ShotStatus = (typeof SHOT_STATUSES)[number];
+
+export const REVIEW_STATES = ['draft', 'submitted', 'approved', 'returned', 'superseded'] as const;
+export type ReviewState = (typeof REVIEW_STATES)[number];
+
+export const BAKE_STATES = ['none', 'queued', 'baking', 'baked', 'failed', 'cancelled'] as const;
+export const JOB_STATES = ['queued', 'running', 'done', 'failed', 'cancelled'] as const;
+export const ASSET_KINDS = ['plate', 'thumbnail', 'clip', 'stats', 'export'] as const;

@@ -1,0 +1,48 @@
+// Validates the session cookie once per request and puts the user and session into Astro.locals.
+import { defineMiddleware } from 'astro:middleware';
+import { eq, and, or, isNull, lt } from 'drizzle-orm';
+import { lucia } from './lib/server/auth';
+import { db } from './lib/server/db';
+import { users } from './lib/server/db/schema';
+import { errorResponse, HttpError } from './lib/server/http';
+
+const ACTIVE_EVERY_MS = 5 * 60_000;
+
+export const onRequest = defineMiddleware(async (ctx, next) => {
+  ctx.locals.user = null;
+  ctx.locals.session = null;
+  const path = ctx.url.pathname;
+  if (path.startsWith('/_astro/') || path.startsWith('/fonts/') || path === '/favicon.svg') return next();
+
+  const auth = lucia();
+  const sessionId = ctx.cookies.get(auth.sessionCookieName)?.value ?? null;
+  if (sessionId) {
+    const { session, user } = await auth.validateSession(sessionId);
+    if (session?.fresh) {
+      const c = auth.createSessionCookie(session.id);
+      ctx.cookies.set(c.name, c.value, c.attributes);
+    }
+    if (!session) {
+      const c = auth.createBlankSessionCookie();
+      ctx.cookies.set(c.name, c.value, c.attributes);
+    }
+    ctx.locals.user = user;
+    ctx.locals.session = session;
+    if (user) {
+      // "Last active" for the members table, written at most every few minutes per user.
+      const stale = new Date(Date.now() - ACTIVE_EVERY_MS);
+      await db()
+        .update(users)
+        .set({ lastActiveAt: new Date() })
+        .where(and(eq(users.id, user.id), or(isNull(users.lastActiveAt), lt(users.lastActiveAt, stale))));
+    }
+  }
+
+  try {
+    return await next();
+  } catch (err) {
+    if (!path.startsWith('/api/')) throw err;
+    console.error(`[api] ${ctx.request.method} ${path}:`, err);
+    return errorResponse(new HttpError('internal', 'Something went wrong on our side. Please try again.'));
+  }
+});

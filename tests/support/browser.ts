@@ -1,0 +1,51 @@
+// Browser tests drive Debian's Chromium through playwright-core (never a downloaded browser).
+import { chromium, type BrowserContext, type Page } from 'playwright-core';
+import { mkdtempSync, mkdirSync, rmSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import path from 'node:path';
+import { APP } from './app';
+
+export const SHOTS_DIR = path.resolve(__dirname, '../../test-results/screenshots');
+
+const ARGS = [
+  '--headless',
+  '--no-sandbox',
+  '--disable-gpu',
+  '--disable-quic',
+  '--no-first-run',
+  '--disable-background-networking',
+  '--disable-component-update',
+  '--disable-sync',
+];
+
+/** Opens a fresh Chromium profile; close() removes it. */
+export async function openBrowser(): Promise<{ context: BrowserContext; page: Page; close: () => Promise<void> }> {
+  const dir = mkdtempSync(path.join(tmpdir(), 'tidemark-chromium-'));
+  const context = await chromium.launchPersistentContext(dir, {
+    executablePath: '/usr/bin/chromium',
+    args: ARGS,
+    viewport: { width: 1280, height: 800 },
+    baseURL: APP,
+  });
+  const page = context.pages()[0] ?? (await context.newPage());
+  return {
+    context,
+    page,
+    close: async () => {
+      await context.close();
+      rmSync(dir, { recursive: true, force: true });
+    },
+  };
+}
+
+export async function screenshot(page: Page, name: string) {
+  mkdirSync(SHOTS_DIR, { recursive: true });
+  await page.screenshot({ path: path.join(SHOTS_DIR, `${name}.png`), fullPage: true });
+}
+
+export async function signInAs(page: Page, email: string, password: string) {
+  await page.goto('/sign-in');
+  await page.locator('input[name="email"]').fill(email);
+  await page.locator('input[name="password"]').fill(password);
+  await page.getByRole('button', { name: 'Sign in' }).click();
+}
