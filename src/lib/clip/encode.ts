@@ -1,0 +1,209 @@
+// Writes a clip (see format.ts): add frames in order, then finish() returns the bytes.
+import { deflateSync } from 'fflate';
+import { CLIP_FORMAT_VERSION, CLIP_MAGIC, INDEX_ENTRY_BYTES, type ClipHeader, type ClipIndexEntry } from './format';
+
+export interface ClipWriterOptions {
+  startFrame: number;
+  endFrame: number;
+  fps: number;
+  tankWidth: number;
+  tankHeight: number;
+  particleCapacity: number;
+  solverBuild: string;
+  sceneHash: string;
+  /** Bins across the tank's longer side (default 128). */
+  binsAcross?: number;
+  /** Bits per axis for the offset inside a bin (default 5: error ≤ longer side / 8192). */
+  offsetBits?: number;
+  framesPerChunk?: number;
+  /** Deflate level 1–9 (default 6). */
+  level?: 1 | 2 | 3 | 4 | 5 | 6 | 7 | 8 | 9;
+}
+
+export class ClipWriter {
+  readonly header: ClipHeader;
+  private level: NonNullable<ClipWriterOptions['level']>;
+  private chunks: Uint8Array[] = [];
+  private index: ClipIndexEntry[] = [];
+  private pending: Uint8Array[] = [];
+  private pendingFirst = 0;
+  private framesWritten = 0;
+  // Scratch, grown on demand and reused across frames.
+  private binOf = new Int32Array(0);
+  private order = new Int32Array(0);
+  private binStart: Int32Array;
+
+  constructor(o: ClipWriterOptions) {
+    const binsAcross = o.binsAcross ?? 128;
+    const offsetBits = o.offsetBits ?? 5;
+    if (offsetBits < 1 || offsetBits > 8) throw new Error('offsetBits must be 1..8');
+    const binSize = Math.max(o.tankWidth, o.tankHeight) / binsAcross;
+    const binsX = Math.max(1, Math.ceil(o.tankWidth / binSize - 1e-9));
+    const binsY = Math.max(1, Math.ceil(o.tankHeight / binSize - 1e-9));
+    const framesPerChunk = o.framesPerChunk ?? 8;
+    this.level = o.level ?? 6;
+    this.header = {
+      format: 'tidemark-clip',
+      formatVersion: CLIP_FORMAT_VERSION,
+      startFrame: o.startFrame,
+      endFrame: o.endFrame,
+      fps: o.fps,
+      tankWidth: o.tankWidth,
+      tankHeight: o.tankHeight,
+      particleCapacity: o.particleCapacity,
+      solverBuild: o.solverBuild,
+      sceneHash: o.sceneHash,
+      binsAcross,
+      offsetBits,
+      binsX,
+      binsY,
+      binSize,
+      framesPerChunk,
+      chunkCount: Math.ceil((o.endFrame - o.startFrame + 1) / framesPerChunk),
+    };
+    this.binStart = new Int32Array(binsX * binsY + 1);
+  }
+
+  /** Frames added so far. */
+  get frameCount() {
+    return this.framesWritten;
+  }
+
+  /** Adds the next frame: particle positions (m) and velocities (m/s); only the first `count` entries are read. */
+  addFrame(count: number, x: ArrayLike<number>, y: ArrayLike<number>, u: ArrayLike<number>, v: ArrayLike<number>): void {
+    const h = this.header;
+    const total = h.endFrame - h.startFrame + 1;
+    if (this.framesWritten >= total) throw new Error(`clip already has its ${total} frames`);
+    if (this.pending.length === 0) this.pendingFirst = h.startFrame + this.framesWritten;
+    this.pending.push(this.encodeFrame(count, x, y, u, v));
+    this.framesWritten++;
+    if (this.pending.length === h.framesPerChunk || this.framesWritten === total) this.flushChunk();
+  }
+
+  private encodeFrame(n: number, x: ArrayLike<number>, y: ArrayLike<number>, u: ArrayLike<number>, v: ArrayLike<number>): Uint8Array {
+    const { binsX, binsY, binSize, offsetBits } = this.header;
+    const bins = binsX * binsY;
+    if (this.binOf.length < n) {
+      this.binOf = new Int32Array(n * 2);
+      this.order = new Int32Array(n * 2);
+    }
+    const binOf = this.binOf;
+    const order = this.order;
+    const start = this.binStart;
+    start.fill(0);
+    const inv = 1 / binSize;
+    let maxSpeed = 0;
+    // Counting sort of particles by bin (row-major from the lower-left).
+    for (let i = 0; i < n; i++) {
+      let bx = Math.floor(x[i] * inv);
+      let by = Math.floor(y[i] * inv);
+      bx = bx < 0 ? 0 : bx >= binsX ? binsX - 1 : bx;
+      by = by < 0 ? 0 : by >= binsY ? binsY - 1 : by;
+      const b = by * binsX + bx;
+      binOf[i] = b;
+      start[b + 1]++;
+      const s = u[i] * u[i] + v[i] * v[i];
+      if (s > maxSpeed) maxSpeed = s;
+    }
+    maxSpeed = Math.sqrt(maxSpeed);
+    // Bin counts as LEB128, measured before the prefix sum overwrites them.
+    let countBytes = 0;
+    for (let b = 1; b <= bins; b++) {
+      let c = start[b];
+      do {
+        countBytes++;
+        c >>>= 7;
+      } while (c > 0);
+    }
+    const body = new Uint8Array(12 + countBytes + 3 * n);
+    const dv = new DataView(body.buffer);
+    dv.setUint32(0, n, true);
+    dv.setFloat32(4, maxSpeed, true);
+    dv.setUint32(8, countBytes, true);
+    let p = 12;
+    for (let b = 1; b <= bins; b++) {
+      let c = start[b];
+      while (c >= 0x80) {
+        body[p++] = (c & 0x7f) | 0x80;
+        c >>>= 7;
+      }
+      body[p++] = c;
+    }
+    for (let b = 0; b < bins; b++) start[b + 1] += start[b];
+    const fill = start.slice(0, bins);
+    for (let i = 0; i < n; i++) order[fill[binOf[i]]++] = i;
+
+    const levels = 1 << offsetBits;
+    const maxLevel = levels - 1;
+    const xPlane = p;
+    const yPlane = p + n;
+    const sPlane = p + 2 * n;
+    const speedScale = maxSpeed > 0 ? 255 / maxSpeed : 0;
+    let prevSpeed = 0;
+    for (let k = 0; k < n; k++) {
+      const i = order[k];
+      const b = binOf[i];
+      const by = (b / binsX) | 0;
+      const bx = b - by * binsX;
+      // Offset inside the bin, quantized to the nearest of 2^bits cell centres: x' = (bx + (q + ½)/2^bits)·binSize.
+      let qx = Math.floor((x[i] * inv - bx) * levels);
+      let qy = Math.floor((y[i] * inv - by) * levels);
+      qx = qx < 0 ? 0 : qx > maxLevel ? maxLevel : qx;
+      qy = qy < 0 ? 0 : qy > maxLevel ? maxLevel : qy;
+      body[xPlane + k] = qx;
+      body[yPlane + k] = qy;
+      const s = Math.round(Math.sqrt(u[i] * u[i] + v[i] * v[i]) * speedScale);
+      body[sPlane + k] = (s - prevSpeed) & 0xff;
+      prevSpeed = s;
+    }
+    return body;
+  }
+
+  private flushChunk(): void {
+    const frames = this.pending;
+    const tableBytes = 4 + 4 * frames.length;
+    let size = tableBytes;
+    for (const f of frames) size += f.length;
+    const raw = new Uint8Array(size);
+    const dv = new DataView(raw.buffer);
+    dv.setUint32(0, frames.length, true);
+    let p = tableBytes;
+    frames.forEach((f, k) => {
+      dv.setUint32(4 + 4 * k, p, true);
+      raw.set(f, p);
+      p += f.length;
+    });
+    const packed = deflateSync(raw, { level: this.level });
+    this.index.push({ offset: 0, length: packed.length, firstFrame: this.pendingFirst, frameCount: frames.length });
+    this.chunks.push(packed);
+    this.pending = [];
+  }
+
+  /** Returns the whole clip. All frames of the range must have been added. */
+  finish(): Uint8Array {
+    const h = this.header;
+    const total = h.endFrame - h.startFrame + 1;
+    if (this.framesWritten !== total) throw new Error(`clip has ${this.framesWritten} of ${total} frames`);
+    const headerJson = new TextEncoder().encode(JSON.stringify(h));
+    const indexStart = 12 + headerJson.length;
+    let offset = indexStart + this.index.length * INDEX_ENTRY_BYTES;
+    for (const e of this.index) {
+      e.offset = offset;
+      offset += e.length;
+    }
+    const out = new Uint8Array(offset);
+    const dv = new DataView(out.buffer);
+    for (let i = 0; i < 8; i++) out[i] = CLIP_MAGIC.charCodeAt(i);
+    dv.setUint32(8, headerJson.length, true);
+    out.set(headerJson, 12);
+    this.index.forEach((e, k) => {
+      const at = indexStart + k * INDEX_ENTRY_BYTES;
+      dv.setFloat64(at, e.offset, true);
+      dv.setUint32(at + 8, e.length, true);
+      dv.setUint32(at + 12, e.firstFrame, true);
+      dv.setUint32(at + 16, e.frameCount, true);
+    });
+    this.chunks.forEach((c, k) => out.set(c, this.index[k].offset));
+    return out;
+  }
+}

@@ -1,0 +1,79 @@
+// The object store: one S3 client factory for the app server and the bake workers (any S3-compatible store).
+import { S3Client, GetObjectCommand, PutObjectCommand, HeadObjectCommand, DeleteObjectCommand } from '@aws-sdk/client-s3';
+import { Upload } from '@aws-sdk/lib-storage';
+import { getSignedUrl } from '@aws-sdk/s3-request-presigner';
+import { config } from './config';
+
+let client: S3Client | undefined;
+
+/**
+ * Returns the shared S3 client. Checksums only when required: without this, stream uploads to
+ * self-hosted stores get aws-chunked framing stored inside the object and presigned PUTs carry a
+ * checksum of an empty body that such stores reject.
+ */
+export function s3(): S3Client {
+  if (!client) {
+    const c = config.s3;
+    client = new S3Client({
+      endpoint: c.endpoint,
+      region: c.region,
+      forcePathStyle: c.forcePathStyle,
+      credentials: { accessKeyId: c.accessKeyId, secretAccessKey: c.secretAccessKey },
+      requestChecksumCalculation: 'WHEN_REQUIRED',
+      responseChecksumValidation: 'WHEN_REQUIRED',
+    });
+  }
+  return client;
+}
+
+export const bucket = () => config.s3.bucket;
+
+/** Uploads bytes or a stream (multipart above 8 MiB) and returns the stored size in bytes. */
+export async function putObject(key: string, body: Uint8Array | ReadableStream | NodeJS.ReadableStream, contentType: string): Promise<void> {
+  const upload = new Upload({
+    client: s3(),
+    params: { Bucket: bucket(), Key: key, Body: body as never, ContentType: contentType },
+    partSize: 8 * 1024 * 1024,
+    queueSize: 2,
+  });
+  await upload.done();
+}
+
+/** Reads a whole object (or a byte range, inclusive) into memory. */
+export async function getObject(key: string, range?: [number, number]): Promise<Uint8Array> {
+  const res = await s3().send(new GetObjectCommand({ Bucket: bucket(), Key: key, Range: range ? `bytes=${range[0]}-${range[1]}` : undefined }));
+  return new Uint8Array(await res.Body!.transformToByteArray());
+}
+
+/** Returns the object's size and type, or null when it does not exist. */
+export async function headObject(key: string): Promise<{ size: number; contentType?: string } | null> {
+  try {
+    const res = await s3().send(new HeadObjectCommand({ Bucket: bucket(), Key: key }));
+    return { size: Number(res.ContentLength ?? 0), contentType: res.ContentType };
+  } catch (e: any) {
+    if (e?.$metadata?.httpStatusCode === 404 || e?.name === 'NotFound') return null;
+    throw e;
+  }
+}
+
+export async function deleteObject(key: string): Promise<void> {
+  await s3().send(new DeleteObjectCommand({ Bucket: bucket(), Key: key }));
+}
+
+/** A short-lived URL the browser can GET (with Range requests). */
+export function presignGet(key: string, seconds = 900, downloadName?: string): Promise<string> {
+  return getSignedUrl(
+    s3(),
+    new GetObjectCommand({
+      Bucket: bucket(),
+      Key: key,
+      ResponseContentDisposition: downloadName ? `attachment; filename="${downloadName.replace(/"/g, '')}"` : undefined,
+    }),
+    { expiresIn: seconds },
+  );
+}
+
+/** A short-lived URL the browser can PUT one object to, with the given content type. */
+export function presignPut(key: string, contentType: string, seconds = 900): Promise<string> {
+  return getSignedUrl(s3(), new PutObjectCommand({ Bucket: bucket(), Key: key, ContentType: contentType }), { expiresIn: seconds });
+}
