@@ -1,0 +1,125 @@
+// Solver benchmark: runs the reference dam break (and the same at 4× the tank area) through our solver,
+// prints particles, steps, wall/cpu seconds, particle-steps per second, pressure residuals (ours vs 50
+// Gauss–Seidel sweeps inside our solver) and the dam-break front; with --ref also runs the native
+// measuring stick (../shared/bench/flip-ref/run.sh) in the same process run and prints ours ÷ native.
+// Usage: npx tsx src/cli/bench-sim.ts [--ref] [--rounds N] [--scales 1,2] [--solver pcg-mic0|gauss-seidel]
+import { execFileSync } from 'node:child_process';
+import { existsSync } from 'node:fs';
+import { resolve } from 'node:path';
+import { createSolver } from '../lib/sim/solver';
+import { referenceDamBreak } from '../lib/sim/reference';
+import { DEFAULT_PRESSURE_SOLVER, DEFAULT_PRESSURE_TOLERANCE, type PressureSolverName } from '../lib/scene/schema';
+
+interface RunFigures {
+  label: string; scale: number; solver: PressureSolverName; tolerance: number;
+  particles: number; steps: number; wall_s: number; cpu_s: number; psteps_per_s: number;
+  residual_median: number; residual_max: number; iterations_mean: number;
+  front: Record<string, number>;
+}
+
+function arg(name: string): string | undefined {
+  const i = process.argv.indexOf(name);
+  return i >= 0 ? process.argv[i + 1] : undefined;
+}
+
+function median(a: number[]): number {
+  const s = [...a].sort((p, q) => p - q);
+  return s.length ? s[Math.floor(s.length / 2)] : 0;
+}
+
+/** Runs one dam break; `tolerance` tiny makes Gauss–Seidel always do all 50 sweeps. */
+function runDamBreak(label: string, scale: number, solver: PressureSolverName, tolerance: number): RunFigures {
+  const setup = referenceDamBreak(scale, solver, tolerance);
+  const sim = createSolver(setup.scene, setup.options);
+  const dt = 1 / setup.scene.timing.fps;
+  const frontSteps = new Map([0.1, 0.2, 0.25, 0.5].map((t) => [Math.round(t / dt), t]));
+  const front: Record<string, number> = {};
+  const residuals: number[] = [];
+  let iterations = 0;
+  const particles = sim.count;
+  const c0 = process.cpuUsage();
+  const t0 = performance.now();
+  for (let s = 1; s <= setup.steps; s++) {
+    const st = sim.stepFrame();
+    residuals.push(st.pressureResidual);
+    iterations += st.pressureIterations;
+    const t = frontSteps.get(s);
+    if (t !== undefined) {
+      let m = -Infinity;
+      const x = sim.x;
+      for (let i = 0; i < x.length; i++) if (x[i] > m) m = x[i];
+      front[t.toFixed(2)] = m + setup.offset; // border-inclusive x, as the native code reports it
+    }
+  }
+  const wall = (performance.now() - t0) / 1000;
+  const cpu = process.cpuUsage(c0);
+  return {
+    label, scale, solver, tolerance, particles, steps: setup.steps, wall_s: wall, cpu_s: (cpu.user + cpu.system) / 1e6,
+    psteps_per_s: (particles * setup.steps) / wall, residual_median: median(residuals), residual_max: Math.max(...residuals),
+    iterations_mean: iterations / setup.steps, front,
+  };
+}
+
+function printRun(r: RunFigures): void {
+  const f = Object.entries(r.front).map(([t, x]) => `front_${t}s=${x.toFixed(4)}`).join(' ');
+  console.log(
+    `${r.label.padEnd(22)} scale=${r.scale} solver=${r.solver} tol=${r.tolerance.toExponential(1)} particles=${r.particles} steps=${r.steps} ` +
+      `wall_s=${r.wall_s.toFixed(3)} cpu_s=${r.cpu_s.toFixed(3)} psteps_per_s=${r.psteps_per_s.toExponential(3)} ` +
+      `residual_median=${r.residual_median.toExponential(2)} residual_max=${r.residual_max.toExponential(2)} iters_mean=${r.iterations_mean.toFixed(1)} ${f}`,
+  );
+}
+
+interface NativeFigures { psteps_per_s: number; wall_s: number; cpu_s: number; particles: number; line: string }
+
+function runNative(): NativeFigures | null {
+  const candidates = [resolve(process.cwd(), '../shared/bench/flip-ref/run.sh'), '/work/shared/bench/flip-ref/run.sh'];
+  const script = candidates.find((p) => existsSync(p));
+  if (!script) { console.log('native: run.sh not found'); return null; }
+  const out = execFileSync('bash', [script, '1'], { encoding: 'utf8' });
+  const line = out.trim().split('\n').filter((l) => l.includes('psteps_per_s='))[0] ?? '';
+  const num = (k: string) => Number((line.match(new RegExp(`${k}=([0-9.eE+-]+)`)) ?? [])[1]);
+  return { psteps_per_s: num('psteps_per_s'), wall_s: num('wall_s'), cpu_s: num('cpu_s'), particles: num('particles'), line };
+}
+
+function main(): void {
+  const rounds = Number(arg('--rounds') ?? 1);
+  const scales = (arg('--scales') ?? '1,2').split(',').map(Number);
+  const defaultSolver = (arg('--solver') as PressureSolverName | undefined) ?? DEFAULT_PRESSURE_SOLVER;
+  const withRef = process.argv.includes('--ref');
+  const summary: Record<string, unknown> = { default_solver: defaultSolver, default_tolerance: DEFAULT_PRESSURE_TOLERANCE };
+  let native: NativeFigures | null = null;
+  for (let round = 0; round < rounds; round++) {
+    for (const scale of scales) {
+      // 1) the textbook pressure solve inside our solver: 50 sweeps of SOR (ω = 1.9), no early stop
+      const gs = runDamBreak('gauss-seidel-50', scale, 'gauss-seidel', 1e-12);
+      printRun(gs);
+      // 2) CG + MIC(0) stopped at the residual 50 sweeps reach (equal residual)
+      const eq = runDamBreak('pcg-at-gs-residual', scale, 'pcg-mic0', gs.residual_median);
+      printRun(eq);
+      // 3) the default solver and tolerance
+      const def = runDamBreak('default', scale, defaultSolver, DEFAULT_PRESSURE_TOLERANCE);
+      printRun(def);
+      summary[`scale${scale}`] = {
+        particles: def.particles, steps: def.steps, wall_s: +def.wall_s.toFixed(4), cpu_s: +def.cpu_s.toFixed(4),
+        psteps_per_s: Math.round(def.psteps_per_s), residual_median: def.residual_median, residual_max: def.residual_max,
+        gs50_psteps_per_s: Math.round(gs.psteps_per_s), gs50_residual_median: gs.residual_median, gs50_residual_max: gs.residual_max,
+        pcg_equal_residual_psteps_per_s: Math.round(eq.psteps_per_s), front: def.front,
+      };
+      if (scale === 1 && withRef) {
+        native = runNative();
+        if (native) {
+          console.log(`native                 ${native.line}`);
+          const ratio = def.psteps_per_s / native.psteps_per_s;
+          const cpuRatio = native.cpu_s / def.cpu_s; // same particles and steps
+          console.log(`ratio ours/native (psteps/s): ${ratio.toFixed(3)}   (cpu-time based: ${cpuRatio.toFixed(3)}; gauss-seidel-50 ours/native: ${(gs.psteps_per_s / native.psteps_per_s).toFixed(3)})`);
+          summary.native_psteps_per_s = native.psteps_per_s;
+          summary.ratio_ours_native = +ratio.toFixed(4);
+          summary.ratio_ours_native_cpu = +cpuRatio.toFixed(4);
+        }
+      }
+    }
+  }
+  console.log(JSON.stringify(summary));
+}
+
+main();

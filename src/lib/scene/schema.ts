@@ -1,0 +1,245 @@
+// The scene document, version 1: one zod schema, its defaults and limits, and `parseScene`,
+// which answers either the parsed scene or errors that name the path of each bad field.
+// Units: metres, seconds, degrees; y up; origin at the tank's lower-left inner corner.
+import { z } from 'zod';
+import { shapeArea, polygonSignedArea } from './shapes';
+
+/** Limits that keep one bake inside memory. */
+export const SCENE_LIMITS = {
+  maxCellsPerSide: 2000,
+  maxParticles: 2_000_000,
+  maxPolygonPoints: 1000,
+  maxSubsteps: 200,
+} as const;
+
+export const PRESSURE_SOLVERS = ['gauss-seidel', 'pcg-mic0'] as const;
+export type PressureSolverName = (typeof PRESSURE_SOLVERS)[number];
+
+/**
+ * Default pressure tolerance: relative residual ‖b − A p‖₂ / ‖b‖₂ the solve must reach.
+ * Chosen by measurement (src/cli/bench-sim.ts): 50 over-relaxed Gauss–Seidel sweeps (ω = 1.9) reach a
+ * median of 0.07–0.11 per step (worst 0.3–0.5) on the reference dam break; CG + MIC(0) reaches 1e-2,
+ * about ten times stricter, in about 13 iterations, in less CPU time than the 50 sweeps on the 1 m tank
+ * and about the same on the 2 m tank.
+ */
+export const DEFAULT_PRESSURE_TOLERANCE = 1e-2;
+/** Default solver, chosen by measured speed at equal residual (see src/cli/bench-sim.ts). */
+export const DEFAULT_PRESSURE_SOLVER: PressureSolverName = 'pcg-mic0';
+
+const finite = z.number({ invalid_type_error: 'must be a number' }).finite('must be a finite number');
+const positive = finite.positive('must be greater than 0');
+const vec2 = z.tuple([finite, finite], { invalid_type_error: 'must be a pair [x, y]' });
+const id = z.string().min(1, 'must not be empty').max(64, 'must be at most 64 characters');
+const frameNumber = z.number().int('must be a whole frame number');
+
+const rectShape = z.object({ type: z.literal('rect'), x: finite, y: finite, width: positive, height: positive }).strict();
+const circleShape = z.object({ type: z.literal('circle'), x: finite, y: finite, radius: positive }).strict();
+const polygonShape = z
+  .object({
+    type: z.literal('polygon'),
+    points: z
+      .array(vec2)
+      .min(3, 'needs at least 3 points')
+      .max(SCENE_LIMITS.maxPolygonPoints, `at most ${SCENE_LIMITS.maxPolygonPoints} points`)
+      .refine((pts) => Math.abs(polygonSignedArea(pts)) > 0, 'polygon has zero area'),
+  })
+  .strict();
+
+export const shapeSchema = z.discriminatedUnion('type', [rectShape, circleShape, polygonShape], {
+  errorMap: (issue, ctx) =>
+    issue.code === 'invalid_union_discriminator' ? { message: "type must be 'rect', 'circle' or 'polygon'" } : { message: ctx.defaultError },
+});
+
+const sidesSchema = z
+  .object({ left: z.boolean().default(true), right: z.boolean().default(true), bottom: z.boolean().default(true), top: z.boolean().default(true) })
+  .strict();
+
+const tankSchema = z
+  .object({
+    width: positive,
+    height: positive,
+    cellSize: positive,
+    sides: sidesSchema.default({}),
+  })
+  .strict();
+
+const timingSchema = z
+  .object({
+    fps: positive.max(1000, 'must be at most 1000'),
+    startFrame: frameNumber,
+    endFrame: frameNumber,
+    substeps: z.number().int('must be a whole number').min(1, 'must be at least 1').max(SCENE_LIMITS.maxSubsteps, `must be at most ${SCENE_LIMITS.maxSubsteps}`).default(5),
+  })
+  .strict();
+
+const physicsSchema = z
+  .object({
+    gravity: vec2.default([0, -9.81]),
+    flipRatio: finite.min(0, 'must be between 0 and 1').max(1, 'must be between 0 and 1').default(0.9),
+    pressureIterations: z.number().int('must be a whole number').min(1, 'must be at least 1').max(10000, 'must be at most 10000').default(50),
+    overRelaxation: finite.gt(0, 'must be in (0, 2)').lt(2, 'must be in (0, 2)').default(1.9),
+    separationIterations: z.number().int('must be a whole number').min(0, 'must be at least 0').max(20, 'must be at most 20').default(2),
+    driftCorrection: finite.min(0, 'must be at least 0').max(10, 'must be at most 10').default(1.0),
+    particlesPerCell: z
+      .number()
+      .int('must be a whole number')
+      .refine((n) => [1, 4, 9, 16].includes(n), 'must be 1, 4, 9 or 16 (a square sub-grid per cell)')
+      .default(4),
+    particleRadius: finite.gt(0, 'must be greater than 0').max(0.5, 'must be at most 0.5 (a fraction of cellSize)').default(0.3),
+    cfl: positive.max(100, 'must be at most 100').default(1.0),
+    seed: z.number().int('must be a whole number').min(0, 'must be at least 0').max(0xffffffff, 'must fit in 32 bits').default(1),
+    pressureSolver: z.enum(PRESSURE_SOLVERS, { errorMap: () => ({ message: `must be one of ${PRESSURE_SOLVERS.join(', ')}` }) }).default(DEFAULT_PRESSURE_SOLVER),
+    pressureTolerance: finite.gt(0, 'must be greater than 0').lt(1, 'must be less than 1').default(DEFAULT_PRESSURE_TOLERANCE),
+  })
+  .strict();
+
+const pourSchema = z.object({ id, shape: shapeSchema, velocity: vec2.default([0, 0]) }).strict();
+const spoutSchema = z
+  .object({ id, shape: shapeSchema, velocity: vec2, startFrame: frameNumber, endFrame: frameNumber })
+  .strict()
+  .refine((s) => s.endFrame >= s.startFrame, { message: 'endFrame must not be before startFrame', path: ['endFrame'] });
+const wallSchema = z.object({ id, shape: shapeSchema }).strict();
+const keySchema = z.object({ frame: finite, dx: finite.default(0), dy: finite.default(0), angle: finite.default(0) }).strict();
+const propSchema = z
+  .object({ id, shape: shapeSchema, keys: z.array(keySchema).min(1, 'needs at least one key').max(10000) })
+  .strict()
+  .superRefine((p, ctx) => {
+    for (let k = 1; k < p.keys.length; k++) {
+      if (!(p.keys[k].frame > p.keys[k - 1].frame)) {
+        ctx.addIssue({ code: z.ZodIssueCode.custom, path: ['keys', k, 'frame'], message: 'keys must be in increasing frame order' });
+      }
+    }
+  });
+const drainSchema = z.object({ id, shape: shapeSchema }).strict();
+
+const sceneObject = z
+  .object({
+    version: z.literal(1, { errorMap: () => ({ message: 'must be 1 (this reader knows scene version 1)' }) }),
+    tank: tankSchema,
+    timing: timingSchema.default({ fps: 24, startFrame: 1001, endFrame: 1048, substeps: 5 }),
+    physics: physicsSchema.default({}),
+    pours: z.array(pourSchema).default([]),
+    spouts: z.array(spoutSchema).default([]),
+    walls: z.array(wallSchema).default([]),
+    props: z.array(propSchema).default([]),
+    drains: z.array(drainSchema).default([]),
+  })
+  .strict();
+
+/** Cells per side of the tank interior (the solver adds a one-cell border). */
+export function tankCells(tank: { width: number; height: number; cellSize: number }): { nx: number; ny: number } {
+  return { nx: Math.round(tank.width / tank.cellSize), ny: Math.round(tank.height / tank.cellSize) };
+}
+
+/** Upper estimate of the particles a scene can hold at once: pours plus every spout's emission. */
+export function estimateParticles(scene: z.infer<typeof sceneObject>): number {
+  const h = scene.tank.cellSize, ppc = scene.physics.particlesPerCell;
+  const perArea = ppc / (h * h);
+  let n = 0;
+  for (const p of scene.pours) n += shapeArea(p.shape) * perArea;
+  for (const s of scene.spouts) n += spoutEmissionEstimate(s, scene.timing.fps, h, ppc);
+  return Math.ceil(n);
+}
+
+/**
+ * Particles one spout can emit over its frame range: a refill of its area plus the flux
+ * density·|velocity|·width over its duration (width = the shape's bounding-box diagonal), with 25 % margin.
+ */
+export function spoutEmissionEstimate(
+  s: { shape: z.infer<typeof shapeSchema>; velocity: [number, number]; startFrame: number; endFrame: number },
+  fps: number, cellSize: number, particlesPerCell: number,
+): number {
+  const perArea = particlesPerCell / (cellSize * cellSize);
+  const area = shapeArea(s.shape);
+  let w: number;
+  if (s.shape.type === 'circle') w = 2 * s.shape.radius;
+  else if (s.shape.type === 'rect') w = Math.hypot(s.shape.width, s.shape.height);
+  else {
+    let minX = Infinity, minY = Infinity, maxX = -Infinity, maxY = -Infinity;
+    for (const p of s.shape.points) { minX = Math.min(minX, p[0]); maxX = Math.max(maxX, p[0]); minY = Math.min(minY, p[1]); maxY = Math.max(maxY, p[1]); }
+    w = Math.hypot(maxX - minX, maxY - minY);
+  }
+  const duration = (s.endFrame - s.startFrame + 1) / fps;
+  const speed = Math.hypot(s.velocity[0], s.velocity[1]);
+  return 1.25 * (area * perArea + perArea * speed * (w + cellSize) * duration) + 4 * particlesPerCell;
+}
+
+export const sceneSchema = sceneObject.superRefine((s, ctx) => {
+  const { width, height, cellSize } = s.tank;
+  for (const [key, len] of [['width', width], ['height', height]] as const) {
+    const n = len / cellSize;
+    if (Math.abs(n - Math.round(n)) > 1e-6 * Math.max(1, n)) {
+      ctx.addIssue({ code: z.ZodIssueCode.custom, path: ['tank', key], message: `must be a whole number of cells (${key} / cellSize = ${n.toFixed(4)})` });
+    }
+  }
+  const { nx, ny } = tankCells(s.tank);
+  if (nx < 2 || ny < 2) {
+    ctx.addIssue({ code: z.ZodIssueCode.custom, path: ['tank', 'cellSize'], message: `tank must be at least 2 × 2 cells (is ${nx} × ${ny})` });
+  }
+  if (nx > SCENE_LIMITS.maxCellsPerSide || ny > SCENE_LIMITS.maxCellsPerSide) {
+    ctx.addIssue({
+      code: z.ZodIssueCode.custom, path: ['tank', 'cellSize'],
+      message: `tank would be ${nx} × ${ny} cells; at most ${SCENE_LIMITS.maxCellsPerSide} × ${SCENE_LIMITS.maxCellsPerSide}`,
+    });
+  }
+  if (s.timing.endFrame < s.timing.startFrame) {
+    ctx.addIssue({ code: z.ZodIssueCode.custom, path: ['timing', 'endFrame'], message: 'endFrame must not be before startFrame' });
+  }
+  const n = estimateParticles(s);
+  if (n > SCENE_LIMITS.maxParticles) {
+    ctx.addIssue({
+      code: z.ZodIssueCode.custom, path: s.spouts.length > 0 ? ['spouts'] : ['pours'],
+      message: `pours and spouts would need about ${n.toLocaleString('en-US')} particles; at most ${SCENE_LIMITS.maxParticles.toLocaleString('en-US')}`,
+    });
+  }
+  const seen = new Map<string, string>();
+  for (const group of ['pours', 'spouts', 'walls', 'props', 'drains'] as const) {
+    s[group].forEach((item, i) => {
+      const prev = seen.get(item.id);
+      if (prev !== undefined) {
+        ctx.addIssue({ code: z.ZodIssueCode.custom, path: [group, i, 'id'], message: `id '${item.id}' is already used by ${prev}` });
+      } else seen.set(item.id, `${group}.${i}`);
+    });
+  }
+});
+
+/** The parsed scene with every default filled in. */
+export type Scene = z.infer<typeof sceneSchema>;
+/** The scene as written by a user (defaults optional). */
+export type SceneInput = z.input<typeof sceneSchema>;
+export type ShapeDoc = z.infer<typeof shapeSchema>;
+export type Prop = Scene['props'][number];
+export type Spout = Scene['spouts'][number];
+export type PropKey = Prop['keys'][number];
+
+export interface SceneError { path: string; message: string }
+export type ParseResult = { ok: true; scene: Scene } | { ok: false; errors: SceneError[] };
+
+/** Dotted path with numeric indices, e.g. `pours.0.shape.radius` (the form react-hook-form uses). */
+function pathString(path: (string | number)[]): string {
+  return path.length === 0 ? '(document)' : path.join('.');
+}
+
+/**
+ * Parses and validates a scene document (a JSON string or an already-parsed value).
+ * Returns `{ ok: true, scene }` with defaults filled in, or `{ ok: false, errors }` naming each bad field's path.
+ */
+export function parseScene(input: unknown): ParseResult {
+  let value = input;
+  if (typeof input === 'string') {
+    try {
+      value = JSON.parse(input);
+    } catch (e) {
+      return { ok: false, errors: [{ path: '(document)', message: `not valid JSON: ${(e as Error).message}` }] };
+    }
+  }
+  const r = sceneSchema.safeParse(value);
+  if (r.success) return { ok: true, scene: r.data };
+  const errors = r.error.issues.map((iss) => ({ path: pathString(iss.path), message: iss.message }));
+  return { ok: false, errors };
+}
+
+/** One line summarising parse errors, e.g. for a CLI: `physics.flipRatio: must be between 0 and 1; …`. */
+export function formatSceneErrors(errors: SceneError[]): string {
+  return errors.map((e) => `${e.path}: ${e.message}`).join('; ');
+}

@@ -1,0 +1,266 @@
+// Pressure projection on the MAC grid: make the velocity field divergence-free (up to the
+// density drift target) with solid faces keeping their solid velocity.
+// Two solvers of the same system: over-relaxed Gauss–Seidel (the textbook sweep) and conjugate
+// gradient preconditioned with modified incomplete Cholesky, MIC(0) (Bridson, "Fluid Simulation
+// for Computer Graphics", 2nd ed., 2015, §5.4; tuning τ = 0.97, σ = 0.25 from the same section).
+//
+// Units: q is the pressure scaled to a velocity, q = p·dt/(ρ·h) (m/s), so that the discrete system is
+//   Σ_{n non-solid} (q_c − q_n) = b_c,   b_c = target_c − D_c,   D_c = u_{i+1} − u_i + v_{j+1} − v_j (m/s),
+// with q = 0 in air cells (free surface, Dirichlet) and solid neighbours dropped (Neumann).
+// The velocity update is u_face −= q_right − q_left (and likewise for v).
+
+export const FLUID = 0;
+export const AIR = 1;
+export const SOLID = 2;
+
+/** The grid arrays the projection reads and writes (cell c = i + nx·j; gu[c] left face, gv[c] bottom face). */
+export interface ProjectionGrid {
+  nx: number;
+  ny: number;
+  gu: Float64Array;
+  gv: Float64Array;
+  /** 1 for a non-solid cell, 0 for a solid one. */
+  open: Float64Array;
+  type: Uint8Array;
+  /** Divergence target per cell (m/s), from drift correction; only fluid cells read. */
+  target: Float64Array;
+  /** Fluid cells in increasing index order, and their number. */
+  fluid: Int32Array;
+  fluidCount: number;
+  /** Scaled pressure q (m/s); kept between steps as the CG starting guess. */
+  q: Float64Array;
+  // scratch for CG (length nc, zero outside fluid cells)
+  res: Float64Array;
+  zv: Float64Array;
+  dir: Float64Array;
+  adir: Float64Array;
+  precon: Float64Array;
+  diag: Float64Array;
+  /** Iterations (sweeps or CG steps) used by the last solve. */
+  lastIterations: number;
+}
+
+
+/** Builds the fluid list, the diagonal (non-solid neighbour count) and b; returns ‖b‖₂. */
+export function assembleSystem(g: ProjectionGrid): number {
+  const { nx, ny, type, open, gu: u, gv: v, target, fluid, diag, res } = g;
+  let n = 0, bb = 0;
+  for (let j = 1; j < ny - 1; j++) {
+    let c = 1 + nx * j;
+    for (let i = 1; i < nx - 1; i++, c++) {
+      if (type[c] !== FLUID) continue;
+      fluid[n++] = c;
+      diag[c] = open[c - 1] + open[c + 1] + open[c - nx] + open[c + nx];
+      // b_c = target_c − D_c
+      const b = target[c] - (u[c + 1] - u[c] + v[c + nx] - v[c]);
+      res[c] = b;
+      bb += b * b;
+    }
+  }
+  g.fluidCount = n;
+  return Math.sqrt(bb);
+}
+
+/** ‖target − D‖₂ over fluid cells with the current velocities (the residual of the solve just done). */
+export function divergenceResidual(g: ProjectionGrid): number {
+  const { nx, gu: u, gv: v, target, fluid, fluidCount } = g;
+  let rr = 0;
+  for (let k = 0; k < fluidCount; k++) {
+    const c = fluid[k];
+    const r = target[c] - (u[c + 1] - u[c] + v[c + nx] - v[c]);
+    rr += r * r;
+  }
+  return Math.sqrt(rr);
+}
+
+/**
+ * Over-relaxed Gauss–Seidel on the velocities, cold start (q = 0), at most `maxSweeps` sweeps,
+ * stopping early once the running residual of a sweep is below tolerance·‖b‖. Returns ‖b − A q‖₂/‖b‖₂.
+ * Per fluid cell: corr = ω·(target − D_c)/Σ open_n; q_c += corr; each open face moves by corr outward.
+ */
+export function projectGaussSeidel(g: ProjectionGrid, maxSweeps: number, omega: number, tolerance: number): number {
+  const bNorm = assembleSystem(g);
+  const { nx, gu: u, gv: v, open, target, fluid, fluidCount, q, diag } = g;
+  for (let k = 0; k < fluidCount; k++) q[fluid[k]] = 0;
+  g.lastIterations = 0;
+  if (bNorm === 0) return 0;
+  const stop2 = tolerance * tolerance * bNorm * bNorm;
+  let it = 0;
+  for (; it < maxSweeps; it++) {
+    let running = 0;
+    for (let k = 0; k < fluidCount; k++) {
+      const c = fluid[k];
+      const sum = diag[c];
+      if (sum === 0) continue;
+      const r = target[c] - (u[c + 1] - u[c] + v[c + nx] - v[c]);
+      running += r * r;
+      const corr = (omega * r) / sum;
+      q[c] += corr;
+      u[c] -= open[c - 1] * corr;
+      u[c + 1] += open[c + 1] * corr;
+      v[c] -= open[c - nx] * corr;
+      v[c + nx] += open[c + nx] * corr;
+    }
+    if (running <= stop2) { it++; break; }
+  }
+  g.lastIterations = it;
+  return divergenceResidual(g) / bNorm;
+}
+
+/**
+ * MIC(0) preconditioner for the 5-point matrix (Bridson 2015, §5.4):
+ *   e_c = A_cc − (a_{c−1}·P_{c−1})² − (a_{c−nx}·P_{c−nx})² − τ(a_{c−1}a'_{c−1}P²_{c−1} + a_{c−nx}a'_{c−nx}P²_{c−nx}),
+ *   P_c = 1/√e_c (e_c replaced by A_cc when e_c < σ·A_cc).
+ * With off-diagonals −1 between fluid cells and P = 0 outside fluid, the products reduce to fluid flags.
+ */
+function buildMic0(g: ProjectionGrid): void {
+  const { nx, type, fluid, fluidCount, precon, diag } = g;
+  const tau = 0.97, sigma = 0.25;
+  for (let k = 0; k < fluidCount; k++) {
+    const c = fluid[k];
+    const pl = precon[c - 1], pb = precon[c - nx];
+    const pl2 = pl * pl, pb2 = pb * pb;
+    const d = diag[c];
+    let e = d - pl2 - pb2 - tau * ((type[c - 1 + nx] === FLUID ? pl2 : 0) + (type[c - nx + 1] === FLUID ? pb2 : 0));
+    if (e < sigma * d) e = d;
+    precon[c] = e > 0 ? 1 / Math.sqrt(e) : 0;
+  }
+}
+
+/** z = M⁻¹ r with M = (L)(Lᵀ) from MIC(0): forward then backward substitution; zv is the forward scratch too. */
+function applyMic0(g: ProjectionGrid): void {
+  const { nx, fluid, fluidCount, precon, res, zv } = g;
+  // forward: t_c = r_c + P_{c−1} t_{c−1} + P_{c−nx} t_{c−nx};  y_c = t_c·P_c
+  for (let k = 0; k < fluidCount; k++) {
+    const c = fluid[k];
+    zv[c] = (res[c] + precon[c - 1] * zv[c - 1] + precon[c - nx] * zv[c - nx]) * precon[c];
+  }
+  // backward: z_c = (y_c + P_c (z_{c+1} + z_{c+nx}))·P_c, neighbours outside fluid hold 0
+  for (let k = fluidCount - 1; k >= 0; k--) {
+    const c = fluid[k];
+    const pc = precon[c];
+    zv[c] = (zv[c] + pc * (zv[c + 1] + zv[c + nx])) * pc;
+  }
+}
+
+/**
+ * Conjugate gradient with MIC(0) preconditioning (Bridson 2015, Fig. 5.x "PCG"): warm-started from
+ * the previous step's q (rescaled by the caller), stops when ‖r‖₂ ≤ tolerance·‖b‖₂ or after maxIterations.
+ * Then applies the pressure gradient to the open faces around fluid cells. Returns the relative residual.
+ */
+export function projectPcgMic0(g: ProjectionGrid, maxIterations: number, tolerance: number): number {
+  const bNorm = assembleSystem(g);
+  const { fluid, fluidCount, q } = g;
+  g.lastIterations = 0;
+  if (bNorm === 0) {
+    for (let k = 0; k < fluidCount; k++) q[fluid[k]] = 0;
+    return 0;
+  }
+  // q outside fluid must be 0 (air Dirichlet); clear stale values from cells that were fluid before.
+  clearOutsideFluid(g, q);
+  const it = pcgSolve(g, q, bNorm, maxIterations, tolerance);
+  applyPressureGradient(g);
+  g.lastIterations = it;
+  return divergenceResidual(g) / bNorm;
+}
+
+/**
+ * Solves A·x = target (the drift-correction part of the last projection's right-hand side) on the last
+ * projection's fluid cells, from x = 0, until ‖r‖₂ ≤ tolerance·‖target‖₂. By linearity the last solve's
+ * q = A⁻¹(target − D) = A⁻¹(−D) + x, so q − x is the pressure of the divergence alone (the physical one).
+ * Uses the CG scratch (rewritten by every projection) and leaves q and the velocities untouched.
+ * Returns the relative residual reached.
+ */
+export function solveDriftPart(g: ProjectionGrid, x: Float64Array, maxIterations: number, tolerance: number): number {
+  const { fluid, fluidCount, target, res } = g;
+  x.fill(0);
+  clearOutsideFluid(g, x);
+  let bb = 0;
+  for (let k = 0; k < fluidCount; k++) { const c = fluid[k]; const b = target[c]; res[c] = b; bb += b * b; }
+  const bNorm = Math.sqrt(bb);
+  if (bNorm === 0) return 0;
+  pcgSolve(g, x, bNorm, maxIterations, tolerance);
+  let rr = 0;
+  for (let k = 0; k < fluidCount; k++) rr += res[fluid[k]] ** 2;
+  return Math.sqrt(rr) / bNorm;
+}
+
+/** Zeroes x and the CG scratch outside the fluid cells (Dirichlet q = 0 in air; neighbours read as 0). */
+function clearOutsideFluid(g: ProjectionGrid, x: Float64Array): void {
+  const { type, zv, dir, precon } = g;
+  const nc = g.nx * g.ny;
+  for (let c = 0; c < nc; c++) if (type[c] !== FLUID) { x[c] = 0; zv[c] = 0; dir[c] = 0; precon[c] = 0; }
+}
+
+/**
+ * PCG on A·x = b over the fluid cells: on entry res holds b and x the starting guess (0 outside fluid);
+ * on exit x is the solution and res = b − A·x. Returns the iterations used.
+ */
+function pcgSolve(g: ProjectionGrid, x: Float64Array, bNorm: number, maxIterations: number, tolerance: number): number {
+  const { nx, fluid, fluidCount, res, zv, dir, adir, diag } = g;
+  // r = b − A x0
+  let rr = 0;
+  for (let k = 0; k < fluidCount; k++) {
+    const c = fluid[k];
+    const ax = diag[c] * x[c] - x[c - 1] - x[c + 1] - x[c - nx] - x[c + nx];
+    const r = res[c] - ax;
+    res[c] = r;
+    rr += r * r;
+  }
+  const stop = tolerance * bNorm;
+  let it = 0;
+  if (Math.sqrt(rr) > stop) {
+    buildMic0(g);
+    applyMic0(g);
+    let sigma = 0;
+    for (let k = 0; k < fluidCount; k++) { const c = fluid[k]; dir[c] = zv[c]; sigma += zv[c] * res[c]; }
+    for (it = 1; it <= maxIterations; it++) {
+      // adir = A·dir;  α = σ / (dir·adir)
+      let dAd = 0;
+      for (let k = 0; k < fluidCount; k++) {
+        const c = fluid[k];
+        const a = diag[c] * dir[c] - dir[c - 1] - dir[c + 1] - dir[c - nx] - dir[c + nx];
+        adir[c] = a;
+        dAd += dir[c] * a;
+      }
+      if (!(dAd > 0)) break;
+      const alpha = sigma / dAd;
+      // x += α·dir;  r −= α·adir
+      rr = 0;
+      for (let k = 0; k < fluidCount; k++) {
+        const c = fluid[k];
+        x[c] += alpha * dir[c];
+        const r = res[c] - alpha * adir[c];
+        res[c] = r;
+        rr += r * r;
+      }
+      if (Math.sqrt(rr) <= stop) break;
+      applyMic0(g);
+      // β = σ_new/σ;  dir = z + β·dir
+      let sigmaNew = 0;
+      for (let k = 0; k < fluidCount; k++) { const c = fluid[k]; sigmaNew += zv[c] * res[c]; }
+      const beta = sigmaNew / sigma;
+      sigma = sigmaNew;
+      for (let k = 0; k < fluidCount; k++) { const c = fluid[k]; dir[c] = zv[c] + beta * dir[c]; }
+    }
+    if (it > maxIterations) it = maxIterations;
+  }
+  return it;
+}
+
+/**
+ * u_face −= q_right − q_left on every open face next to a fluid cell (q = 0 in air); faces touching a
+ * solid keep the solid's velocity. Each face is visited once: a fluid cell updates its left and bottom
+ * faces, and its right and top faces only when the neighbour there is open but not fluid.
+ */
+export function applyPressureGradient(g: ProjectionGrid): void {
+  const { nx, gu: u, gv: v, open, type, fluid, fluidCount, q } = g;
+  for (let k = 0; k < fluidCount; k++) {
+    const c = fluid[k];
+    const qc = q[c];
+    if (open[c - 1] !== 0) u[c] -= qc - q[c - 1];
+    if (open[c - nx] !== 0) v[c] -= qc - q[c - nx];
+    if (open[c + 1] !== 0 && type[c + 1] !== FLUID) u[c + 1] += qc;
+    if (open[c + nx] !== 0 && type[c + nx] !== FLUID) v[c + nx] += qc;
+  }
+}

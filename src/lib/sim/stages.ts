@@ -1,0 +1,774 @@
+// The FLIP step as named stages over flat typed arrays (Zhu & Bridson 2005, "Animating sand as a fluid";
+// FLIP from Brackbill & Ruppel 1986). Each stage is a plain function of the solver state.
+// Coordinates: particles in tank metres (origin at the tank's inner lower-left corner, y up).
+// Grid: MAC, nx × ny cells including a one-cell border; cell (i, j) covers x ∈ [(i−1)h, i·h],
+// y ∈ [(j−1)h, j·h]; u[c] lives on its left face, v[c] on its bottom face, c = i + nx·j.
+import type { Scene, ShapeDoc } from '../scene/schema';
+import { tankCells, spoutEmissionEstimate, SCENE_LIMITS } from '../scene/schema';
+import { shapeSignedDistance, pointInShape, shapeBounds, shapeCentroid } from '../scene/shapes';
+import { poseInto, type Key, type Pose } from '../scene/keys';
+import { mulberry32 } from './prng';
+import { FLUID, AIR, SOLID, type ProjectionGrid } from './pressure';
+
+/** Density of water, kg/m³ (handbook value at about 20 °C is 998; 1000 is the customary round value). */
+export const WATER_DENSITY = 1000;
+
+export interface SolverOptions {
+  /** Seeding jitter as a fraction of the sub-cell spacing (0 = regular layout). Default 0.5. */
+  seedingJitter?: number;
+  /** Spatial-hash cell size as a multiple of the contact distance 2r (must be > 1). Default 1.1. */
+  hashCellFactor?: number;
+}
+
+interface PropRuntime {
+  shape: ShapeDoc;
+  keys: Key[];
+  cx: number; cy: number; // drawn centroid (m)
+  reach: number; // max distance from centroid to the drawn bounds' corners (m)
+  // placement at the end of the current step: world = R·(drawn − c) + c + d
+  dx: number; dy: number; cos: number; sin: number; angle: number;
+  // rigid velocity over the current step: translation (m/s) and angular velocity (rad/s)
+  vx: number; vy: number; omega: number;
+}
+
+interface SpoutRuntime {
+  vx: number; vy: number;
+  startFrame: number; endFrame: number;
+  cells: Int32Array; // grid cells holding emission samples
+  sampleStart: Int32Array; // per cell, offset into sx/sy (length cells+1)
+  sx: Float64Array; sy: Float64Array;
+}
+
+/** All solver state: allocated once in the constructor, reused by every step. */
+export class FlipState implements ProjectionGrid {
+  // constants
+  readonly h: number; readonly invH: number;
+  readonly nx: number; readonly ny: number; readonly nc: number;
+  readonly width: number; readonly height: number;
+  readonly radius: number; readonly ppc: number;
+  readonly gx: number; readonly gy: number;
+  readonly flipRatio: number; readonly drift: number;
+  readonly sides: { left: boolean; right: boolean; bottom: boolean; top: boolean };
+  // particles (structure of arrays, capacity `cap`, first `n` valid)
+  readonly cap: number;
+  n = 0;
+  x: Float32Array; y: Float32Array; u: Float32Array; v: Float32Array; ids: Int32Array;
+  private x2: Float32Array; private y2: Float32Array; private u2: Float32Array; private v2: Float32Array; private ids2: Int32Array;
+  readonly key: Int32Array;
+  nextId = 0;
+  // spatial hash (padded by one empty column on the right and one empty row on top)
+  readonly hs: number; readonly invHs: number; readonly hnx: number; readonly hny: number;
+  readonly hstart: Int32Array; readonly hcursor: Int32Array;
+  // grid (ProjectionGrid uses u/v names for the grid velocities)
+  readonly gu: Float64Array; readonly gv: Float64Array;
+  readonly wu: Float64Array; readonly wv: Float64Array;
+  readonly prevU: Float64Array; readonly prevV: Float64Array;
+  readonly dens: Float64Array;
+  readonly open: Float64Array;
+  readonly type: Uint8Array;
+  readonly solid: Uint8Array; readonly staticSolid: Uint8Array;
+  readonly solidU: Float64Array; readonly solidV: Float64Array;
+  readonly nearSolid: Uint8Array; readonly staticNearSolid: Uint8Array;
+  readonly drainCell: Uint8Array;
+  readonly target: Float64Array;
+  readonly fluid: Int32Array; fluidCount = 0;
+  readonly q: Float64Array; readonly res: Float64Array; readonly zv: Float64Array;
+  readonly dir: Float64Array; readonly adir: Float64Array; readonly precon: Float64Array; readonly diag: Float64Array;
+  lastIterations = 0;
+  restDensity = 0;
+  lastDt = 0;
+  maxSpeed = 0;
+  // scene objects
+  readonly walls: ShapeDoc[];
+  readonly props: PropRuntime[];
+  readonly drains: ShapeDoc[];
+  readonly spouts: SpoutRuntime[];
+  readonly spoutOf: Int32Array; // per cell: 1 + spout index while active, else 0
+  readonly cellCount: Int32Array;
+  emissionDropped = 0;
+  private readonly rand: () => number;
+  private readonly jitter: number;
+  private readonly pose: Pose = { dx: 0, dy: 0, angle: 0 };
+  readonly normal = new Float64Array(2);
+
+  constructor(scene: Scene, opts: SolverOptions = {}) {
+    const { tank, physics } = scene;
+    this.h = tank.cellSize; this.invH = 1 / this.h;
+    const cells = tankCells(tank);
+    this.nx = cells.nx + 2; this.ny = cells.ny + 2; this.nc = this.nx * this.ny;
+    this.width = cells.nx * this.h; this.height = cells.ny * this.h;
+    this.radius = physics.particleRadius * this.h;
+    this.ppc = physics.particlesPerCell;
+    this.gx = physics.gravity[0]; this.gy = physics.gravity[1];
+    this.flipRatio = physics.flipRatio; this.drift = physics.driftCorrection;
+    this.sides = { ...tank.sides };
+    this.rand = mulberry32(physics.seed);
+    this.jitter = opts.seedingJitter ?? 0.5;
+
+    const nc = this.nc;
+    const f64 = () => new Float64Array(nc);
+    this.gu = f64(); this.gv = f64(); this.wu = f64(); this.wv = f64(); this.prevU = f64(); this.prevV = f64();
+    this.dens = f64(); this.open = f64(); this.solidU = f64(); this.solidV = f64(); this.target = f64();
+    this.q = f64(); this.res = f64(); this.zv = f64(); this.dir = f64(); this.adir = f64(); this.precon = f64(); this.diag = f64();
+    this.type = new Uint8Array(nc); this.solid = new Uint8Array(nc); this.staticSolid = new Uint8Array(nc);
+    this.nearSolid = new Uint8Array(nc); this.staticNearSolid = new Uint8Array(nc); this.drainCell = new Uint8Array(nc);
+    this.fluid = new Int32Array(nc); this.spoutOf = new Int32Array(nc); this.cellCount = new Int32Array(nc);
+
+    this.walls = scene.walls.map((w) => w.shape);
+    this.drains = scene.drains.map((d) => d.shape);
+    this.props = scene.props.map((p) => {
+      const [cx, cy] = shapeCentroid(p.shape);
+      const b = shapeBounds(p.shape);
+      const reach = Math.max(Math.hypot(b.minX - cx, b.minY - cy), Math.hypot(b.maxX - cx, b.minY - cy),
+        Math.hypot(b.minX - cx, b.maxY - cy), Math.hypot(b.maxX - cx, b.maxY - cy));
+      return { shape: p.shape, keys: p.keys, cx, cy, reach, dx: 0, dy: 0, cos: 1, sin: 0, angle: 0, vx: 0, vy: 0, omega: 0 };
+    });
+    this.buildStaticSolids();
+    const startFrame = scene.timing.startFrame;
+    for (const p of this.props) this.placeProp(p, startFrame, startFrame, 1);
+    this.spouts = scene.spouts.map((s) => this.buildSpout(s));
+
+    // hash: cell size ≥ 2r so every contact lies in the 3×3 block of hash cells
+    this.hs = Math.max(2 * this.radius * Math.max(1.0001, opts.hashCellFactor ?? 1.1), 1e-9);
+    this.invHs = 1 / this.hs;
+    this.hnx = Math.ceil((this.width + 2 * this.h) / this.hs) + 2;
+    this.hny = Math.ceil((this.height + 2 * this.h) / this.hs) + 2;
+    this.hstart = new Int32Array(this.hnx * this.hny + 1);
+    this.hcursor = new Int32Array(this.hnx * this.hny);
+
+    // capacity: pours + every spout's emission over its frame range, bounded
+    const seeds = this.seedPours(scene, true);
+    let cap = seeds;
+    for (const s of scene.spouts) cap += Math.ceil(spoutEmissionEstimate(s, scene.timing.fps, this.h, this.ppc));
+    this.cap = Math.max(1, Math.min(cap, Math.max(seeds, SCENE_LIMITS.maxParticles)));
+    const f32 = () => new Float32Array(this.cap);
+    this.x = f32(); this.y = f32(); this.u = f32(); this.v = f32(); this.ids = new Int32Array(this.cap);
+    this.x2 = f32(); this.y2 = f32(); this.u2 = f32(); this.v2 = f32(); this.ids2 = new Int32Array(this.cap);
+    this.key = new Int32Array(this.cap);
+    this.seedPours(scene, false);
+  }
+
+  /** Grid cell index of tank point (x, y), clamped to the grid. */
+  cellOf(x: number, y: number): number {
+    let i = Math.floor(x * this.invH) + 1, j = Math.floor(y * this.invH) + 1;
+    i = i < 0 ? 0 : i > this.nx - 1 ? this.nx - 1 : i;
+    j = j < 0 ? 0 : j > this.ny - 1 ? this.ny - 1 : j;
+    return i + this.nx * j;
+  }
+
+  /** Border cells on closed sides and cells whose centre lies in a wall are solid; near-solid marks cells to test. */
+  private buildStaticSolids(): void {
+    const { nx, ny, h, staticSolid, staticNearSolid, drainCell, sides } = this;
+    for (let j = 0; j < ny; j++) {
+      for (let i = 0; i < nx; i++) {
+        const c = i + nx * j;
+        let s = 0;
+        if (i === 0 && sides.left) s = 1;
+        if (i === nx - 1 && sides.right) s = 1;
+        if (j === 0 && sides.bottom) s = 1;
+        if (j === ny - 1 && sides.top) s = 1;
+        const cx = (i - 0.5) * h, cy = (j - 0.5) * h;
+        for (const w of this.walls) if (pointInShape(w, cx, cy)) s = 1;
+        staticSolid[c] = s;
+      }
+    }
+    const margin = this.radius + 1.5 * h;
+    const mark = (arr: Uint8Array, shape: ShapeDoc) => {
+      const b = shapeBounds(shape);
+      this.markBox(arr, b.minX - margin, b.minY - margin, b.maxX + margin, b.maxY + margin);
+    };
+    for (const w of this.walls) mark(staticNearSolid, w);
+    for (const d of this.drains) mark(drainCell, d);
+    this.solid.set(staticSolid);
+    this.nearSolid.set(staticNearSolid);
+  }
+
+  /** Sets arr[c] = 1 for every cell overlapping the box (tank metres). */
+  markBox(arr: Uint8Array, x0: number, y0: number, x1: number, y1: number): void {
+    const { nx, ny, invH } = this;
+    const i0 = Math.max(0, Math.floor(x0 * invH) + 1), i1 = Math.min(nx - 1, Math.floor(x1 * invH) + 1);
+    const j0 = Math.max(0, Math.floor(y0 * invH) + 1), j1 = Math.min(ny - 1, Math.floor(y1 * invH) + 1);
+    for (let j = j0; j <= j1; j++) for (let i = i0; i <= i1; i++) arr[i + nx * j] = 1;
+  }
+
+  /** Places a prop at the pose of frame f1 and sets its rigid velocity from the pose change over dt seconds since f0. */
+  placeProp(p: PropRuntime, f0: number, f1: number, dt: number): void {
+    const pose = this.pose;
+    poseInto(p.keys, f0, pose);
+    const dx0 = pose.dx, dy0 = pose.dy, a0 = (pose.angle * Math.PI) / 180;
+    poseInto(p.keys, f1, pose);
+    const a1 = (pose.angle * Math.PI) / 180;
+    p.dx = pose.dx; p.dy = pose.dy; p.angle = a1; p.cos = Math.cos(a1); p.sin = Math.sin(a1);
+    p.vx = (pose.dx - dx0) / dt; p.vy = (pose.dy - dy0) / dt; p.omega = (a1 - a0) / dt;
+  }
+
+  /** Signed distance (m) from world point to a placed prop; writes the world outward normal into this.normal. */
+  propDistance(p: PropRuntime, x: number, y: number): number {
+    const rx = x - p.cx - p.dx, ry = y - p.cy - p.dy;
+    // drawn = Rᵀ·(world − c − d) + c
+    const lx = p.cos * rx + p.sin * ry + p.cx, ly = -p.sin * rx + p.cos * ry + p.cy;
+    const n = this.normal;
+    const d = shapeSignedDistance(p.shape, lx, ly, n);
+    const nx = n[0], ny = n[1];
+    n[0] = p.cos * nx - p.sin * ny; n[1] = p.sin * nx + p.cos * ny;
+    return d;
+  }
+
+  /** True when world point (x, y) is inside any wall or placed prop. */
+  insideSolidShape(x: number, y: number): boolean {
+    for (const w of this.walls) if (pointInShape(w, x, y)) return true;
+    for (const p of this.props) if (this.propDistance(p, x, y) < 0) return true;
+    return false;
+  }
+
+  /** Seeds the pours on a k×k sub-grid per cell (jittered); with countOnly, only counts. Returns the count. */
+  private seedPours(scene: Scene, countOnly: boolean): number {
+    const { h, ppc } = this;
+    const k = Math.round(Math.sqrt(ppc)), sub = h / k;
+    const nxIn = this.nx - 2, nyIn = this.ny - 2;
+    let n = 0;
+    if (scene.pours.length === 0) return 0;
+    const bounds = scene.pours.map((p) => shapeBounds(p.shape));
+    for (let j = 0; j < nyIn; j++) {
+      for (let i = 0; i < nxIn; i++) {
+        for (let b = 0; b < k; b++) {
+          for (let a = 0; a < k; a++) {
+            const px = i * h + (a + 0.5) * sub, py = j * h + (b + 0.5) * sub;
+            let which = -1;
+            for (let s = 0; s < scene.pours.length; s++) {
+              const bb = bounds[s];
+              if (px < bb.minX || px > bb.maxX || py < bb.minY || py > bb.maxY) continue;
+              if (pointInShape(scene.pours[s].shape, px, py)) { which = s; break; }
+            }
+            if (which < 0 || this.insideSolidShape(px, py)) continue;
+            if (!countOnly) {
+              const jx = (this.rand() - 0.5) * this.jitter * sub, jy = (this.rand() - 0.5) * this.jitter * sub;
+              const vel = scene.pours[which].velocity;
+              this.x[n] = px + jx; this.y[n] = py + jy; this.u[n] = vel[0]; this.v[n] = vel[1];
+              this.ids[n] = this.nextId++;
+            }
+            n++;
+          }
+        }
+      }
+    }
+    if (!countOnly) this.n = n;
+    return n;
+  }
+
+  /** Emission samples of a spout: sub-grid points inside its shape and the tank, outside walls, grouped by cell. */
+  private buildSpout(s: Scene['spouts'][number]): SpoutRuntime {
+    const { h, ppc } = this;
+    const k = Math.round(Math.sqrt(ppc)), sub = h / k;
+    const b = shapeBounds(s.shape);
+    const cells: number[] = [], starts: number[] = [], sx: number[] = [], sy: number[] = [];
+    const i0 = Math.max(0, Math.floor(b.minX / h)), i1 = Math.min(this.nx - 3, Math.floor(b.maxX / h));
+    const j0 = Math.max(0, Math.floor(b.minY / h)), j1 = Math.min(this.ny - 3, Math.floor(b.maxY / h));
+    for (let j = j0; j <= j1; j++) {
+      for (let i = i0; i <= i1; i++) {
+        const before = sx.length;
+        for (let bb = 0; bb < k; bb++) for (let a = 0; a < k; a++) {
+          const px = i * h + (a + 0.5) * sub, py = j * h + (bb + 0.5) * sub;
+          if (pointInShape(s.shape, px, py) && !this.walls.some((w) => pointInShape(w, px, py))) { sx.push(px); sy.push(py); }
+        }
+        if (sx.length > before) { cells.push(i + 1 + this.nx * (j + 1)); starts.push(before); }
+      }
+    }
+    starts.push(sx.length);
+    return {
+      vx: s.velocity[0], vy: s.velocity[1], startFrame: s.startFrame, endFrame: s.endFrame,
+      cells: Int32Array.from(cells), sampleStart: Int32Array.from(starts), sx: Float64Array.from(sx), sy: Float64Array.from(sy),
+    };
+  }
+
+  /** Reorders particle arrays by hash cell (stable counting sort); afterwards hash cell c holds particles [hstart[c], hstart[c+1]). */
+  sortByHashCell(): void {
+    const { n, hnx, hny, invHs, h, hstart, hcursor, key } = this;
+    const x = this.x, y = this.y;
+    const hnc = hnx * hny, maxI = hnx - 2, maxJ = hny - 2;
+    hstart.fill(0);
+    // key = hash cell of the particle, with the grid's origin at (−h, −h)
+    for (let p = 0; p < n; p++) {
+      let i = Math.floor((x[p] + h) * invHs), j = Math.floor((y[p] + h) * invHs);
+      i = i < 0 ? 0 : i > maxI ? maxI : i;
+      j = j < 0 ? 0 : j > maxJ ? maxJ : j;
+      const c = i + hnx * j;
+      key[p] = c;
+      hstart[c + 1]++;
+    }
+    for (let c = 0; c < hnc; c++) { hstart[c + 1] += hstart[c]; hcursor[c] = hstart[c]; }
+    const u = this.u, v = this.v, ids = this.ids;
+    const x2 = this.x2, y2 = this.y2, u2 = this.u2, v2 = this.v2, ids2 = this.ids2;
+    for (let p = 0; p < n; p++) {
+      const d = hcursor[key[p]]++;
+      x2[d] = x[p]; y2[d] = y[p]; u2[d] = u[p]; v2[d] = v[p]; ids2[d] = ids[p];
+    }
+    this.x = x2; this.y = y2; this.u = u2; this.v = v2; this.ids = ids2;
+    this.x2 = x; this.y2 = y; this.u2 = u; this.v2 = v; this.ids2 = ids;
+  }
+
+  /** Removes particle p by moving the last particle into its slot. */
+  removeAt(p: number): void {
+    const last = --this.n;
+    this.x[p] = this.x[last]; this.y[p] = this.y[last]; this.u[p] = this.u[last]; this.v[p] = this.v[last];
+    this.ids[p] = this.ids[last];
+  }
+
+  /** Appends a particle; returns false when the capacity is reached. */
+  add(x: number, y: number, u: number, v: number): boolean {
+    if (this.n >= this.cap) { this.emissionDropped++; return false; }
+    const p = this.n++;
+    this.x[p] = x; this.y[p] = y; this.u[p] = u; this.v[p] = v; this.ids[p] = this.nextId++;
+    return true;
+  }
+
+  jitterOffset(): number { return (this.rand() - 0.5) * this.jitter; }
+}
+
+/**
+ * Stage 1 — integrate. Semi-implicit (symplectic) Euler, position first:
+ *   x ← x + v·dt   with v the projected (divergence-free) velocity of the previous step,
+ *   v ← v + g·dt   the external force at the new position; the projection below adds −∇p·dt/ρ.
+ * Moving with the projected velocity means liquid at rest stays at rest (gravity is balanced by the
+ * pressure before anything moves); a blob in free flight lags the exact path by g·t·dt/2 (first order).
+ */
+export function integrate(S: FlipState, dt: number): void {
+  const { n, x, y, u, v } = S;
+  const gdx = S.gx * dt, gdy = S.gy * dt;
+  for (let p = 0; p < n; p++) {
+    const up = u[p], vp = v[p];
+    x[p] += up * dt; y[p] += vp * dt;
+    u[p] = up + gdx; v[p] = vp + gdy;
+  }
+}
+
+/**
+ * Stage 2 — separate. For every pair closer than the contact distance 2r, move both particles apart along
+ * the line of centres by half the overlap each: Δ = ½(2r − d)·(x_j − x_i)/d (Gauss–Seidel order, in place).
+ * Particles are sorted by hash cell, so each cell's particles are contiguous; each pair is visited once:
+ * j > i in the same and the right cell (one contiguous range), then the three cells of the row above
+ * (another contiguous range). Hash cells are ≥ 2r, so no contact is missed at the step's start.
+ */
+export function separate(S: FlipState, iterations: number): void {
+  const { hnx, hny, hstart } = S;
+  const x = S.x, y = S.y;
+  const minDist = 2 * S.radius, min2 = minDist * minDist;
+  for (let it = 0; it < iterations; it++) {
+    for (let cy = 0; cy < hny - 1; cy++) {
+      for (let cx = 0; cx < hnx - 1; cx++) {
+        const c = cx + hnx * cy;
+        const a = hstart[c], b = hstart[c + 1];
+        if (a === b) continue;
+        const sameEnd = hstart[c + 2]; // same cell then right neighbour
+        const upLo = hstart[c + hnx - (cx > 0 ? 1 : 0)], upHi = hstart[c + hnx + 2];
+        for (let i = a; i < b; i++) {
+          let xi = x[i], yi = y[i];
+          for (let j = i + 1; j < sameEnd; j++) {
+            let dx = x[j] - xi, dy = y[j] - yi;
+            const d2 = dx * dx + dy * dy;
+            if (d2 >= min2 || d2 === 0) continue;
+            const d = Math.sqrt(d2), f = (0.5 * (minDist - d)) / d;
+            dx *= f; dy *= f;
+            xi -= dx; yi -= dy;
+            x[j] += dx; y[j] += dy;
+          }
+          for (let j = upLo; j < upHi; j++) {
+            let dx = x[j] - xi, dy = y[j] - yi;
+            const d2 = dx * dx + dy * dy;
+            if (d2 >= min2 || d2 === 0) continue;
+            const d = Math.sqrt(d2), f = (0.5 * (minDist - d)) / d;
+            dx *= f; dy *= f;
+            xi -= dx; yi -= dy;
+            x[j] += dx; y[j] += dy;
+          }
+          x[i] = xi; y[i] = yi;
+        }
+      }
+    }
+  }
+}
+
+/**
+ * Places moving props at the pose of frame f1 and rasterises solids: solid = static solids ∪ cells whose
+ * centre lies inside a placed prop; such cells carry the prop's rigid velocity v = v_T + ω × (x − x_c).
+ */
+export function placeSolids(S: FlipState, f0: number, f1: number, dt: number): void {
+  if (S.props.length === 0) return;
+  const { nx, h, solid, solidU, solidV, nearSolid } = S;
+  solid.set(S.staticSolid);
+  nearSolid.set(S.staticNearSolid);
+  solidU.fill(0); solidV.fill(0);
+  const margin = S.radius + 1.5 * h;
+  for (const p of S.props) {
+    S.placeProp(p, f0, f1, dt);
+    const wx = p.cx + p.dx, wy = p.cy + p.dy, R = p.reach;
+    S.markBox(nearSolid, wx - R - margin, wy - R - margin, wx + R + margin, wy + R + margin);
+    const i0 = Math.max(1, Math.floor((wx - R) / h) + 1), i1 = Math.min(nx - 2, Math.floor((wx + R) / h) + 1);
+    const j0 = Math.max(1, Math.floor((wy - R) / h) + 1), j1 = Math.min(S.ny - 2, Math.floor((wy + R) / h) + 1);
+    for (let j = j0; j <= j1; j++) {
+      for (let i = i0; i <= i1; i++) {
+        const cxm = (i - 0.5) * h, cym = (j - 0.5) * h;
+        if (S.propDistance(p, cxm, cym) >= 0) continue;
+        const c = i + nx * j;
+        solid[c] = 1;
+        solidU[c] = p.vx - p.omega * (cym - wy);
+        solidV[c] = p.vy + p.omega * (cxm - wx);
+      }
+    }
+  }
+}
+
+/**
+ * Stage 3 — collide. Tank: closed sides clamp x to [r, W − r] (and y likewise) and zero that velocity
+ * component; particles beyond an open side are removed. Walls and props: a particle closer than r to the
+ * surface (signed distance φ < r) moves out along the normal n by r − φ, and its velocity relative to the
+ * solid loses its inward normal part: (v − v_s)·n < 0 → v ← v − ((v − v_s)·n)·n. Drains remove particles.
+ */
+export function collide(S: FlipState): void {
+  const { width: W, height: H, radius: r, sides, nearSolid, drainCell, walls, props, drains, normal } = S;
+  const lo = r, hiX = W - r, hiY = H - r;
+  const testShapes = walls.length + props.length > 0, testDrains = drains.length > 0;
+  const x = S.x, y = S.y, u = S.u, v = S.v;
+  let p = 0;
+  while (p < S.n) {
+    let px = x[p], py = y[p];
+    let remove = false;
+    if (px < lo) { if (sides.left) { px = lo; u[p] = 0; } else if (px < 0) remove = true; }
+    else if (px > hiX) { if (sides.right) { px = hiX; u[p] = 0; } else if (px > W) remove = true; }
+    if (py < lo) { if (sides.bottom) { py = lo; v[p] = 0; } else if (py < 0) remove = true; }
+    else if (py > hiY) { if (sides.top) { py = hiY; v[p] = 0; } else if (py > H) remove = true; }
+    if (!remove && (testShapes || testDrains)) {
+      const c = S.cellOf(px, py);
+      if (testShapes && nearSolid[c] !== 0) {
+        for (let w = 0; w < walls.length; w++) {
+          const phi = shapeSignedDistance(walls[w], px, py, normal);
+          if (phi < r) {
+            const nx = normal[0], ny = normal[1];
+            px += (r - phi) * nx; py += (r - phi) * ny;
+            const vn = u[p] * nx + v[p] * ny;
+            if (vn < 0) { u[p] -= vn * nx; v[p] -= vn * ny; }
+          }
+        }
+        for (let k = 0; k < props.length; k++) {
+          const pr = props[k];
+          const phi = S.propDistance(pr, px, py);
+          if (phi < r) {
+            const nx = normal[0], ny = normal[1];
+            px += (r - phi) * nx; py += (r - phi) * ny;
+            const wx = pr.cx + pr.dx, wy = pr.cy + pr.dy;
+            const sx = pr.vx - pr.omega * (py - wy), sy = pr.vy + pr.omega * (px - wx);
+            const vn = (u[p] - sx) * nx + (v[p] - sy) * ny;
+            if (vn < 0) { u[p] -= vn * nx; v[p] -= vn * ny; }
+          }
+        }
+        // a solid may have pushed the particle through a closed side: clamp again
+        if (sides.left && px < lo) px = lo;
+        if (sides.right && px > hiX) px = hiX;
+        if (sides.bottom && py < lo) py = lo;
+        if (sides.top && py > hiY) py = hiY;
+      }
+      if (testDrains && drainCell[c] !== 0) {
+        for (let d = 0; d < drains.length; d++) if (pointInShape(drains[d], px, py)) { remove = true; break; }
+      }
+    }
+    if (!(px >= -S.h && px <= W + S.h && py >= -S.h && py <= H + S.h)) remove = true; // also catches NaN
+    if (remove) { S.removeAt(p); continue; }
+    x[p] = px; y[p] = py;
+    p++;
+  }
+}
+
+/**
+ * Stage 4 — emit. While a spout is active (frameNow ∈ [startFrame, endFrame + 1)), particles in its cells
+ * take its velocity, and each cell is refilled to its number of inside sub-grid samples (jittered), so the
+ * spout delivers about density·|v|·width per second.
+ */
+export function emit(S: FlipState, frameNow: number): void {
+  if (S.spouts.length === 0) return;
+  const { spoutOf, cellCount, h } = S;
+  let any = false;
+  for (let s = 0; s < S.spouts.length; s++) {
+    const sp = S.spouts[s];
+    const active = frameNow >= sp.startFrame && frameNow < sp.endFrame + 1;
+    for (let k = 0; k < sp.cells.length; k++) {
+      const c = sp.cells[k];
+      spoutOf[c] = active ? s + 1 : 0;
+      cellCount[c] = 0;
+    }
+    any = any || active;
+  }
+  if (!any) return;
+  const n = S.n, x = S.x, y = S.y, u = S.u, v = S.v;
+  for (let p = 0; p < n; p++) {
+    const c = S.cellOf(x[p], y[p]);
+    const s = spoutOf[c];
+    if (s === 0) continue;
+    cellCount[c]++;
+    const sp = S.spouts[s - 1];
+    u[p] = sp.vx; v[p] = sp.vy;
+  }
+  const sub = h / Math.round(Math.sqrt(S.ppc));
+  for (let s = 0; s < S.spouts.length; s++) {
+    const sp = S.spouts[s];
+    if (!(frameNow >= sp.startFrame && frameNow < sp.endFrame + 1)) continue;
+    for (let k = 0; k < sp.cells.length; k++) {
+      const c = sp.cells[k];
+      if (spoutOf[c] !== s + 1) continue; // cell shared with an earlier spout
+      const a = sp.sampleStart[k], b = sp.sampleStart[k + 1];
+      for (let m = a + cellCount[c]; m < b; m++) {
+        if (!S.add(sp.sx[m] + S.jitterOffset() * sub, sp.sy[m] + S.jitterOffset() * sub, sp.vx, sp.vy)) return;
+      }
+    }
+  }
+}
+
+/**
+ * Stage 5 — particle to grid. Cell types (solid / fluid where a particle lies / air), then each staggered
+ * component is the bilinear-weighted average of particle velocities: u_f = Σ w_pf u_p / Σ w_pf.
+ * Faces touching a solid cell take the solid's velocity. A copy is kept for the FLIP update.
+ */
+export function particlesToGrid(S: FlipState): void {
+  const { n, nx, ny, nc, invH, type, solid, gu, gv, wu, wv, prevU, prevV, open, solidU, solidV } = S;
+  const x = S.x, y = S.y, u = S.u, v = S.v;
+  for (let c = 0; c < nc; c++) {
+    const s = solid[c];
+    type[c] = s !== 0 ? SOLID : AIR;
+    open[c] = s !== 0 ? 0 : 1;
+  }
+  gu.fill(0); gv.fill(0); wu.fill(0); wv.fill(0);
+  const xMax = nx - 1, yMax = ny - 1, iMax = nx - 2, jMax = ny - 2;
+  for (let p = 0; p < n; p++) {
+    // grid coordinates in cells: X = x/h + 1, clamped to the inner grid [1, n − 1]
+    let X = x[p] * invH + 1, Y = y[p] * invH + 1;
+    X = X < 1 ? 1 : X > xMax ? xMax : X;
+    Y = Y < 1 ? 1 : Y > yMax ? yMax : Y;
+    const cell = (X | 0) + nx * (Y | 0);
+    if (type[cell] === AIR) type[cell] = FLUID;
+    // u nodes at (i, j + ½): fx = X, fy = Y − ½
+    let i0 = X | 0; if (i0 > iMax) i0 = iMax;
+    let fy = Y - 0.5, j0 = fy | 0; if (j0 > jMax) j0 = jMax;
+    let tx = X - i0, ty = fy - j0;
+    let n0 = i0 + nx * j0;
+    const up = u[p];
+    let w = (1 - tx) * (1 - ty); gu[n0] += up * w; wu[n0] += w;
+    w = tx * (1 - ty); gu[n0 + 1] += up * w; wu[n0 + 1] += w;
+    w = tx * ty; gu[n0 + nx + 1] += up * w; wu[n0 + nx + 1] += w;
+    w = (1 - tx) * ty; gu[n0 + nx] += up * w; wu[n0 + nx] += w;
+    // v nodes at (i + ½, j): fx = X − ½, fy = Y
+    const fx = X - 0.5; i0 = fx | 0; if (i0 > iMax) i0 = iMax;
+    j0 = Y | 0; if (j0 > jMax) j0 = jMax;
+    tx = fx - i0; ty = Y - j0;
+    n0 = i0 + nx * j0;
+    const vp = v[p];
+    w = (1 - tx) * (1 - ty); gv[n0] += vp * w; wv[n0] += w;
+    w = tx * (1 - ty); gv[n0 + 1] += vp * w; wv[n0 + 1] += w;
+    w = tx * ty; gv[n0 + nx + 1] += vp * w; wv[n0 + nx + 1] += w;
+    w = (1 - tx) * ty; gv[n0 + nx] += vp * w; wv[n0 + nx] += w;
+  }
+  for (let j = 0; j < ny; j++) {
+    for (let i = 0, c = nx * j; i < nx; i++, c++) {
+      let uf = wu[c] > 0 ? gu[c] / wu[c] : 0;
+      let vf = wv[c] > 0 ? gv[c] / wv[c] : 0;
+      const sc = solid[c];
+      // u face between c−1 and c; v face between c−nx and c
+      const sl = i > 0 ? solid[c - 1] : sc, sb = j > 0 ? solid[c - nx] : sc;
+      if (sc !== 0 || sl !== 0) uf = sc !== 0 && sl !== 0 ? 0.5 * (solidU[c] + solidU[i > 0 ? c - 1 : c]) : sc !== 0 ? solidU[c] : solidU[c - 1];
+      if (sc !== 0 || sb !== 0) vf = sc !== 0 && sb !== 0 ? 0.5 * (solidV[c] + solidV[j > 0 ? c - nx : c]) : sc !== 0 ? solidV[c] : solidV[c - nx];
+      gu[c] = uf; gv[c] = vf;
+      prevU[c] = uf; prevV[c] = vf;
+    }
+  }
+}
+
+/**
+ * Stage 6 — density at cell centres: ρ_c = Σ_p w_pc (bilinear, in particles per cell); the rest density ρ₀ is
+ * fixed the first time liquid is present (see estimateRestDensity), then the drift target for the projection.
+ */
+export function densityAndDrift(S: FlipState, dt: number): void {
+  depositDensity(S);
+  if (S.restDensity === 0) S.restDensity = estimateRestDensity(S);
+  driftTarget(S, dt);
+}
+
+/** ρ_c = Σ_p w_pc at cell centres (bilinear weights; particles per cell) into S.dens. */
+export function depositDensity(S: FlipState): void {
+  const { n, nx, ny, invH, dens } = S;
+  const x = S.x, y = S.y;
+  dens.fill(0);
+  const xMax = nx - 1, yMax = ny - 1, iMax = nx - 2, jMax = ny - 2;
+  for (let p = 0; p < n; p++) {
+    let X = x[p] * invH + 1, Y = y[p] * invH + 1;
+    X = X < 1 ? 1 : X > xMax ? xMax : X;
+    Y = Y < 1 ? 1 : Y > yMax ? yMax : Y;
+    // centre nodes at (i + ½, j + ½)
+    const fx = X - 0.5, fy = Y - 0.5;
+    let i0 = fx | 0; if (i0 > iMax) i0 = iMax;
+    let j0 = fy | 0; if (j0 > jMax) j0 = jMax;
+    const tx = fx - i0, ty = fy - j0, n0 = i0 + nx * j0;
+    dens[n0] += (1 - tx) * (1 - ty);
+    dens[n0 + 1] += tx * (1 - ty);
+    dens[n0 + nx + 1] += tx * ty;
+    dens[n0 + nx] += (1 - tx) * ty;
+  }
+  foldSolidDensity(S);
+}
+
+/**
+ * Mirror (ghost-particle) correction at solids: a particle within half a cell of a wall puts part of its
+ * kernel mass on the solid cell's centre, so the liquid cell beside the wall reads low (about 7/8 of ρ₀ for
+ * liquid at rest against a flat wall) and the drift correction would compress the liquid against every wall.
+ * Reflecting the particle across the cell face moves exactly that weight onto the liquid cell: for a wall
+ * along cell faces the image of the solid node is its face neighbour on the liquid side. So each solid cell's
+ * deposit goes to its non-solid face neighbours (shared equally), or to its non-solid diagonal neighbours at
+ * a corner, and the solid cell keeps none. Exact for the tank sides; cell-rasterised walls and props get the
+ * same rule along their staircase outline.
+ */
+function foldSolidDensity(S: FlipState): void {
+  const { nx, ny, dens, solid } = S;
+  for (let j = 0; j < ny; j++) {
+    for (let i = 0, c = nx * j; i < nx; i++, c++) {
+      const m = dens[c];
+      if (m === 0 || solid[c] === 0) continue;
+      const l = i > 0 && solid[c - 1] === 0, r = i < nx - 1 && solid[c + 1] === 0;
+      const b = j > 0 && solid[c - nx] === 0, t = j < ny - 1 && solid[c + nx] === 0;
+      let k = (l ? 1 : 0) + (r ? 1 : 0) + (b ? 1 : 0) + (t ? 1 : 0);
+      if (k > 0) {
+        const share = m / k;
+        if (l) dens[c - 1] += share;
+        if (r) dens[c + 1] += share;
+        if (b) dens[c - nx] += share;
+        if (t) dens[c + nx] += share;
+        dens[c] = 0;
+        continue;
+      }
+      const lb = i > 0 && j > 0 && solid[c - 1 - nx] === 0, rb = i < nx - 1 && j > 0 && solid[c + 1 - nx] === 0;
+      const lt = i > 0 && j < ny - 1 && solid[c - 1 + nx] === 0, rt = i < nx - 1 && j < ny - 1 && solid[c + 1 + nx] === 0;
+      k = (lb ? 1 : 0) + (rb ? 1 : 0) + (lt ? 1 : 0) + (rt ? 1 : 0);
+      if (k === 0) continue; // inside a solid block: no liquid side to mirror onto
+      const share = m / k;
+      if (lb) dens[c - 1 - nx] += share;
+      if (rb) dens[c + 1 - nx] += share;
+      if (lt) dens[c - 1 + nx] += share;
+      if (rt) dens[c + 1 + nx] += share;
+      dens[c] = 0;
+    }
+  }
+}
+
+/** Cell types from the current particles: solid, fluid (a particle inside) or air; what particlesToGrid marks. */
+export function classifyCells(S: FlipState): void {
+  const { n, nx, nc, invH, type, solid } = S;
+  const x = S.x, y = S.y;
+  for (let c = 0; c < nc; c++) type[c] = solid[c] !== 0 ? SOLID : AIR;
+  const xMax = nx - 1, yMax = S.ny - 1;
+  for (let p = 0; p < n; p++) {
+    let X = x[p] * invH + 1, Y = y[p] * invH + 1;
+    X = X < 1 ? 1 : X > xMax ? xMax : X;
+    Y = Y < 1 ? 1 : Y > yMax ? yMax : Y;
+    const cell = (X | 0) + nx * (Y | 0);
+    if (type[cell] === AIR) type[cell] = FLUID;
+  }
+}
+
+/**
+ * Rest density ρ₀ (particles per cell) from S.dens and S.type: the mean over fluid cells whose four
+ * neighbours are fluid (all fluid cells if none); 0 when there is no liquid. The solver fixes ρ₀ at the
+ * first step that has liquid (stage 6 of step 1 for poured liquid: after that step's separation, the
+ * spacing the particles keep from then on), as the textbook code does.
+ */
+export function estimateRestDensity(S: FlipState): number {
+  const { nx, ny, dens, type } = S;
+  let sumIn = 0, cntIn = 0, sumAll = 0, cntAll = 0;
+  for (let j = 1; j < ny - 1; j++) for (let i = 1, c = 1 + nx * j; i < nx - 1; i++, c++) {
+    if (type[c] !== FLUID) continue;
+    sumAll += dens[c]; cntAll++;
+    if (type[c - 1] === FLUID && type[c + 1] === FLUID && type[c - nx] === FLUID && type[c + nx] === FLUID) { sumIn += dens[c]; cntIn++; }
+  }
+  return cntIn > 0 ? sumIn / cntIn : cntAll > 0 ? sumAll / cntAll : 0;
+}
+
+/**
+ * Drift target for the projection:
+ *   target_c = k·(ρ_c/ρ₀ − 1)·h/dt  (m/s),
+ * the velocity divergence that would remove the fraction k of the density error in one step. Interior
+ * cells are driven both ways (under-dense interior cells contract, so random particle packing does not
+ * slowly inflate the liquid); cells touching air only when over-dense (the free surface is under-dense).
+ */
+export function driftTarget(S: FlipState, dt: number): void {
+  const { nx, ny, dens, type, target } = S;
+  const rest = S.restDensity;
+  const k = rest > 0 ? (S.drift * S.h) / (dt * rest) : 0;
+  target.fill(0);
+  if (k === 0) return;
+  for (let j = 1; j < ny - 1; j++) {
+    for (let i = 1, c = 1 + nx * j; i < nx - 1; i++, c++) {
+      if (type[c] !== FLUID) continue;
+      const excess = dens[c] - rest;
+      // interior cells (no air neighbour) are driven both ways; cells at the free surface only when over-dense
+      const interior = type[c - 1] !== AIR && type[c + 1] !== AIR && type[c - nx] !== AIR && type[c + nx] !== AIR;
+      target[c] = excess > 0 || interior ? k * excess : 0;
+    }
+  }
+}
+
+/**
+ * Stage 8 — grid to particle with the PIC/FLIP blend (Zhu & Bridson 2005):
+ *   v_p ← (1 − α)·v_PIC + α·(v_p + Δv_grid),  α = flipRatio,
+ * with bilinear weights restricted to faces that touch liquid or solid (faces between two air cells are
+ * undefined and never used). Also records the maximum particle speed (m/s).
+ */
+export function gridToParticles(S: FlipState): void {
+  const { n, nx, ny, invH, type, gu, gv, wu, wv, prevU, prevV, flipRatio } = S;
+  const x = S.x, y = S.y, u = S.u, v = S.v;
+  // per face: wu = 1 if usable, gu = u·wu, prevU = (u − u_old)·wu
+  for (let j = 0; j < ny; j++) {
+    for (let i = 0, c = nx * j; i < nx; i++, c++) {
+      const tc = type[c];
+      const okU = tc !== AIR || (i > 0 && type[c - 1] !== AIR) ? 1 : 0;
+      const okV = tc !== AIR || (j > 0 && type[c - nx] !== AIR) ? 1 : 0;
+      wu[c] = okU; prevU[c] = okU * (gu[c] - prevU[c]); gu[c] *= okU;
+      wv[c] = okV; prevV[c] = okV * (gv[c] - prevV[c]); gv[c] *= okV;
+    }
+  }
+  const pic = 1 - flipRatio;
+  const xMax = nx - 1, yMax = ny - 1, iMax = nx - 2, jMax = ny - 2;
+  let max2 = 0;
+  for (let p = 0; p < n; p++) {
+    let X = x[p] * invH + 1, Y = y[p] * invH + 1;
+    X = X < 1 ? 1 : X > xMax ? xMax : X;
+    Y = Y < 1 ? 1 : Y > yMax ? yMax : Y;
+    // u
+    let i0 = X | 0; if (i0 > iMax) i0 = iMax;
+    let fy = Y - 0.5, j0 = fy | 0; if (j0 > jMax) j0 = jMax;
+    let tx = X - i0, ty = fy - j0, n0 = i0 + nx * j0;
+    let w0 = (1 - tx) * (1 - ty), w1 = tx * (1 - ty), w2 = tx * ty, w3 = (1 - tx) * ty;
+    let n1 = n0 + 1, n2 = n0 + nx + 1, n3 = n0 + nx;
+    let ws = w0 * wu[n0] + w1 * wu[n1] + w2 * wu[n2] + w3 * wu[n3];
+    let up = u[p];
+    if (ws > 0) {
+      const inv = 1 / ws;
+      const vPic = (w0 * gu[n0] + w1 * gu[n1] + w2 * gu[n2] + w3 * gu[n3]) * inv;
+      const dv = (w0 * prevU[n0] + w1 * prevU[n1] + w2 * prevU[n2] + w3 * prevU[n3]) * inv;
+      up = pic * vPic + flipRatio * (up + dv);
+      u[p] = up;
+    }
+    // v
+    const fx = X - 0.5; i0 = fx | 0; if (i0 > iMax) i0 = iMax;
+    j0 = Y | 0; if (j0 > jMax) j0 = jMax;
+    tx = fx - i0; ty = Y - j0; n0 = i0 + nx * j0;
+    w0 = (1 - tx) * (1 - ty); w1 = tx * (1 - ty); w2 = tx * ty; w3 = (1 - tx) * ty;
+    n1 = n0 + 1; n2 = n0 + nx + 1; n3 = n0 + nx;
+    ws = w0 * wv[n0] + w1 * wv[n1] + w2 * wv[n2] + w3 * wv[n3];
+    let vp = v[p];
+    if (ws > 0) {
+      const inv = 1 / ws;
+      const vPic = (w0 * gv[n0] + w1 * gv[n1] + w2 * gv[n2] + w3 * gv[n3]) * inv;
+      const dv = (w0 * prevV[n0] + w1 * prevV[n1] + w2 * prevV[n2] + w3 * prevV[n3]) * inv;
+      vp = pic * vPic + flipRatio * (vp + dv);
+      v[p] = vp;
+    }
+    const s2 = up * up + vp * vp;
+    if (s2 > max2) max2 = s2;
+  }
+  S.maxSpeed = Math.sqrt(max2);
+}

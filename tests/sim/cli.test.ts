@@ -1,0 +1,38 @@
+// The headless CLI contract: one JSON line per frame, the first the initial state; bad scene → non-zero exit.
+import { describe, it, expect } from 'vitest';
+import { spawnSync } from 'node:child_process';
+import { mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+
+const root = new URL('../..', import.meta.url).pathname;
+const run = (args: string[]) => spawnSync('npx', ['tsx', 'src/cli/sim.ts', ...args], { cwd: root, encoding: 'utf8' });
+
+describe('sim CLI', () => {
+  it('writes the initial state and then one line per frame', () => {
+    const dir = mkdtempSync(join(tmpdir(), 'tidemark-sim-'));
+    const out = join(dir, 'frames.jsonl');
+    const r = run(['--scene', 'tests/fixtures/scenes/small-drop.json', '--out', out, '--frames', '3']);
+    expect(r.status).toBe(0);
+    const lines = readFileSync(out, 'utf8').trim().split('\n').map((l) => JSON.parse(l));
+    expect(lines.map((l) => l.frame)).toEqual([1001, 1002, 1003]);
+    expect(lines[0].time).toBe(0);
+    expect(lines[1].time).toBeCloseTo(1 / 24, 12);
+    for (const l of lines) {
+      expect(l.count).toBeGreaterThan(0);
+      for (const k of ['x', 'y', 'u', 'v']) expect(l[k]).toHaveLength(l.count);
+    }
+    expect(lines[0].v.every((v: number) => v === 0)).toBe(true);
+    expect(lines[2].v.some((v: number) => v < 0)).toBe(true); // falling
+  });
+
+  it('rejects a bad scene with a non-zero exit and one line naming the field', () => {
+    const dir = mkdtempSync(join(tmpdir(), 'tidemark-sim-'));
+    const bad = join(dir, 'bad.json');
+    writeFileSync(bad, JSON.stringify({ version: 1, tank: { width: 1, height: 1, cellSize: 0.05 }, physics: { flipRatio: 2 } }));
+    const r = run(['--scene', bad, '--out', join(dir, 'o.jsonl')]);
+    expect(r.status).not.toBe(0);
+    expect(r.stderr.trim().split('\n')).toHaveLength(1);
+    expect(r.stderr).toMatch(/physics\.flipRatio/);
+  });
+});
