@@ -1,0 +1,172 @@
+// Turns parsed edit lists and shot lists into a plan against a show's existing shots: which shots would be created,
+// which change frame range (re-import of an updated edit), which stay as they are, and which lines have errors.
+import { CODE_PATTERN } from '../library/schemas';
+import { isPictureEvent, type EdlLineError, type ParsedEdl } from './cmx3600';
+import type { ParsedCsv } from './csv';
+
+export interface PlanOptions {
+  codeFrom: 'clip' | 'pattern';
+  /** e.g. "CNB_{n:03}0"; placeholders {n} (1, 2, 3… per shot), {event}, {reel}, {clip}; ":03" pads with zeros. */
+  pattern?: string;
+  /** Handles in frames, added before the cut in and after the cut out. */
+  handles: number;
+  /** Frame number of the first frame with handles (1001, common practice). The cut starts at startFrame + handles. */
+  startFrame: number;
+}
+
+export interface PlannedShot {
+  line: number;
+  code: string;
+  firstFrame: number;
+  lastFrame: number;
+  handles: number;
+  description: string | null;
+  /** Where it came from in the edit, when it came from one. */
+  source?: { event?: string; reel?: string; clipName?: string | null; recordIn: string; recordOut: string };
+}
+
+export interface ExistingShot {
+  id: number;
+  code: string;
+  firstFrame: number;
+  lastFrame: number;
+  handles: number;
+}
+
+export interface FrameRange {
+  first: number;
+  last: number;
+  handles: number;
+}
+
+export interface ImportPreview {
+  create: PlannedShot[];
+  update: { id: number; line: number; code: string; from: FrameRange; to: FrameRange }[];
+  unchanged: { id: number; line: number; code: string; firstFrame: number; lastFrame: number }[];
+  errors: EdlLineError[];
+}
+
+/** Strips a file extension and replaces characters a shot code may not hold with '_'. */
+export function codeFromClipName(clip: string): string {
+  const base = clip.trim().replace(/\.[A-Za-z0-9]{2,5}$/, '');
+  return base.replace(/[^A-Za-z0-9_.-]+/g, '_').replace(/^[^A-Za-z0-9]+/, '');
+}
+
+/** Fills a code pattern: "CNB_{n:03}0" with n = 2 → "CNB_0020". Unknown placeholders throw. */
+export function fillPattern(pattern: string, values: { n: number; event?: string; reel?: string; clip?: string | null }): string {
+  return pattern.replace(/\{(\w+)(?::(0?)(\d{1,2}))?\}/g, (_, name: string, zero: string, width: string) => {
+    let v: string;
+    if (name === 'n') v = String(values.n);
+    else if (name === 'event') v = values.event ? String(Number(values.event)) : '';
+    else if (name === 'reel') v = values.reel ?? '';
+    else if (name === 'clip') v = values.clip ? codeFromClipName(values.clip) : '';
+    else throw new Error(`unknown placeholder {${name}}: use {n}, {event}, {reel} or {clip}`);
+    return width ? v.padStart(Number(width), zero === '0' ? '0' : ' ') : v;
+  });
+}
+
+function rangeFromRecord(inFrame: number, outFrame: number, options: PlanOptions, handles: number) {
+  // Record out is exclusive in an edit list: the cut holds out − in frames.
+  const firstFrame = options.startFrame + handles;
+  return { firstFrame, lastFrame: firstFrame + (outFrame - inFrame) - 1 };
+}
+
+/** Plans one shot per picture event of an edit list. */
+export function planFromEdl(parsed: ParsedEdl, options: PlanOptions): { shots: PlannedShot[]; errors: EdlLineError[] } {
+  const shots: PlannedShot[] = [];
+  const errors: EdlLineError[] = [...parsed.errors];
+  let n = 0;
+  for (const ev of parsed.events) {
+    if (!isPictureEvent(ev)) continue;
+    n++;
+    let code: string;
+    if (options.codeFrom === 'pattern') {
+      try {
+        code = fillPattern(options.pattern ?? '', { n, event: ev.event, reel: ev.reel, clip: ev.clipName });
+      } catch (e) {
+        errors.push({ line: ev.line, message: (e as Error).message });
+        continue;
+      }
+    } else {
+      if (!ev.clipName) {
+        errors.push({ line: ev.line, message: `event ${ev.event} has no clip name (* FROM CLIP NAME:): give a code pattern instead` });
+        continue;
+      }
+      code = codeFromClipName(ev.clipName);
+    }
+    shots.push({
+      line: ev.line,
+      code,
+      ...rangeFromRecord(ev.recordInFrame, ev.recordOutFrame, options, options.handles),
+      handles: options.handles,
+      description: null,
+      source: { event: ev.event, reel: ev.reel, clipName: ev.clipName, recordIn: ev.recordIn, recordOut: ev.recordOut },
+    });
+  }
+  return { shots, errors };
+}
+
+/** Plans one shot per CSV row: frame rows keep their numbers; timecode rows are placed like edit events. */
+export function planFromCsv(parsed: ParsedCsv, options: PlanOptions): { shots: PlannedShot[]; errors: EdlLineError[] } {
+  const shots = parsed.rows.map((row): PlannedShot => {
+    const handles = row.handles ?? options.handles;
+    const range =
+      row.first !== undefined && row.last !== undefined
+        ? { firstFrame: row.first, lastFrame: row.last }
+        : rangeFromRecord(row.recordInFrame!, row.recordOutFrame!, options, handles);
+    return {
+      line: row.line,
+      code: row.code,
+      ...range,
+      handles,
+      description: row.description ?? null,
+      ...(row.recordIn ? { source: { recordIn: row.recordIn, recordOut: row.recordOut! } } : {}),
+    };
+  });
+  return { shots, errors: [...parsed.errors] };
+}
+
+/**
+ * Compares planned shots with the show's shots by code: new codes are created, known codes with another frame
+ * range or handles are updated, the rest are unchanged. Bad or repeated codes become errors on their line.
+ */
+export function previewImport(existing: ExistingShot[], planned: PlannedShot[], parseErrors: EdlLineError[] = [], maxCodeLength = 64): ImportPreview {
+  const byCode = new Map(existing.map((s) => [s.code.toLowerCase(), s]));
+  const seen = new Map<string, number>();
+  const result: ImportPreview = { create: [], update: [], unchanged: [], errors: [...parseErrors] };
+  for (const shot of planned) {
+    const key = shot.code.toLowerCase();
+    if (!shot.code || !CODE_PATTERN.test(shot.code) || shot.code.length > maxCodeLength) {
+      result.errors.push({
+        line: shot.line,
+        message: `"${shot.code}" is not a usable shot code (letters, digits, "_", "-", "."; ${maxCodeLength} characters at most)`,
+      });
+      continue;
+    }
+    if (seen.has(key)) {
+      result.errors.push({ line: shot.line, message: `code ${shot.code} is already used on line ${seen.get(key)}` });
+      continue;
+    }
+    seen.set(key, shot.line);
+    if (shot.lastFrame > 9_999_999) {
+      result.errors.push({ line: shot.line, message: `frame range ends past frame 9999999` });
+      continue;
+    }
+    const old = byCode.get(key);
+    if (!old) {
+      result.create.push(shot);
+    } else if (old.firstFrame !== shot.firstFrame || old.lastFrame !== shot.lastFrame || old.handles !== shot.handles) {
+      result.update.push({
+        id: old.id,
+        line: shot.line,
+        code: old.code,
+        from: { first: old.firstFrame, last: old.lastFrame, handles: old.handles },
+        to: { first: shot.firstFrame, last: shot.lastFrame, handles: shot.handles },
+      });
+    } else {
+      result.unchanged.push({ id: old.id, line: shot.line, code: old.code, firstFrame: old.firstFrame, lastFrame: old.lastFrame });
+    }
+  }
+  result.errors.sort((a, b) => a.line - b.line);
+  return result;
+}

@@ -1,0 +1,240 @@
+// Plates: the browser uploads straight to the object store with a presigned PUT; the server checks the declared size
+// first, then on completion the real size, the real type by magic bytes and a still's dimensions, and only then makes
+// it the shot's current plate (versions keep the plate they were blocked on). Also the plate's scale in metres.
+import { randomBytes } from 'node:crypto';
+import { and, eq } from 'drizzle-orm';
+import { fileTypeFromBuffer } from 'file-type';
+import { imageSize } from 'image-size';
+import { db } from './db';
+import { assets, shots } from './db/schema';
+import { HttpError } from './http';
+import type { StudioAccess } from './authz';
+import { audit } from './audit';
+import { deleteObject, getObject, headObject, presignGet, presignPut } from './storage';
+import { getShotRow } from './library';
+import { PLATE_LIMITS, STILL_TYPES, MB, type PlateUploadBody } from '../library/schemas';
+
+const UPLOAD_SECONDS = 900;
+const VIEW_SECONDS = 300;
+/** Bytes read from the start of an upload to check its type and a still's dimensions (JPEG headers can be long). */
+const HEADER_BYTES = 512 * 1024;
+
+const EXTENSION: Record<string, string> = {
+  'image/png': 'png',
+  'image/jpeg': 'jpg',
+  'image/webp': 'webp',
+  'video/mp4': 'mp4',
+  'video/quicktime': 'mov',
+  'video/webm': 'webm',
+};
+const NAMES: Record<string, string> = {
+  'image/png': 'PNG image',
+  'image/jpeg': 'JPEG image',
+  'image/webp': 'WebP image',
+  'video/mp4': 'MP4 video',
+  'video/quicktime': 'QuickTime video',
+  'video/webm': 'WebM video',
+};
+
+const isStill = (type: string) => (STILL_TYPES as readonly string[]).includes(type);
+
+/** The declared-size limit in bytes for an upload of this kind and type. */
+export function sizeLimit(kind: 'plate' | 'thumbnail', contentType: string): number {
+  if (kind === 'thumbnail') return PLATE_LIMITS.thumbnail;
+  return isStill(contentType) ? PLATE_LIMITS.still : PLATE_LIMITS.video;
+}
+
+function tooLarge(what: string, limit: number) {
+  return new HttpError('payload_too_large', `${what} is larger than the ${Math.round(limit / MB)} MB limit`, {
+    byteSize: `must be at most ${limit} bytes (${Math.round(limit / MB)} MB)`,
+  });
+}
+
+interface PendingMeta {
+  state: 'pending' | 'ready';
+  fileName: string;
+  declaredSize: number;
+  durationSeconds?: number;
+}
+
+/**
+ * Starts an upload: refuses an oversize declaration (413) before anything is stored or signed, records a pending
+ * asset and returns a presigned PUT URL for the browser (send the same Content-Type).
+ */
+export async function startPlateUpload(access: StudioAccess, shotId: number, body: PlateUploadBody) {
+  const shot = await getShotRow(access, shotId);
+  const limit = sizeLimit(body.kind, body.contentType);
+  if (body.byteSize > limit) throw tooLarge(body.kind === 'thumbnail' ? 'A thumbnail' : isStill(body.contentType) ? 'A still plate' : 'A video plate', limit);
+  const storageKey = `studios/${access.studioId}/shots/${shot.id}/${body.kind}s/${randomBytes(12).toString('hex')}.${EXTENSION[body.contentType]}`;
+  const meta: PendingMeta = { state: 'pending', fileName: body.fileName, declaredSize: body.byteSize };
+  const [res] = await db().insert(assets).values({
+    studioId: access.studioId,
+    kind: body.kind,
+    storageKey,
+    contentType: body.contentType,
+    byteSize: body.byteSize,
+    shotId: shot.id,
+    meta,
+    createdBy: access.userId,
+  });
+  const assetId = Number(res.insertId);
+  const uploadUrl = await presignPut(storageKey, body.contentType, UPLOAD_SECONDS);
+  await audit({ studioId: access.studioId, actorId: access.userId, action: `${body.kind}.upload_start`, targetType: 'asset', targetId: assetId, detail: { shotId, fileName: body.fileName, byteSize: body.byteSize } });
+  return {
+    assetId,
+    kind: body.kind,
+    upload: { url: uploadUrl, method: 'PUT' as const, headers: { 'content-type': body.contentType }, expiresInSeconds: UPLOAD_SECONDS },
+  };
+}
+
+async function assetRow(access: StudioAccess, assetId: number) {
+  const [row] = await db()
+    .select()
+    .from(assets)
+    .where(and(eq(assets.id, assetId), eq(assets.studioId, access.studioId)));
+  if (!row || (row.kind !== 'plate' && row.kind !== 'thumbnail') || !row.shotId) throw new HttpError('not_found', 'No such plate');
+  return row;
+}
+
+/** The same family: browsers and cameras label ISO media files loosely (.mov holding MP4, .m4v). */
+function sameFamily(declared: string, real: string): boolean {
+  if (declared === real) return true;
+  const iso = ['video/mp4', 'video/quicktime', 'video/x-m4v'];
+  return iso.includes(declared) && iso.includes(real);
+}
+
+/**
+ * Finishes an upload: checks that the object exists, its real size, its real type by magic bytes (a mismatch is
+ * refused with 422 and the object deleted) and a still's dimensions; then makes it the shot's current plate
+ * (or thumbnail). A video's width and height come from the browser's video element (`measured`).
+ */
+export async function completePlateUpload(
+  access: StudioAccess,
+  assetId: number,
+  measured: { width?: number; height?: number; durationSeconds?: number },
+) {
+  const asset = await assetRow(access, assetId);
+  const meta = (typeof asset.meta === 'string' ? JSON.parse(asset.meta) : asset.meta) as PendingMeta;
+  if (meta?.state !== 'pending') throw new HttpError('conflict', 'This upload is already complete');
+  await getShotRow(access, asset.shotId!);
+  const kind = asset.kind as 'plate' | 'thumbnail';
+  const head = await headObject(asset.storageKey);
+  if (!head) throw new HttpError('conflict', 'No file has arrived for this upload yet: PUT it to the upload URL first');
+
+  const refuse = async (err: HttpError) => {
+    await deleteObject(asset.storageKey).catch(() => undefined);
+    await db().delete(assets).where(eq(assets.id, asset.id));
+    await audit({ studioId: access.studioId, actorId: access.userId, action: `${kind}.refused`, targetType: 'asset', targetId: asset.id, detail: { reason: err.message } });
+    return err;
+  };
+
+  const limit = sizeLimit(kind, asset.contentType);
+  if (head.size > limit) throw await refuse(tooLarge(`"${meta.fileName}"`, limit));
+  if (head.size === 0) throw await refuse(new HttpError('unprocessable', `"${meta.fileName}" is empty`));
+
+  const bytes = await getObject(asset.storageKey, [0, Math.min(head.size, HEADER_BYTES) - 1]);
+  const detected = await fileTypeFromBuffer(bytes);
+  const declaredName = NAMES[asset.contentType] ?? asset.contentType;
+  if (!detected) {
+    throw await refuse(
+      new HttpError(
+        'unprocessable',
+        `"${meta.fileName}" is not a ${declaredName}: its content is not any image or video type Tidemark accepts (PNG, JPEG, WebP, MP4, QuickTime, WebM). Export the plate again in one of those.`,
+        { file: 'content does not match its type' },
+      ),
+    );
+  }
+  if (!sameFamily(asset.contentType, detected.mime)) {
+    throw await refuse(
+      new HttpError(
+        'unprocessable',
+        `"${meta.fileName}" was sent as a ${declaredName}, but its content is ${NAMES[detected.mime] ? `a ${NAMES[detected.mime]}` : `${detected.mime}`}. Send it with its real type, or export it again.`,
+        { file: 'content does not match its type' },
+      ),
+    );
+  }
+
+  let width: number | null = null;
+  let height: number | null = null;
+  if (isStill(asset.contentType)) {
+    try {
+      const size = imageSize(bytes);
+      width = size.width ?? null;
+      height = size.height ?? null;
+    } catch {
+      /* refused below */
+    }
+    if (!width || !height) {
+      throw await refuse(new HttpError('unprocessable', `Could not read the width and height of "${meta.fileName}": the image header is damaged`, { file: 'unreadable image header' }));
+    }
+  } else {
+    width = measured.width ?? null;
+    height = measured.height ?? null;
+  }
+
+  const ready: PendingMeta = { ...meta, state: 'ready', ...(measured.durationSeconds ? { durationSeconds: measured.durationSeconds } : {}) };
+  await db().transaction(async (tx) => {
+    await tx
+      .update(assets)
+      .set({ byteSize: head.size, width, height, format: detected.ext, meta: ready })
+      .where(eq(assets.id, asset.id));
+    const shotChange: Partial<typeof shots.$inferInsert> =
+      kind === 'plate' ? { plateAssetId: asset.id, ...(width && height ? { plateWidth: width, plateHeight: height } : {}) } : { thumbnailAssetId: asset.id };
+    await tx
+      .update(shots)
+      .set(shotChange)
+      .where(and(eq(shots.id, asset.shotId!), eq(shots.studioId, access.studioId)));
+  });
+  await audit({
+    studioId: access.studioId,
+    actorId: access.userId,
+    action: `${kind}.set`,
+    targetType: 'shot',
+    targetId: asset.shotId!,
+    detail: { assetId: asset.id, type: detected.mime, width, height, byteSize: head.size },
+  });
+  return { asset: { id: asset.id, kind, shotId: asset.shotId!, contentType: asset.contentType, format: detected.ext, byteSize: head.size, width, height } };
+}
+
+/** A short-lived URL to view a ready plate or thumbnail (old versions' plates too), with its description. */
+export async function plateViewUrl(access: StudioAccess, assetId: number) {
+  const asset = await assetRow(access, assetId);
+  await getShotRow(access, asset.shotId!); // clients: only plates of shows shared with them
+  const meta = (typeof asset.meta === 'string' ? JSON.parse(asset.meta) : asset.meta) as PendingMeta | null;
+  if (meta?.state !== 'ready') throw new HttpError('not_found', 'This plate has not finished uploading');
+  return {
+    asset: {
+      id: asset.id,
+      kind: asset.kind,
+      shotId: asset.shotId,
+      contentType: asset.contentType,
+      format: asset.format,
+      byteSize: asset.byteSize,
+      width: asset.width,
+      height: asset.height,
+      durationSeconds: meta.durationSeconds ?? null,
+      createdAt: asset.createdAt,
+    },
+    url: await presignGet(asset.storageKey, VIEW_SECONDS),
+    expiresInSeconds: VIEW_SECONDS,
+  };
+}
+
+/** Stores the plate's scale: metres per plate pixel from a drawn line of `pixels` length and its real `metres`. */
+export async function setShotScale(access: StudioAccess, shotId: number, line: { pixels: number; metres: number }) {
+  const shot = await getShotRow(access, shotId);
+  const metresPerPixel = line.metres / line.pixels;
+  await db()
+    .update(shots)
+    .set({ metresPerPixel })
+    .where(and(eq(shots.id, shot.id), eq(shots.studioId, access.studioId)));
+  await audit({
+    studioId: access.studioId,
+    actorId: access.userId,
+    action: 'shot.scale',
+    targetType: 'shot',
+    targetId: shotId,
+    detail: { from: shot.metresPerPixel, to: metresPerPixel, pixels: line.pixels, metres: line.metres, plateAssetId: shot.plateAssetId },
+  });
+  return { shotId, metresPerPixel, plateAssetId: shot.plateAssetId };
+}

@@ -1,0 +1,205 @@
+// Plates: presigned upload to the object store, size limits before the store, type by magic bytes after it,
+// dimensions from the header, replacing a plate without touching old versions, viewing URLs and the plate's scale.
+import { describe, it, expect, beforeAll, afterAll } from 'vitest';
+import { eq, sql } from 'drizzle-orm';
+import { makeStudio, unique, type TestStudio } from '../support/app';
+import { makePng } from './endpoints';
+import { db, closeDb } from '../../src/lib/server/db';
+import { assets, shots, shows, versions } from '../../src/lib/server/db/schema';
+import { headObject } from '../../src/lib/server/storage';
+
+let studio: TestStudio;
+let showId: number;
+beforeAll(async () => {
+  studio = await makeStudio();
+  const [res] = await db().insert(shows).values({ studioId: studio.id, code: unique('P').slice(0, 12), name: 'Plates', frameRate: '24' });
+  showId = Number(res.insertId);
+});
+afterAll(closeDb);
+
+const api = () => `/api/studios/${studio.id}`;
+const artist = () => studio.members.artist.client;
+const MB = 1024 * 1024;
+
+async function newShot() {
+  const [res] = await db().insert(shots).values({ studioId: studio.id, showId, code: unique('PL'), firstFrame: 1001, lastFrame: 1050 });
+  return Number(res.insertId);
+}
+const assetCount = async (shotId: number) => Number((await db().select({ n: sql<number>`count(*)` }).from(assets).where(eq(assets.shotId, shotId)))[0].n);
+
+/** Starts an upload, PUTs the bytes to the presigned URL, completes it; returns both answers. */
+async function upload(shotId: number, bytes: Uint8Array, declared: { fileName: string; contentType: string; kind?: string }, measured: Record<string, number> = {}) {
+  const start = await artist().post(`${api()}/shots/${shotId}/plates`, { ...declared, byteSize: bytes.length });
+  expect(start.status, JSON.stringify(start.body)).toBe(201);
+  const put = await fetch(start.body.upload.url, { method: 'PUT', body: Buffer.from(bytes), headers: start.body.upload.headers });
+  expect(put.status).toBe(200);
+  const complete = await artist().post(`${api()}/plates/${start.body.assetId}/complete`, measured);
+  return { start, complete };
+}
+
+/** A baseline JPEG header: SOI, JFIF APP0, SOF0 with the size, EOI (ITU-T T.81 marker layout, from memory). */
+function makeJpegHeader(width: number, height: number): Uint8Array {
+  return new Uint8Array([
+    0xff, 0xd8, 0xff, 0xe0, 0x00, 0x10, 0x4a, 0x46, 0x49, 0x46, 0x00, 0x01, 0x01, 0x00, 0x00, 0x01, 0x00, 0x01, 0x00, 0x00,
+    0xff, 0xc0, 0x00, 0x11, 0x08, height >> 8, height & 0xff, width >> 8, width & 0xff, 0x03, 0x01, 0x22, 0x00, 0x02, 0x11, 0x01, 0x03, 0x11, 0x01,
+    0xff, 0xd9,
+  ]);
+}
+
+/** The start of an MP4 file: an ftyp box with major brand isom (ISO/IEC 14496-12 box layout, from memory). */
+function makeMp4Header(): Uint8Array {
+  const b = Buffer.alloc(32);
+  b.writeUInt32BE(24, 0);
+  b.write('ftypisom', 4, 'ascii');
+  b.writeUInt32BE(0x200, 12);
+  b.write('isommp41', 16, 'ascii');
+  b.writeUInt32BE(8, 24);
+  b.write('free', 28, 'ascii');
+  return b;
+}
+
+describe('plate upload', () => {
+  it('uploads a PNG still: real dimensions from its header become the shot’s plate size', async () => {
+    const shotId = await newShot();
+    const { start, complete } = await upload(shotId, makePng(64, 27), { fileName: 'plate.png', contentType: 'image/png' });
+    expect(start.body.upload).toMatchObject({ method: 'PUT', headers: { 'content-type': 'image/png' } });
+    expect(complete.status, JSON.stringify(complete.body)).toBe(200);
+    expect(complete.body.asset).toMatchObject({ id: start.body.assetId, kind: 'plate', width: 64, height: 27, format: 'png' });
+    const [shot] = await db().select().from(shots).where(eq(shots.id, shotId));
+    expect([shot.plateAssetId, shot.plateWidth, shot.plateHeight]).toEqual([start.body.assetId, 64, 27]);
+
+    const view = await studio.members.supervisor.client.get(`${api()}/plates/${start.body.assetId}`);
+    expect(view.status).toBe(200);
+    const got = await fetch(view.body.url);
+    expect(got.status).toBe(200);
+    expect(Buffer.from(await got.arrayBuffer()).equals(Buffer.from(makePng(64, 27)))).toBe(true);
+    const again = await artist().post(`${api()}/plates/${start.body.assetId}/complete`, {});
+    expect(again.status).toBe(409);
+  });
+
+  it('reads a JPEG’s dimensions, and takes a video’s from the browser', async () => {
+    const shotId = await newShot();
+    const jpeg = await upload(shotId, makeJpegHeader(4096, 2160), { fileName: 'plate.jpg', contentType: 'image/jpeg' });
+    expect(jpeg.complete.status, JSON.stringify(jpeg.complete.body)).toBe(200);
+    expect(jpeg.complete.body.asset).toMatchObject({ width: 4096, height: 2160, format: 'jpg' });
+    const video = await upload(shotId, makeMp4Header(), { fileName: 'plate.mp4', contentType: 'video/mp4' }, { width: 1920, height: 800, durationSeconds: 2.5 });
+    expect(video.complete.status, JSON.stringify(video.complete.body)).toBe(200);
+    expect(video.complete.body.asset).toMatchObject({ width: 1920, height: 800, format: 'mp4' });
+    const view = await artist().get(`${api()}/plates/${video.start.body.assetId}`);
+    expect(view.body.asset).toMatchObject({ contentType: 'video/mp4', durationSeconds: 2.5 });
+  });
+
+  it('refuses a text file renamed .png with a clear message, and deletes it', async () => {
+    const shotId = await newShot();
+    const text = new TextEncoder().encode('These are my notes about the shot, not a picture.\n'.repeat(20));
+    const { start, complete } = await upload(shotId, text, { fileName: 'notes.png', contentType: 'image/png' });
+    expect(complete.status).toBe(422);
+    expect(complete.body.error.code).toBe('unprocessable');
+    expect(complete.body.error.message).toMatch(/"notes\.png" is not a PNG image/);
+    expect(complete.body.error.message).toMatch(/PNG, JPEG, WebP, MP4, QuickTime, WebM/);
+    const [row] = await db().select().from(assets).where(eq(assets.id, start.body.assetId));
+    expect(row).toBeUndefined();
+    const [shot] = await db().select().from(shots).where(eq(shots.id, shotId));
+    expect(shot.plateAssetId).toBeNull();
+    const key = new URL(start.body.upload.url).pathname.split('/').slice(2).join('/');
+    expect(await headObject(decodeURIComponent(key))).toBeNull();
+  });
+
+  it('refuses content of another type than declared (a JPEG sent as PNG)', async () => {
+    const shotId = await newShot();
+    const { complete } = await upload(shotId, makeJpegHeader(10, 10), { fileName: 'frame.png', contentType: 'image/png' });
+    expect(complete.status).toBe(422);
+    expect(complete.body.error.message).toMatch(/sent as a PNG image, but its content is a JPEG image/);
+  });
+
+  it('refuses an oversize declaration with 413 before anything is signed or recorded', async () => {
+    const shotId = await newShot();
+    const still = await artist().post(`${api()}/shots/${shotId}/plates`, { fileName: 'huge.png', contentType: 'image/png', byteSize: 40 * MB + 1 });
+    expect(still.status).toBe(413);
+    expect(still.body.error.fields.byteSize).toMatch(/at most 41943040 bytes/);
+    expect(still.body.upload).toBeUndefined();
+    const video = await artist().post(`${api()}/shots/${shotId}/plates`, { fileName: 'long.mov', contentType: 'video/quicktime', byteSize: 500 * MB + 1 });
+    expect(video.status).toBe(413);
+    expect(await assetCount(shotId)).toBe(0);
+    // At the limits themselves the upload may start (stills 40 MB, video 500 MB).
+    expect((await artist().post(`${api()}/shots/${shotId}/plates`, { fileName: 'ok.png', contentType: 'image/png', byteSize: 40 * MB })).status).toBe(201);
+    expect((await artist().post(`${api()}/shots/${shotId}/plates`, { fileName: 'ok.mov', contentType: 'video/quicktime', byteSize: 500 * MB })).status).toBe(201);
+  });
+
+  it('checks the real size on completion: a thumbnail larger than declared and its limit is refused and deleted', async () => {
+    const shotId = await newShot();
+    const start = await artist().post(`${api()}/shots/${shotId}/plates`, { fileName: 'thumb.png', contentType: 'image/png', byteSize: 1000, kind: 'thumbnail' });
+    expect(start.status).toBe(201);
+    const big = Buffer.concat([Buffer.from(makePng(4, 4)), Buffer.alloc(3 * MB)]);
+    await fetch(start.body.upload.url, { method: 'PUT', body: big, headers: start.body.upload.headers });
+    const complete = await artist().post(`${api()}/plates/${start.body.assetId}/complete`, {});
+    expect(complete.status).toBe(413);
+    expect(await assetCount(shotId)).toBe(0);
+  });
+
+  it('refuses bad declarations naming the field, and a completion before the file arrived', async () => {
+    const shotId = await newShot();
+    const bad = await artist().post(`${api()}/shots/${shotId}/plates`, { fileName: '', contentType: 'text/plain', byteSize: -5 });
+    expect(bad.status).toBe(400);
+    expect(Object.keys(bad.body.error.fields).sort()).toEqual(['byteSize', 'contentType', 'fileName']);
+    const thumbVideo = await artist().post(`${api()}/shots/${shotId}/plates`, { fileName: 't.mp4', contentType: 'video/mp4', byteSize: 10, kind: 'thumbnail' });
+    expect(thumbVideo.status).toBe(400);
+    expect(thumbVideo.body.error.fields.contentType).toMatch(/thumbnail/);
+    const start = await artist().post(`${api()}/shots/${shotId}/plates`, { fileName: 'p.png', contentType: 'image/png', byteSize: 100 });
+    const early = await artist().post(`${api()}/plates/${start.body.assetId}/complete`, {});
+    expect(early.status).toBe(409);
+    expect(early.body.error.message).toMatch(/PUT it/);
+    const pendingView = await artist().get(`${api()}/plates/${start.body.assetId}`);
+    expect(pendingView.status).toBe(404);
+  });
+
+  it('replaces a plate; a version keeps the plate it was blocked on; a thumbnail is set separately', async () => {
+    const shotId = await newShot();
+    const first = await upload(shotId, makePng(32, 18), { fileName: 'v1.png', contentType: 'image/png' });
+    const oldPlate = first.start.body.assetId;
+    const [v] = await db().insert(versions).values({ studioId: studio.id, shotId, number: 1, scene: {}, sceneHash: 'p', plateAssetId: oldPlate });
+    const second = await upload(shotId, makePng(48, 20), { fileName: 'v2.png', contentType: 'image/png' });
+    expect(second.complete.status).toBe(200);
+    const thumb = await upload(shotId, makePng(8, 4), { fileName: 'thumb.png', contentType: 'image/png', kind: 'thumbnail' });
+    expect(thumb.complete.status).toBe(200);
+    const [shot] = await db().select().from(shots).where(eq(shots.id, shotId));
+    expect([shot.plateAssetId, shot.plateWidth, shot.plateHeight, shot.thumbnailAssetId]).toEqual([second.start.body.assetId, 48, 20, thumb.start.body.assetId]);
+    const [version] = await db().select().from(versions).where(eq(versions.id, Number(v.insertId)));
+    expect(version.plateAssetId).toBe(oldPlate);
+    // The old plate can still be viewed (the player shows old versions on their plate).
+    expect((await artist().get(`${api()}/plates/${oldPlate}`)).status).toBe(200);
+    const got = await artist().get(`${api()}/shots/${shotId}`);
+    expect(got.body.shot.plate).toMatchObject({ id: second.start.body.assetId, width: 48 });
+    expect(got.body.shot.thumbnail).toMatchObject({ id: thumb.start.body.assetId });
+  });
+
+  it('a client cannot view plates of shows not shared with clients; another studio gets 404', async () => {
+    const shotId = await newShot();
+    const { start } = await upload(shotId, makePng(8, 8), { fileName: 'c.png', contentType: 'image/png' });
+    expect((await studio.members.client.client.get(`${api()}/plates/${start.body.assetId}`)).status).toBe(404);
+    const other = await makeStudio();
+    expect((await other.members.owner.client.get(`/api/studios/${other.id}/plates/${start.body.assetId}`)).status).toBe(404);
+    expect((await other.members.owner.client.post(`/api/studios/${other.id}/plates/${start.body.assetId}/complete`, {})).status).toBe(404);
+  });
+});
+
+describe('plate scale', () => {
+  it('stores metres per pixel from a line of known length', async () => {
+    const shotId = await newShot();
+    const res = await artist().post(`${api()}/shots/${shotId}/scale`, { pixels: 400, metres: 2 });
+    expect(res.status).toBe(200);
+    // 2 m over 400 px = 0.005 m per pixel
+    expect(res.body.scale.metresPerPixel).toBeCloseTo(0.005, 12);
+    const [shot] = await db().select().from(shots).where(eq(shots.id, shotId));
+    expect(shot.metresPerPixel).toBeCloseTo(0.005, 12);
+  });
+
+  it('refuses a zero or negative length naming the field, changing nothing', async () => {
+    const shotId = await newShot();
+    const res = await artist().post(`${api()}/shots/${shotId}/scale`, { pixels: 0, metres: -1 });
+    expect(res.status).toBe(400);
+    expect(Object.keys(res.body.error.fields).sort()).toEqual(['metres', 'pixels']);
+    const [shot] = await db().select().from(shots).where(eq(shots.id, shotId));
+    expect(shot.metresPerPixel).toBeNull();
+  });
+});
