@@ -5,10 +5,12 @@ import { lucia } from './lib/server/auth';
 import { db } from './lib/server/db';
 import { users } from './lib/server/db/schema';
 import { errorResponse, HttpError } from './lib/server/http';
+import { ensureServerBakePool } from './lib/bake/pool';
 
 const ACTIVE_EVERY_MS = 5 * 60_000;
 
 export const onRequest = defineMiddleware(async (ctx, next) => {
+  ensureServerBakePool();
   ctx.locals.user = null;
   ctx.locals.session = null;
   const path = ctx.url.pathname;

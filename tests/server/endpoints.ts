@@ -4,7 +4,9 @@ import type { Role } from '../../src/lib/vocab';
 import type { TestStudio } from '../support/app';
 import { makeUser, membershipId, unique } from '../support/app';
 import { db } from '../../src/lib/server/db';
-import { invitations, memberships } from '../../src/lib/server/db/schema';
+import { assets, invitations, memberships, shots, shows, versions } from '../../src/lib/server/db/schema';
+import { sceneHash, parseScene } from '../../src/lib/scene';
+import { tinyScene } from '../support/scenes';
 import { hashToken } from '../../src/lib/server/tokens';
 
 export type Access = 'public' | 'signed-in' | Role;
@@ -30,6 +32,40 @@ async function openInvitation(s: TestStudio) {
     .insert(invitations)
     .values({ studioId: s.id, email: `${unique('inv')}@test.example`, role: 'artist', tokenHash: hashToken(unique('t')), expiresAt: new Date(Date.now() + 3600_000) });
   return Number(res.insertId);
+}
+
+/** Makes a show and a shot in the studio directly in the database. */
+export async function makeShot(s: TestStudio) {
+  const [show] = await db().insert(shows).values({ studioId: s.id, code: unique('SH').slice(0, 30), name: 'Test show' });
+  const [shot] = await db()
+    .insert(shots)
+    .values({ studioId: s.id, showId: Number(show.insertId), code: unique('SHOT'), firstFrame: 1001, lastFrame: 1010 });
+  return Number(shot.insertId);
+}
+
+/** Makes a version of a new shot; `baked` gives it a clip asset and shares it with clients. */
+export async function makeVersion(s: TestStudio, opts: { baked?: boolean; shared?: boolean } = {}) {
+  const shotId = await makeShot(s);
+  const parsed = parseScene(tinyScene());
+  if (!parsed.ok) throw new Error('tiny scene is invalid');
+  let clipAssetId: number | null = null;
+  if (opts.baked) {
+    const [a] = await db().insert(assets).values({ studioId: s.id, kind: 'clip', storageKey: `test/${unique('clip')}`, contentType: 'application/x-tidemark-clip' });
+    clipAssetId = Number(a.insertId);
+  }
+  const [v] = await db()
+    .insert(versions)
+    .values({
+      studioId: s.id,
+      shotId,
+      number: 1,
+      scene: parsed.scene,
+      sceneHash: sceneHash(parsed.scene),
+      bakeState: opts.baked ? 'baked' : 'none',
+      clipAssetId,
+      sharedWithClient: opts.shared ?? opts.baked ?? false,
+    });
+  return { shotId, versionId: Number(v.insertId) };
 }
 
 export const ENDPOINTS: EndpointCase[] = [
@@ -68,4 +104,206 @@ export const ENDPOINTS: EndpointCase[] = [
     access: 'owner',
     path: async (s) => `/api/studios/${s.id}/invitations/${await openInvitation(s)}`,
   },
+  {
+    method: 'POST',
+    route: '/api/shots/[shotId]/versions',
+    access: 'artist',
+    path: async (s) => `/api/shots/${await makeShot(s)}/versions`,
+    body: () => ({ scene: tinyScene(), comment: 'matrix' }),
+  },
+  { method: 'GET', route: '/api/shots/[shotId]/versions', access: 'client', path: async (s) => `/api/shots/${(await makeVersion(s, { baked: true })).shotId}/versions` },
+  { method: 'GET', route: '/api/versions/[versionId]', access: 'client', path: async (s) => `/api/versions/${(await makeVersion(s, { baked: true })).versionId}` },
+  { method: 'POST', route: '/api/versions/[versionId]/bake', access: 'artist', path: async (s) => `/api/versions/${(await makeVersion(s)).versionId}/bake` },
+  { method: 'GET', route: '/api/versions/[versionId]/bake', access: 'artist', path: async (s) => `/api/versions/${(await makeVersion(s)).versionId}/bake` },
+  {
+    method: 'POST',
+    route: '/api/versions/[versionId]/bake/cancel',
+    access: 'artist',
+    path: async (s) => {
+      const { versionId } = await makeVersion(s);
+      // A queued job far in the future so no worker takes it before the call.
+      const { bakeJobs } = await import('../../src/lib/server/db/schema');
+      await db().insert(bakeJobs).values({ studioId: s.id, versionId, sceneHash: 'x', framesTotal: 10, leaseExpiresAt: new Date(Date.now() + 3600_000) });
+      return `/api/versions/${versionId}/bake/cancel`;
+    },
+  },
+  { method: 'GET', route: '/api/versions/[versionId]/clip', access: 'client', path: async (s) => `/api/versions/${(await makeVersion(s, { baked: true })).versionId}/clip` },
 ];
+
+// ── Shot library, plates, people ─────────────────────────────────────────────────────────────────────────────────
+// Rows are made per call. A client may read only shows with a version shared with clients, so the rows the read
+// endpoints use are "shared". Bodies that need an id made by path() read it from `made` (path runs first).
+import { deflateSync } from 'node:zlib';
+import * as tables from '../../src/lib/server/db/schema';
+import { putObject } from '../../src/lib/server/storage';
+
+const made = new Map<number, { showId?: number; shotId?: number }>();
+
+/** A show (shared with clients when asked: it gets a shot with a version shared with clients). */
+export async function libraryShow(s: TestStudio, shared = true): Promise<number> {
+  const [res] = await db().insert(tables.shows).values({ studioId: s.id, code: unique('SH').slice(0, 32), name: 'Matrix show', frameRate: '24' });
+  const showId = Number(res.insertId);
+  if (shared) {
+    const shotId = await libraryShot(s, showId);
+    await db().insert(tables.versions).values({ studioId: s.id, shotId, number: 1, scene: {}, sceneHash: 'matrix', sharedWithClient: true, reviewState: 'submitted' });
+  }
+  made.set(s.id, { ...made.get(s.id), showId });
+  return showId;
+}
+
+/** A shot in the given show (or in a new shared show). */
+export async function libraryShot(s: TestStudio, showId?: number): Promise<number> {
+  const show = showId ?? (await libraryShow(s));
+  const [res] = await db().insert(tables.shots).values({ studioId: s.id, showId: show, code: unique('S'), firstFrame: 1001, lastFrame: 1050 });
+  const shotId = Number(res.insertId);
+  made.set(s.id, { ...made.get(s.id), shotId });
+  return shotId;
+}
+
+/** A valid RGB PNG of the given size (signature, IHDR, IDAT, IEND; PNG specification, W3C 2003). */
+export function makePng(width: number, height: number): Uint8Array {
+  const crcTable = Array.from({ length: 256 }, (_, n) => {
+    let c = n;
+    for (let k = 0; k < 8; k++) c = c & 1 ? 0xedb88320 ^ (c >>> 1) : c >>> 1;
+    return c >>> 0;
+  });
+  const crc32 = (bytes: Uint8Array) => {
+    let c = 0xffffffff;
+    for (const b of bytes) c = crcTable[(c ^ b) & 0xff] ^ (c >>> 8);
+    return (c ^ 0xffffffff) >>> 0;
+  };
+  const chunk = (type: string, data: Uint8Array) => {
+    const out = Buffer.alloc(12 + data.length);
+    out.writeUInt32BE(data.length, 0);
+    out.write(type, 4, 'ascii');
+    Buffer.from(data).copy(out, 8);
+    out.writeUInt32BE(crc32(out.subarray(4, 8 + data.length)), 8 + data.length);
+    return out;
+  };
+  const ihdr = Buffer.alloc(13);
+  ihdr.writeUInt32BE(width, 0);
+  ihdr.writeUInt32BE(height, 4);
+  ihdr[8] = 8; // bit depth
+  ihdr[9] = 2; // RGB
+  const raw = Buffer.alloc((width * 3 + 1) * height, 0x40);
+  for (let y = 0; y < height; y++) raw[y * (width * 3 + 1)] = 0; // filter type 0 per row
+  return Buffer.concat([Buffer.from([0x89, 0x50, 0x4e, 0x47, 0x0d, 0x0a, 0x1a, 0x0a]), chunk('IHDR', ihdr), chunk('IDAT', deflateSync(raw)), chunk('IEND', new Uint8Array(0))]);
+}
+
+/** A plate asset on a shot of a shared show: 'ready' (viewable) or 'pending' with a PNG already in the store. */
+export async function plateAsset(s: TestStudio, state: 'ready' | 'pending'): Promise<number> {
+  const shotId = await libraryShot(s);
+  const storageKey = `studios/${s.id}/shots/${shotId}/plates/${unique('matrix')}.png`;
+  if (state === 'pending') await putObject(storageKey, makePng(8, 4), 'image/png');
+  const [res] = await db()
+    .insert(tables.assets)
+    .values({ studioId: s.id, kind: 'plate', storageKey, contentType: 'image/png', byteSize: 100, shotId, meta: { state, fileName: 'matrix.png', declaredSize: 100 } });
+  return Number(res.insertId);
+}
+
+const lib = (s: TestStudio) => `/api/studios/${s.id}`;
+
+ENDPOINTS.push(
+  { method: 'GET', route: '/api/studios/[studioId]/people', access: 'artist', path: (s) => `${lib(s)}/people` },
+  { method: 'GET', route: '/api/studios/[studioId]/shows', access: 'client', path: (s) => `${lib(s)}/shows?sort=shots&order=desc` },
+  {
+    method: 'POST',
+    route: '/api/studios/[studioId]/shows',
+    access: 'supervisor',
+    path: (s) => `${lib(s)}/shows`,
+    body: () => ({ code: unique('M'), name: 'Matrix', frameRate: '25' }),
+  },
+  { method: 'GET', route: '/api/studios/[studioId]/shows/[showId]', access: 'client', path: async (s) => `${lib(s)}/shows/${await libraryShow(s)}` },
+  {
+    method: 'PATCH',
+    route: '/api/studios/[studioId]/shows/[showId]',
+    access: 'supervisor',
+    path: async (s) => `${lib(s)}/shows/${await libraryShow(s, false)}`,
+    body: () => ({ name: 'Renamed' }),
+  },
+  {
+    method: 'POST',
+    route: '/api/studios/[studioId]/shows/[showId]/archive',
+    access: 'supervisor',
+    path: async (s) => `${lib(s)}/shows/${await libraryShow(s, false)}/archive`,
+    body: () => ({ archived: true }),
+  },
+  {
+    method: 'POST',
+    route: '/api/studios/[studioId]/shows/[showId]/import/preview',
+    access: 'supervisor',
+    path: async (s) => `${lib(s)}/shows/${await libraryShow(s, false)}/import/preview`,
+    body: () => ({ format: 'csv', text: 'code,first,last\nM_010,1001,1010\n' }),
+  },
+  {
+    method: 'POST',
+    route: '/api/studios/[studioId]/shows/[showId]/import/confirm',
+    access: 'supervisor',
+    path: async (s) => `${lib(s)}/shows/${await libraryShow(s, false)}/import/confirm`,
+    body: () => ({ format: 'csv', text: 'code,first,last\nM_010,1001,1010\n' }),
+  },
+  { method: 'GET', route: '/api/studios/[studioId]/shots', access: 'client', path: (s) => `${lib(s)}/shots?sort=status` },
+  {
+    method: 'POST',
+    route: '/api/studios/[studioId]/shots',
+    access: 'supervisor',
+    path: async (s) => {
+      await libraryShow(s, false);
+      return `${lib(s)}/shots`;
+    },
+    body: (s) => ({ showId: made.get(s.id)?.showId, code: unique('M'), lastFrame: 1100 }),
+  },
+  {
+    method: 'POST',
+    route: '/api/studios/[studioId]/shots/bulk-status',
+    access: 'supervisor',
+    path: async (s) => {
+      await libraryShot(s);
+      return `${lib(s)}/shots/bulk-status`;
+    },
+    body: (s) => ({ ids: [made.get(s.id)?.shotId], status: 'on hold' }),
+  },
+  { method: 'GET', route: '/api/studios/[studioId]/shots/[shotId]', access: 'client', path: async (s) => `${lib(s)}/shots/${await libraryShot(s)}` },
+  {
+    method: 'PATCH',
+    route: '/api/studios/[studioId]/shots/[shotId]',
+    access: 'supervisor',
+    path: async (s) => `${lib(s)}/shots/${await libraryShot(s)}`,
+    body: () => ({ description: 'changed', lastFrame: 1060 }),
+  },
+  {
+    method: 'PATCH',
+    route: '/api/studios/[studioId]/shots/[shotId]/workflow',
+    access: 'artist',
+    path: async (s) => `${lib(s)}/shots/${await libraryShot(s)}/workflow`,
+    body: () => ({ status: 'in review' }),
+  },
+  {
+    method: 'POST',
+    route: '/api/studios/[studioId]/shots/[shotId]/archive',
+    access: 'supervisor',
+    path: async (s) => `${lib(s)}/shots/${await libraryShot(s)}/archive`,
+    body: () => ({ archived: true }),
+  },
+  {
+    method: 'POST',
+    route: '/api/studios/[studioId]/shots/[shotId]/plates',
+    access: 'artist',
+    path: async (s) => `${lib(s)}/shots/${await libraryShot(s)}/plates`,
+    body: () => ({ fileName: 'plate.png', contentType: 'image/png', byteSize: 2048 }),
+  },
+  {
+    method: 'POST',
+    route: '/api/studios/[studioId]/shots/[shotId]/scale',
+    access: 'artist',
+    path: async (s) => `${lib(s)}/shots/${await libraryShot(s)}/scale`,
+    body: () => ({ pixels: 400, metres: 2 }),
+  },
+  { method: 'GET', route: '/api/studios/[studioId]/plates/[assetId]', access: 'client', path: async (s) => `${lib(s)}/plates/${await plateAsset(s, 'ready')}` },
+  {
+    method: 'POST',
+    route: '/api/studios/[studioId]/plates/[assetId]/complete',
+    access: 'artist',
+    path: async (s) => `${lib(s)}/plates/${await plateAsset(s, 'pending')}/complete`,
+  },
+);

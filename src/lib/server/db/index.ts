@@ -12,7 +12,9 @@ let handle: Db | undefined;
 /** Returns the shared drizzle handle ('planetscale' mode: the session adapter needs it; no LATERAL joins). */
 export function db(): Db {
   if (!handle) {
-    pool = createPool({ uri: config.databaseUrl, connectionLimit: 10, timezone: 'Z', dateStrings: false });
+    pool = createPool({ uri: config.databaseUrl, connectionLimit: 10, timezone: 'Z' });
+    // Dates are UTC everywhere: drizzle writes them as UTC, and NOW() must agree for lease arithmetic.
+    pool.on('connection', (conn) => conn.query("SET time_zone = '+00:00'"));
     handle = drizzle(pool, { schema, mode: 'planetscale' });
   }
   return handle;

@@ -1,0 +1,292 @@
+// The bake queue, kept in MariaDB so any number of app servers and bake machines can share it.
+// Workers claim jobs with SELECT … FOR UPDATE SKIP LOCKED and hold a lease they renew; a lease that runs out
+// puts the job back in the queue. For a queued job, lease_expires_at means "not before" (retry back-off).
+import { and, desc, eq, inArray, sql } from 'drizzle-orm';
+import { db } from '../server/db';
+import { assets, bakeJobs, versions } from '../server/db/schema';
+import { audit } from '../server/audit';
+import { HttpError } from '../server/http';
+import { SOLVER_BUILD } from './build';
+
+export interface QueueSettings {
+  /** How long a claim lasts without renewal, ms. */
+  leaseMs: number;
+  /** Attempts before a job fails for good. */
+  maxAttempts: number;
+  /** Wait before a failed attempt is retried, ms. */
+  retryDelayMs: number;
+}
+
+export function queueSettings(): QueueSettings {
+  return {
+    leaseMs: Number(process.env.BAKE_LEASE_MS ?? 20_000),
+    maxAttempts: Number(process.env.BAKE_MAX_ATTEMPTS ?? 3),
+    retryDelayMs: Number(process.env.BAKE_RETRY_DELAY_MS ?? 5_000),
+  };
+}
+
+const inMs = (ms: number) => sql`DATE_ADD(NOW(3), INTERVAL ${Math.round(ms * 1000)} MICROSECOND)`;
+
+export interface ClaimedJob {
+  jobId: number;
+  versionId: number;
+  studioId: number;
+  sceneHash: string;
+  attempt: number;
+  scene: unknown;
+}
+
+/**
+ * Enqueues a bake of the version, or answers with what already exists: the running job, or a stored clip of
+ * an identical scene in the same studio (reused, no bake). Freezes the version's scene.
+ */
+export async function enqueueBake(versionId: number, studioId: number, actorId: string) {
+  const settings = queueSettings();
+  const result = await db().transaction(async (tx) => {
+    const [v] = await tx
+      .select()
+      .from(versions)
+      .where(and(eq(versions.id, versionId), eq(versions.studioId, studioId)))
+      .for('update');
+    if (!v) throw new HttpError('not_found', 'No such version');
+    if (v.bakeState === 'queued' || v.bakeState === 'baking') {
+      const [job] = await tx.select().from(bakeJobs).where(eq(bakeJobs.versionId, versionId)).orderBy(desc(bakeJobs.id)).limit(1);
+      return { kind: 'running' as const, jobId: job?.id ?? null };
+    }
+    if (v.bakeState === 'baked' && v.clipAssetId) return { kind: 'baked' as const, jobId: null };
+    // An identical scene baked by the same solver build in this studio: point at its clip.
+    const [same] = await tx
+      .select({ clipAssetId: versions.clipAssetId, meta: assets.meta })
+      .from(versions)
+      .innerJoin(assets, eq(assets.id, versions.clipAssetId))
+      .where(and(eq(versions.studioId, studioId), eq(versions.sceneHash, v.sceneHash), eq(versions.bakeState, 'baked')))
+      .limit(5);
+    const reusable = same && (same.meta as { solverBuild?: string } | null)?.solverBuild === SOLVER_BUILD ? same : null;
+    if (reusable) {
+      await tx
+        .update(versions)
+        .set({ bakeState: 'baked', clipAssetId: reusable.clipAssetId, frozenAt: v.frozenAt ?? new Date() })
+        .where(eq(versions.id, versionId));
+      return { kind: 'reused' as const, jobId: null };
+    }
+    const scene = v.scene as { timing?: { startFrame?: number; endFrame?: number } };
+    const framesTotal = (scene.timing?.endFrame ?? 0) - (scene.timing?.startFrame ?? 0) + 1;
+    const [res] = await tx.insert(bakeJobs).values({
+      studioId,
+      versionId,
+      sceneHash: v.sceneHash,
+      maxAttempts: settings.maxAttempts,
+      framesTotal,
+      requestedBy: actorId,
+    });
+    await tx
+      .update(versions)
+      .set({ bakeState: 'queued', frozenAt: v.frozenAt ?? new Date() })
+      .where(eq(versions.id, versionId));
+    return { kind: 'queued' as const, jobId: Number(res.insertId) };
+  });
+  await audit({ studioId, actorId, action: `bake.${result.kind === 'queued' ? 'enqueue' : result.kind}`, targetType: 'version', targetId: versionId });
+  return result;
+}
+
+/** Claims the oldest job that is queued (and due) or whose lease ran out; null when there is none. */
+export async function claimNext(workerId: string): Promise<ClaimedJob | null> {
+  const { leaseMs, maxAttempts } = queueSettings();
+  for (;;) {
+    const outcome = await db().transaction(async (tx) => {
+      const [job] = await tx
+        .select()
+        .from(bakeJobs)
+        .where(
+          sql`(${bakeJobs.state} = 'queued' AND (${bakeJobs.leaseExpiresAt} IS NULL OR ${bakeJobs.leaseExpiresAt} <= NOW(3)))
+              OR (${bakeJobs.state} = 'running' AND ${bakeJobs.leaseExpiresAt} < NOW(3))`,
+        )
+        .orderBy(bakeJobs.id)
+        .limit(1)
+        .for('update', { skipLocked: true });
+      if (!job) return null;
+      if (job.state === 'running' && job.cancelRequested) {
+        await finishJob(tx, job.id, job.versionId, 'cancelled', null);
+        return 'skip' as const;
+      }
+      if (job.attempts >= Math.min(job.maxAttempts, maxAttempts)) {
+        const error = job.error ?? `the bake worker stopped responding ${job.attempts} times`;
+        await finishJob(tx, job.id, job.versionId, 'failed', `Bake failed after ${job.attempts} attempts: ${error}`);
+        return 'skip' as const;
+      }
+      await tx
+        .update(bakeJobs)
+        .set({
+          state: 'running',
+          attempts: job.attempts + 1,
+          leaseOwner: workerId,
+          leaseExpiresAt: inMs(leaseMs) as unknown as Date,
+          startedAt: sql`NOW(3)` as unknown as Date,
+          framesDone: 0,
+        })
+        .where(eq(bakeJobs.id, job.id));
+      await tx.update(versions).set({ bakeState: 'baking' }).where(eq(versions.id, job.versionId));
+      const [v] = await tx.select({ scene: versions.scene }).from(versions).where(eq(versions.id, job.versionId));
+      return {
+        jobId: job.id,
+        versionId: job.versionId,
+        studioId: job.studioId,
+        sceneHash: job.sceneHash,
+        attempt: job.attempts + 1,
+        scene: v?.scene,
+      } satisfies ClaimedJob;
+    });
+    if (outcome === 'skip') continue;
+    if (outcome) {
+      await audit({ studioId: outcome.studioId, actorId: null, action: 'bake.claim', targetType: 'bake_job', targetId: outcome.jobId, detail: { workerId, attempt: outcome.attempt } });
+    }
+    return outcome;
+  }
+}
+
+type Tx = Parameters<Parameters<ReturnType<typeof db>['transaction']>[0]>[0];
+
+async function finishJob(tx: Tx, jobId: number, versionId: number, state: 'failed' | 'cancelled', error: string | null) {
+  await tx
+    .update(bakeJobs)
+    .set({ state, error, leaseOwner: null, leaseExpiresAt: null, finishedAt: sql`NOW(3)` as unknown as Date })
+    .where(eq(bakeJobs.id, jobId));
+  await tx.update(versions).set({ bakeState: state }).where(eq(versions.id, versionId));
+}
+
+/** Renews the lease and records progress. Returns 'lost' when another worker owns the job now. */
+export async function renewLease(jobId: number, workerId: string, framesDone: number): Promise<'ok' | 'lost' | 'cancel'> {
+  const { leaseMs } = queueSettings();
+  const [res] = await db()
+    .update(bakeJobs)
+    .set({ leaseExpiresAt: inMs(leaseMs) as unknown as Date, framesDone })
+    .where(and(eq(bakeJobs.id, jobId), eq(bakeJobs.leaseOwner, workerId), eq(bakeJobs.state, 'running')));
+  if (res.affectedRows !== 1) return 'lost';
+  const [row] = await db().select({ cancel: bakeJobs.cancelRequested }).from(bakeJobs).where(eq(bakeJobs.id, jobId));
+  return row?.cancel ? 'cancel' : 'ok';
+}
+
+/** Records the baked clip and marks the job done — only if this worker still holds the lease. */
+export async function completeJob(
+  job: ClaimedJob,
+  workerId: string,
+  clip: { key: string; bytes: number; meta: Record<string, unknown> },
+  stats: { key: string; bytes: number },
+): Promise<boolean> {
+  return db().transaction(async (tx) => {
+    const [row] = await tx.select().from(bakeJobs).where(eq(bakeJobs.id, job.jobId)).for('update');
+    if (!row || row.state !== 'running' || row.leaseOwner !== workerId) return false;
+    if (row.cancelRequested) {
+      await finishJob(tx, row.id, row.versionId, 'cancelled', null);
+      return false;
+    }
+    const [clipRes] = await tx.insert(assets).values({
+      studioId: job.studioId,
+      kind: 'clip',
+      storageKey: clip.key,
+      contentType: 'application/x-tidemark-clip',
+      byteSize: clip.bytes,
+      versionId: job.versionId,
+      meta: { ...clip.meta, statsKey: stats.key, statsBytes: stats.bytes },
+    });
+    await tx
+      .update(bakeJobs)
+      .set({ state: 'done', framesDone: row.framesTotal, error: null, leaseOwner: null, leaseExpiresAt: null, finishedAt: sql`NOW(3)` as unknown as Date })
+      .where(eq(bakeJobs.id, row.id));
+    await tx.update(versions).set({ bakeState: 'baked', clipAssetId: Number(clipRes.insertId) }).where(eq(versions.id, row.versionId));
+    return true;
+  });
+}
+
+/** Records a failed attempt: back in the queue after a delay while attempts remain, else failed for good. */
+export async function failAttempt(job: ClaimedJob, workerId: string, error: string, retryable: boolean): Promise<'retry' | 'failed' | 'lost'> {
+  const { retryDelayMs } = queueSettings();
+  return db().transaction(async (tx) => {
+    const [row] = await tx.select().from(bakeJobs).where(eq(bakeJobs.id, job.jobId)).for('update');
+    if (!row || row.state !== 'running' || row.leaseOwner !== workerId) return 'lost';
+    if (retryable && row.attempts < row.maxAttempts && !row.cancelRequested) {
+      await tx
+        .update(bakeJobs)
+        .set({ state: 'queued', error, leaseOwner: null, leaseExpiresAt: inMs(retryDelayMs) as unknown as Date })
+        .where(eq(bakeJobs.id, row.id));
+      await tx.update(versions).set({ bakeState: 'queued' }).where(eq(versions.id, row.versionId));
+      return 'retry';
+    }
+    await finishJob(tx, row.id, row.versionId, row.cancelRequested ? 'cancelled' : 'failed', row.cancelRequested ? null : `Bake failed after ${row.attempts} attempt(s): ${error}`);
+    return 'failed';
+  });
+}
+
+/** Hands a job back to the queue untouched (the worker is shutting down); the attempt does not count. */
+export async function releaseJob(job: ClaimedJob, workerId: string): Promise<void> {
+  await db().transaction(async (tx) => {
+    const [row] = await tx.select().from(bakeJobs).where(eq(bakeJobs.id, job.jobId)).for('update');
+    if (!row || row.state !== 'running' || row.leaseOwner !== workerId) return;
+    await tx
+      .update(bakeJobs)
+      .set({ state: 'queued', attempts: Math.max(0, row.attempts - 1), leaseOwner: null, leaseExpiresAt: null, framesDone: 0 })
+      .where(eq(bakeJobs.id, row.id));
+    await tx.update(versions).set({ bakeState: 'queued' }).where(eq(versions.id, row.versionId));
+  });
+}
+
+/** Marks a job cancelled by the worker that was running it. */
+export async function acknowledgeCancel(job: ClaimedJob, workerId: string): Promise<void> {
+  await db().transaction(async (tx) => {
+    const [row] = await tx.select().from(bakeJobs).where(eq(bakeJobs.id, job.jobId)).for('update');
+    if (row && row.state === 'running' && row.leaseOwner === workerId) await finishJob(tx, row.id, row.versionId, 'cancelled', null);
+  });
+}
+
+/** Cancels the version's current bake: a queued job at once, a running one at its worker's next lease renewal. */
+export async function cancelBake(versionId: number, studioId: number, actorId: string) {
+  const state = await db().transaction(async (tx) => {
+    const [job] = await tx
+      .select()
+      .from(bakeJobs)
+      .where(and(eq(bakeJobs.versionId, versionId), eq(bakeJobs.studioId, studioId), inArray(bakeJobs.state, ['queued', 'running'])))
+      .orderBy(desc(bakeJobs.id))
+      .limit(1)
+      .for('update');
+    if (!job) throw new HttpError('conflict', 'This version has no bake in progress');
+    if (job.state === 'queued') {
+      await finishJob(tx, job.id, job.versionId, 'cancelled', null);
+      return 'cancelled' as const;
+    }
+    await tx.update(bakeJobs).set({ cancelRequested: true }).where(eq(bakeJobs.id, job.id));
+    return 'cancelling' as const;
+  });
+  await audit({ studioId, actorId, action: 'bake.cancel', targetType: 'version', targetId: versionId });
+  return state;
+}
+
+/** The version's latest bake job with progress and an estimate of the time left. */
+export async function bakeProgress(versionId: number, studioId: number) {
+  const [job] = await db()
+    .select({
+      id: bakeJobs.id,
+      state: bakeJobs.state,
+      attempts: bakeJobs.attempts,
+      maxAttempts: bakeJobs.maxAttempts,
+      framesDone: bakeJobs.framesDone,
+      framesTotal: bakeJobs.framesTotal,
+      error: bakeJobs.error,
+      cancelRequested: bakeJobs.cancelRequested,
+      startedAt: bakeJobs.startedAt,
+      finishedAt: bakeJobs.finishedAt,
+      now: sql<Date | string>`NOW(3)`,
+    })
+    .from(bakeJobs)
+    .where(and(eq(bakeJobs.versionId, versionId), eq(bakeJobs.studioId, studioId)))
+    .orderBy(desc(bakeJobs.id))
+    .limit(1);
+  if (!job) return null;
+  let etaSeconds: number | null = null;
+  if (job.state === 'running' && job.startedAt && job.framesDone > 0) {
+    const now = job.now instanceof Date ? job.now : new Date(String(job.now).replace(' ', 'T') + 'Z');
+    const elapsed = (now.getTime() - job.startedAt.getTime()) / 1000;
+    etaSeconds = Math.max(0, Math.round((elapsed / job.framesDone) * (job.framesTotal - job.framesDone)));
+  }
+  const { now: _now, ...rest } = job;
+  return { ...rest, percent: job.framesTotal ? Math.round((100 * job.framesDone) / job.framesTotal) : 0, etaSeconds };
+}

@@ -1,0 +1,97 @@
+// Versions of a shot: each save is a new, numbered, immutable version holding its scene document.
+import { eq, sql, desc } from 'drizzle-orm';
+import type { APIContext } from 'astro';
+import { db } from './db';
+import { shots, versions, assets } from './db/schema';
+import { HttpError } from './http';
+import { requireRole, type StudioAccess } from './authz';
+import { audit } from './audit';
+import { parseScene, sceneHash, type Scene } from '../scene';
+import type { Role } from '../vocab';
+
+type Locals = APIContext['locals'];
+
+/** Loads a version the signed-in user may see with at least `role` (a client only sees shared versions). */
+export async function versionFor(locals: Locals, versionId: number, role: Role) {
+  if (!locals.user) throw new HttpError('unauthenticated', 'Please sign in');
+  const [v] = await db().select().from(versions).where(eq(versions.id, versionId));
+  if (!v) throw new HttpError('not_found', 'No such version');
+  const access = await requireRole(locals, v.studioId, role);
+  if (access.role === 'client' && !v.sharedWithClient) throw new HttpError('not_found', 'No such version');
+  return { version: v, access };
+}
+
+/** Loads a shot of a studio the user belongs to (404 otherwise). */
+export async function shotFor(locals: Locals, shotId: number, role: Role): Promise<{ shot: typeof shots.$inferSelect; access: StudioAccess }> {
+  if (!locals.user) throw new HttpError('unauthenticated', 'Please sign in');
+  const [shot] = await db().select().from(shots).where(eq(shots.id, shotId));
+  if (!shot) throw new HttpError('not_found', 'No such shot');
+  const access = await requireRole(locals, shot.studioId, role);
+  return { shot, access };
+}
+
+/** Validates a scene document; throws 400 naming each bad field as `scene.<path>`. */
+export function validScene(doc: unknown): Scene {
+  const parsed = parseScene(doc);
+  if (parsed.ok) return parsed.scene;
+  const fields: Record<string, string> = {};
+  for (const e of parsed.errors) fields[`scene.${e.path}`] ??= e.message;
+  const names = Object.keys(fields);
+  throw new HttpError('validation_failed', names.length === 1 ? `${names[0]}: ${fields[names[0]]}` : `The scene has ${names.length} problems: ${names.slice(0, 5).join(', ')}`, fields);
+}
+
+/** Saves a scene as the shot's next version (numbers never reused; existing versions never changed). */
+export async function createVersion(shot: typeof shots.$inferSelect, authorId: string, scene: Scene, comment: string | null) {
+  const hash = sceneHash(scene);
+  const created = await db().transaction(async (tx) => {
+    // Lock the shot row so two saves at once get consecutive numbers.
+    const [locked] = await tx.select({ id: shots.id, plateAssetId: shots.plateAssetId }).from(shots).where(eq(shots.id, shot.id)).for('update');
+    const [{ next }] = await tx
+      .select({ next: sql<number>`COALESCE(MAX(${versions.number}), 0) + 1` })
+      .from(versions)
+      .where(eq(versions.shotId, shot.id));
+    const [res] = await tx.insert(versions).values({
+      studioId: shot.studioId,
+      shotId: shot.id,
+      number: Number(next),
+      authorId,
+      comment,
+      scene,
+      sceneHash: hash,
+      plateAssetId: locked.plateAssetId,
+    });
+    return { id: Number(res.insertId), number: Number(next) };
+  });
+  await audit({ studioId: shot.studioId, actorId: authorId, action: 'version.create', targetType: 'version', targetId: created.id, detail: { shot: shot.code, number: created.number } });
+  return { ...created, sceneHash: hash };
+}
+
+/** The public view of a version row. */
+export function versionView(v: typeof versions.$inferSelect, withScene = true) {
+  return {
+    id: v.id,
+    shotId: v.shotId,
+    number: v.number,
+    authorId: v.authorId,
+    comment: v.comment,
+    sceneHash: v.sceneHash,
+    reviewState: v.reviewState,
+    bakeState: v.bakeState,
+    sharedWithClient: v.sharedWithClient,
+    frozenAt: v.frozenAt,
+    createdAt: v.createdAt,
+    ...(withScene ? { scene: v.scene } : {}),
+  };
+}
+
+/** The version's clip asset, if baked. */
+export async function clipOf(v: typeof versions.$inferSelect) {
+  if (!v.clipAssetId) return null;
+  const [a] = await db().select().from(assets).where(eq(assets.id, v.clipAssetId));
+  return a ?? null;
+}
+
+export async function versionsOfShot(shotId: number) {
+  return db().select().from(versions).where(eq(versions.shotId, shotId)).orderBy(desc(versions.number));
+}
+

@@ -1,0 +1,25 @@
+// POST /api/shots/:shotId/versions {scene, comment?} → 201 {version}: saves the scene as the shot's next version (artist+).
+// GET → {versions} (newest first; a client sees only shared ones, without scenes).
+import { z } from 'zod';
+import { endpoint, json, idParam, readJson } from '~/lib/server/http';
+import { createVersion, shotFor, validScene, versionsOfShot, versionView } from '~/lib/server/versions';
+
+const Body = z.object({
+  scene: z.unknown().refine((s) => s !== undefined, 'is required'),
+  comment: z.string().trim().max(2000, 'is too long (2000 characters at most)').optional(),
+});
+
+export const POST = endpoint(async ({ params, locals, request }) => {
+  const { shot, access } = await shotFor(locals, idParam(params, 'shotId'), 'artist');
+  const body = await readJson(request, Body, 5_000_000);
+  const scene = validScene(body.scene);
+  const version = await createVersion(shot, access.userId, scene, body.comment || null);
+  return json({ version }, 201);
+});
+
+export const GET = endpoint(async ({ params, locals }) => {
+  const { shot, access } = await shotFor(locals, idParam(params, 'shotId'), 'client');
+  const rows = await versionsOfShot(shot.id);
+  const visible = access.role === 'client' ? rows.filter((v) => v.sharedWithClient) : rows;
+  return json({ versions: visible.map((v) => versionView(v, false)) });
+});
