@@ -10,6 +10,8 @@ const hosts = ['127.0.0.1', 'localhost', ...(process.env.TIDEMARK_HOSTS ?? '').s
 
 export default defineConfig({
   output: 'server',
+  // npm test builds into its own folder so a running `npm start` keeps serving its build.
+  outDir: process.env.TIDEMARK_OUT_DIR ?? './dist',
   adapter: node({ mode: 'standalone' }),
   integrations: [react()],
   server: { host: '127.0.0.1', port: 4321 },

@@ -113,6 +113,7 @@ export async function startMariaDB(o: MariaOptions): Promise<Service & { url: st
       '--bind-address=127.0.0.1',
       '--user=root',
       '--skip-name-resolve',
+      '--default-time-zone=+00:00',
       '--character-set-server=utf8mb4',
       '--collation-server=utf8mb4_unicode_ci',
       '--innodb-buffer-pool-size=128M',
@@ -272,8 +273,8 @@ export function newestMtime(paths: string[]): number {
 }
 
 /** Builds the app with `astro build` unless dist/ is newer than every source file. */
-export async function buildIfStale(log: (s: string) => void): Promise<void> {
-  const entry = path.join(root, 'dist', 'server', 'entry.mjs');
+export async function buildIfStale(log: (s: string) => void, outDir = 'dist'): Promise<void> {
+  const entry = path.join(root, outDir, 'server', 'entry.mjs');
   const sources = newestMtime(['src', 'public', 'astro.config.mjs', 'package-lock.json', 'tsconfig.json']);
   if (existsSync(entry) && statSync(entry).mtimeMs > sources) {
     log('app build is up to date');
@@ -284,7 +285,7 @@ export async function buildIfStale(log: (s: string) => void): Promise<void> {
     const child = spawn(path.join(root, 'node_modules', '.bin', 'astro'), ['build', '--silent'], {
       cwd: root,
       stdio: ['ignore', 'inherit', 'inherit'],
-      env: { ...process.env, ASTRO_TELEMETRY_DISABLED: '1' },
+      env: { ...process.env, ASTRO_TELEMETRY_DISABLED: '1', TIDEMARK_OUT_DIR: path.join(root, outDir) },
     });
     child.on('close', (code) => resolve(code ?? 1));
   });
@@ -292,8 +293,8 @@ export async function buildIfStale(log: (s: string) => void): Promise<void> {
 }
 
 /** Starts the built app server as a child process and waits until it answers. */
-export async function startApp(env: Record<string, string>, log: (s: string) => void): Promise<Service & { child: ChildProcess }> {
-  const child = spawn(process.execPath, [path.join(root, 'dist', 'server', 'entry.mjs')], {
+export async function startApp(env: Record<string, string>, log: (s: string) => void, outDir = 'dist'): Promise<Service & { child: ChildProcess }> {
+  const child = spawn(process.execPath, [path.join(root, outDir, 'server', 'entry.mjs')], {
     cwd: root,
     env: { ...process.env, ...env },
     stdio: ['ignore', 'inherit', 'inherit'],

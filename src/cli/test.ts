@@ -32,7 +32,7 @@ async function stopAll() {
       console.error(`could not stop ${s.name}:`, e);
     }
   }
-  rmSync(scratch, { recursive: true, force: true });
+  if (!process.env.TEST_KEEP) rmSync(scratch, { recursive: true, force: true });
 }
 
 for (const signal of ['SIGINT', 'SIGTERM'] as const) {
@@ -54,8 +54,8 @@ async function main(): Promise<number> {
 
   const appUrl = `http://127.0.0.1:${appPort}`;
   const env = appEnvironment({ databaseUrl: mariadb.url, s3Endpoint: s3.endpoint, bucket, smtpPort, appUrl, port: appPort });
-  await buildIfStale(log);
-  const app = await startApp({ ...env, TIDEMARK_TEST: '1' }, log);
+  await buildIfStale(log, '.data/test-dist');
+  const app = await startApp({ ...env, TIDEMARK_TEST: '1' }, log, '.data/test-dist');
   started.push(app);
 
   const args = ['run', '--config', 'tests/vitest.config.ts', ...process.argv.slice(2)];

@@ -168,6 +168,9 @@ export async function acceptInvitation(token: string, signedInUserId: string | n
       }
       uid = existing.id;
     } else {
+      if (signedInUserId) {
+        throw new HttpError('conflict', `This invitation is for ${inv.email}: sign out first, then open the link again`);
+      }
       const fields: Record<string, string> = {};
       if (!newAccount.name) fields.name = 'is required';
       if (!passwordHash) fields.password = 'is required';

@@ -2,9 +2,13 @@
 // Idempotent: running it again leaves existing rows as they are.
 import { and, eq } from 'drizzle-orm';
 import { db } from './db';
-import { memberships, shots, shows, studios, users, type Role } from './db/schema';
+import { assets, memberships, shots, shows, studios, users, versions, type Role } from './db/schema';
 import { hashPassword } from './password';
 import { newUserId } from './tokens';
+import { putObject } from './storage';
+import { rooftopPoolPlate, harbourWallPlate } from './demo-plates';
+import { parseScene, sceneHash } from '../scene';
+import { enqueueBake } from '../bake/queue';
 
 export const DEMO_STUDIO = { slug: 'saltmarsh', name: 'Saltmarsh Pictures' };
 
@@ -40,6 +44,109 @@ const DEMO_SHOWS = [
     ],
   },
 ];
+
+/** Blocking scenes of the demo shots (fictional). Tanks match the plates: the tank spans the plate's width. */
+function demoScene(code: string, fps: number, first: number, last: number): { scene: unknown; tankWidth: number } | null {
+  const timing = { fps, startFrame: first, endFrame: last, substeps: 4 };
+  if (code.startsWith('CNB_0')) {
+    // A cola can (about 66 mm × 122 mm) falls from above the rooftop pool and lands in it.
+    return {
+      tankWidth: 1.6,
+      scene: {
+        version: 1,
+        tank: { width: 1.6, height: 0.9, cellSize: 0.0125, sides: { left: true, right: true, bottom: true, top: false } },
+        timing,
+        physics: { seed: 11 },
+        pours: [{ id: 'pool', shape: { type: 'rect', x: 0, y: 0, width: 1.6, height: 0.45 }, velocity: [0, 0] }],
+        props: [
+          {
+            id: 'can',
+            shape: { type: 'polygon', points: [[0.767, 0.74], [0.833, 0.74], [0.833, 0.862], [0.767, 0.862]] },
+            keys: [
+              { frame: first, dx: 0, dy: 0, angle: 0 },
+              { frame: first + 8, dx: 0.02, dy: -0.3, angle: 20 },
+              { frame: first + 16, dx: 0.04, dy: -0.55, angle: 35 },
+            ],
+          },
+        ],
+      },
+    };
+  }
+  if (code === 'LHK_0200' || code === 'LHK_0100') {
+    // A storm wave runs from the left and slaps the harbour wall on the right.
+    return {
+      tankWidth: 3.2,
+      scene: {
+        version: 1,
+        tank: { width: 3.2, height: 1.8, cellSize: 0.025, sides: { left: true, right: true, bottom: true, top: false } },
+        timing,
+        physics: { seed: 4 },
+        pours: [
+          { id: 'swell', shape: { type: 'rect', x: 0, y: 0, width: 1.2, height: 0.9 }, velocity: [2.5, 0] },
+          { id: 'harbour', shape: { type: 'rect', x: 1.2, y: 0, width: 1.6, height: 0.35 }, velocity: [0, 0] },
+        ],
+        walls: [{ id: 'harbour-wall', shape: { type: 'rect', x: 2.8, y: 0, width: 0.4, height: 1.2 } }],
+      },
+    };
+  }
+  return null;
+}
+
+/** Gives demo shots a painted plate and a first version; queues one bake so the library has a baked version. */
+async function seedVersions(studioId: number, artistId: string) {
+  const d = db();
+  const plates: Record<string, { bytes: Uint8Array; assetId?: number }> = {};
+  const rows = await d.select().from(shots).where(eq(shots.studioId, studioId));
+  for (const shot of rows) {
+    const fps = Number(shot.frameRate);
+    const demo = demoScene(shot.code, fps, shot.firstFrame, shot.lastFrame);
+    if (!demo) continue;
+    const plateName = shot.code.startsWith('CNB') ? 'rooftop-pool' : 'harbour-wall';
+    if (!shot.plateAssetId) {
+      let entry = plates[plateName];
+      if (!entry) {
+        entry = plates[plateName] = { bytes: plateName === 'rooftop-pool' ? rooftopPoolPlate() : harbourWallPlate() };
+      }
+      if (!entry.assetId) {
+        const key = `studios/${studioId}/plates/demo-${plateName}.png`;
+        await putObject(key, entry.bytes, 'image/png');
+        const [a] = await d.insert(assets).values({
+          studioId,
+          kind: 'plate',
+          storageKey: key,
+          contentType: 'image/png',
+          byteSize: entry.bytes.length,
+          width: 1920,
+          height: 1080,
+          shotId: shot.id,
+          format: 'png',
+          meta: { demo: true, fileName: `${plateName}.png` },
+        });
+        entry.assetId = Number(a.insertId);
+      }
+      await d
+        .update(shots)
+        .set({ plateAssetId: entry.assetId, metresPerPixel: demo.tankWidth / 1920 })
+        .where(eq(shots.id, shot.id));
+      shot.plateAssetId = entry.assetId;
+    }
+    const [existing] = await d.select({ id: versions.id }).from(versions).where(eq(versions.shotId, shot.id)).limit(1);
+    if (existing) continue;
+    const parsed = parseScene(demo.scene);
+    if (!parsed.ok) throw new Error(`demo scene for ${shot.code} is invalid: ${JSON.stringify(parsed.errors)}`);
+    const [v] = await d.insert(versions).values({
+      studioId,
+      shotId: shot.id,
+      number: 1,
+      authorId: artistId,
+      comment: 'First blocking pass',
+      scene: parsed.scene,
+      sceneHash: sceneHash(parsed.scene),
+      plateAssetId: shot.plateAssetId,
+    });
+    if (shot.code === 'LHK_0200') await enqueueBake(Number(v.insertId), studioId, artistId);
+  }
+}
 
 /** Creates the demo studio and returns its id. */
 export async function seedDemo(): Promise<number> {
@@ -86,5 +193,6 @@ export async function seedDemo(): Promise<number> {
         .onDuplicateKeyUpdate({ set: { code: shot.code } });
     }
   }
+  await seedVersions(studio.id, userIds.artist);
   return studio.id;
 }

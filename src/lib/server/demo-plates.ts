@@ -1,0 +1,99 @@
+// Demo plates painted in code (no image files to ship): a rooftop pool at sunset and a harbour wall in a storm.
+// Demo only. Returns PNG bytes.
+import { deflateSync } from 'node:zlib';
+
+type Rgb = [number, number, number];
+
+const mix = (a: Rgb, b: Rgb, t: number): Rgb => [a[0] + (b[0] - a[0]) * t, a[1] + (b[1] - a[1]) * t, a[2] + (b[2] - a[2]) * t];
+
+/** Encodes an RGB image (rows top to bottom) as PNG. */
+export function encodePng(width: number, height: number, rgb: Uint8Array): Uint8Array {
+  const raw = Buffer.alloc((width * 3 + 1) * height);
+  for (let y = 0; y < height; y++) {
+    raw[y * (width * 3 + 1)] = 0; // filter: none
+    rgb.subarray(y * width * 3, (y + 1) * width * 3).forEach((v, i) => (raw[y * (width * 3 + 1) + 1 + i] = v));
+  }
+  const crcTable = Array.from({ length: 256 }, (_, n) => {
+    let c = n;
+    for (let k = 0; k < 8; k++) c = c & 1 ? 0xedb88320 ^ (c >>> 1) : c >>> 1;
+    return c >>> 0;
+  });
+  const crc = (buf: Buffer) => {
+    let c = 0xffffffff;
+    for (const b of buf) c = crcTable[(c ^ b) & 0xff] ^ (c >>> 8);
+    return (c ^ 0xffffffff) >>> 0;
+  };
+  const chunk = (type: string, data: Buffer) => {
+    const len = Buffer.alloc(4);
+    len.writeUInt32BE(data.length);
+    const td = Buffer.concat([Buffer.from(type, 'ascii'), data]);
+    const c = Buffer.alloc(4);
+    c.writeUInt32BE(crc(td));
+    return Buffer.concat([len, td, c]);
+  };
+  const ihdr = Buffer.alloc(13);
+  ihdr.writeUInt32BE(width, 0);
+  ihdr.writeUInt32BE(height, 4);
+  ihdr[8] = 8; // bit depth
+  ihdr[9] = 2; // colour type: RGB
+  return new Uint8Array(
+    Buffer.concat([
+      Buffer.from([0x89, 0x50, 0x4e, 0x47, 0x0d, 0x0a, 0x1a, 0x0a]),
+      chunk('IHDR', ihdr),
+      chunk('IDAT', deflateSync(raw, { level: 6 })),
+      chunk('IEND', Buffer.alloc(0)),
+    ]),
+  );
+}
+
+function paint(width: number, height: number, shade: (u: number, v: number) => Rgb): Uint8Array {
+  const rgb = new Uint8Array(width * height * 3);
+  for (let y = 0; y < height; y++) {
+    for (let x = 0; x < width; x++) {
+      const c = shade(x / width, 1 - y / height); // v = 0 at the bottom
+      const i = (y * width + x) * 3;
+      rgb[i] = Math.max(0, Math.min(255, c[0]));
+      rgb[i + 1] = Math.max(0, Math.min(255, c[1]));
+      rgb[i + 2] = Math.max(0, Math.min(255, c[2]));
+    }
+  }
+  return encodePng(width, height, rgb);
+}
+
+/** Rooftop pool at sunset: the pool's water line sits at half the frame height (matches the demo scene). */
+export function rooftopPoolPlate(width = 1920, height = 1080): Uint8Array {
+  return paint(width, height, (u, v) => {
+    if (v > 0.62) {
+      const t = (v - 0.62) / 0.38;
+      let c = mix([250, 170, 110], [70, 90, 150], t);
+      const sun = Math.hypot((u - 0.72) * 1.78, v - 0.7);
+      if (sun < 0.06) c = mix([255, 236, 190], c, sun / 0.06);
+      // City skyline.
+      const bldg = 0.62 + 0.06 * Math.abs(Math.sin(Math.floor(u * 23) * 1.7)) + (Math.floor(u * 23) % 3 === 0 ? 0.05 : 0);
+      if (v < bldg) c = mix([40, 42, 60], [70, 60, 80], (v - 0.62) / 0.12);
+      return c;
+    }
+    if (v > 0.5) return mix([196, 178, 150], [170, 150, 125], (v - 0.5) / 0.12); // pool deck
+    const tile = (Math.abs((u * 40) % 1) < 0.04 || Math.abs((v * 22) % 1) < 0.06) ? 0.82 : 1;
+    const deep = mix([60, 180, 205], [20, 90, 140], 1 - v / 0.5);
+    return [deep[0] * tile, deep[1] * tile, deep[2] * tile];
+  });
+}
+
+/** Harbour wall in a storm: the stone wall stands at the right eighth of the frame (matches the demo scene). */
+export function harbourWallPlate(width = 1920, height = 1080): Uint8Array {
+  return paint(width, height, (u, v) => {
+    if (u > 0.875 && v < 0.67) {
+      const row = Math.floor(v * 24);
+      const brick = (Math.abs((v * 24) % 1) < 0.08 || Math.abs(((u * 30 + (row % 2) * 0.5) % 1)) < 0.05) ? 0.7 : 1;
+      const stone = mix([120, 116, 108], [90, 88, 84], (row * 7919) % 5 / 5);
+      return [stone[0] * brick, stone[1] * brick, stone[2] * brick];
+    }
+    if (v > 0.45) {
+      const cloud = 0.5 + 0.5 * Math.sin(u * 9 + Math.sin(v * 13) * 2) * Math.sin(v * 7);
+      return mix([70, 80, 92], [120, 130, 140], cloud * (v - 0.45) / 0.55);
+    }
+    const swell = 0.5 + 0.5 * Math.sin(u * 60 + v * 20);
+    return mix([22, 52, 66], [40, 78, 92], swell * v / 0.45);
+  });
+}

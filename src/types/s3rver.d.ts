@@ -1,0 +1,16 @@
+// Minimal types for the S3 stand-in used by `npm start` and `npm test` (the package ships none).
+declare module 's3rver' {
+  interface S3rverOptions {
+    address?: string;
+    port?: number;
+    silent?: boolean;
+    directory: string;
+    resetOnClose?: boolean;
+    configureBuckets?: { name: string; configs: (string | Buffer)[] }[];
+  }
+  export default class S3rver {
+    constructor(options: S3rverOptions);
+    run(): Promise<{ address: string; port: number }>;
+    close(): Promise<void>;
+  }
+}

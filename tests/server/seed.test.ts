@@ -1,0 +1,53 @@
+// The demo studio: seeding twice changes nothing the second time, and every printed sign-in works.
+import { describe, it, expect, afterAll } from 'vitest';
+import { sql, eq } from 'drizzle-orm';
+import { db, closeDb } from '../../src/lib/server/db';
+import { memberships, shots, shows, studios, versions } from '../../src/lib/server/db/schema';
+import { seedDemo, DEMO_USERS, DEMO_STUDIO } from '../../src/lib/server/seed';
+import { headObject } from '../../src/lib/server/storage';
+import { Client } from '../support/app';
+
+afterAll(closeDb);
+
+async function counts(studioId: number) {
+  const n = async (t: typeof shows | typeof shots | typeof versions | typeof memberships) =>
+    Number((await db().select({ n: sql<number>`count(*)` }).from(t).where(eq(t.studioId, studioId)))[0].n);
+  return { shows: await n(shows), shots: await n(shots), versions: await n(versions), members: await n(memberships) };
+}
+
+describe('demo studio', () => {
+  it('seeds idempotently, with plates in the store and frame ranges from 1001', async () => {
+    const id = await seedDemo();
+    const first = await counts(id);
+    expect(first.members).toBe(4);
+    expect(first.shows).toBe(2);
+    expect(first.versions).toBeGreaterThan(0);
+    expect(await seedDemo()).toBe(id);
+    expect(await counts(id)).toEqual(first);
+    const [studio] = await db().select().from(studios).where(eq(studios.id, id));
+    expect(studio.slug).toBe(DEMO_STUDIO.slug);
+    const rows = await db().select().from(shots).where(eq(shots.studioId, id));
+    // Shot frame ranges start at 1001 (common practice, no source).
+    expect(rows.every((s) => s.firstFrame === 1001 && s.lastFrame > 1001)).toBe(true);
+    const withPlate = rows.filter((s) => s.plateAssetId);
+    expect(withPlate.length).toBeGreaterThan(0);
+    expect(withPlate.every((s) => s.metresPerPixel && s.metresPerPixel > 0)).toBe(true);
+  });
+
+  it('every printed demo sign-in works', async () => {
+    await seedDemo();
+    for (const u of DEMO_USERS) {
+      const c = await new Client().signIn(u.email, u.password);
+      const me = await c.get('/api/me');
+      expect(me.body.studios).toEqual(expect.arrayContaining([expect.objectContaining({ slug: DEMO_STUDIO.slug, role: u.role })]));
+    }
+  });
+
+  it('demo plates are stored objects', async () => {
+    await seedDemo();
+    const keys = await db().execute(sql`SELECT storage_key FROM assets WHERE kind = 'plate' AND storage_key LIKE '%demo-%'`);
+    const list = (keys[0] as unknown as { storage_key: string }[]).map((r) => r.storage_key);
+    expect(list.length).toBeGreaterThan(0);
+    for (const k of list) expect((await headObject(k))?.size).toBeGreaterThan(10_000);
+  });
+});
