@@ -16,7 +16,7 @@ export interface ClipWriterOptions {
   /** Bits per axis for the offset inside a bin (default 5: error ≤ longer side / 8192). */
   offsetBits?: number;
   framesPerChunk?: number;
-  /** Deflate level 1–9 (default 6). */
+  /** Deflate level 1–9 (default 3: on the reference dam break, 1% larger than level 6 and 2.7× faster to encode). */
   level?: 1 | 2 | 3 | 4 | 5 | 6 | 7 | 8 | 9;
 }
 
@@ -41,7 +41,7 @@ export class ClipWriter {
     const binsX = Math.max(1, Math.ceil(o.tankWidth / binSize - 1e-9));
     const binsY = Math.max(1, Math.ceil(o.tankHeight / binSize - 1e-9));
     const framesPerChunk = o.framesPerChunk ?? 8;
-    this.level = o.level ?? 6;
+    this.level = o.level ?? 3;
     this.header = {
       format: 'tidemark-clip',
       formatVersion: CLIP_FORMAT_VERSION,

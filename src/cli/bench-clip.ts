@@ -1,0 +1,103 @@
+// Clip benchmark: bakes the reference dam break, encodes every frame, and prints bytes per particle per frame,
+// the worst position error (as a fraction of the tank size), encode and decode speed, and random-seek time.
+import { createSolver } from '../lib/sim/solver';
+import { referenceDamBreak } from '../lib/sim/reference';
+import { ClipWriter } from '../lib/clip/encode';
+import { ClipReader, decodeFrame } from '../lib/clip/decode';
+import { positionErrorBound } from '../lib/clip/format';
+
+const setup = referenceDamBreak(1);
+const scene = setup.scene;
+const sim = createSolver(scene, setup.options);
+const { startFrame, endFrame, fps } = scene.timing;
+const writer = new ClipWriter({
+  startFrame,
+  endFrame,
+  fps,
+  tankWidth: scene.tank.width,
+  tankHeight: scene.tank.height,
+  particleCapacity: sim.capacity,
+  solverBuild: 'bench',
+  sceneHash: 'bench',
+});
+
+// Keep a few frames to measure the real error against.
+const checkFrames = new Map<number, { x: Float32Array; y: Float32Array }>();
+let particleFrames = 0;
+let encodeMs = 0;
+for (let f = startFrame; f <= endFrame; f++) {
+  if (f > startFrame) sim.stepFrame();
+  if ((f - startFrame) % 60 === 30) checkFrames.set(f, { x: sim.x.slice(0, sim.count), y: sim.y.slice(0, sim.count) });
+  const t = performance.now();
+  writer.addFrame(sim.count, sim.x, sim.y, sim.u, sim.v);
+  encodeMs += performance.now() - t;
+  particleFrames += sim.count;
+}
+let t = performance.now();
+const bytes = writer.finish();
+encodeMs += performance.now() - t;
+const frames = endFrame - startFrame + 1;
+
+const reader = await ClipReader.fromBytes(bytes, 1000);
+const tank = Math.max(scene.tank.width, scene.tank.height);
+// Worst error: nearest source particle (Chebyshev) of each decoded particle, over the checked frames.
+let worst = 0;
+for (const [f, src] of checkFrames) {
+  const got = await reader.frameAt(f);
+  const cell = reader.header.binSize;
+  const grid = new Map<number, number[]>();
+  for (let i = 0; i < src.x.length; i++) {
+    const k = Math.floor(src.y[i] / cell) * 100000 + Math.floor(src.x[i] / cell);
+    (grid.get(k) ?? grid.set(k, []).get(k)!).push(i);
+  }
+  for (let j = 0; j < got.count; j++) {
+    let best = Infinity;
+    for (const i of grid.get(Math.floor(got.y[j] / cell) * 100000 + Math.floor(got.x[j] / cell)) ?? [])
+      best = Math.min(best, Math.max(Math.abs(src.x[i] - got.x[j]), Math.abs(src.y[i] - got.y[j])));
+    worst = Math.max(worst, best);
+  }
+}
+
+// Decode speed: every frame from inflated chunks (inflate counted separately).
+const inflated: Uint8Array[] = [];
+t = performance.now();
+for (let k = 0; k < reader.index.length; k++) inflated.push(await reader.loadChunk(k));
+const inflateMs = performance.now() - t;
+t = performance.now();
+for (let f = startFrame; f <= endFrame; f++) {
+  const k = reader.chunkOf(f);
+  decodeFrame(reader.header, inflated[k], f - reader.index[k].firstFrame, f);
+}
+const decodeMs = performance.now() - t;
+
+// Random seek: a cold reader (no cache) decoding one random frame: inflate its chunk + decode the frame.
+let seed = 12345;
+const rand = () => ((seed = (seed * 1103515245 + 12345) >>> 0) / 2 ** 32);
+const seeks: number[] = [];
+for (let i = 0; i < 40; i++) {
+  const cold = await ClipReader.fromBytes(bytes, 1);
+  const f = startFrame + Math.floor(rand() * frames);
+  t = performance.now();
+  await cold.frameAt(f);
+  seeks.push(performance.now() - t);
+}
+seeks.sort((a, b) => a - b);
+
+const figures = {
+  bench: 'clip',
+  scene: 'reference dam break',
+  particles: sim.capacity,
+  frames,
+  bytes: bytes.length,
+  bytes_per_particle_frame: +(bytes.length / particleFrames).toFixed(3),
+  max_error_fraction_of_tank: +(worst / tank).toExponential(3),
+  error_bound_fraction_of_tank: +(positionErrorBound(reader.header) / tank).toExponential(3),
+  encode_ms_per_frame: +(encodeMs / frames).toFixed(3),
+  inflate_ms_per_frame: +(inflateMs / frames).toFixed(3),
+  decode_ms_per_frame: +(decodeMs / frames).toFixed(3),
+  random_seek_ms_median: +seeks[Math.floor(seeks.length / 2)].toFixed(3),
+  random_seek_ms_p90: +seeks[Math.floor(seeks.length * 0.9)].toFixed(3),
+};
+console.log(`clip: ${figures.bytes_per_particle_frame} bytes/particle/frame (target ≤ 2.5), worst error ${figures.max_error_fraction_of_tank} of the tank (target ≤ ${(1 / 4000).toExponential(2)})`);
+console.log(`clip: encode ${figures.encode_ms_per_frame} ms/frame, inflate ${figures.inflate_ms_per_frame} + decode ${figures.decode_ms_per_frame} ms/frame, random seek median ${figures.random_seek_ms_median} ms (p90 ${figures.random_seek_ms_p90})`);
+console.log(JSON.stringify(figures));
