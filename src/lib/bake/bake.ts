@@ -43,7 +43,7 @@ export async function bakeScene(scene: Scene, sceneHash: string, hooks: BakeHook
   });
   const stats: FrameStats[] = [];
   writer.addFrame(sim.count, sim.x, sim.y, sim.u, sim.v);
-  stats.push(initialStats(sim.count, startFrame, sim.u, sim.v));
+  stats.push(sim.stats());
   if ((await hooks.onFrame?.(1, framesTotal)) === 'stop') return null;
   for (let done = 1; done < framesTotal; done++) {
     const s = sim.stepFrame();
@@ -52,10 +52,4 @@ export async function bakeScene(scene: Scene, sceneHash: string, hooks: BakeHook
     if ((await hooks.onFrame?.(done + 1, framesTotal)) === 'stop') return null;
   }
   return { clip: writer.finish(), stats, framesTotal, particleCapacity: sim.capacity };
-}
-
-function initialStats(count: number, frame: number, u: Float32Array, v: Float32Array): FrameStats {
-  let max = 0;
-  for (let i = 0; i < count; i++) max = Math.max(max, u[i] * u[i] + v[i] * v[i]);
-  return { frame, time: 0, count, liquidArea: NaN /* not measured before the first step; stored as null */, maxSpeed: Math.sqrt(max), cfl: 0, pressureResidual: 0, pressureIterations: 0, substeps: 0, stepMs: 0 };
 }
