@@ -73,6 +73,18 @@ describe('sign-in', () => {
     expect((await c.get('/api/me')).status).toBe(401);
   });
 
+  it('refuses a cross-site form post (origin check), so a signed-in user cannot be made to act elsewhere', async () => {
+    const u = await makeUser();
+    const c = await new Client().signIn(u.email, u.password);
+    const res = await fetch(`${process.env.TEST_APP_URL}/api/auth/sign-out`, {
+      method: 'POST',
+      headers: { cookie: [...c.cookies].map(([k, v]) => `${k}=${v}`).join('; '), origin: 'https://elsewhere.example', 'content-type': 'application/x-www-form-urlencoded' },
+      body: 'x=1',
+    });
+    expect(res.status).toBe(403);
+    expect((await c.get('/api/me')).status).toBe(200);
+  });
+
   it('pages redirect a signed-out visitor to sign-in', async () => {
     const res = await new Client().request('GET', '/studios/saltmarsh/');
     expect(res.status).toBe(302);
