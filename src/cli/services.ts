@@ -162,13 +162,16 @@ export interface S3Options {
   port: number;
   bucket: string;
   resetOnClose?: boolean;
+  /** Origins allowed besides those in local-s3/cors.xml (npm test serves the app on a random port). */
+  extraOrigins?: string[];
 }
 
 /** Starts the S3 stand-in (s3rver) in this process, with the bucket and its CORS rules from local-s3/. */
 export async function startS3(o: S3Options): Promise<Service & { endpoint: string }> {
   const { default: S3rver } = await import('s3rver');
   mkdirSync(o.dir, { recursive: true });
-  const cors = readFileSync(path.join(root, 'local-s3', 'cors.xml'));
+  const extra = (o.extraOrigins ?? []).map((origin) => `<AllowedOrigin>${origin}</AllowedOrigin>`).join('');
+  const cors = readFileSync(path.join(root, 'local-s3', 'cors.xml'), 'utf8').replace('<CORSRule>', `<CORSRule>${extra}`);
   const server = new S3rver({
     address: '127.0.0.1',
     port: o.port,

@@ -45,7 +45,7 @@ async function main(): Promise<number> {
   const [dbPort, s3Port, smtpPort, mailWebPort, appPort] = await Promise.all([freePort(), freePort(), freePort(), freePort(), freePort()]);
   const mariadb = await startMariaDB({ dataDir: path.join(scratch, 'mariadb'), port: dbPort, database: 'tidemark_test', user: 'tidemark', password: 'test-only-password', log });
   started.push(mariadb);
-  const s3 = await startS3({ dir: path.join(scratch, 's3'), port: s3Port, bucket, resetOnClose: true });
+  const s3 = await startS3({ dir: path.join(scratch, 's3'), port: s3Port, bucket, resetOnClose: true, extraOrigins: [`http://127.0.0.1:${appPort}`] });
   started.push(s3);
   const mail = await startMailCatcher({ dir: path.join(scratch, 'mail'), smtpPort, webPort: mailWebPort });
   started.push(mail);

@@ -1,0 +1,347 @@
+// Import shots into a show from an edit: paste or open a CMX 3600 EDL or a CSV, choose how codes and frames are made,
+// preview what would be created, changed (old → new frame range) or left alone and which lines could not be read,
+// then confirm (one transaction on the server).
+import { useRef, useState } from 'react';
+import { useForm } from 'react-hook-form';
+import { zodResolver } from '@hookform/resolvers/zod';
+import type { z } from 'zod';
+import { importBody, MAX_IMPORT_BYTES } from '~/lib/library/schemas';
+import { api, ApiError } from '../shared/api';
+import { applyServerError, FormMessage, SubmitButton, Spinner } from '../shared/form';
+import { InputField, toNumber } from './fields';
+import { rangeLength, rateLabel, timecodeOf } from './format';
+import type { ShowDetail, Viewer } from './types';
+
+type Input = z.input<typeof importBody>;
+type Output = z.output<typeof importBody>;
+const FIELDS = ['format', 'text', 'options.codeFrom', 'options.pattern', 'options.handles', 'options.startFrame'] as const;
+
+interface Range {
+  first: number;
+  last: number;
+  handles: number;
+}
+interface Preview {
+  frameRate: string;
+  create: { line: number; code: string; firstFrame: number; lastFrame: number; handles: number; description: string | null; source?: { event?: string; clipName?: string | null; recordIn: string; recordOut: string } }[];
+  update: { id: number; line: number; code: string; from: Range; to: Range }[];
+  unchanged: { id: number; line: number; code: string; firstFrame: number; lastFrame: number }[];
+  errors: { line: number; message: string }[];
+  summary: { create: number; update: number; unchanged: number; errors: number };
+}
+interface Done {
+  created: { id: number; code: string }[];
+  summary: Preview['summary'];
+}
+
+export default function ImportScreen({ viewer, show }: { viewer: Viewer; show: ShowDetail }) {
+  const { studioId, studioSlug } = viewer;
+  const [message, setMessage] = useState('');
+  const [preview, setPreview] = useState<{ data: Preview; body: Output } | null>(null);
+  const [done, setDone] = useState<Done | null>(null);
+  const [skipErrors, setSkipErrors] = useState(false);
+  const [confirming, setConfirming] = useState(false);
+  const fileInput = useRef<HTMLInputElement>(null);
+  const form = useForm<Input, unknown, Output>({
+    resolver: zodResolver(importBody),
+    defaultValues: { format: 'edl', text: '', options: { codeFrom: 'clip', pattern: undefined, handles: 8, startFrame: 1001 }, skipErrors: false },
+  });
+  const { errors, isSubmitting } = form.formState;
+  const codeFrom = form.watch('options.codeFrom');
+  const format = form.watch('format');
+  const current = JSON.stringify(form.watch());
+  const stale = preview !== null && JSON.stringify({ ...preview.body, skipErrors: false }) !== JSON.stringify({ ...JSON.parse(current), skipErrors: false });
+
+  const onFile = async (file: File | undefined) => {
+    if (!file) return;
+    setMessage('');
+    if (file.size > MAX_IMPORT_BYTES) {
+      setMessage(`${file.name} is larger than ${Math.round(MAX_IMPORT_BYTES / 1000)} KB: an edit list is usually a few KB. Is it the right file?`);
+      return;
+    }
+    const text = await file.text();
+    form.setValue('text', text, { shouldValidate: true, shouldDirty: true });
+    form.setValue('format', /\.csv$/i.test(file.name) || file.type === 'text/csv' ? 'csv' : 'edl');
+  };
+
+  const runPreview = form.handleSubmit(async (values) => {
+    setMessage('');
+    setDone(null);
+    try {
+      const answer = await api<{ preview: Preview }>(`/api/studios/${studioId}/shows/${show.id}/import/preview`, { method: 'POST', body: { ...values, skipErrors: false } });
+      setPreview({ data: answer.preview, body: values });
+      setSkipErrors(false);
+    } catch (err) {
+      setPreview(null);
+      setMessage(applyServerError(err, form.setError, FIELDS));
+    }
+  }, () => setMessage(''));
+
+  const confirm = async () => {
+    if (!preview) return;
+    setConfirming(true);
+    setMessage('');
+    try {
+      const answer = await api<{ import: Done }>(`/api/studios/${studioId}/shows/${show.id}/import/confirm`, { method: 'POST', body: { ...preview.body, skipErrors } });
+      setDone(answer.import);
+      setPreview(null);
+    } catch (err) {
+      setMessage(err instanceof ApiError ? err.message : applyServerError(err, form.setError, FIELDS));
+    } finally {
+      setConfirming(false);
+    }
+  };
+
+  const p = preview?.data;
+  const nothingToDo = p && p.create.length === 0 && p.update.length === 0;
+
+  return (
+    <div className="grid gap-6 lg:grid-cols-5">
+      <form onSubmit={runPreview} noValidate className="card space-y-4 p-5 sm:p-6 lg:col-span-2" aria-label="Edit list">
+        <FormMessage>{message}</FormMessage>
+        <fieldset>
+          <legend className="field-label">Format</legend>
+          <div className="inline-flex rounded-lg border border-sand-line bg-paper p-0.5 text-sm">
+            {(['edl', 'csv'] as const).map((f) => (
+              <label key={f} className="cursor-pointer rounded-md px-3 py-1 text-ink-soft has-checked:bg-ink has-checked:text-sand">
+                <input type="radio" value={f} className="sr-only" {...form.register('format')} />
+                {f === 'edl' ? 'EDL (CMX 3600)' : 'CSV'}
+              </label>
+            ))}
+          </div>
+        </fieldset>
+        <div>
+          <div className="flex items-baseline justify-between gap-3">
+            <label htmlFor="field-text" className="field-label">
+              {format === 'csv' ? 'Shot list' : 'Edit decision list'}
+            </label>
+            <button type="button" className="link text-sm" onClick={() => fileInput.current?.click()}>
+              Open a file…
+            </button>
+            <input ref={fileInput} type="file" accept=".edl,.csv,text/csv,text/plain" className="sr-only" tabIndex={-1} aria-label="EDL or CSV file" onChange={(e) => void onFile(e.target.files?.[0])} />
+          </div>
+          <textarea
+            id="field-text"
+            rows={12}
+            spellCheck={false}
+            aria-invalid={errors.text ? true : undefined}
+            aria-describedby="field-text-hint"
+            placeholder={format === 'csv' ? 'code,first,last,handles,description\nHBR_0010,1001,1048,8,Wall hit' : 'TITLE: …\nFCM: NON-DROP FRAME\n001  A001C001 V  C  10:00:00:00 10:00:03:00 01:00:00:00 01:00:03:00\n* FROM CLIP NAME: HBR_0010'}
+            className="field-input font-mono text-xs leading-relaxed whitespace-pre"
+            {...form.register('text')}
+          />
+          {errors.text ? (
+            <p className="field-error">Edit list {errors.text.message}</p>
+          ) : (
+            <p id="field-text-hint" className="mt-1.5 text-xs text-ink-muted">
+              Paste it, or open a .edl or .csv file. Timecodes are read at the show’s rate, {rateLabel(show.frameRate)} fps.
+            </p>
+          )}
+        </div>
+
+        <fieldset className="space-y-3 rounded-lg border border-sand-line p-4">
+          <legend className="px-1 text-sm font-semibold">How shots are made</legend>
+          {format === 'edl' && (
+            <div className="space-y-2 text-sm">
+              <label className="flex items-center gap-2">
+                <input type="radio" value="clip" className="accent-harbour-600" {...form.register('options.codeFrom')} />
+                Code from the clip name (<code className="text-xs">* FROM CLIP NAME:</code>)
+              </label>
+              <label className="flex items-center gap-2">
+                <input type="radio" value="pattern" className="accent-harbour-600" {...form.register('options.codeFrom')} />
+                Code from a pattern
+              </label>
+            </div>
+          )}
+          {format === 'edl' && codeFrom === 'pattern' && (
+            <InputField
+              label="Pattern"
+              registration={form.register('options.pattern', { setValueAs: (v) => (v === '' ? undefined : v) })}
+              error={errors.options?.pattern?.message}
+              placeholder={`${show.code}_{n:03}0`}
+              hint={
+                <>
+                  <code>{'{n:03}'}</code> counts shots (001, 002…); also <code>{'{event}'}</code>, <code>{'{reel}'}</code>, <code>{'{clip}'}</code>.
+                </>
+              }
+            />
+          )}
+          <div className="grid grid-cols-2 gap-3">
+            <InputField label="Handles" type="number" registration={form.register('options.handles', { setValueAs: toNumber })} error={errors.options?.handles?.message} hint="frames each side" />
+            <InputField label="Start frame" type="number" registration={form.register('options.startFrame', { setValueAs: toNumber })} error={errors.options?.startFrame?.message} hint="first frame incl. handles" />
+          </div>
+        </fieldset>
+        <div className="flex justify-end gap-2">
+          <a className="btn-quiet" href={`/studios/${studioSlug}/shows/${show.id}`}>
+            Back to {show.code}
+          </a>
+          <SubmitButton busy={isSubmitting}>Preview</SubmitButton>
+        </div>
+      </form>
+
+      <section aria-labelledby="preview-heading" className="lg:col-span-3" data-testid="import-preview">
+        <h2 id="preview-heading" className="sr-only">
+          Preview
+        </h2>
+        {done ? (
+          <div className="card space-y-4 p-5 sm:p-6" role="status">
+            <h3 className="text-lg font-semibold">Imported into {show.code}</h3>
+            <p className="text-ink-soft">
+              {done.summary.create} created · {done.summary.update} frame ranges changed · {done.summary.unchanged} unchanged
+              {done.summary.errors ? ` · ${done.summary.errors} lines skipped` : ''}.
+            </p>
+            <a className="btn-primary" href={`/studios/${studioSlug}/shows/${show.id}`}>
+              See the shots
+            </a>
+          </div>
+        ) : !p ? (
+          <div className="card grid min-h-60 place-items-center p-6 text-center text-ink-soft">
+            <div className="max-w-sm">
+              <p className="font-medium text-ink">Nothing is written until you confirm.</p>
+              <p className="mt-1 text-sm">
+                The preview lists the shots to create, the ones whose frame range changes (re-importing an updated cut never duplicates a shot), and any line it
+                could not read, by line number.
+              </p>
+            </div>
+          </div>
+        ) : (
+          <div className="space-y-4">
+            <ul className="flex flex-wrap gap-2 text-sm" aria-label="Summary">
+              <SummaryPill tone="bg-foam-50 text-foam-600" n={p.summary.create} word="to create" />
+              <SummaryPill tone="bg-amber-50 text-amber-800" n={p.summary.update} word="to change" />
+              <SummaryPill tone="bg-sand-deep text-ink-soft" n={p.summary.unchanged} word="unchanged" />
+              <SummaryPill tone="bg-coral-50 text-coral-700" n={p.summary.errors} word={p.summary.errors === 1 ? 'line with an error' : 'lines with errors'} />
+            </ul>
+
+            {p.errors.length > 0 && (
+              <div className="rounded-lg border border-coral-100 bg-coral-50 p-4" data-testid="import-errors">
+                <h3 className="text-sm font-semibold text-coral-700">Lines Tidemark could not read</h3>
+                <ul className="mt-2 space-y-1 text-sm text-coral-700">
+                  {p.errors.map((e, i) => (
+                    <li key={i}>
+                      <span className="font-mono font-semibold">Line {e.line}:</span> {e.message}
+                    </li>
+                  ))}
+                </ul>
+              </div>
+            )}
+
+            <div className="card overflow-x-auto">
+              <table className="w-full min-w-[34rem] text-left text-sm" data-testid="import-table">
+                <thead className="border-b border-sand-line text-xs tracking-wide text-ink-muted uppercase">
+                  <tr>
+                    <th scope="col" className="px-3 py-2.5 pl-5 font-medium">
+                      Line
+                    </th>
+                    <th scope="col" className="px-3 py-2.5 font-medium">
+                      Shot
+                    </th>
+                    <th scope="col" className="px-3 py-2.5 font-medium">
+                      What happens
+                    </th>
+                    <th scope="col" className="px-3 py-2.5 pr-5 font-medium">
+                      Frame range ({rateLabel(p.frameRate)} fps)
+                    </th>
+                  </tr>
+                </thead>
+                <tbody className="divide-y divide-sand-line/70">
+                  {[
+                    ...p.create.map((s) => ({ line: s.line, key: `c${s.line}`, row: <PlanRow line={s.line} code={s.code} kind="create" first={s.firstFrame} last={s.lastFrame} handles={s.handles} rate={p.frameRate} note={s.source?.clipName ?? undefined} /> })),
+                    ...p.update.map((u) => ({ line: u.line, key: `u${u.line}`, row: <PlanRow line={u.line} code={u.code} kind="update" first={u.to.first} last={u.to.last} handles={u.to.handles} rate={p.frameRate} from={u.from} /> })),
+                    ...p.unchanged.map((s) => ({ line: s.line, key: `n${s.line}`, row: <PlanRow line={s.line} code={s.code} kind="unchanged" first={s.firstFrame} last={s.lastFrame} rate={p.frameRate} /> })),
+                  ]
+                    .sort((a, b) => a.line - b.line)
+                    .map((r) => (
+                      <Fragmentish key={r.key}>{r.row}</Fragmentish>
+                    ))}
+                  {p.create.length + p.update.length + p.unchanged.length === 0 && (
+                    <tr>
+                      <td colSpan={4} className="px-5 py-8 text-center text-ink-soft">
+                        No shot could be read from this list.
+                      </td>
+                    </tr>
+                  )}
+                </tbody>
+              </table>
+            </div>
+
+            <div className="card flex flex-wrap items-center gap-3 p-4">
+              {stale ? (
+                <p className="flex-1 text-sm text-amber-800">The list or options changed since this preview: preview again before importing.</p>
+              ) : nothingToDo ? (
+                <p className="flex-1 text-sm text-ink-soft">Nothing to import: every readable shot already matches.</p>
+              ) : p.errors.length > 0 ? (
+                <label className="flex flex-1 items-center gap-2 text-sm">
+                  <input type="checkbox" className="size-4 accent-harbour-600" checked={skipErrors} onChange={(e) => setSkipErrors(e.target.checked)} />
+                  Import the readable lines and skip the {p.errors.length === 1 ? 'line' : `${p.errors.length} lines`} with errors
+                </label>
+              ) : (
+                <p className="flex-1 text-sm text-ink-soft">
+                  {p.summary.create} to create, {p.summary.update} to change, in one go.
+                </p>
+              )}
+              <button type="button" className="btn-primary" disabled={stale || !!nothingToDo || confirming || (p.errors.length > 0 && !skipErrors)} onClick={() => void confirm()}>
+                {confirming && <Spinner />}
+                Confirm import
+              </button>
+            </div>
+          </div>
+        )}
+      </section>
+    </div>
+  );
+}
+
+function Fragmentish({ children }: { children: React.ReactNode }) {
+  return <>{children}</>;
+}
+
+function SummaryPill({ tone, n, word }: { tone: string; n: number; word: string }) {
+  return (
+    <li className={`rounded-full px-3 py-1 font-medium ${tone} ${n === 0 ? 'opacity-60' : ''}`}>
+      <span className="tabular-nums">{n}</span> {word}
+    </li>
+  );
+}
+
+const KIND = {
+  create: { label: 'create', mark: '+', tone: 'text-foam-600' },
+  update: { label: 'change range', mark: '↻', tone: 'text-amber-800' },
+  unchanged: { label: 'unchanged', mark: '=', tone: 'text-ink-muted' },
+} as const;
+
+function PlanRow({ line, code, kind, first, last, handles, rate, from, note }: { line: number; code: string; kind: keyof typeof KIND; first: number; last: number; handles?: number; rate: string; from?: Range; note?: string }) {
+  const k = KIND[kind];
+  return (
+    <tr data-kind={kind} className={kind === 'unchanged' ? 'text-ink-muted' : ''}>
+      <td className="px-3 py-2 pl-5 font-mono text-xs text-ink-muted">{line}</td>
+      <td className="px-3 py-2">
+        <span className="font-semibold">{code}</span>
+        {note && <span className="block text-xs text-ink-muted">{note}</span>}
+      </td>
+      <td className={`px-3 py-2 whitespace-nowrap ${k.tone}`}>
+        <span aria-hidden="true" className="mr-1.5 inline-block w-3 text-center font-semibold">
+          {k.mark}
+        </span>
+        {k.label}
+      </td>
+      <td className="px-3 py-2 pr-5 whitespace-nowrap tabular-nums">
+        {from && (
+          <span className="mr-2 text-ink-muted line-through decoration-1">
+            {from.first}–{from.last}
+          </span>
+        )}
+        {from && <span aria-label="becomes" className="mr-2">→</span>}
+        <span className="font-medium">
+          {first}–{last}
+        </span>{' '}
+        <span className="text-xs text-ink-muted">
+          {rangeLength(first, last)}f{handles ? ` +${handles}h` : ''}
+        </span>
+        <span className="block text-xs text-ink-muted">
+          {timecodeOf(first, rate)} – {timecodeOf(last, rate)}
+        </span>
+      </td>
+    </tr>
+  );
+}

@@ -1,0 +1,130 @@
+// Create or edit a shot: code, description, frame range (default first frame 1001) with timecode, handles, rate,
+// plate resolution and pixel aspect, assignee, due date, status. Validated with the shared shotCreate schema.
+import { useState } from 'react';
+import { useForm } from 'react-hook-form';
+import { zodResolver } from '@hookform/resolvers/zod';
+import type { z } from 'zod';
+import { DEFAULT_FIRST_FRAME, shotCreate } from '~/lib/library/schemas';
+import { SHOT_STATUSES } from '~/lib/vocab';
+import { FRAME_RATES, RATES } from '~/lib/timecode';
+import { api } from '../shared/api';
+import { applyServerError, FormMessage, SubmitButton } from '../shared/form';
+import { blankToNull, InputField, SelectField, TextAreaField, toNumber } from './fields';
+import { rangeLength, rateLabel, timecodeOf } from './format';
+import type { Person, ShotDetail, ShotRow } from './types';
+
+type Input = z.input<typeof shotCreate>;
+type Output = z.output<typeof shotCreate>;
+const FIELDS = ['code', 'description', 'firstFrame', 'lastFrame', 'handles', 'frameRate', 'plateWidth', 'plateHeight', 'pixelAspect', 'assigneeId', 'dueDate', 'status'] as const;
+
+interface Props {
+  studioId: number;
+  showId: number;
+  /** The show's rate: the default for a new shot. */
+  showRate: string;
+  shot?: ShotRow;
+  people: Person[];
+  onSaved: (shot: ShotDetail) => void;
+  onCancel: () => void;
+}
+
+export default function ShotForm({ studioId, showId, showRate, shot, people, onSaved, onCancel }: Props) {
+  const [message, setMessage] = useState('');
+  const form = useForm<Input, unknown, Output>({
+    resolver: zodResolver(shotCreate),
+    defaultValues: {
+      showId,
+      code: shot?.code ?? '',
+      description: shot?.description ?? null,
+      firstFrame: shot?.firstFrame ?? DEFAULT_FIRST_FRAME,
+      lastFrame: shot?.lastFrame ?? (undefined as unknown as number),
+      handles: shot?.handles ?? 8,
+      frameRate: (shot?.frameRate ?? showRate) as Output['frameRate'],
+      plateWidth: shot?.plateWidth ?? 1920,
+      plateHeight: shot?.plateHeight ?? 1080,
+      pixelAspect: shot?.pixelAspect ?? 1,
+      assigneeId: shot?.assigneeId ?? null,
+      dueDate: shot?.dueDate ? shot.dueDate.slice(0, 10) : null,
+      status: shot?.status ?? 'blocking',
+    },
+  });
+  const { errors, isSubmitting } = form.formState;
+  const [first, last, rate] = form.watch(['firstFrame', 'lastFrame', 'frameRate']);
+  const validRange = Number.isInteger(first) && Number.isInteger(last) && (last as number) >= (first as number);
+  const tc = (f: unknown) => (Number.isInteger(f) ? timecodeOf(f as number, String(rate)) : '');
+
+  const submit = form.handleSubmit(async (values) => {
+    setMessage('');
+    try {
+      const { showId: _show, ...patch } = values;
+      const answer = shot
+        ? await api<{ shot: ShotDetail }>(`/api/studios/${studioId}/shots/${shot.id}`, { method: 'PATCH', body: patch })
+        : await api<{ shot: ShotDetail }>(`/api/studios/${studioId}/shots`, { method: 'POST', body: values });
+      onSaved(answer.shot);
+    } catch (err) {
+      setMessage(applyServerError(err, form.setError, FIELDS));
+    }
+  }, () => setMessage(''));
+
+  const num = { setValueAs: toNumber };
+  return (
+    <form onSubmit={submit} noValidate className="space-y-4" aria-label={shot ? 'Edit shot' : 'New shot'}>
+      <FormMessage>{message}</FormMessage>
+      <div className="grid gap-4 sm:grid-cols-3">
+        <InputField label="Code" registration={form.register('code')} error={errors.code?.message} hint="e.g. HBR_0040" autoFocus />
+        <SelectField label="Status" registration={form.register('status')} error={errors.status?.message}>
+          {SHOT_STATUSES.map((s) => (
+            <option key={s} value={s}>
+              {s}
+            </option>
+          ))}
+        </SelectField>
+        <SelectField label="Assignee" registration={form.register('assigneeId', { setValueAs: blankToNull })} error={errors.assigneeId?.message}>
+          <option value="">Unassigned</option>
+          {people.map((p) => (
+            <option key={p.userId} value={p.userId}>
+              {p.name}
+            </option>
+          ))}
+        </SelectField>
+      </div>
+      <TextAreaField label="Description" rows={2} registration={form.register('description', { setValueAs: blankToNull })} error={errors.description?.message} />
+
+      <fieldset className="rounded-lg border border-sand-line p-4">
+        <legend className="px-1 text-sm font-semibold">Frame range</legend>
+        <div className="grid gap-4 sm:grid-cols-4">
+          <InputField label="First frame" type="number" inputMode="numeric" registration={form.register('firstFrame', num)} error={errors.firstFrame?.message} hint={tc(first)} />
+          <InputField label="Last frame" type="number" inputMode="numeric" registration={form.register('lastFrame', num)} error={errors.lastFrame?.message} hint={tc(last)} />
+          <InputField label="Handles" type="number" inputMode="numeric" registration={form.register('handles', num)} error={errors.handles?.message} hint="frames each side" />
+          <SelectField label="Frame rate" registration={form.register('frameRate')} error={errors.frameRate?.message}>
+            {FRAME_RATES.map((r) => (
+              <option key={r} value={r}>
+                {RATES[r].label}
+              </option>
+            ))}
+          </SelectField>
+        </div>
+        <p className="mt-3 text-xs text-ink-muted" aria-live="polite">
+          {validRange ? `${rangeLength(first as number, last as number)} frames in the cut. Timecode shown at ${rateLabel(String(rate))} fps.` : 'First frame defaults to 1001.'}
+        </p>
+      </fieldset>
+
+      <fieldset className="rounded-lg border border-sand-line p-4">
+        <legend className="px-1 text-sm font-semibold">Plate</legend>
+        <div className="grid gap-4 sm:grid-cols-4">
+          <InputField label="Width" type="number" inputMode="numeric" registration={form.register('plateWidth', num)} error={errors.plateWidth?.message} hint="pixels" />
+          <InputField label="Height" type="number" inputMode="numeric" registration={form.register('plateHeight', num)} error={errors.plateHeight?.message} hint="pixels" />
+          <InputField label="Pixel aspect" type="number" step="0.01" inputMode="decimal" registration={form.register('pixelAspect', num)} error={errors.pixelAspect?.message} hint="1 for square" />
+          <InputField label="Due date" type="date" registration={form.register('dueDate', { setValueAs: blankToNull })} error={errors.dueDate?.message} />
+        </div>
+      </fieldset>
+
+      <div className="flex justify-end gap-2 pt-1">
+        <button type="button" className="btn-quiet" onClick={onCancel}>
+          Cancel
+        </button>
+        <SubmitButton busy={isSubmitting}>{shot ? 'Save shot' : 'Create shot'}</SubmitButton>
+      </div>
+    </form>
+  );
+}
