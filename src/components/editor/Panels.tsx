@@ -1,0 +1,264 @@
+// The editor's side panels: the Inspector (the selected item's numbers, a spout's aim and frames, a prop's keys and the
+// timing helper) and the Parameters panel (tank, frame range, physics with units and explanations, starting looks).
+// Both read the same document as the view and change it only through the store's commands.
+import { useState } from 'react';
+import type { EditorStore, EditorSnapshot } from '~/lib/editor/store';
+import { GROUP_LABEL, CELL_SIZES, toWholeCells, type AnyItem, type ItemRef } from '~/lib/editor/document';
+import { setSection, replaceDocument } from '~/lib/editor/commands';
+import { PARAMS, STARTING_LOOKS, applyLook, readPath, sectionWith } from '~/lib/editor/params';
+import { planDrop, surfaceHeightAt, impactFrameOf } from '~/lib/editor/timing';
+import { tankCells } from '~/lib/scene/schema';
+import { shapeCentroid } from '~/lib/scene/shapes';
+import type { ShapeDoc } from '~/lib/scene/schema';
+import { NumberField, Section } from './fields';
+
+const r6 = (v: number) => Math.round(v * 1e6) / 1e6;
+
+export function Inspector({ store, snap }: { store: EditorStore; snap: EditorSnapshot }) {
+  if (snap.selection.length === 0) {
+    return (
+      <Section title="Selection">
+        <p className="text-[0.8rem] leading-relaxed text-ink-muted">Nothing selected. Pick an item with the Pick tool (1), or draw one with Pour, Spout, Wall, Prop or Drain.</p>
+      </Section>
+    );
+  }
+  if (snap.selection.length > 1) {
+    return (
+      <Section title="Selection">
+        <p className="text-[0.8rem] text-ink-soft">{snap.selection.length} items selected: drag to move them together, Ctrl+D to duplicate, Delete to remove.</p>
+      </Section>
+    );
+  }
+  const sel = store.selectedItem();
+  if (!sel) return null;
+  return <ItemInspector key={`${sel.ref.group}:${sel.ref.id}`} store={store} snap={snap} refItem={sel.ref} item={sel.item} />;
+}
+
+function ItemInspector({ store, snap, refItem, item }: { store: EditorStore; snap: EditorSnapshot; refItem: ItemRef; item: AnyItem }) {
+  const [idText, setIdText] = useState(item.id);
+  const [idError, setIdError] = useState<string | null>(null);
+  const put = (next: AnyItem, label?: string) => store.updateItem(refItem, next, label);
+  const setShape = (shape: ShapeDoc) => put({ ...item, shape } as AnyItem, `Edit ${item.id} shape`);
+  const rename = () => {
+    const id = idText.trim();
+    if (id === item.id) return;
+    if (!id || id.length > 64) { setIdError('1 to 64 characters'); return; }
+    const taken = ['pours', 'spouts', 'walls', 'props', 'drains'].some((g) => (snap.doc[g as 'pours'] as AnyItem[]).some((it) => it.id === id));
+    if (taken) { setIdError('Already used in this scene'); return; }
+    setIdError(null);
+    put({ ...item, id } as AnyItem, `Rename ${item.id} to ${id}`);
+  };
+  const s = item.shape;
+  return (
+    <>
+      <Section title={`${GROUP_LABEL[refItem.group]} · ${s.type === 'rect' ? 'rectangle' : s.type}`}>
+        <div className="flex items-center justify-between gap-2 py-1">
+          <label htmlFor="item-id" className="text-[0.8rem] font-medium">Name</label>
+          <input id="item-id" value={idText} onChange={(e) => setIdText(e.target.value)} onBlur={rename} onKeyDown={(e) => e.key === 'Enter' && rename()}
+            className="w-40 rounded-md border border-sand-line bg-white px-2 py-1 text-[0.8rem]" />
+        </div>
+        {idError && <p className="text-[0.7rem] text-coral-700">{idError}</p>}
+        {s.type === 'rect' && (
+          <>
+            <NumberField label="Left (x)" unit="m" value={s.x} onCommit={(x) => setShape({ ...s, x })} compact />
+            <NumberField label="Bottom (y)" unit="m" value={s.y} onCommit={(y) => setShape({ ...s, y })} compact />
+            <NumberField label="Width" unit="m" value={s.width} min={1e-6} onCommit={(width) => setShape({ ...s, width })} compact />
+            <NumberField label="Height" unit="m" value={s.height} min={1e-6} onCommit={(height) => setShape({ ...s, height })} compact />
+          </>
+        )}
+        {s.type === 'circle' && (
+          <>
+            <NumberField label="Centre x" unit="m" value={s.x} onCommit={(x) => setShape({ ...s, x })} compact />
+            <NumberField label="Centre y" unit="m" value={s.y} onCommit={(y) => setShape({ ...s, y })} compact />
+            <NumberField label="Radius" unit="m" value={s.radius} min={1e-6} onCommit={(radius) => setShape({ ...s, radius })} compact />
+          </>
+        )}
+        {s.type === 'polygon' && <p className="py-1 text-[0.8rem] text-ink-soft">{s.points.length} points. Drag the corners to resize, the knob above to rotate.</p>}
+        {'velocity' in item && refItem.group === 'pours' && (
+          <>
+            <NumberField label="Start speed x" unit="m/s" value={item.velocity[0]} onCommit={(vx) => put({ ...item, velocity: [vx, item.velocity[1]] } as AnyItem)} compact />
+            <NumberField label="Start speed y" unit="m/s" value={item.velocity[1]} onCommit={(vy) => put({ ...item, velocity: [item.velocity[0], vy] } as AnyItem)} compact />
+          </>
+        )}
+      </Section>
+      {'startFrame' in item && <SpoutSection store={store} item={item} put={put} />}
+      {'keys' in item && <PropSection store={store} snap={snap} item={item} put={put} />}
+    </>
+  );
+}
+
+function SpoutSection({ store, item, put }: { store: EditorStore; item: Extract<AnyItem, { startFrame: number }>; put: (n: AnyItem, l?: string) => void }) {
+  const speed = Math.hypot(item.velocity[0], item.velocity[1]);
+  const dir = (Math.atan2(item.velocity[1], item.velocity[0]) * 180) / Math.PI;
+  const aim = (sp: number, deg: number) => put({ ...item, velocity: [r6(sp * Math.cos((deg * Math.PI) / 180)), r6(sp * Math.sin((deg * Math.PI) / 180))] }, `Aim ${item.id}`);
+  const t = store.doc.timing;
+  return (
+    <Section title="Spout">
+      <NumberField label="Speed" unit="m/s" value={r6(speed)} min={0} max={100} help="How fast liquid leaves the spout." onCommit={(v) => aim(v, dir)} />
+      <NumberField label="Direction" unit="° from +x" value={r6(dir)} min={-360} max={360} help="0 points right, 90 up, −90 down. Or drag the round knob in the view." onCommit={(v) => aim(speed, v)} />
+      <NumberField label="First frame" unit="frame" integer value={item.startFrame} min={t.startFrame} max={item.endFrame} onCommit={(v) => put({ ...item, startFrame: v })} />
+      <NumberField label="Last frame" unit="frame" integer value={item.endFrame} min={item.startFrame} max={t.endFrame} onCommit={(v) => put({ ...item, endFrame: v })} />
+    </Section>
+  );
+}
+
+function PropSection({ store, snap, item, put }: { store: EditorStore; snap: EditorSnapshot; item: Extract<AnyItem, { keys: unknown }>; put: (n: AnyItem, l?: string) => void }) {
+  const doc = snap.doc;
+  const c = shapeCentroid(item.shape);
+  const surfaceGuess = surfaceHeightAt(doc, c[0]);
+  const [release, setRelease] = useState(item.keys[0]?.frame ?? doc.timing.startFrame);
+  const [impact, setImpact] = useState(Math.min(doc.timing.endFrame, doc.timing.startFrame + Math.round(doc.timing.fps / 2)));
+  const [surface, setSurface] = useState<number>(surfaceGuess ?? 0);
+  const [mode, setMode] = useState<'keep-height' | 'from-rest'>('keep-height');
+  const [message, setMessage] = useState<string | null>(null);
+  const marked = impactFrameOf(item, surface, doc.timing.startFrame, doc.timing.endFrame);
+  const keyAtFrame = () => {
+    const f = snap.frame;
+    const pose = { frame: f, dx: 0, dy: 0, angle: 0 };
+    const prev = [...item.keys].reverse().find((k) => k.frame <= f) ?? item.keys[0];
+    if (prev) Object.assign(pose, { dx: prev.dx, dy: prev.dy, angle: prev.angle });
+    const keys = [...item.keys.filter((k) => k.frame !== f), pose].sort((a, b) => a.frame - b.frame);
+    put({ ...item, keys }, `Key ${item.id} at ${f}`);
+  };
+  const setKey = (i: number, patch: Partial<(typeof item.keys)[number]>) => {
+    const keys = item.keys.map((k, j) => (j === i ? { ...k, ...patch } : k));
+    if (keys.some((k, j) => j > 0 && !(k.frame > keys[j - 1].frame))) { setMessage('Keys must stay in frame order'); return; }
+    setMessage(null);
+    put({ ...item, keys }, `Edit key of ${item.id}`);
+  };
+  const apply = () => {
+    try {
+      const r = planDrop(doc, item, { releaseFrame: release, impactFrame: impact, surfaceY: surface, mode });
+      put({ ...item, keys: r.keys }, `Time ${item.id} to hit on ${impact}`);
+      setMessage(mode === 'from-rest'
+        ? `Released from rest ${r.dropHeight.toFixed(3)} m above the surface; hits at ${r.impactSpeed.toFixed(2)} m/s.`
+        : `Release speed ${r.releaseSpeed.toFixed(2)} m/s ${r.releaseSpeed >= 0 ? 'down' : '(thrown up)'} over a ${r.dropHeight.toFixed(3)} m drop; hits at ${r.impactSpeed.toFixed(2)} m/s.`);
+      store.setFrame(impact);
+    } catch (e) {
+      setMessage((e as Error).message);
+    }
+  };
+  return (
+    <>
+      <Section title="Keys" aside={<button type="button" className="btn-quiet px-2 py-0.5 text-xs" onClick={keyAtFrame}>Key at frame {snap.frame}</button>}>
+        <div className="max-h-40 overflow-auto">
+          <table className="w-full text-[0.75rem] tabular-nums">
+            <thead className="text-ink-muted"><tr><th className="text-left font-medium">frame</th><th className="text-right font-medium">dx m</th><th className="text-right font-medium">dy m</th><th className="text-right font-medium">angle °</th><th /></tr></thead>
+            <tbody>
+              {item.keys.map((k, i) => (
+                <tr key={`${k.frame}-${i}`} className={k.frame === snap.frame ? 'bg-harbour-50' : ''}>
+                  <td><button type="button" className="link text-[0.75rem]" onClick={() => store.setFrame(k.frame)}>{k.frame}</button></td>
+                  <td className="text-right">{k.dx.toFixed(3)}</td>
+                  <td className="text-right">{k.dy.toFixed(3)}</td>
+                  <td className="text-right">
+                    <input aria-label={`Angle at frame ${k.frame}`} defaultValue={k.angle} className="w-12 rounded border border-sand-line px-1 text-right"
+                      onBlur={(e) => { const v = Number(e.target.value); if (Number.isFinite(v) && v !== k.angle) setKey(i, { angle: v }); }} />
+                  </td>
+                  <td className="text-right">
+                    {item.keys.length > 1 && <button type="button" aria-label={`Remove key at ${k.frame}`} className="px-1 text-coral-700" onClick={() => put({ ...item, keys: item.keys.filter((_, j) => j !== i) }, `Remove key of ${item.id}`)}>×</button>}
+                  </td>
+                </tr>
+              ))}
+            </tbody>
+          </table>
+        </div>
+        <p className="mt-1 text-[0.7rem] text-ink-muted">Drag a diamond in the view to move a key. Keys are linear in between and held outside.</p>
+      </Section>
+      <Section title="Timing helper">
+        <p className="mb-1 text-[0.7rem] leading-snug text-ink-muted">Pick the frame the prop must hit the liquid. Tidemark solves the drop h = v0·t + g·t²/2 (Newton, no drag) and keys every frame.</p>
+        <NumberField label="Release frame" unit="frame" integer value={release} min={doc.timing.startFrame} max={doc.timing.endFrame} onCommit={setRelease} testId="timing-release" />
+        <NumberField label="Impact frame" unit="frame" integer value={impact} min={doc.timing.startFrame} max={doc.timing.endFrame} onCommit={setImpact} testId="timing-impact" />
+        <NumberField label="Surface height" unit="m" value={r6(surface)} min={0} max={doc.tank.height} help={surfaceGuess === null ? 'No pour under the prop: enter the height of the liquid.' : 'Top of the pour under the prop.'} onCommit={setSurface} />
+        <fieldset className="mt-1 flex gap-3 text-[0.75rem]">
+          <legend className="sr-only">Solve for</legend>
+          <label className="flex items-center gap-1"><input type="radio" name="drop-mode" checked={mode === 'keep-height'} onChange={() => setMode('keep-height')} /> keep height, solve speed</label>
+          <label className="flex items-center gap-1"><input type="radio" name="drop-mode" checked={mode === 'from-rest'} onChange={() => setMode('from-rest')} /> from rest, solve height</label>
+        </fieldset>
+        <button type="button" className="btn-primary mt-2 w-full py-1.5" onClick={apply}>Set keys to hit on frame {impact}</button>
+        {message && <p className="mt-1.5 text-[0.75rem] text-ink-soft" role="status">{message}</p>}
+        <p className="mt-1 text-[0.7rem] text-ink-muted">Reaches the surface on frame: <strong data-testid="prop-impact-frame">{marked ?? '—'}</strong></p>
+      </Section>
+    </>
+  );
+}
+
+export function ParamsPanel({ store, snap }: { store: EditorStore; snap: EditorSnapshot }) {
+  const doc = snap.doc;
+  const { nx, ny } = tankCells(doc.tank);
+  const set = (path: string, value: unknown, label: string) => {
+    const { section, value: v } = sectionWith(doc, path, value);
+    store.execute(setSection(section, v as never, label));
+  };
+  const setCell = (cellSize: number) => {
+    store.execute(setSection('tank', { ...doc.tank, cellSize, width: toWholeCells(doc.tank.width, cellSize), height: toWholeCells(doc.tank.height, cellSize) }, `Cell size ${cellSize} m`));
+  };
+  const sides = doc.tank.sides;
+  return (
+    <>
+      <Section title="Starting looks">
+        <div className="grid grid-cols-3 gap-1.5">
+          {STARTING_LOOKS.map((look) => (
+            <button key={look.id} type="button" title={look.blurb} className="btn-quiet px-2 py-1 text-xs" onClick={() => store.execute(replaceDocument(applyLook(doc, look), `Look: ${look.label}`))}>
+              {look.label}
+            </button>
+          ))}
+        </div>
+        <p className="mt-1 text-[0.7rem] text-ink-muted">Sets the physics below for that kind of splash; shapes stay as they are. Undo takes it back.</p>
+      </Section>
+      <Section title="Tank">
+        <NumberField label="Width" unit="m" value={doc.tank.width} min={2 * doc.tank.cellSize} help={`${nx} cells; rounded to whole cells.`} onCommit={(w) => set('tank.width', toWholeCells(w, doc.tank.cellSize), 'Tank width')} />
+        <NumberField label="Height" unit="m" value={doc.tank.height} min={2 * doc.tank.cellSize} help={`${ny} cells; rounded to whole cells.`} onCommit={(h) => set('tank.height', toWholeCells(h, doc.tank.cellSize), 'Tank height')} />
+        <div className="flex items-center justify-between py-1">
+          <label htmlFor="cell-size" className="text-[0.8rem] font-medium">Cell size</label>
+          <select id="cell-size" value={doc.tank.cellSize} onChange={(e) => setCell(Number(e.target.value))} className="rounded-md border border-sand-line bg-white px-2 py-1 text-[0.8rem]">
+            {[...new Set([...CELL_SIZES, doc.tank.cellSize])].sort((a, b) => a - b).map((c) => <option key={c} value={c}>{c} m</option>)}
+          </select>
+        </div>
+        <p className="text-[0.7rem] leading-snug text-ink-muted">Grid spacing of the bake: finer shows smaller drops and costs more.</p>
+        <fieldset className="mt-1.5">
+          <legend className="text-[0.8rem] font-medium">Solid sides</legend>
+          <div className="mt-1 flex flex-wrap gap-3 text-[0.75rem]">
+            {(['left', 'right', 'bottom', 'top'] as const).map((k) => (
+              <label key={k} className="flex items-center gap-1">
+                <input type="checkbox" checked={sides[k]} onChange={(e) => store.execute(setSection('tank', { ...doc.tank, sides: { ...sides, [k]: e.target.checked } }, `${k} side ${e.target.checked ? 'solid' : 'open'}`))} /> {k}
+              </label>
+            ))}
+          </div>
+          <p className="mt-0.5 text-[0.7rem] text-ink-muted">An open side lets liquid leave the tank.</p>
+        </fieldset>
+      </Section>
+      <Section title="Frames">
+        <NumberField label="First frame" unit="frame" integer value={doc.timing.startFrame} max={doc.timing.endFrame} onCommit={(v) => set('timing.startFrame', v, 'First frame')} />
+        <NumberField label="Last frame" unit="frame" integer value={doc.timing.endFrame} min={doc.timing.startFrame} onCommit={(v) => set('timing.endFrame', v, 'Last frame')} />
+        <p className="text-[0.7rem] text-ink-muted">{+doc.timing.fps.toFixed(3)} frames per second, from the shot.</p>
+      </Section>
+      <Section title="Physics">
+        <div className="flex items-center justify-between py-1">
+          <label htmlFor="pressure-solver" className="text-[0.8rem] font-medium">Pressure solver</label>
+          <select id="pressure-solver" value={doc.physics.pressureSolver} onChange={(e) => set('physics.pressureSolver', e.target.value, 'Pressure solver')} className="rounded-md border border-sand-line bg-white px-2 py-1 text-[0.8rem]">
+            <option value="pcg-mic0">Conjugate gradient (MIC)</option>
+            <option value="gauss-seidel">Gauss–Seidel</option>
+          </select>
+        </div>
+        <p className="text-[0.7rem] leading-snug text-ink-muted">Conjugate gradient reaches the tolerance in fewer, costlier steps and is the faster default.</p>
+        {PARAMS.filter((p) => p.path !== 'tank.cellSize').map((p) =>
+          p.choices ? (
+            <div key={p.path} className="py-1">
+              <div className="flex items-center justify-between">
+                <label htmlFor={`param-${p.path}`} className="text-[0.8rem] font-medium">{p.label}</label>
+                <select id={`param-${p.path}`} value={readPath(doc, p.path) as number} onChange={(e) => set(p.path, Number(e.target.value), p.label)} className="rounded-md border border-sand-line bg-white px-2 py-1 text-[0.8rem]">
+                  {p.choices.map((c) => <option key={c} value={c}>{c}</option>)}
+                </select>
+              </div>
+              <p className="mt-0.5 text-[0.7rem] leading-snug text-ink-muted">{p.help}</p>
+            </div>
+          ) : (
+            <NumberField key={p.path} label={p.label} unit={p.unit} value={readPath(doc, p.path) as number} min={p.min} max={p.max} step={p.step} integer={p.integer} help={p.help}
+              onCommit={(v) => set(p.path, v, p.label)} testId={`param-${p.path}`} />
+          ),
+        )}
+      </Section>
+    </>
+  );
+}
+
