@@ -1,0 +1,202 @@
+// Player benchmark: frame time of the player's drawing engine for 50k particles in headless Chromium on software
+// WebGL (SwiftShader), for each render look. Bundles the real engine (src/components/player/engine.ts) with esbuild,
+// feeds it synthetic splash frames over a painted plate, and times look + texture upload + render (gl.finish()).
+// Prints one line per look and view size, then a JSON line. Run: npx tsx src/cli/bench-player.ts
+import { build } from 'esbuild';
+import path from 'node:path';
+import { mkdtempSync, rmSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { chromium } from 'playwright-core';
+
+const root = path.resolve(import.meta.dirname, '../..');
+const PARTICLES = Number(process.env.BENCH_PARTICLES ?? 50_000);
+const FRAMES = 48;
+const SIZES: [number, number][] = process.env.BENCH_QUICK ? [[960, 540]] : [
+  [960, 540],
+  [1920, 1080],
+];
+
+// The page side: builds synthetic frames, opens the engine, and times each look.
+const entry = `
+import { PlayerEngine } from './src/components/player/engine';
+import { RENDER_LOOKS } from './src/lib/render/looks';
+
+function splashFrames(n, frames) {
+  // A pool (80 %) with a crown of liquid thrown up and falling back (20 %), in a 3.2 m × 1.8 m tank.
+  let seed = 7;
+  const rnd = () => ((seed = (seed * 1664525 + 1013904223) >>> 0) / 4294967296);
+  const base = [];
+  for (let i = 0; i < n; i++) base.push([rnd(), rnd(), rnd()]);
+  const out = [];
+  for (let f = 0; f < frames; f++) {
+    const t = f / 24;
+    const x = new Float32Array(n), y = new Float32Array(n), speed = new Float32Array(n);
+    let maxSpeed = 0;
+    for (let i = 0; i < n; i++) {
+      const [a, b, c] = base[i];
+      if (i < n * 0.8) {
+        x[i] = a * 3.2; y[i] = b * 0.5 + 0.02 * Math.sin(a * 20 + t * 6);
+        speed[i] = 0.2 * c;
+      } else {
+        const ang = Math.PI * (0.15 + 0.7 * a), v0 = 2 + 2.5 * b;
+        const vx = Math.cos(ang) * v0, vy = Math.sin(ang) * v0 - 9.81 * t;
+        x[i] = 1.6 + Math.cos(ang) * v0 * t + 0.05 * c; y[i] = Math.max(0, 0.5 + Math.sin(ang) * v0 * t - 4.905 * t * t + 0.05 * c);
+        speed[i] = Math.hypot(vx, vy);
+      }
+      if (speed[i] > maxSpeed) maxSpeed = speed[i];
+    }
+    out.push({ count: n, x, y, speed, maxSpeed });
+  }
+  return out;
+}
+
+function platePicture(w, h) {
+  const c = document.createElement('canvas'); c.width = w; c.height = h;
+  const g = c.getContext('2d');
+  const grad = g.createLinearGradient(0, 0, 0, h); grad.addColorStop(0, '#465a78'); grad.addColorStop(1, '#14344a');
+  g.fillStyle = grad; g.fillRect(0, 0, w, h);
+  g.fillStyle = '#5a5a55'; g.fillRect(w * 0.875, h * 0.33, w * 0.125, h * 0.67);
+  return c;
+}
+
+window.preview = async ({ particles, frames, width, height, look, frame }) => {
+  const host = document.getElementById('host');
+  host.innerHTML = '';
+  host.style.width = width + 'px'; host.style.height = height + 'px';
+  const data = splashFrames(particles, frames);
+  const plateCanvas = platePicture(1920, 1080);
+  const plate = { kind: 'still', width: 1920, height: 1080, frameAt: async () => plateCanvas, destroy() {} };
+  const source = { startFrame: 1001, endFrame: 1000 + frames, tankWidth: 3.2, tankHeight: 1.8, frameAt: async (f) => data[f - 1001] };
+  const engine = await PlayerEngine.create({ host, frames: source, plate, metresPerPixel: 3.2 / 1920, look, lookOptions: { restDensity: particles * 0.8 / (3.2 * 0.5), speedScale: 6 } });
+  await engine.show(frame);
+  window.previewEngine = engine;
+};
+
+window.runBench = async ({ particles, frames, width, height }) => {
+  const host = document.getElementById('host');
+  host.style.width = width + 'px'; host.style.height = height + 'px';
+  const data = splashFrames(particles, frames);
+  const plateCanvas = platePicture(1920, 1080);
+  const plate = { kind: 'still', width: 1920, height: 1080, frameAt: async () => plateCanvas, destroy() {} };
+  const source = { startFrame: 1001, endFrame: 1000 + frames, tankWidth: 3.2, tankHeight: 1.8, frameAt: async (f) => data[f - 1001] };
+  const engine = await PlayerEngine.create({ host, frames: source, plate, metresPerPixel: 3.2 / 1920, look: 'surface', lookOptions: { restDensity: particles * 0.8 / (3.2 * 0.5), speedScale: 6 } });
+  const gl = engine.app.renderer.gl;
+  for (let f = 1001; f <= 1000 + frames; f++) await engine.decode(f);
+  const results = [];
+  for (const look of RENDER_LOOKS) {
+    engine.setLook(look);
+    for (let f = 1001; f < 1006; f++) { engine.drawNow(f); gl.finish(); } // warm-up
+    // Paced by requestAnimationFrame, a new frame every tick, for two seconds: what playback can hold. (Let the
+    // compositor catch up first: after a burst of frames it presents them all before the next tick.)
+    const nextTick = () => new Promise((r) => requestAnimationFrame(r));
+    for (let i = 0; i < 3; i++) await nextTick();
+    let drawn = 0;
+    const start = await nextTick();
+    let last = start;
+    await new Promise((done) => {
+      const tick = (now) => {
+        last = now;
+        engine.drawNow(1001 + (drawn % frames)); drawn++;
+        if (now - start < 2000) requestAnimationFrame(tick); else done();
+      };
+      requestAnimationFrame(tick);
+    });
+    const rafFps = (drawn - 1) / ((last - start) / 1000);
+    const total = [], lookMs = [], gpuMs = [];
+    for (let rep = 0; rep < 2; rep++) {
+      for (let f = 1001; f <= 1000 + frames; f++) {
+        const t0 = performance.now();
+        engine.drawNow(f);
+        gl.finish();
+        const t1 = performance.now();
+        total.push(t1 - t0);
+        lookMs.push(engine.lastTiming.lookMs);
+        gpuMs.push(t1 - t0 - engine.lastTiming.lookMs);
+      }
+    }
+    const q = (a, p) => { const s = [...a].sort((x, y) => x - y); return s[Math.min(s.length - 1, Math.floor(p * s.length))]; };
+    const mean = (a) => a.reduce((s, v) => s + v, 0) / a.length;
+    results.push({ look, width, height, particles, meanMs: mean(total), p95Ms: q(total, 0.95), lookMs: mean(lookMs), uploadDrawMs: mean(gpuMs), rafFps });
+  }
+  // The ceiling set by the browser: the same rAF loop redrawing the stage with no new particle image.
+  {
+    const nextTick = () => new Promise((r) => requestAnimationFrame(r));
+    for (let i = 0; i < 3; i++) await nextTick();
+    let drawn = 0; const start = await nextTick(); let last = start;
+    await new Promise((done) => {
+      const tick = (now) => { last = now; engine.app.render(); drawn++; if (now - start < 2000) requestAnimationFrame(tick); else done(); };
+      requestAnimationFrame(tick);
+    });
+    results.push({ look: 'stage only', width, height, particles: 0, meanMs: 0, p95Ms: 0, lookMs: 0, uploadDrawMs: 0, rafFps: (drawn - 1) / ((last - start) / 1000) });
+  }
+  const rendererName = gl.getParameter(gl.RENDERER);
+  engine.destroy();
+  return { results, renderer: rendererName };
+};
+`;
+
+async function main() {
+  const bundle = await build({
+    stdin: { contents: entry, resolveDir: root, sourcefile: 'bench-player-entry.js', loader: 'js' },
+    bundle: true,
+    format: 'iife',
+    platform: 'browser',
+    write: false,
+    minify: true,
+    tsconfig: path.join(root, 'tsconfig.json'),
+    logLevel: 'error',
+  });
+  const script = bundle.outputFiles[0].text;
+  const dir = mkdtempSync(path.join(tmpdir(), 'tidemark-bench-chromium-'));
+  const context = await chromium.launchPersistentContext(dir, {
+    executablePath: '/usr/bin/chromium',
+    args: ['--headless', '--no-sandbox', '--disable-gpu', '--disable-quic', '--no-first-run', '--disable-background-networking', '--disable-component-update', '--disable-sync'],
+    viewport: { width: 1920, height: 1080 },
+  });
+  const all: unknown[] = [];
+  let renderer = '';
+  try {
+    const page = context.pages()[0] ?? (await context.newPage());
+    page.on('pageerror', (e) => console.error('page error:', e.message));
+    await page.setContent('<!doctype html><html><body style="margin:0"><div id="host"></div></body></html>');
+    await page.addScriptTag({ content: script });
+    console.log(`player frame time, ${PARTICLES.toLocaleString('en')} particles, headless Chromium (software WebGL), one image per frame`);
+    for (const [width, height] of SIZES) {
+      const out = (await page.evaluate((a) => (window as any).runBench(a), { particles: PARTICLES, frames: FRAMES, width, height })) as {
+        results: { look: string; width: number; height: number; meanMs: number; p95Ms: number; lookMs: number; uploadDrawMs: number; rafFps: number }[];
+        renderer: string;
+      };
+      renderer = out.renderer;
+      for (const r of out.results) {
+        if (r.look === 'stage only') {
+          console.log(`  ${'(stage)'.padEnd(8)} ${`${r.width}×${r.height}`.padEnd(10)} redraw with no new image: rAF-paced ${r.rafFps.toFixed(0)} fps (the browser's ceiling here)`);
+          all.push({ ...r, rafFps: +r.rafFps.toFixed(1) });
+          continue;
+        }
+        console.log(
+          `  ${r.look.padEnd(8)} ${`${r.width}×${r.height}`.padEnd(10)} frame ${r.meanMs.toFixed(1).padStart(5)} ms mean, ${r.p95Ms.toFixed(1).padStart(5)} ms p95` +
+            `  (look ${r.lookMs.toFixed(1)} ms, upload + draw ${r.uploadDrawMs.toFixed(1)} ms)  → ${(1000 / r.p95Ms).toFixed(0)} fps at p95; rAF-paced ${r.rafFps.toFixed(0)} fps`,
+        );
+        all.push({ ...r, meanMs: +r.meanMs.toFixed(2), p95Ms: +r.p95Ms.toFixed(2), lookMs: +r.lookMs.toFixed(2), uploadDrawMs: +r.uploadDrawMs.toFixed(2), rafFps: +r.rafFps.toFixed(1) });
+      }
+    }
+    // BENCH_PREVIEW=dir: a picture of frame 1012 in each look, to look at.
+    if (process.env.BENCH_PREVIEW) {
+      for (const look of ['surface', 'speed']) {
+        await page.evaluate((a) => (window as any).preview(a), { particles: PARTICLES, frames: FRAMES, width: 960, height: 540, look, frame: 1012 });
+        await page.waitForTimeout(300);
+        await page.locator('#host').screenshot({ path: path.join(process.env.BENCH_PREVIEW, `bench-player-${look}.png`) });
+        await page.evaluate(() => (window as any).previewEngine.destroy());
+      }
+    }
+  } finally {
+    await context.close();
+    rmSync(dir, { recursive: true, force: true });
+  }
+  console.log(JSON.stringify({ bench: 'player', particles: PARTICLES, renderer, results: all }));
+}
+
+main().catch((err) => {
+  console.error(err);
+  process.exit(1);
+});

@@ -1,0 +1,160 @@
+// The version page island: header (shot, version, author, frame range in SMPTE timecode, review and bake state), the
+// bake controls with live progress while queued or baking, and the player once the version is baked.
+import { useEffect, useRef, useState } from 'react';
+import { QueryClient, QueryClientProvider, useQuery, useQueryClient } from '@tanstack/react-query';
+import { api, ApiError } from '../shared/api';
+import { signInUrl } from '../shared/paths';
+import BakePanel from './BakePanel';
+import Player from './Player';
+import { safeTimecode } from './Timeline';
+import type { BakeProgress, BakeState, ClipInfo, PlateInfo, ShotInfo, VersionInfo } from './types';
+
+interface Props {
+  studioId: number;
+  studioSlug: string;
+  version: VersionInfo;
+  shot: ShotInfo;
+  plate: PlateInfo | null;
+  /** Presigned clip URLs when the version was baked as the page was made. */
+  clip: ClipInfo | null;
+  /** Artist or above: may start and cancel bakes, and sees progress. */
+  canBake: boolean;
+}
+
+export default function VersionScreen(props: Props) {
+  const [client] = useState(
+    () =>
+      new QueryClient({
+        defaultOptions: {
+          queries: { retry: (count, err) => !(err instanceof ApiError && err.status >= 400 && err.status < 500) && count < 2 },
+        },
+      }),
+  );
+  return (
+    <QueryClientProvider client={client}>
+      <Version {...props} />
+    </QueryClientProvider>
+  );
+}
+
+const STATE_STYLE: Record<string, string> = {
+  draft: 'bg-sand-deep text-ink-soft',
+  submitted: 'bg-harbour-50 text-harbour-700',
+  approved: 'bg-foam-50 text-foam-600',
+  returned: 'bg-coral-50 text-coral-700',
+  superseded: 'bg-sand-deep text-ink-muted',
+  none: 'bg-sand-deep text-ink-soft',
+  queued: 'bg-harbour-50 text-harbour-700',
+  baking: 'bg-harbour-50 text-harbour-700',
+  baked: 'bg-foam-50 text-foam-600',
+  failed: 'bg-coral-50 text-coral-700',
+  cancelled: 'bg-sand-deep text-ink-muted',
+};
+const BAKE_LABEL: Record<BakeState, string> = { none: 'not baked', queued: 'bake queued', baking: 'baking', baked: 'baked', failed: 'bake failed', cancelled: 'bake cancelled' };
+
+function Chip({ value, label, testId }: { value: string; label: string; testId?: string }) {
+  return (
+    <span className={`rounded-full px-2.5 py-0.5 text-xs font-medium ${STATE_STYLE[value] ?? 'bg-sand-deep text-ink-soft'}`} data-testid={testId}>
+      {label}
+    </span>
+  );
+}
+
+function Version({ studioId, studioSlug, version, shot, plate, clip, canBake }: Props) {
+  const queryClient = useQueryClient();
+  const progressKey = ['version', version.id, 'bake'];
+  const progress = useQuery({
+    queryKey: progressKey,
+    queryFn: () => api<BakeProgress>(`/api/versions/${version.id}/bake`),
+    enabled: canBake,
+    initialData: { bakeState: version.bakeState, bake: null } as BakeProgress,
+    initialDataUpdatedAt: 0,
+    refetchInterval: (q) => {
+      const s = q.state.data?.bakeState;
+      return s === 'queued' || s === 'baking' ? 1000 : false;
+    },
+    refetchIntervalInBackground: true,
+  });
+  const bakeState: BakeState = canBake ? (progress.data?.bakeState ?? version.bakeState) : version.bakeState;
+
+  // Remember that a bake ran while the page was open, to confirm its end above the player.
+  const sawActive = useRef(false);
+  if (bakeState === 'queued' || bakeState === 'baking') sawActive.current = true;
+
+  const clipQuery = useQuery({
+    queryKey: ['version', version.id, 'clip'],
+    queryFn: () => api<ClipInfo>(`/api/versions/${version.id}/clip`),
+    enabled: bakeState === 'baked' && !clip,
+    staleTime: 10 * 60_000,
+  });
+  const clipInfo = clip ?? clipQuery.data ?? null;
+
+  const failure = progress.error;
+  useEffect(() => {
+    if (failure instanceof ApiError && failure.status === 401) window.location.assign(signInUrl(window.location.pathname));
+  }, [failure]);
+
+  const frames = version.endFrame - version.startFrame + 1;
+  return (
+    <div className="space-y-6">
+      <header className="flex flex-wrap items-end justify-between gap-4" data-testid="version-header">
+        <div className="min-w-0">
+          <p className="text-sm font-medium tracking-wide text-harbour-600 uppercase">
+            <a className="hover:underline" href={`/studios/${studioSlug}/`}>
+              {shot.showCode}
+            </a>{' '}
+            · {shot.code}
+          </p>
+          <h1 className="mt-1 flex flex-wrap items-center gap-3 text-3xl font-semibold tracking-tight">
+            <span>
+              {shot.code} <span className="text-ink-muted">v{version.number}</span>
+            </span>
+            <Chip value={version.reviewState} label={version.reviewState} testId="review-state" />
+            <Chip value={bakeState} label={BAKE_LABEL[bakeState]} testId="bake-state" />
+          </h1>
+          <p className="mt-2 text-sm text-ink-soft">
+            {version.authorName ? <>By {version.authorName} · </> : null}
+            {new Date(version.createdAt).toLocaleString(undefined, { dateStyle: 'medium', timeStyle: 'short' })}
+          </p>
+          {version.comment && <p className="mt-2 max-w-3xl leading-relaxed">“{version.comment}”</p>}
+        </div>
+        <dl className="grid grid-cols-[auto_auto] gap-x-4 gap-y-1 text-sm" data-testid="frame-range">
+          <dt className="text-ink-muted">Frames</dt>
+          <dd className="tabular-nums">
+            {version.startFrame}–{version.endFrame} <span className="text-ink-muted">({frames})</span>
+          </dd>
+          <dt className="text-ink-muted">Timecode</dt>
+          <dd className="font-mono text-xs leading-5 tabular-nums">
+            {safeTimecode(version.startFrame, shot.frameRate)} – {safeTimecode(version.endFrame, shot.frameRate)}
+          </dd>
+          <dt className="text-ink-muted">Shot</dt>
+          <dd className="tabular-nums">
+            {shot.firstFrame}–{shot.lastFrame}
+            {shot.handles ? <span className="text-ink-muted"> + {shot.handles} handles</span> : null} · {shot.frameRate} fps
+          </dd>
+        </dl>
+      </header>
+
+      <BakePanel
+        versionId={version.id}
+        canBake={canBake}
+        progress={canBake ? progress.data : { bakeState, bake: null }}
+        justFinished={sawActive.current}
+        onChanged={() => {
+          // A bake started here is confirmed at its end even if it finished before the next poll.
+          sawActive.current = true;
+          void queryClient.invalidateQueries({ queryKey: progressKey });
+        }}
+      />
+
+      {bakeState === 'baked' &&
+        (clipInfo ? (
+          <Player studioId={studioId} version={version} shot={shot} plate={plate} clip={clipInfo} />
+        ) : (
+          <section className="card p-6 text-sm text-ink-muted" data-testid="player-loading">
+            {clipQuery.error ? `The baked clip could not be opened: ${clipQuery.error.message}` : 'Opening the bake…'}
+          </section>
+        ))}
+    </div>
+  );
+}

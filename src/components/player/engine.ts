@@ -1,0 +1,243 @@
+// The player's drawing engine (no React): a pixi.js 8 stage with the plate underneath and one particle image on top,
+// redrawn on demand. Frames are decoded on the main thread, kept in a small cache around the playhead, and prefetched
+// ahead of it; every look is drawn on the CPU into one image (src/lib/render), so software WebGL draws two sprites.
+import { Application, BufferImageSource, Sprite, Texture } from 'pixi.js';
+import { LookRenderer, type LookOptions, type ParticleFrame, type RenderLook } from '~/lib/render/looks';
+import { layoutView, type ViewLayout } from '~/lib/render/view';
+import type { PlateFrameSource, PlateImage } from '~/lib/plate';
+
+/** Where the engine gets frames: a clip reader, or synthetic frames in the benchmark. */
+export interface FrameSource {
+  startFrame: number;
+  endFrame: number;
+  /** Tank size in metres. */
+  tankWidth: number;
+  tankHeight: number;
+  frameAt(frame: number): Promise<ParticleFrame>;
+  /** Starts fetching the bytes of the frames around `frame` (optional). */
+  prefetch?(frame: number): void;
+}
+
+export interface EngineOptions {
+  host: HTMLElement;
+  frames: FrameSource;
+  plate: PlateFrameSource | null;
+  /** Metres per plate pixel (the shot's scale), or null to fit the tank to the view. */
+  metresPerPixel: number | null;
+  look: RenderLook;
+  lookOptions?: LookOptions;
+}
+
+/** Milliseconds spent on the last drawn frame: the look on the CPU, and texture upload plus pixi's render. */
+export interface DrawTiming {
+  frame: number;
+  lookMs: number;
+  gpuMs: number;
+}
+
+const CACHE_FRAMES = 48;
+const PREFETCH_AHEAD = 12;
+
+export class PlayerEngine {
+  readonly app = new Application();
+  private looks!: LookRenderer;
+  private overlaySource!: BufferImageSource;
+  private overlay!: Sprite;
+  private plateSprite: Sprite | null = null;
+  private plateImage: PlateImage | null = null;
+  private layout!: ViewLayout;
+  private decoded = new Map<number, ParticleFrame>();
+  private pending = new Map<number, Promise<ParticleFrame>>();
+  private shown: number | null = null;
+  private wanted: number | null = null;
+  private resizeObserver: ResizeObserver | null = null;
+  private destroyed = false;
+  private playhead = 0;
+  look: RenderLook;
+  lookOptions: LookOptions;
+  lastTiming: DrawTiming | null = null;
+
+  private constructor(private o: EngineOptions) {
+    this.look = o.look;
+    this.lookOptions = o.lookOptions ?? {};
+    this.playhead = o.frames.startFrame;
+  }
+
+  /** Creates the stage in `host` (WebGL: software GL has no WebGPU adapter, PITFALLS.md). */
+  static async create(o: EngineOptions): Promise<PlayerEngine> {
+    const engine = new PlayerEngine(o);
+    const { width, height } = sizeOf(o.host);
+    await engine.app.init({ preference: 'webgl', width, height, background: 0x0b1418, antialias: false, autoStart: false, resolution: 1 });
+    engine.app.ticker.stop();
+    const canvas = engine.app.canvas;
+    canvas.style.width = '100%';
+    canvas.style.height = '100%';
+    canvas.style.display = 'block';
+    o.host.appendChild(canvas);
+    if (o.plate) {
+      engine.plateImage = await o.plate.frameAt(o.frames.startFrame);
+      engine.plateSprite = new Sprite(Texture.from(engine.plateImage));
+      engine.app.stage.addChild(engine.plateSprite);
+    }
+    engine.build(width, height);
+    if (typeof ResizeObserver !== 'undefined') {
+      engine.resizeObserver = new ResizeObserver(() => engine.resize());
+      engine.resizeObserver.observe(o.host);
+    }
+    return engine;
+  }
+
+  get startFrame() {
+    return this.o.frames.startFrame;
+  }
+  get endFrame() {
+    return this.o.frames.endFrame;
+  }
+  get currentFrame() {
+    return this.shown;
+  }
+
+  /** (Re)builds the particle image and the layout for a view size in pixels. */
+  private build(width: number, height: number) {
+    const { frames, plate, metresPerPixel } = this.o;
+    this.layout = layoutView({ viewWidth: width, viewHeight: height, tankWidth: frames.tankWidth, tankHeight: frames.tankHeight, plate, metresPerPixel });
+    this.looks = new LookRenderer(width, height);
+    const old = this.overlay;
+    this.overlaySource = new BufferImageSource({
+      resource: this.looks.image.data,
+      width: this.looks.image.width,
+      height: this.looks.image.height,
+      format: 'rgba8unorm',
+      alphaMode: 'premultiplied-alpha',
+      scaleMode: 'nearest',
+    });
+    this.overlay = new Sprite(new Texture({ source: this.overlaySource }));
+    if (old) {
+      this.app.stage.removeChild(old);
+      old.texture.destroy(true);
+    }
+    this.app.stage.addChild(this.overlay);
+    if (this.plateSprite && this.layout.plateRect) {
+      const r = this.layout.plateRect;
+      this.plateSprite.position.set(r.x, r.y);
+      this.plateSprite.width = r.width;
+      this.plateSprite.height = r.height;
+    }
+  }
+
+  resize() {
+    if (this.destroyed) return;
+    const { width, height } = sizeOf(this.o.host);
+    if (width === this.looks.image.width && height === this.looks.image.height) return;
+    this.app.renderer.resize(width, height);
+    this.build(width, height);
+    const f = this.shown;
+    if (f !== null && this.decoded.has(f)) this.drawNow(f);
+  }
+
+  setLook(look: RenderLook, options?: LookOptions) {
+    this.look = look;
+    if (options) this.lookOptions = options;
+    if (this.shown !== null && this.decoded.has(this.shown)) this.drawNow(this.shown);
+  }
+
+  /** The decoded frame when it is in the cache. */
+  cached(frame: number): ParticleFrame | undefined {
+    return this.decoded.get(frame);
+  }
+
+  /** Decodes a frame (cached; concurrent calls share one decode). */
+  decode(frame: number): Promise<ParticleFrame> {
+    const hit = this.decoded.get(frame);
+    if (hit) return Promise.resolve(hit);
+    let p = this.pending.get(frame);
+    if (!p) {
+      p = this.o.frames.frameAt(frame).then((f) => {
+        this.pending.delete(frame);
+        this.decoded.set(frame, f);
+        this.evict();
+        return f;
+      });
+      p.catch(() => this.pending.delete(frame));
+      this.pending.set(frame, p);
+    }
+    return p;
+  }
+
+  private evict() {
+    if (this.decoded.size <= CACHE_FRAMES) return;
+    // Drop the frames farthest from the playhead (behind it counts double: playback moves forward).
+    const far = [...this.decoded.keys()].sort((a, b) => distance(b, this.playhead) - distance(a, this.playhead));
+    for (const f of far.slice(0, this.decoded.size - CACHE_FRAMES)) this.decoded.delete(f);
+  }
+
+  /** Decodes the next frames after `frame` (wrapping inside [from, to]) one at a time, and fetches their chunks. */
+  prefetch(frame: number, from = this.startFrame, to = this.endFrame) {
+    this.o.frames.prefetch?.(frame);
+    let chain: Promise<unknown> = Promise.resolve();
+    for (let k = 1; k <= PREFETCH_AHEAD; k++) {
+      let f = frame + k;
+      if (f > to) f = from + ((f - from) % (to - from + 1));
+      if (this.decoded.has(f) || this.pending.has(f)) continue;
+      chain = chain.then(() => (this.destroyed ? null : this.decode(f))).catch(() => null);
+    }
+  }
+
+  /** Shows a frame as soon as it is decoded; a later call wins over an earlier one still waiting. */
+  async show(frame: number): Promise<void> {
+    this.wanted = frame;
+    this.playhead = frame;
+    const f = await this.decode(frame);
+    if (this.destroyed || this.wanted !== frame) return;
+    await this.updatePlate(frame);
+    if (this.destroyed || this.wanted !== frame) return;
+    this.drawParticles(frame, f);
+    this.prefetch(frame);
+  }
+
+  /** Draws a decoded frame at once (returns false when it is not decoded yet); the plate follows when ready. */
+  drawNow(frame: number): boolean {
+    const f = this.decoded.get(frame);
+    if (!f) return false;
+    this.wanted = frame;
+    this.playhead = frame;
+    if (this.o.plate?.kind === 'video') void this.updatePlate(frame).then(() => this.destroyed || this.app.render());
+    this.drawParticles(frame, f);
+    return true;
+  }
+
+  private async updatePlate(frame: number) {
+    const plate = this.o.plate;
+    if (!plate || plate.kind !== 'video' || !this.plateSprite) return;
+    await plate.frameAt(frame);
+    this.plateSprite.texture.source.update();
+  }
+
+  private drawParticles(frame: number, f: ParticleFrame) {
+    const t0 = performance.now();
+    const { tankWidth, tankHeight } = this.o.frames;
+    this.looks.render(this.look, f, this.layout.toView, { tank: { width: tankWidth, height: tankHeight }, ...this.lookOptions });
+    const t1 = performance.now();
+    this.overlaySource.update();
+    this.app.render();
+    const t2 = performance.now();
+    this.shown = frame;
+    this.lastTiming = { frame, lookMs: t1 - t0, gpuMs: t2 - t1 };
+  }
+
+  destroy() {
+    this.destroyed = true;
+    this.resizeObserver?.disconnect();
+    this.o.plate?.destroy();
+    this.app.destroy(true, { children: true, texture: true });
+  }
+}
+
+function distance(f: number, playhead: number) {
+  return f >= playhead ? f - playhead : 2 * (playhead - f);
+}
+
+function sizeOf(host: HTMLElement) {
+  const r = host.getBoundingClientRect();
+  return { width: Math.max(16, Math.round(r.width)), height: Math.max(16, Math.round(r.height)) };
+}

@@ -1,0 +1,67 @@
+// Shapes the version page hands to its island, and the answers of the bake and clip endpoints.
+import type { FrameStats } from '~/lib/sim';
+
+export type BakeState = 'none' | 'queued' | 'baking' | 'baked' | 'failed' | 'cancelled';
+
+export interface VersionInfo {
+  id: number;
+  number: number;
+  authorName: string | null;
+  comment: string | null;
+  reviewState: string;
+  bakeState: BakeState;
+  createdAt: string;
+  /** The scene's frame range (what a bake produces). */
+  startFrame: number;
+  endFrame: number;
+}
+
+export interface ShotInfo {
+  id: number;
+  code: string;
+  showCode: string;
+  description: string | null;
+  firstFrame: number;
+  lastFrame: number;
+  handles: number;
+  /** Frame rate id, e.g. '25' or '29.97df'. */
+  frameRate: string;
+  metresPerPixel: number | null;
+}
+
+export interface PlateInfo {
+  assetId: number;
+  contentType: string;
+  width: number | null;
+  height: number | null;
+  /** A presigned URL made with the page (short-lived; the island asks for a new one when it expires). */
+  url: string | null;
+}
+
+export interface ClipInfo {
+  clipUrl: string;
+  statsUrl: string | null;
+  bytes?: number | null;
+}
+
+export interface BakeProgress {
+  bakeState: BakeState;
+  bake: {
+    id: number;
+    state: 'queued' | 'running' | 'done' | 'failed' | 'cancelled';
+    attempts: number;
+    maxAttempts: number;
+    framesDone: number;
+    framesTotal: number;
+    percent: number;
+    etaSeconds: number | null;
+    error: string | null;
+    cancelRequested: boolean;
+  } | null;
+}
+
+/** The stats file stored beside a clip (liquidArea is null before the first step). */
+export interface BakeStats {
+  solverBuild: string;
+  frames: (Omit<FrameStats, 'liquidArea'> & { liquidArea: number | null })[];
+}
