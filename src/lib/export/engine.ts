@@ -1,0 +1,138 @@
+// The export engine: renders the chosen frames (slate first when asked), encodes them as GIF, MP4 or a PNG ZIP, and
+// reports progress by stage with an ETA. Cancel with the AbortSignal: workers stop and the promise rejects with
+// CancelledError. Browser only; the page stays usable (the loop yields between frames, encoders run in workers).
+import type { RenderLook } from '../render/looks';
+import type { PlateFrameSource } from '../plate';
+import { rateInfo } from '../timecode';
+import { FrameRenderer } from './frames';
+import { loadExportFont } from './font';
+import { GIF_SLATE_DELAY_CS, exportFileName, ffmpegRate, gifDelays, zipEntryName, FORMAT_TYPES, type ExportFormat, type ExportLabels } from './layout';
+import { ProgressTracker, type ProgressReport } from './progress';
+import type { ParticleSource } from './source';
+import { yieldToPage } from './cancel';
+
+export { CancelledError } from './cancel';
+
+export interface ExportRequest {
+  format: ExportFormat;
+  labels: ExportLabels;
+  /** Inclusive shot frames. */
+  first: number;
+  last: number;
+  width: number;
+  height: number;
+  look: RenderLook;
+  slate: boolean;
+  burnIns: boolean;
+  /** GIF only: loop forever (true) or play once. */
+  loop: boolean;
+  source: ParticleSource;
+  /** Drawn under the splash when given (the "plate underlay" choice). */
+  plate: PlateFrameSource | null;
+  plateSize: { width: number; height: number } | null;
+  metresPerPixel: number | null;
+}
+
+export interface ExportResult {
+  bytes: Uint8Array;
+  contentType: string;
+  fileName: string;
+  /** Frames in the file, the slate included. */
+  frameCount: number;
+  seconds: { rendering: number; encoding: number };
+}
+
+/** Raw frame bytes a GIF export may hold at once (1.2 GB). */
+const GIF_MEMORY_LIMIT = 1.2e9;
+
+const STAGE_WEIGHTS: Record<ExportFormat, { rendering: number; encoding: number }> = {
+  gif: { rendering: 0.3, encoding: 0.67 },
+  mp4: { rendering: 0.35, encoding: 0.62 },
+  zip: { rendering: 0.9, encoding: 0.07 },
+};
+
+/** Runs one export; `onProgress` gets a report after every frame and encoder step. */
+export async function runExport(req: ExportRequest, onProgress: (r: ProgressReport) => void, signal: AbortSignal): Promise<ExportResult> {
+  const tracker = new ProgressTracker({ preparing: 0.03, ...STAGE_WEIGHTS[req.format], uploading: 0 });
+  onProgress(tracker.report('preparing', 0, 'Loading the font'));
+  if (req.slate || req.burnIns) await loadExportFont();
+  let mp4: typeof import('./mp4') | null = null;
+  if (req.format === 'mp4') {
+    onProgress(tracker.report('preparing', 0.3, 'Starting the video encoder'));
+    mp4 = await import('./mp4');
+    await mp4.loadFfmpeg(); // load before rendering so a broken encoder fails fast
+  }
+  await yieldToPage(signal);
+
+  const renderer = new FrameRenderer({
+    width: req.width,
+    height: req.height,
+    labels: req.labels,
+    look: req.look,
+    source: req.source,
+    plate: req.plate,
+    plateSize: req.plateSize,
+    metresPerPixel: req.metresPerPixel,
+    burnIns: req.burnIns,
+  });
+  const frames: number[] = [];
+  for (let f = req.first; f <= req.last; f++) frames.push(f);
+  const total = frames.length + (req.slate ? 1 : 0);
+
+  // gif.js needs every frame as raw RGBA before it starts: refuse what would not fit in a tab's memory.
+  if (req.format === 'gif' && req.width * req.height * 4 * total > GIF_MEMORY_LIMIT) {
+    throw new Error(`A GIF of ${total} frames at ${req.width}×${req.height} needs more memory than a browser tab has: choose a smaller size or fewer frames, or export an MP4`);
+  }
+  const images: ImageData[] = [];
+  const pngs: { name: string; png: Uint8Array }[] = [];
+  const keep = async (name: string) => {
+    if (req.format === 'gif') images.push(renderer.imageData());
+    else pngs.push({ name, png: await renderer.png() });
+  };
+
+  const t0 = performance.now();
+  let done = 0;
+  if (req.slate) {
+    renderer.drawSlate(req.first, req.last);
+    await keep(zipEntryName(req.labels, 'slate'));
+    done++;
+    onProgress(tracker.report('rendering', done / total, `slate, then ${frames.length} frames`));
+  }
+  for (const f of frames) {
+    await yieldToPage(signal);
+    await renderer.drawFrame(f);
+    await keep(zipEntryName(req.labels, f));
+    done++;
+    onProgress(tracker.report('rendering', done / total, `frame ${done} of ${total}`));
+  }
+  const t1 = performance.now();
+  await yieldToPage(signal);
+
+  const encodeProgress = (p: number) => onProgress(tracker.report('encoding', p, `${Math.round(p * 100)} %`));
+  let bytes: Uint8Array;
+  if (req.format === 'gif') {
+    const { encodeGif } = await import('./gif');
+    const fps = rateInfo(req.labels.rateId).fps;
+    const delays = gifDelays(fps, frames.length);
+    bytes = await encodeGif(
+      { width: req.width, height: req.height, frames: images, delaysCs: req.slate ? [GIF_SLATE_DELAY_CS, ...delays] : delays, loop: req.loop },
+      encodeProgress,
+      signal,
+    );
+  } else if (req.format === 'mp4') {
+    bytes = await mp4!.encodeMp4({ frames: pngs.map((p) => p.png), rate: ffmpegRate(req.labels.rateId) }, encodeProgress, signal);
+  } else {
+    const { zipFrames } = await import('./zip');
+    encodeProgress(0);
+    bytes = zipFrames(pngs);
+  }
+  onProgress(tracker.report('encoding', 1, 'done'));
+  const t2 = performance.now();
+  return {
+    bytes,
+    contentType: FORMAT_TYPES[req.format],
+    fileName: exportFileName(req.labels, req.first, req.last, req.format),
+    frameCount: total,
+    seconds: { rendering: (t1 - t0) / 1000, encoding: (t2 - t1) / 1000 },
+  };
+}

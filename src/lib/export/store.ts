@@ -1,0 +1,69 @@
+// Stores a finished export: ask the API for a presigned PUT, upload straight to the object store (with upload
+// progress), then ask the API to check and list it. Browser only.
+import { CancelledError } from './cancel';
+import type { ExportFormat } from './layout';
+
+export interface StoredExport {
+  id: number;
+  format: ExportFormat;
+  byteSize: number;
+  fileName: string;
+  createdAt: string;
+  createdBy: string | null;
+  downloadUrl: string;
+  width: number | null;
+  height: number | null;
+}
+
+async function call<T>(path: string, body?: unknown): Promise<T> {
+  const res = await fetch(path, {
+    method: body === undefined ? 'GET' : 'POST',
+    headers: { accept: 'application/json', ...(body === undefined ? {} : { 'content-type': 'application/json' }) },
+    body: body === undefined ? undefined : JSON.stringify(body),
+    credentials: 'same-origin',
+  });
+  const data = await res.json().catch(() => null);
+  if (!res.ok) throw new Error(data?.error?.message ?? `The server answered ${res.status}`);
+  return data as T;
+}
+
+/** PUTs bytes with XMLHttpRequest (fetch has no upload progress); rejects with CancelledError on abort. */
+function put(url: string, headers: Record<string, string>, bytes: Uint8Array, onProgress: (f: number) => void, signal: AbortSignal): Promise<void> {
+  return new Promise((resolve, reject) => {
+    const xhr = new XMLHttpRequest();
+    xhr.open('PUT', url);
+    for (const [k, v] of Object.entries(headers)) xhr.setRequestHeader(k, v);
+    xhr.upload.onprogress = (e) => e.lengthComputable && onProgress(e.loaded / e.total);
+    xhr.onload = () => (xhr.status >= 200 && xhr.status < 300 ? resolve() : reject(new Error(`The object store refused the upload (HTTP ${xhr.status})`)));
+    xhr.onerror = () => reject(new Error('Could not reach the object store to upload the export'));
+    xhr.onabort = () => reject(new CancelledError());
+    signal.addEventListener('abort', () => xhr.abort(), { once: true });
+    xhr.send(new Blob([bytes as BlobPart]));
+  });
+}
+
+/** Uploads and lists the export on the version; resolves to the stored export. */
+export async function storeExport(
+  versionId: number,
+  file: { format: ExportFormat; bytes: Uint8Array; fileName: string; options: Record<string, unknown> },
+  onProgress: (f: number) => void,
+  signal: AbortSignal,
+): Promise<StoredExport> {
+  const started = await call<{ assetId: number; upload: { url: string; headers: Record<string, string> } }>(`/api/versions/${versionId}/exports`, {
+    format: file.format,
+    byteSize: file.bytes.byteLength,
+    fileName: file.fileName,
+    options: file.options,
+  });
+  await put(started.upload.url, started.upload.headers, file.bytes, onProgress, signal);
+  const done = await call<{ export: StoredExport }>(`/api/versions/${versionId}/exports/${started.assetId}/complete`, {});
+  return done.export;
+}
+
+/** The version's stored exports, newest first. */
+export async function listExports(versionId: number): Promise<StoredExport[]> {
+  return (await call<{ exports: StoredExport[] }>(`/api/versions/${versionId}/exports`)).exports;
+}
+
+/** The event ExportPanel fires on window when an export is stored (SharePanel listens to offer it). */
+export const EXPORT_STORED_EVENT = 'tidemark:export-stored';

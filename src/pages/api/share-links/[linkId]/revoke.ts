@@ -1,0 +1,11 @@
+// POST /api/share-links/:linkId/revoke → {link}: turns the link off at once; later opens get 410 (supervisor).
+import { endpoint, json, idParam } from '~/lib/server/http';
+import { requireRole, requireUser } from '~/lib/server/authz';
+import { revokeShareLink, shareLinkStudio } from '~/lib/server/share';
+
+export const POST = endpoint(async ({ params, locals }) => {
+  requireUser(locals);
+  const linkId = idParam(params, 'linkId');
+  const access = await requireRole(locals, await shareLinkStudio(linkId), 'supervisor');
+  return json({ link: await revokeShareLink(access, linkId) });
+});

@@ -1,0 +1,12 @@
+// POST /api/shared/:token/notes {name, body, frame} → 201 {note}: the viewer's comment, filed as a client note on the
+// version (guest name, not internal). Public (same refusals as GET /api/shared/:token).
+import { endpoint, json, readJson } from '~/lib/server/http';
+import { addGuestNote, findShare, requireUnlocked } from '~/lib/server/share';
+import { guestNoteBody } from '~/lib/export/schemas';
+
+export const POST = endpoint(async ({ params, cookies, request }) => {
+  const opened = await findShare(params.token ?? '');
+  requireUnlocked(opened, cookies);
+  const body = await readJson(request, guestNoteBody);
+  return json({ note: await addGuestNote(opened, body) }, 201);
+});

@@ -1,0 +1,12 @@
+// POST /api/shared/:token/unlock {password} → {unlocked: true} and an HttpOnly cookie for this link; 401 when the
+// password is wrong, 429 after too many wrong tries. Public.
+import { endpoint, json, readJson } from '~/lib/server/http';
+import { findShare, unlockShare } from '~/lib/server/share';
+import { shareUnlockBody } from '~/lib/export/schemas';
+
+export const POST = endpoint(async ({ params, cookies, request }) => {
+  const opened = await findShare(params.token ?? '');
+  const { password } = await readJson(request, shareUnlockBody);
+  await unlockShare(opened, password, cookies, '/');
+  return json({ unlocked: true });
+});

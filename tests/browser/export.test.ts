@@ -1,0 +1,270 @@
+// Issue 8 in Chromium: a supervisor exports an MP4, a GIF and a PNG ZIP of a really baked version with slate and
+// burn-ins (progress bar to 100 %, downloads caught by Playwright), cancels one export and carries on, makes a share
+// link, opens it in a fresh browser without signing in, leaves a comment, and the comment is on the version.
+// The files are checked in Node: ffprobe (MP4), omggif (GIF), fflate (ZIP).
+import { describe, it, expect, beforeAll, afterAll } from 'vitest';
+import { chromium, type BrowserContext, type Page } from 'playwright-core';
+import { execFileSync } from 'node:child_process';
+import { mkdirSync, mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import path from 'node:path';
+import { eq } from 'drizzle-orm';
+import { GifReader } from 'omggif';
+import { unzipSync } from 'fflate';
+import { APP, makeStudio, unique, type TestStudio } from '../support/app';
+import { SHOTS_DIR, screenshot, signInAs } from '../support/browser';
+import { tinyScene } from '../support/scenes';
+import { buildHarness, routeHarness, HARNESS_BASE } from '../export/harness-build';
+import { closeDb, db } from '../../src/lib/server/db';
+import { notes, shots, shows } from '../../src/lib/server/db/schema';
+import { burnInLayout, gifDelays, GIF_SLATE_DELAY_CS } from '../../src/lib/export/layout';
+import { framesToTimecode } from '../../src/lib/timecode';
+import type { ExportPanelProps } from '../../src/components/export/ExportPanel';
+
+const FIRST = 1001;
+const LAST = 1024; // 24 frames at 24 fps
+const PLATE = { width: 640, height: 360 }; // "Half" → 320×180
+
+let studio: TestStudio;
+let versionId: number;
+let props: ExportPanelProps;
+let harnessDir: string;
+const downloads = mkdtempSync(path.join(tmpdir(), 'tidemark-exports-'));
+
+/** Chromium as in tests/support/browser.ts; web security off because the S3 stand-in's CORS rules name fixed ports. */
+async function launch(): Promise<{ context: BrowserContext; page: Page; close: () => Promise<void> }> {
+  const dir = mkdtempSync(path.join(tmpdir(), 'tidemark-chromium-'));
+  const context = await chromium.launchPersistentContext(dir, {
+    executablePath: '/usr/bin/chromium',
+    args: ['--headless', '--no-sandbox', '--disable-gpu', '--disable-quic', '--no-first-run', '--disable-background-networking', '--disable-component-update', '--disable-sync', '--disable-web-security'],
+    viewport: { width: 1280, height: 1000 },
+    baseURL: APP,
+    acceptDownloads: true,
+  });
+  const page = context.pages()[0] ?? (await context.newPage());
+  return { context, page, close: async () => (await context.close(), rmSync(dir, { recursive: true, force: true })) };
+}
+
+async function waitBaked(id: number) {
+  const c = studio.members.supervisor.client;
+  for (let i = 0; i < 900; i++) {
+    const res = await c.get(`/api/versions/${id}/bake`);
+    if (res.body.bakeState === 'baked') return;
+    if (res.body.bakeState === 'failed') throw new Error(`bake failed: ${res.body.bake?.error}`);
+    await new Promise((r) => setTimeout(r, 200));
+  }
+  throw new Error('bake did not finish');
+}
+
+beforeAll(async () => {
+  const [s, dir] = await Promise.all([makeStudio(), buildHarness()]);
+  studio = s;
+  harnessDir = dir;
+  const [show] = await db().insert(shows).values({ studioId: studio.id, code: 'LT', name: 'Low Tide', frameRate: '24' });
+  const [shot] = await db()
+    .insert(shots)
+    .values({ studioId: studio.id, showId: Number(show.insertId), code: unique('LT_010').slice(0, 20), firstFrame: FIRST, lastFrame: LAST, handles: 4, frameRate: '24', plateWidth: PLATE.width, plateHeight: PLATE.height });
+  const shotId = Number(shot.insertId);
+  const sup = studio.members.supervisor;
+  const saved = await sup.client.post(`/api/shots/${shotId}/versions`, { scene: tinyScene(LAST - FIRST + 1, 7), comment: 'for export' });
+  expect(saved.status).toBe(201);
+  versionId = saved.body.version.id;
+  expect((await sup.client.post(`/api/versions/${versionId}/bake`)).status).toBe(202);
+  await waitBaked(versionId);
+  const [shotRow] = await db().select().from(shots).where(eq(shots.id, shotId));
+  props = {
+    versionId,
+    studioId: studio.id,
+    studioName: `Studio ${studio.slug}`,
+    showName: 'Low Tide',
+    showCode: 'LT',
+    shotCode: shotRow.code,
+    versionNumber: 1,
+    artistName: sup.name,
+    reviewState: 'draft',
+    firstFrame: FIRST,
+    lastFrame: LAST,
+    handles: 4,
+    frameRate: '24',
+    plateWidth: PLATE.width,
+    plateHeight: PLATE.height,
+    metresPerPixel: null,
+    plate: null,
+  };
+}, 240_000);
+
+afterAll(async () => {
+  await closeDb();
+  rmSync(downloads, { recursive: true, force: true });
+  if (harnessDir) rmSync(harnessDir, { recursive: true, force: true });
+});
+
+/** Picks a format, exports, waits for the bar to reach 100 %, and saves the download. */
+async function exportAndDownload(page: Page, format: 'gif' | 'mp4' | 'zip'): Promise<string> {
+  await page.locator(`input[name="export-format"][value="${format}"]`).check();
+  await page.getByRole('button', { name: /^Export / }).click();
+  await page.getByTestId('export-done').waitFor({ timeout: 120_000 });
+  expect(await page.getByRole('progressbar', { name: 'Export progress' }).getAttribute('aria-valuenow')).toBe('100');
+  expect(await page.getByTestId('export-done').textContent()).toContain('Stored with the version');
+  const [download] = await Promise.all([page.waitForEvent('download'), page.getByTestId('export-download').click()]);
+  const file = path.join(downloads, download.suggestedFilename());
+  await download.saveAs(file);
+  return file;
+}
+
+/** Pixels of a GIF frame as RGBA. */
+function gifFrame(reader: GifReader, i: number): Uint8Array {
+  const px = new Uint8Array(reader.width * reader.height * 4);
+  reader.decodeAndBlitFrameRGBA(i, px);
+  return px;
+}
+
+/** Count of bright (text-coloured) pixels in a rectangle, and a checksum of the rectangle. */
+function region(px: Uint8Array, width: number, r: { x0: number; y0: number; x1: number; y1: number }) {
+  let bright = 0;
+  let sum = 0;
+  for (let y = Math.max(0, Math.floor(r.y0)); y < Math.ceil(r.y1); y++) {
+    for (let x = Math.max(0, Math.floor(r.x0)); x < Math.ceil(r.x1); x++) {
+      const i = (y * width + x) * 4;
+      if (px[i] > 180 && px[i + 1] > 180 && px[i + 2] > 170) bright++;
+      sum = (sum * 31 + px[i] + 7 * px[i + 1] + 13 * px[i + 2]) >>> 0;
+    }
+  }
+  return { bright, sum };
+}
+
+describe('exports and share links in Chromium', () => {
+  it('exports MP4, GIF and PNG ZIP with slate and burn-ins, cancels one, shares the version, and a client comments', async () => {
+    const b = await launch();
+    const viewer = await launch();
+    try {
+      const { page, context } = b;
+      await signInAs(page, studio.members.supervisor.email, studio.members.supervisor.password);
+      await page.waitForURL((u) => !u.pathname.startsWith('/sign-in'));
+      await routeHarness(context, APP, harnessDir);
+      const errors: string[] = [];
+      page.on('pageerror', (e) => errors.push(e.message));
+      page.on('console', (m) => m.type() === 'error' && console.log(`[harness console] ${m.text()}`));
+      await page.goto(`${HARNESS_BASE}index.html#${encodeURIComponent(JSON.stringify(props))}`);
+      await page.getByTestId('export-panel').waitFor({ timeout: 15_000 }).catch(async (e) => {
+        await screenshot(page, 'export-harness-failed');
+        throw new Error(`${e.message}\npage errors: ${errors.join('; ')}\nurl: ${page.url()}\n${(await page.content()).slice(0, 500)}`);
+      });
+      expect(await page.getByTestId('export-size').textContent()).toContain('320×180');
+
+      // ── MP4 ──
+      const mp4 = await exportAndDownload(page, 'mp4');
+      expect(path.basename(mp4)).toMatch(/_v001_1001-1024\.mp4$/);
+      const probe = JSON.parse(
+        execFileSync('ffprobe', ['-v', 'error', '-count_frames', '-select_streams', 'v:0', '-show_entries', 'stream=codec_name,pix_fmt,r_frame_rate,avg_frame_rate,width,height,nb_read_frames', '-of', 'json', mp4]).toString(),
+      ).streams[0];
+      expect(probe).toMatchObject({ codec_name: 'h264', pix_fmt: 'yuv420p', r_frame_rate: '24/1', width: 320, height: 180 });
+      expect(Number(probe.nb_read_frames)).toBe(LAST - FIRST + 1 + 1); // 24 frames + the slate
+      expect(await page.evaluate(() => document.fonts.check('600 16px "Space Grotesk"'))).toBe(true);
+      await screenshot(page, 'export-mp4-done');
+
+      // ── GIF ──
+      const gifPath = await exportAndDownload(page, 'gif');
+      const gifBytes = new Uint8Array(readFileSync(gifPath));
+      expect(gifBytes[gifBytes.length - 1]).toBe(0x3b); // the trailer is the last byte: gif.js's zero padding trimmed
+      const gif = new GifReader(gifBytes);
+      expect(gif.width).toBe(320);
+      expect(gif.height).toBe(180);
+      expect(gif.numFrames()).toBe(LAST - FIRST + 1 + 1);
+      expect(gif.loopCount()).toBe(0); // loop forever
+      const delays = Array.from({ length: gif.numFrames() }, (_, i) => gif.frameInfo(i).delay);
+      // Slate held 1 s; then 24 fps as 4/4/5/4/4/4… cs (running time rounded to the centisecond: 24 frames = 100 cs).
+      expect(delays).toEqual([GIF_SLATE_DELAY_CS, ...gifDelays(24, LAST - FIRST + 1)]);
+      expect(delays.slice(1).reduce((a, c) => a + c, 0)).toBe(100);
+
+      // Burn-in pixels: the timecode corner holds text, and differs between the first and last frames, whose
+      // labels are the timecode module's.
+      const lay = (f: number) => burnInLayout({ studioName: '', showName: '', shotCode: '', versionNumber: 1, artistName: null, date: '', reviewState: '', rateId: '24' }, f, 320, 180);
+      const tcFirst = lay(FIRST).texts.find((t) => t.id === 'timecode')!;
+      expect(tcFirst.text).toBe(framesToTimecode(FIRST, '24'));
+      expect(lay(LAST).texts.find((t) => t.id === 'timecode')!.text).toBe(framesToTimecode(LAST, '24'));
+      const box = { x0: tcFirst.x - tcFirst.maxWidth * 0.8, y0: tcFirst.y - tcFirst.size, x1: tcFirst.x, y1: tcFirst.y + 2 };
+      const first = region(gifFrame(gif, 1), 320, box);
+      const last = region(gifFrame(gif, gif.numFrames() - 1), 320, box);
+      expect(first.bright).toBeGreaterThan(20);
+      expect(last.bright).toBeGreaterThan(20);
+      expect(first.sum).not.toBe(last.sum);
+      // The slate is a different picture from the first frame.
+      expect(region(gifFrame(gif, 0), 320, { x0: 0, y0: 0, x1: 320, y1: 180 }).sum).not.toBe(region(gifFrame(gif, 1), 320, { x0: 0, y0: 0, x1: 320, y1: 180 }).sum);
+
+      // ── PNG ZIP ──
+      const zipPath = await exportAndDownload(page, 'zip');
+      mkdirSync(SHOTS_DIR, { recursive: true });
+      const entries = unzipSync(new Uint8Array(readFileSync(zipPath)));
+      const names = Object.keys(entries).sort();
+      expect(names).toHaveLength(LAST - FIRST + 1 + 1);
+      expect(names[0]).toMatch(/\.0000_slate\.png$/);
+      expect(names[1]).toMatch(/\.1001\.png$/);
+      expect(names[names.length - 1]).toMatch(/\.1024\.png$/);
+      // Keep the slate and a frame beside the screenshots, to look at.
+      writeFileSync(path.join(SHOTS_DIR, 'export-slate.png'), entries[names[0]]);
+      writeFileSync(path.join(SHOTS_DIR, 'export-frame-1012.png'), entries[names[12]]);
+      for (const n of names) {
+        const png = entries[n];
+        const dv = new DataView(png.buffer, png.byteOffset);
+        expect(Array.from(png.subarray(1, 4))).toEqual([0x50, 0x4e, 0x47]); // "PNG"
+        expect([dv.getUint32(16), dv.getUint32(20)]).toEqual([320, 180]); // IHDR width, height
+      }
+
+      // ── Cancel: stops the encoder, the page stays usable ──
+      await page.locator('input[name="export-format"][value="mp4"]').check();
+      await page.getByRole('combobox', { name: 'Frame range' }).selectOption('handles');
+      await page.getByRole('combobox', { name: 'Size' }).selectOption('full');
+      await page.getByRole('button', { name: /^Export / }).click();
+      await page.getByTestId('export-stage').filter({ hasText: /Rendering|Encoding/ }).waitFor();
+      await page.getByRole('button', { name: 'Cancel' }).click();
+      await page.getByText('Export cancelled.').waitFor();
+      expect(await page.getByRole('button', { name: /^Export / }).isEnabled()).toBe(true);
+      await page.getByRole('combobox', { name: 'Size' }).selectOption('half');
+      await page.getByRole('combobox', { name: 'Frame range' }).selectOption('shot');
+
+      // Stored exports are listed with the version.
+      const listed = await studio.members.supervisor.client.get(`/api/versions/${versionId}/exports`);
+      expect(listed.body.exports.map((e: { format: string }) => e.format).sort()).toEqual(['gif', 'mp4', 'zip']);
+      await page.getByTestId('export-list').locator('li').nth(2).waitFor();
+
+      // ── Share link ──
+      await page.getByRole('button', { name: 'Create link' }).click();
+      const url = await page.getByTestId('share-url').inputValue();
+      expect(url).toMatch(/\/share\/[a-z2-7]{32}$/);
+      await screenshot(page, 'export-share-made');
+      expect(errors).toEqual([]);
+
+      // ── A client opens it without signing in and comments ──
+      const v = viewer.page;
+      await v.goto(url);
+      await v.getByTestId('share-slate').waitFor();
+      const slate = await v.getByTestId('share-slate').textContent();
+      expect(slate).toContain(props.shotCode);
+      expect(slate).toContain('v001');
+      expect(slate).toContain('Low Tide');
+      expect(await v.getByTestId('share-caution').textContent()).toContain('licensed special-effects coordinator');
+      await v.getByTestId('shared-canvas').waitFor();
+      await v.getByLabel('Your name').fill('Robin at the agency');
+      await v.getByLabel(/^Comment/).fill('Can the splash reach the railing?');
+      await v.getByRole('button', { name: 'Send comment' }).click();
+      await v.getByTestId('shared-sent').waitFor();
+      await screenshot(v, 'share-page-commented');
+      const html = await v.content();
+      expect(html).not.toContain(studio.members.supervisor.email);
+      expect(html).not.toContain(`/api/versions/${versionId}`);
+
+      // ── …and the comment is on the version as a client note ──
+      const rows = await db().select().from(notes).where(eq(notes.versionId, versionId));
+      expect(rows).toHaveLength(1);
+      expect(rows[0]).toMatchObject({ guestName: 'Robin at the agency', internal: false, body: 'Can the splash reach the railing?', frame: FIRST });
+      const notesApi = await studio.members.supervisor.client.get(`/api/versions/${versionId}/notes`);
+      if (notesApi.status === 200) expect(JSON.stringify(notesApi.body)).toContain('Can the splash reach the railing?');
+      const links = await studio.members.supervisor.client.get(`/api/versions/${versionId}/share-links`);
+      expect(links.body.links[0].openCount).toBe(1);
+    } finally {
+      await viewer.close();
+      await b.close();
+    }
+  }, 420_000);
+});

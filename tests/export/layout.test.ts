@@ -1,0 +1,167 @@
+// The export's pure parts: which frames, what size, GIF delays at 24 fps, the gif.js padding fix, burn-in text and
+// its SMPTE timecode for the first and last frames, the slate's rows and caution, file names, the ffmpeg command.
+import { describe, it, expect } from 'vitest';
+import {
+  CAUTION,
+  burnInLayout,
+  exportFileName,
+  ffmpegRate,
+  gifDelays,
+  mp4Args,
+  outputSize,
+  resolveRange,
+  slateLayout,
+  slateRows,
+  trimGifPadding,
+  zipEntryName,
+  type ExportLabels,
+} from '../../src/lib/export/layout';
+import { ProgressTracker } from '../../src/lib/export/progress';
+import { framesToTimecode } from '../../src/lib/timecode';
+
+const labels: ExportLabels = {
+  studioName: 'Gull Point Pictures',
+  showName: 'Low Tide',
+  showCode: 'LT',
+  shotCode: 'LT_010',
+  versionNumber: 3,
+  artistName: 'Ana Ruiz',
+  date: '2025-06-01',
+  reviewState: 'submitted',
+  rateId: '24',
+};
+
+describe('GIF delays (hundredths of a second)', () => {
+  it('24 fps: running time rounded to the centisecond → 4,4,5,4,4,4 …, 24 frames = exactly 100 cs', () => {
+    const d = gifDelays(24, 24);
+    expect(d.slice(0, 6)).toEqual([4, 4, 5, 4, 4, 4]);
+    expect(d.reduce((a, b) => a + b, 0)).toBe(100);
+    expect(new Set(d)).toEqual(new Set([4, 5]));
+    // no frame is more than half a centisecond off its true start time (i·100/24 cs)
+    let t = 0;
+    d.forEach((cs, i) => {
+      expect(Math.abs(t - (i * 100) / 24)).toBeLessThanOrEqual(0.5);
+      t += cs;
+    });
+  });
+  it('25 and 50 fps are exact (4 and 2 cs)', () => {
+    expect(new Set(gifDelays(25, 50))).toEqual(new Set([4]));
+    expect(new Set(gifDelays(50, 50))).toEqual(new Set([2]));
+  });
+});
+
+describe('gif.js trailing bytes', () => {
+  it('cuts the zero bytes after the 0x3B trailer, and leaves other data alone', () => {
+    const gif = new Uint8Array([0x47, 0x49, 0x46, 0x38, 0x39, 0x61, 5, 0, 0x3b]);
+    const padded = new Uint8Array(gif.length + 3000);
+    padded.set(gif);
+    expect(Array.from(trimGifPadding(padded))).toEqual(Array.from(gif));
+    expect(trimGifPadding(gif).length).toBe(gif.length);
+    const notGif = new Uint8Array([1, 2, 3, 0, 0]);
+    expect(trimGifPadding(notGif).length).toBe(5);
+  });
+});
+
+describe('frame range and size', () => {
+  const shot = { firstFrame: 1001, lastFrame: 1048, handles: 8 };
+  it('resolves the cut range, handles, and in/out', () => {
+    expect(resolveRange({ kind: 'shot' }, shot)).toEqual({ first: 1001, last: 1048 });
+    expect(resolveRange({ kind: 'handles' }, shot)).toEqual({ first: 993, last: 1056 });
+    expect(resolveRange({ kind: 'custom', first: 1010, last: 1020 }, shot)).toEqual({ first: 1010, last: 1020 });
+    expect(() => resolveRange({ kind: 'custom', first: 1020, last: 1010 }, shot)).toThrow(/before/);
+  });
+  it('keeps both sides even (yuv420p) and the plate aspect', () => {
+    expect(outputSize({ kind: 'full' }, 1920, 1080)).toEqual({ width: 1920, height: 1080 });
+    expect(outputSize({ kind: 'half' }, 1920, 1080)).toEqual({ width: 960, height: 540 });
+    const odd = outputSize({ kind: 'width', width: 333 }, 2048, 858);
+    expect(odd.width % 2).toBe(0);
+    expect(odd.height % 2).toBe(0);
+    expect(Math.abs(odd.width / odd.height - 2048 / 858)).toBeLessThan(0.02);
+    expect(outputSize({ kind: 'width', width: 10 }, 1920, 1080).width).toBe(64);
+    expect(outputSize({ kind: 'width', width: 99999 }, 1920, 1080).width).toBe(3840);
+  });
+});
+
+describe('burn-ins', () => {
+  it('print shot · version, studio, frame number and the SMPTE timecode of the first and last frames', () => {
+    for (const [frame, rate] of [
+      [1001, '24'],
+      [1048, '24'],
+      [1001, '29.97df'],
+      [1800, '29.97df'], // 00:01:00;02 (SMPTE ST 12-1 drop-frame rule)
+    ] as const) {
+      const l = burnInLayout({ ...labels, rateId: rate }, frame, 960, 540);
+      const byId = Object.fromEntries(l.texts.map((t) => [t.id, t]));
+      expect(byId.timecode.text).toBe(framesToTimecode(frame, rate));
+      expect(byId.frame.text).toBe(`frame ${frame}`);
+      expect(byId.shot.text).toBe('LT_010 · v003');
+      expect(byId.studio.text).toBe('Gull Point Pictures');
+    }
+    expect(burnInLayout({ ...labels, rateId: '29.97df' }, 1800, 960, 540).texts.find((t) => t.id === 'timecode')!.text).toBe('00:01:00;02');
+  });
+  it('stays inside the frame, in bands at the top and bottom', () => {
+    const l = burnInLayout(labels, 1001, 480, 270);
+    for (const t of l.texts) {
+      expect(t.y).toBeGreaterThan(0);
+      expect(t.y).toBeLessThan(270);
+      expect(t.size).toBeGreaterThanOrEqual(10);
+    }
+    expect(l.bands[0].y).toBe(0);
+    expect(l.bands[1].y + l.bands[1].height).toBe(270);
+  });
+});
+
+describe('slate', () => {
+  it('lists studio, show, shot, version, artist, date, frame range and review state, and carries the caution', () => {
+    const rows = Object.fromEntries(slateRows(labels, 1001, 1048).map((r) => [r.label, r.value]));
+    expect(rows).toMatchObject({ Studio: 'Gull Point Pictures', Show: 'Low Tide (LT)', Shot: 'LT_010', Version: 'v003', Artist: 'Ana Ruiz', Date: '2025-06-01', Review: 'submitted' });
+    expect(rows.Frames).toContain('1001–1048');
+    expect(rows.Frames).toContain('48 frames');
+    const texts = slateLayout(labels, 1001, 1048, 960, 540).texts;
+    expect(texts.find((t) => t.id === 'caution')!.text).toBe(CAUTION);
+    expect(CAUTION).toMatch(/licensed special-effects coordinator/);
+    for (const t of texts) expect(t.y).toBeLessThan(540);
+    // The rows end above the caution strip at any size (the strip is the third band).
+    for (const h of [180, 270, 540, 1080, 2160]) {
+      const l = slateLayout(labels, 1001, 1048, Math.round((h * 16) / 9), h);
+      const strip = l.bands[2];
+      const rowsBottom = Math.max(...l.texts.filter((t) => t.id !== 'caution').map((t) => t.y));
+      expect(rowsBottom).toBeLessThan(strip.y);
+      expect(l.texts.find((t) => t.id === 'caution')!.y).toBeGreaterThan(strip.y);
+    }
+  });
+});
+
+describe('names and encoder settings', () => {
+  it('names files and ZIP entries predictably', () => {
+    expect(exportFileName(labels, 1001, 1048, 'mp4')).toBe('LT_LT_010_v003_1001-1048.mp4');
+    expect(zipEntryName(labels, 1001)).toBe('LT_010_v003.1001.png');
+    expect(zipEntryName(labels, 'slate')).toBe('LT_010_v003.0000_slate.png');
+  });
+  it('asks ffmpeg for H.264 yuv420p at the shot rate (23.976 as 24000/1001)', () => {
+    expect(ffmpegRate('24')).toBe('24');
+    expect(ffmpegRate('23.976')).toBe('24000/1001');
+    expect(ffmpegRate('29.97df')).toBe('30000/1001');
+    const args = mp4Args('25');
+    expect(args.join(' ')).toContain('-c:v libx264');
+    expect(args.join(' ')).toContain('-pix_fmt yuv420p');
+    expect(args.join(' ')).toContain('-framerate 25');
+    expect(args.join(' ')).toContain('-r 25');
+  });
+});
+
+describe('progress', () => {
+  it('weights the stages and estimates the time left from the rate so far', () => {
+    let now = 0;
+    const t = new ProgressTracker({ preparing: 0, rendering: 0.5, encoding: 0.5, uploading: 0 }, () => now);
+    now = 10_000;
+    const r = t.report('rendering', 1);
+    expect(r.fraction).toBeCloseTo(0.5);
+    expect(r.etaSeconds).toBeCloseTo(10);
+    now = 15_000;
+    const e = t.report('encoding', 0.5);
+    expect(e.fraction).toBeCloseTo(0.75);
+    expect(e.etaSeconds).toBeCloseTo(5);
+    expect(t.report('encoding', 1).etaSeconds).toBe(0);
+  });
+});
