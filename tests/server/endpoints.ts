@@ -307,3 +307,176 @@ ENDPOINTS.push(
     path: async (s) => `${lib(s)}/plates/${await plateAsset(s, 'pending')}/complete`,
   },
 );
+
+ENDPOINTS.push({
+  method: 'GET',
+  route: '/api/studios/[studioId]/shots/[shotId]/activity',
+  access: 'artist',
+  path: async (s) => `${lib(s)}/shots/${await libraryShot(s)}/activity`,
+});
+
+// ── Review and approval ──────────────────────────────────────────────────────────────────────────────────────────
+// A client may see only versions shared with clients and past draft, so the versions client-readable endpoints use are
+// submitted and shared.
+
+/** A baked version in a review state (shared with clients unless it is a draft). */
+export async function reviewVersion(s: TestStudio, state: 'draft' | 'submitted' = 'submitted', shotId?: number) {
+  const made = await makeVersion(s, { baked: true, shared: state !== 'draft' });
+  if (state !== 'draft') await db().update(versions).set({ reviewState: state }).where(eqId(made.versionId));
+  if (shotId !== undefined) {
+    const [{ n }] = await db().select({ n: sqlCount() }).from(versions).where(eqShot(shotId));
+    await db().update(versions).set({ shotId, number: Number(n) + 1 }).where(eqId(made.versionId));
+    return { shotId, versionId: made.versionId };
+  }
+  return made;
+}
+
+async function reviewNote(s: TestStudio) {
+  const { versionId } = await reviewVersion(s);
+  const [res] = await db().insert(tables.notes).values({ studioId: s.id, versionId, frame: 1002, body: 'matrix note', internal: false });
+  return Number(res.insertId);
+}
+
+async function comparePair(s: TestStudio) {
+  const first = await reviewVersion(s);
+  const second = await reviewVersion(s, 'submitted', first.shotId);
+  return `/api/studios/${s.id}/compare?a=${first.versionId}&b=${second.versionId}`;
+}
+
+import { eq as eqCol, sql as sqlTag } from 'drizzle-orm';
+const eqId = (id: number) => eqCol(versions.id, id);
+const eqShot = (shotId: number) => eqCol(versions.shotId, shotId);
+const sqlCount = () => sqlTag<number>`count(*)`;
+
+ENDPOINTS.push(
+  { method: 'GET', route: '/api/versions/[versionId]/review', access: 'client', path: async (s) => `/api/versions/${(await reviewVersion(s)).versionId}/review` },
+  {
+    method: 'POST',
+    route: '/api/versions/[versionId]/review/submit',
+    access: 'artist',
+    path: async (s) => `/api/versions/${(await reviewVersion(s, 'draft')).versionId}/review/submit`,
+    body: () => ({ comment: 'matrix' }),
+  },
+  {
+    method: 'POST',
+    route: '/api/versions/[versionId]/review/decide',
+    access: 'supervisor',
+    path: async (s) => `/api/versions/${(await reviewVersion(s)).versionId}/review/decide`,
+    body: () => ({ decision: 'approved' }),
+  },
+  {
+    method: 'POST',
+    route: '/api/versions/[versionId]/share',
+    access: 'supervisor',
+    path: async (s) => `/api/versions/${(await reviewVersion(s)).versionId}/share`,
+    body: () => ({ shared: false }),
+  },
+  { method: 'GET', route: '/api/versions/[versionId]/notes', access: 'client', path: async (s) => `/api/versions/${(await reviewVersion(s)).versionId}/notes?carried=1` },
+  {
+    method: 'POST',
+    route: '/api/versions/[versionId]/notes',
+    access: 'client',
+    path: async (s) => `/api/versions/${(await reviewVersion(s)).versionId}/notes`,
+    body: () => ({ frame: 1003, body: 'matrix note', point: { x: 0.5, y: 0.5 } }),
+  },
+  { method: 'PATCH', route: '/api/notes/[noteId]', access: 'artist', path: async (s) => `/api/notes/${await reviewNote(s)}`, body: () => ({ resolved: true }) },
+  { method: 'GET', route: '/api/studios/[studioId]/inbox', access: 'client', path: (s) => `/api/studios/${s.id}/inbox` },
+  { method: 'GET', route: '/api/studios/[studioId]/compare', access: 'client', path: comparePair },
+  { method: 'GET', route: '/api/me/preferences', access: 'signed-in', path: () => '/api/me/preferences' },
+  { method: 'PATCH', route: '/api/me/preferences', access: 'signed-in', path: () => '/api/me/preferences', body: () => ({ dailyDigest: false }) },
+);
+
+// ── Exports and share links (issue 8) ────────────────────────────────────────────────────────────────────────────
+// A pending export has a small GIF already in the store, so "complete" succeeds; a share link is made with a known
+// token so "send" can prove it. Public /api/shared/* endpoints are listed as public (tested in share.test.ts).
+import { shareLinks } from '../../src/lib/server/db/schema';
+
+/** The smallest GIF we make in tests: GIF89a header + a trailer (enough for the magic-bytes check). */
+export const TINY_GIF = new Uint8Array([0x47, 0x49, 0x46, 0x38, 0x39, 0x61, 1, 0, 1, 0, 0, 0, 0, 0x3b]);
+const exportOpts = { first: 1001, last: 1010, width: 64, height: 36, look: 'surface', slate: true, burnIns: true, plate: false, loop: true };
+
+/** A stored export of a baked version: 'ready' (listed) or 'pending' with its file already uploaded. */
+export async function exportAsset(s: TestStudio, state: 'ready' | 'pending', versionId?: number): Promise<{ versionId: number; assetId: number }> {
+  const vid = versionId ?? (await makeVersion(s, { baked: true })).versionId;
+  const storageKey = `studios/${s.id}/versions/${vid}/exports/${unique('matrix')}.gif`;
+  await putObject(storageKey, TINY_GIF, 'image/gif');
+  const [res] = await db()
+    .insert(tables.assets)
+    .values({
+      studioId: s.id,
+      kind: 'export',
+      storageKey,
+      contentType: 'image/gif',
+      byteSize: TINY_GIF.length,
+      width: 64,
+      height: 36,
+      versionId: vid,
+      format: 'gif',
+      meta: { state, fileName: 'matrix.gif', declaredSize: TINY_GIF.length, options: exportOpts },
+    });
+  return { versionId: vid, assetId: Number(res.insertId) };
+}
+
+const linkTokens = new Map<number, string>();
+
+/** A share link to a new baked version, with a token the caller can use. */
+export async function shareLink(s: TestStudio, opts: { expiresAt?: Date; revoked?: boolean } = {}): Promise<{ linkId: number; token: string; versionId: number }> {
+  const { versionId } = await makeVersion(s, { baked: true });
+  const { newToken } = await import('../../src/lib/server/tokens');
+  const token = newToken();
+  const [res] = await db()
+    .insert(shareLinks)
+    .values({
+      studioId: s.id,
+      versionId,
+      tokenHash: hashToken(token),
+      expiresAt: opts.expiresAt ?? new Date(Date.now() + 7 * 86_400_000),
+      revokedAt: opts.revoked ? new Date() : null,
+    });
+  const linkId = Number(res.insertId);
+  linkTokens.set(s.id, token);
+  return { linkId, token, versionId };
+}
+
+const inAWeek = () => new Date(Date.now() + 7 * 86_400_000).toISOString().slice(0, 10);
+
+ENDPOINTS.push(
+  {
+    method: 'POST',
+    route: '/api/versions/[versionId]/exports',
+    access: 'artist',
+    path: async (s) => `/api/versions/${(await makeVersion(s, { baked: true })).versionId}/exports`,
+    body: () => ({ format: 'gif', byteSize: 2048, fileName: 'matrix.gif', options: exportOpts }),
+  },
+  { method: 'GET', route: '/api/versions/[versionId]/exports', access: 'artist', path: async (s) => `/api/versions/${(await exportAsset(s, 'ready')).versionId}/exports` },
+  {
+    method: 'POST',
+    route: '/api/versions/[versionId]/exports/[assetId]/complete',
+    access: 'artist',
+    path: async (s) => {
+      const { versionId, assetId } = await exportAsset(s, 'pending');
+      return `/api/versions/${versionId}/exports/${assetId}/complete`;
+    },
+  },
+  { method: 'GET', route: '/api/exports/[assetId]', access: 'artist', path: async (s) => `/api/exports/${(await exportAsset(s, 'ready')).assetId}` },
+  { method: 'GET', route: '/api/versions/[versionId]/share-links', access: 'supervisor', path: async (s) => `/api/versions/${(await shareLink(s)).versionId}/share-links` },
+  {
+    method: 'POST',
+    route: '/api/versions/[versionId]/share-links',
+    access: 'supervisor',
+    path: async (s) => `/api/versions/${(await makeVersion(s, { baked: true })).versionId}/share-links`,
+    body: () => ({ expiresAt: inAWeek() }),
+  },
+  { method: 'POST', route: '/api/share-links/[linkId]/revoke', access: 'supervisor', path: async (s) => `/api/share-links/${(await shareLink(s)).linkId}/revoke` },
+  {
+    method: 'POST',
+    route: '/api/share-links/[linkId]/send',
+    access: 'supervisor',
+    path: async (s) => `/api/share-links/${(await shareLink(s)).linkId}/send`,
+    body: (s) => ({ token: linkTokens.get(s.id) ?? 'x', email: 'client@test.example' }),
+  },
+  { method: 'GET', route: '/api/shared/[token]', access: 'public', path: () => '/api/shared/x' },
+  { method: 'POST', route: '/api/shared/[token]/unlock', access: 'public', path: () => '/api/shared/x/unlock' },
+  { method: 'GET', route: '/api/shared/[token]/media', access: 'public', path: () => '/api/shared/x/media' },
+  { method: 'POST', route: '/api/shared/[token]/notes', access: 'public', path: () => '/api/shared/x/notes' },
+);

@@ -6,6 +6,7 @@ import { shots, versions, assets } from './db/schema';
 import { HttpError } from './http';
 import { requireRole, type StudioAccess } from './authz';
 import { audit } from './audit';
+import { supersedeOlderVersions } from './review';
 import { parseScene, sceneHash, type Scene } from '../scene';
 import type { Role } from '../vocab';
 
@@ -60,6 +61,8 @@ export async function createVersion(shot: typeof shots.$inferSelect, authorId: s
       sceneHash: hash,
       plateAssetId: locked.plateAssetId,
     });
+    // The older versions of the shot are superseded by this one (review events and audit in the same transaction).
+    await supersedeOlderVersions(tx, shot, Number(res.insertId), authorId);
     return { id: Number(res.insertId), number: Number(next) };
   });
   await audit({ studioId: shot.studioId, actorId: authorId, action: 'version.create', targetType: 'version', targetId: created.id, detail: { shot: shot.code, number: created.number } });

@@ -284,6 +284,25 @@ export const notes = mysqlTable(
   (t) => [index('notes_version_frame_idx').on(t.versionId, t.frame)],
 );
 
+/** When a person last read a version's notes: notes by others after `seen_at` are "new" in their review inbox. */
+export const noteReads = mysqlTable(
+  'note_reads',
+  {
+    id: id(),
+    studioId: ref('studio_id')
+      .notNull()
+      .references(() => studios.id, { onDelete: 'cascade' }),
+    userId: varchar('user_id', { length: 40 })
+      .notNull()
+      .references(() => users.id, { onDelete: 'cascade' }),
+    versionId: ref('version_id')
+      .notNull()
+      .references(() => versions.id, { onDelete: 'cascade' }),
+    seenAt: datetime('seen_at', { mode: 'date', fsp: 3 }).notNull(),
+  },
+  (t) => [uniqueIndex('note_reads_user_version_uq').on(t.userId, t.versionId)],
+);
+
 export const bakeJobs = mysqlTable(
   'bake_jobs',
   {

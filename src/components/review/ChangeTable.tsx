@@ -1,0 +1,70 @@
+// The table of what changed between two versions' scenes (rows from src/lib/review/diff), grouped by area.
+import type { SceneChange } from '~/lib/review/diff';
+
+const AREA_WORDS: Record<string, string> = {
+  document: 'Document',
+  tank: 'Tank',
+  timing: 'Timing',
+  physics: 'Physics',
+  pours: 'Pours',
+  spouts: 'Spouts',
+  walls: 'Walls',
+  props: 'Props',
+  drains: 'Drains',
+};
+const KIND_WORDS: Record<SceneChange['kind'], string> = { changed: 'changed', added: 'new', removed: 'gone', moved: 'moved', reshaped: 'new shape' };
+const KIND_TONE: Record<SceneChange['kind'], string> = {
+  changed: 'bg-harbour-50 text-harbour-700',
+  added: 'bg-foam-50 text-foam-600',
+  removed: 'bg-coral-50 text-coral-700',
+  moved: 'bg-sand-deep text-ink-soft',
+  reshaped: 'bg-sand-deep text-ink-soft',
+};
+
+const show = (v: unknown): string => {
+  if (v === undefined) return '—';
+  if (typeof v === 'number') return Number.isInteger(v) ? String(v) : String(Number(v.toPrecision(6)));
+  const s = JSON.stringify(v, (_k, x) => (typeof x === 'number' && !Number.isInteger(x) ? Number(x.toPrecision(5)) : x));
+  return s.length > 120 ? `${s.slice(0, 117)}…` : s;
+};
+
+export default function ChangeTable({ changes, counts, older, newer }: { changes: SceneChange[]; counts: Record<SceneChange['kind'], number>; older: number; newer: number }) {
+  const summary = (Object.keys(counts) as SceneChange['kind'][]).filter((k) => counts[k] > 0).map((k) => `${counts[k]} ${KIND_WORDS[k]}`);
+  return (
+    <section className="card p-4" data-testid="change-table">
+      <h2 className="text-lg font-semibold">
+        What changed from v{older} to v{newer}
+      </h2>
+      <p className="mt-1 text-sm text-ink-soft">{changes.length === 0 ? 'The two scenes are the same.' : summary.join(' · ')}</p>
+      {changes.length > 0 && (
+        <div className="mt-3 overflow-x-auto">
+          <table className="w-full text-left text-sm">
+            <thead className="border-b border-sand-line text-xs tracking-wide text-ink-muted uppercase">
+              <tr>
+                <th className="py-2 pr-3 font-medium">Area</th>
+                <th className="py-2 pr-3 font-medium">What</th>
+                <th className="py-2 pr-3 font-medium">Change</th>
+                <th className="py-2 pr-3 font-medium">v{older}</th>
+                <th className="py-2 font-medium">v{newer}</th>
+              </tr>
+            </thead>
+            <tbody>
+              {changes.map((c) => (
+                <tr key={`${c.path}-${c.kind}`} className="border-b border-sand-line/60 align-top" data-testid="change-row" data-kind={c.kind} data-path={c.path}>
+                  <td className="py-2 pr-3 whitespace-nowrap">{AREA_WORDS[c.area] ?? c.area}</td>
+                  <td className="py-2 pr-3 font-mono text-xs">{c.objectId ?? c.path.split('.').slice(1).join('.')}</td>
+                  <td className="py-2 pr-3">
+                    <span className={`rounded-full px-2 py-0.5 text-xs font-medium ${KIND_TONE[c.kind]}`}>{KIND_WORDS[c.kind]}</span>
+                    <span className="mt-1 block text-xs text-ink-soft">{c.summary}</span>
+                  </td>
+                  <td className="py-2 pr-3 font-mono text-xs break-all">{show(c.before)}</td>
+                  <td className="py-2 font-mono text-xs break-all">{show(c.after)}</td>
+                </tr>
+              ))}
+            </tbody>
+          </table>
+        </div>
+      )}
+    </section>
+  );
+}

@@ -1,0 +1,214 @@
+// The compare island: two baked versions of one shot drawn by the player's engine, locked to the same frame, either
+// side by side or stacked with a wipe handle, and the table of what changed in their scenes.
+import { useCallback, useEffect, useRef, useState } from 'react';
+import { api, messageOf } from '../shared/api';
+import { FormMessage } from '../shared/form';
+import type { PlayerEngine } from '../player/engine';
+import { openClip } from '../player/clipSource';
+import { openPlate, type PlateFrameSource } from '~/lib/plate';
+import { rateInfo } from '~/lib/timecode';
+import ChangeTable from './ChangeTable';
+import { STATE_TONE, STATE_WORDS, type CompareAnswer } from './types';
+
+interface Props {
+  studioId: number;
+  studioSlug: string;
+  compare: CompareAnswer;
+  /** The shot's frame rate id (for the plate's video timing). */
+  frameRate: string;
+}
+
+type Mode = 'wipe' | 'side';
+
+export default function CompareScreen({ studioId, studioSlug, compare, frameRate }: Props) {
+  const { a, b, shot } = compare;
+  const bothBaked = a.bakeState === 'baked' && b.bakeState === 'baked';
+  const [mode, setMode] = useState<Mode>('wipe');
+  const [wipe, setWipe] = useState(0.5);
+  const [range, setRange] = useState<{ start: number; end: number } | null>(null);
+  const [frame, setFrame] = useState<number | null>(null);
+  const [error, setError] = useState<string | null>(null);
+  const hostA = useRef<HTMLDivElement>(null);
+  const hostB = useRef<HTMLDivElement>(null);
+  const engines = useRef<[PlayerEngine, PlayerEngine] | null>(null);
+
+  let fps = 24;
+  try {
+    fps = rateInfo(frameRate).fps;
+  } catch {
+    /* unknown id: plates of stills don't need it */
+  }
+
+  // Open both clips (and the plate under each) once; both engines then follow one frame.
+  useEffect(() => {
+    if (!bothBaked) return;
+    let cancelled = false;
+    const made: PlayerEngine[] = [];
+    (async () => {
+      const plateFor = async (assetId: number | null): Promise<PlateFrameSource | null> => {
+        if (!assetId) return null;
+        try {
+          const view = await api<{ url: string; asset: { contentType: string } }>(`/api/studios/${studioId}/plates/${assetId}`);
+          return await openPlate({ url: view.url, contentType: view.asset.contentType, firstFrame: shot.firstFrame, fps });
+        } catch {
+          return null; // a plate that cannot be shown: the splashes are still compared on their own
+        }
+      };
+      const [clipA, clipB, plateA, plateB] = await Promise.all([
+        openClip(a.id, null),
+        openClip(b.id, null),
+        plateFor(a.plateAssetId ?? shot.plateAssetId),
+        plateFor(b.plateAssetId ?? shot.plateAssetId),
+      ]);
+      if (cancelled) return;
+      // pixi.js touches `navigator` when loaded, so the engine is loaded in the browser only (this island is also
+      // rendered on the server).
+      const { PlayerEngine } = await import('../player/engine');
+      if (cancelled) return;
+      const mk = (host: HTMLDivElement, frames: typeof clipA.source, plate: PlateFrameSource | null) =>
+        PlayerEngine.create({ host, frames, plate, metresPerPixel: plate ? shot.metresPerPixel : null, look: 'surface' });
+      const ea = await mk(hostA.current!, clipA.source, plateA);
+      made.push(ea);
+      const eb = await mk(hostB.current!, clipB.source, plateB);
+      made.push(eb);
+      if (cancelled) return;
+      engines.current = [ea, eb];
+      // The frames both clips hold; outside them one side would have nothing to show.
+      const start = Math.max(clipA.source.startFrame, clipB.source.startFrame);
+      const end = Math.min(clipA.source.endFrame, clipB.source.endFrame);
+      const wanted = Number(new URLSearchParams(window.location.search).get('frame'));
+      const first = Number.isInteger(wanted) && wanted >= start && wanted <= end ? wanted : start;
+      setRange({ start, end: Math.max(start, end) });
+      await Promise.all([ea.show(first), eb.show(first)]);
+      if (!cancelled) setFrame(first);
+    })().catch((err) => !cancelled && setError(messageOf(err)));
+    return () => {
+      cancelled = true;
+      engines.current = null;
+      for (const e of made) e.destroy();
+    };
+    // eslint-disable-next-line react-hooks/exhaustive-deps
+  }, [a.id, b.id, bothBaked]);
+
+  const goTo = useCallback(
+    (f: number) => {
+      if (!range) return;
+      const target = Math.max(range.start, Math.min(range.end, Math.round(f)));
+      setFrame(target);
+      const pair = engines.current;
+      if (pair) void Promise.all(pair.map((e) => e.show(target))).catch((err) => setError(messageOf(err)));
+    },
+    [range],
+  );
+
+  // Both engines watch their own host size; switching layout changes it.
+  useEffect(() => {
+    engines.current?.forEach((e) => e.resize());
+  }, [mode]);
+
+  useEffect(() => {
+    const onKey = (e: KeyboardEvent) => {
+      const t = e.target as HTMLElement | null;
+      if (t && ['INPUT', 'TEXTAREA', 'SELECT'].includes(t.tagName) && (t as HTMLInputElement).type !== 'range') return;
+      if (frame === null) return;
+      if (e.key === 'ArrowRight') goTo(frame + (e.shiftKey ? 10 : 1));
+      else if (e.key === 'ArrowLeft') goTo(frame - (e.shiftKey ? 10 : 1));
+      else return;
+      e.preventDefault();
+    };
+    window.addEventListener('keydown', onKey);
+    return () => window.removeEventListener('keydown', onKey);
+  }, [frame, goTo]);
+
+  const label = (v: typeof a) => (
+    <span className="flex items-center gap-2">
+      <a className="font-semibold hover:underline" href={`/studios/${studioSlug}/versions/${v.id}${frame !== null ? `?frame=${frame}` : ''}`}>
+        v{v.number}
+      </a>
+      <span className={`rounded-full px-2 py-0.5 text-xs font-medium ${STATE_TONE[v.reviewState] ?? ''}`}>{STATE_WORDS[v.reviewState] ?? v.reviewState}</span>
+    </span>
+  );
+  const aspect = `${shot.plateWidth} / ${shot.plateHeight}`;
+
+  return (
+    <div className="space-y-6">
+      <div className="flex flex-wrap items-center justify-between gap-3">
+        <div className="flex items-center gap-4 text-sm">
+          {label(a)} <span className="text-ink-muted">against</span> {label(b)}
+        </div>
+        <div role="radiogroup" aria-label="Layout" className="flex gap-1 rounded-lg border border-sand-line bg-paper p-1">
+          {(['wipe', 'side'] as const).map((m) => (
+            <button
+              key={m}
+              type="button"
+              role="radio"
+              aria-checked={mode === m}
+              className={`rounded-md px-3 py-1 text-sm ${mode === m ? 'bg-harbour-500 text-white' : 'text-ink-soft hover:bg-sand-deep'}`}
+              onClick={() => setMode(m)}
+              data-testid={`compare-mode-${m}`}
+            >
+              {m === 'wipe' ? 'Wipe' : 'Side by side'}
+            </button>
+          ))}
+        </div>
+      </div>
+
+      {error && <FormMessage>{error}</FormMessage>}
+      {!bothBaked ? (
+        <FormMessage tone="info">Both versions need a bake before their frames can be compared. The scene changes are listed below.</FormMessage>
+      ) : (
+        <section className="card overflow-hidden p-3" data-testid="compare-view" data-mode={mode}>
+          <div className={mode === 'side' ? 'grid gap-3 sm:grid-cols-2' : 'relative'}>
+            <div className="relative w-full overflow-hidden rounded-lg bg-ink" style={{ aspectRatio: aspect }}>
+              <div ref={hostA} className="absolute inset-0" data-testid="compare-a" />
+              {mode === 'side' && <Tag text={`v${a.number}`} />}
+            </div>
+            <div
+              className={mode === 'side' ? 'relative w-full overflow-hidden rounded-lg bg-ink' : 'absolute inset-0 overflow-hidden rounded-lg'}
+              style={mode === 'side' ? { aspectRatio: aspect } : { clipPath: `inset(0 0 0 ${wipe * 100}%)` }}
+            >
+              <div ref={hostB} className="absolute inset-0" data-testid="compare-b" />
+              {mode === 'side' && <Tag text={`v${b.number}`} />}
+            </div>
+            {mode === 'wipe' && (
+              <>
+                <div className="pointer-events-none absolute inset-y-0 w-0.5 bg-white/90" style={{ left: `${wipe * 100}%` }} aria-hidden="true" />
+                <Tag text={`v${a.number}`} />
+                <Tag text={`v${b.number}`} right />
+              </>
+            )}
+          </div>
+          {mode === 'wipe' && (
+            <label className="mt-3 flex items-center gap-3 text-sm">
+              <span className="shrink-0 text-ink-soft">Wipe</span>
+              <input type="range" min={0} max={1} step={0.005} value={wipe} onChange={(e) => setWipe(Number(e.target.value))} className="w-full" data-testid="compare-wipe" />
+            </label>
+          )}
+          <label className="mt-3 flex items-center gap-3 text-sm">
+            <span className="shrink-0 text-ink-soft">Frame</span>
+            <input
+              type="range"
+              min={range?.start ?? 0}
+              max={range?.end ?? 0}
+              step={1}
+              value={frame ?? range?.start ?? 0}
+              disabled={!range}
+              onChange={(e) => goTo(Number(e.target.value))}
+              className="w-full"
+              data-testid="compare-frame"
+            />
+            <span className="w-14 shrink-0 text-right font-mono tabular-nums" data-testid="compare-frame-number">
+              {frame ?? '…'}
+            </span>
+          </label>
+        </section>
+      )}
+
+      <ChangeTable changes={compare.changes} counts={compare.counts} older={a.number} newer={b.number} />
+    </div>
+  );
+}
+
+function Tag({ text, right = false }: { text: string; right?: boolean }) {
+  return <span className={`pointer-events-none absolute top-2 rounded bg-ink/70 px-2 py-0.5 text-xs font-medium text-white ${right ? 'right-2' : 'left-2'}`}>{text}</span>;
+}

@@ -1,0 +1,154 @@
+// The review inbox island: versions waiting for the viewer's decision, their own versions sent back, and new notes on
+// their versions (each note links to its frame), plus the daily digest switch.
+import { useState } from 'react';
+import { QueryClient, QueryClientProvider, useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
+import { api, ApiError, messageOf } from '../shared/api';
+import { FormMessage } from '../shared/form';
+import { STATE_TONE, STATE_WORDS, type InboxAnswer, type InboxItem } from './types';
+
+interface Props {
+  studioId: number;
+  studioSlug: string;
+  role: string;
+  initial: InboxAnswer;
+  dailyDigest: boolean;
+}
+
+export default function InboxScreen(props: Props) {
+  const [client] = useState(
+    () => new QueryClient({ defaultOptions: { queries: { staleTime: 15_000, retry: (n, err) => !(err instanceof ApiError && err.status < 500) && n < 2 } } }),
+  );
+  return (
+    <QueryClientProvider client={client}>
+      <Inbox {...props} />
+    </QueryClientProvider>
+  );
+}
+
+const when = (iso: string) => new Date(iso).toLocaleString(undefined, { dateStyle: 'medium', timeStyle: 'short' });
+
+function Inbox({ studioId, studioSlug, role, initial, dailyDigest }: Props) {
+  const [loadedAt] = useState(() => Date.now());
+  const inbox = useQuery({
+    queryKey: ['inbox', studioId],
+    queryFn: () => api<InboxAnswer>(`/api/studios/${studioId}/inbox`),
+    initialData: initial,
+    initialDataUpdatedAt: loadedAt,
+    refetchInterval: 60_000,
+  });
+  const data = inbox.data;
+  const link = (versionId: number, frame?: number) => `/studios/${studioSlug}/versions/${versionId}${frame !== undefined ? `?frame=${frame}` : ''}`;
+  const decides = role === 'supervisor' || role === 'owner';
+  const nothing = data.counts.total === 0;
+
+  return (
+    <div className="space-y-8">
+      {inbox.error && <FormMessage>{messageOf(inbox.error)}</FormMessage>}
+      {nothing && (
+        <section className="card px-6 py-10 text-center" data-testid="inbox-empty">
+          <h2 className="text-lg font-semibold">Nothing waits for you</h2>
+          <p className="mt-2 text-ink-soft">New submissions, versions sent back and notes on your work show up here.</p>
+        </section>
+      )}
+      {(decides || role === 'client' || data.toReview.length > 0) && (
+        <Section title={role === 'client' ? 'Shared with you for a look' : 'Waiting for your decision'} count={data.counts.toReview} testId="inbox-to-review">
+          {data.toReview.map((v) => (
+            <Row key={v.versionId} item={v} href={link(v.versionId)} />
+          ))}
+        </Section>
+      )}
+      {role !== 'client' && (
+        <Section title="Your versions sent back" count={data.counts.returned} testId="inbox-returned">
+          {data.returned.map((v) => (
+            <Row key={v.versionId} item={v} href={link(v.versionId)} />
+          ))}
+        </Section>
+      )}
+      {role !== 'client' && (
+        <Section title="New notes on your versions" count={data.counts.newNotes} testId="inbox-new-notes">
+          {data.newNotes.map((v) => (
+            <li key={v.versionId} className="card p-4" data-testid="inbox-note-version">
+              <a className="font-semibold hover:underline" href={link(v.versionId)}>
+                {v.showCode} · {v.shotCode} v{v.number}
+              </a>
+              <ul className="mt-2 space-y-1.5">
+                {v.notes.map((n) => (
+                  <li key={n.id} className="flex gap-3 text-sm" data-testid="inbox-note">
+                    <a className="shrink-0 rounded-md bg-ink px-2 py-0.5 font-mono text-xs text-white tabular-nums hover:bg-harbour-700" href={link(v.versionId, n.frame)}>
+                      {n.frame}
+                    </a>
+                    <span className="min-w-0">
+                      <span className="whitespace-pre-wrap">{n.body}</span>
+                      <span className="block text-xs text-ink-muted">
+                        {n.author.name} · {when(n.createdAt)}
+                        {n.parentId ? ' · reply' : ''}
+                      </span>
+                    </span>
+                  </li>
+                ))}
+              </ul>
+            </li>
+          ))}
+        </Section>
+      )}
+      <DigestSwitch initial={dailyDigest} />
+    </div>
+  );
+}
+
+function Section({ title, count, testId, children }: { title: string; count: number; testId: string; children: React.ReactNode }) {
+  return (
+    <section data-testid={testId}>
+      <h2 className="mb-3 flex items-center gap-2 text-lg font-semibold">
+        {title}
+        <span className="rounded-full bg-sand-deep px-2 py-0.5 text-xs font-medium text-ink-soft tabular-nums">{count}</span>
+      </h2>
+      {count === 0 ? <p className="text-sm text-ink-muted">Nothing here.</p> : <ul className="space-y-3">{children}</ul>}
+    </section>
+  );
+}
+
+function Row({ item, href }: { item: InboxItem; href: string }) {
+  return (
+    <li className="card flex flex-wrap items-start justify-between gap-3 p-4" data-testid="inbox-version" data-version-id={item.versionId}>
+      <div className="min-w-0">
+        <a className="font-semibold hover:underline" href={href}>
+          {item.showCode} · {item.shotCode} v{item.number}
+        </a>
+        <p className="text-sm text-ink-soft">
+          By {item.author.name} · {when(item.updatedAt)}
+        </p>
+        {item.lastEvent?.comment && (
+          <p className="mt-1 text-sm">
+            “{item.lastEvent.comment}”{item.lastEvent.actorName ? <span className="text-ink-muted"> — {item.lastEvent.actorName}</span> : null}
+          </p>
+        )}
+      </div>
+      <span className={`rounded-full px-2.5 py-0.5 text-xs font-medium ${STATE_TONE[item.reviewState] ?? ''}`}>{STATE_WORDS[item.reviewState] ?? item.reviewState}</span>
+    </li>
+  );
+}
+
+function DigestSwitch({ initial }: { initial: boolean }) {
+  const qc = useQueryClient();
+  const [on, setOn] = useState(initial);
+  const save = useMutation({
+    mutationFn: (value: boolean) => api<{ preferences: { dailyDigest: boolean } }>('/api/me/preferences', { method: 'PATCH', body: { dailyDigest: value } }),
+    onSuccess: (res) => {
+      setOn(res.preferences.dailyDigest);
+      void qc.invalidateQueries({ queryKey: ['inbox'] });
+    },
+  });
+  return (
+    <section className="card p-4">
+      <label className="flex items-center gap-3 text-sm">
+        <input type="checkbox" checked={on} disabled={save.isPending} onChange={(e) => save.mutate(e.target.checked)} data-testid="digest-toggle" />
+        <span>
+          <span className="font-medium">Daily review e-mail</span>
+          <span className="block text-ink-muted">Once a day, a short summary of what moved in review in your studios.</span>
+        </span>
+      </label>
+      {save.error && <p className="field-error">{messageOf(save.error)}</p>}
+    </section>
+  );
+}

@@ -1,0 +1,76 @@
+// Answers of the review endpoints as the review islands use them.
+import type { NoteView } from '~/lib/review/notes';
+import type { SceneChange } from '~/lib/review/diff';
+import type { ReviewAction } from '~/lib/review/states';
+
+export type { NoteView };
+
+export interface ReviewVersion {
+  id: number;
+  shotId: number;
+  number: number;
+  authorId: string | null;
+  comment: string | null;
+  reviewState: 'draft' | 'submitted' | 'approved' | 'returned' | 'superseded';
+  bakeState: string;
+  sharedWithClient: boolean;
+  createdAt: string;
+  updatedAt: string;
+}
+
+export interface ReviewAnswer {
+  version: ReviewVersion;
+  events: { id: number; fromState: string; toState: string; comment: string | null; actor: { id: string | null; name: string }; createdAt: string }[];
+  actions: ReviewAction[];
+  canShare: boolean;
+}
+
+export interface NotesAnswer {
+  notes: NoteView[];
+  carried?: NoteView[];
+}
+
+export interface InboxItem {
+  versionId: number;
+  number: number;
+  reviewState: string;
+  shotId: number;
+  shotCode: string;
+  showCode: string;
+  author: { id: string | null; name: string };
+  updatedAt: string;
+  lastEvent: { comment: string | null; actorName: string | null; at: string } | null;
+  notes?: NoteView[];
+}
+
+export interface InboxAnswer {
+  counts: { toReview: number; returned: number; newNotes: number; total: number };
+  toReview: InboxItem[];
+  returned: InboxItem[];
+  newNotes: (InboxItem & { notes: NoteView[] })[];
+}
+
+export interface CompareAnswer {
+  shot: { id: number; code: string; showCode: string | null; firstFrame: number; lastFrame: number; plateWidth: number; plateHeight: number; metresPerPixel: number | null; plateAssetId: number | null };
+  a: ReviewVersion & { scene: unknown; plateAssetId: number | null };
+  b: ReviewVersion & { scene: unknown; plateAssetId: number | null };
+  changes: SceneChange[];
+  counts: Record<SceneChange['kind'], number>;
+}
+
+/** Our words for the review states, as shown to people. */
+export const STATE_WORDS: Record<string, string> = {
+  draft: 'Draft',
+  submitted: 'Waiting for review',
+  approved: 'Approved',
+  returned: 'Back for changes',
+  superseded: 'Replaced by a newer version',
+};
+
+export const STATE_TONE: Record<string, string> = {
+  draft: 'bg-sand-deep text-ink-soft',
+  submitted: 'bg-harbour-50 text-harbour-700',
+  approved: 'bg-foam-50 text-foam-600',
+  returned: 'bg-coral-50 text-coral-700',
+  superseded: 'bg-sand-deep text-ink-muted',
+};

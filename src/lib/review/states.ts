@@ -1,0 +1,102 @@
+// The review state machine of a version, as pure functions shared by the server and the browser:
+// who may move a version from which state to which, and what the shot's status becomes.
+import type { ReviewState, Role, ShotStatus } from '../vocab';
+
+/** What a person (or the system, for `supersede`) asks to do to a version's review state. */
+export type ReviewAction = 'submit' | 'approve' | 'return' | 'supersede';
+
+export const REVIEW_ACTIONS: readonly ReviewAction[] = ['submit', 'approve', 'return', 'supersede'];
+
+/** The actor: a studio role, or 'system' for changes that follow from another change (a newer version). */
+export type ReviewActor = Role | 'system';
+
+export interface TransitionRequest {
+  actor: ReviewActor;
+  action: ReviewAction;
+  from: ReviewState;
+  /** The version's bake state (only a baked version can be submitted). */
+  bakeState: string;
+  comment?: string | null;
+}
+
+export type TransitionRefusal = {
+  ok: false;
+  /** forbidden → 403, conflict → 409 (the version is not in a state that allows it), validation_failed → 400. */
+  code: 'forbidden' | 'conflict' | 'validation_failed';
+  message: string;
+  field?: string;
+};
+export type TransitionResult = { ok: true; to: ReviewState } | TransitionRefusal;
+
+interface Rule {
+  from: readonly ReviewState[];
+  to: ReviewState;
+  actors: readonly ReviewActor[];
+}
+
+/** The whole machine: from which states each action leads where, and who may take it. */
+export const RULES: Record<ReviewAction, Rule> = {
+  submit: { from: ['draft'], to: 'submitted', actors: ['artist', 'supervisor', 'owner'] },
+  approve: { from: ['submitted'], to: 'approved', actors: ['supervisor', 'owner'] },
+  return: { from: ['submitted'], to: 'returned', actors: ['supervisor', 'owner'] },
+  supersede: { from: ['draft', 'submitted', 'approved', 'returned'], to: 'superseded', actors: ['system'] },
+};
+
+const FORBIDDEN: Record<ReviewAction, string> = {
+  submit: 'Only artists, supervisors and owners can submit a version',
+  approve: 'Only a supervisor or an owner can approve a version',
+  return: 'Only a supervisor or an owner can return a version',
+  supersede: 'A version is superseded only when a newer version of its shot is saved',
+};
+
+const STATE_WORDS: Record<ReviewState, string> = {
+  draft: 'a draft',
+  submitted: 'submitted for review',
+  approved: 'approved',
+  returned: 'returned',
+  superseded: 'superseded by a newer version',
+};
+
+/** Decides one transition: the new state, or why it is refused (and which HTTP answer fits). */
+export function decideTransition(req: TransitionRequest): TransitionResult {
+  const rule = RULES[req.action];
+  if (!rule) return { ok: false, code: 'validation_failed', message: `Unknown review action ${String(req.action)}`, field: 'action' };
+  if (!rule.actors.includes(req.actor)) {
+    return { ok: false, code: 'forbidden', message: FORBIDDEN[req.action] };
+  }
+  if (!rule.from.includes(req.from)) {
+    return { ok: false, code: 'conflict', message: `This version is ${STATE_WORDS[req.from]}, so it cannot be ${actionPast(req.action)} now` };
+  }
+  if (req.action === 'submit' && req.bakeState !== 'baked') {
+    return { ok: false, code: 'conflict', message: 'Bake this version before submitting it: reviewers watch the baked frames' };
+  }
+  if (req.action === 'return' && !(req.comment ?? '').trim()) {
+    return { ok: false, code: 'validation_failed', message: 'comment: say what should change when returning a version', field: 'comment' };
+  }
+  return { ok: true, to: rule.to };
+}
+
+function actionPast(a: ReviewAction): string {
+  return { submit: 'submitted', approve: 'approved', return: 'returned', supersede: 'superseded' }[a];
+}
+
+/**
+ * The shot status after a version of it moves to `to`, or null to leave it as it is.
+ * A submitted version puts the shot in review, an approved one approves it, a returned one sends it back to blocking.
+ * A newer version (the older ones superseded) reopens a shot that was in review or approved; a shot a supervisor put
+ * on hold or omitted keeps that status until someone changes it by hand.
+ */
+export function shotStatusAfter(to: ReviewState, current: ShotStatus): ShotStatus | null {
+  if (current === 'omitted' || current === 'on hold') return null;
+  const next: ShotStatus | null =
+    to === 'submitted' ? 'in review' : to === 'approved' ? 'approved' : to === 'returned' ? 'blocking' : to === 'superseded' ? 'blocking' : null;
+  return next === current ? null : next;
+}
+
+/** Which review actions the role may offer for a version in this state (for buttons; the server decides again). */
+export function availableActions(role: Role, from: ReviewState, bakeState: string): ReviewAction[] {
+  return (['submit', 'approve', 'return'] as const).filter((action) => {
+    const r = decideTransition({ actor: role, action, from, bakeState, comment: 'x' });
+    return r.ok;
+  });
+}

@@ -1,0 +1,226 @@
+// Review e-mails: supervisors and owners hear when a version is submitted, its author hears when it is approved or
+// returned (with the comment and a link to each note's frame), and people who opted in get a daily digest.
+// Every link points at a page of the app, which sends a signed-out reader through sign-in first.
+import { and, asc, desc, eq, gte, inArray, isNull, ne } from 'drizzle-orm';
+import { db } from './db';
+import { memberships, notes, reviewEvents, shots, shows, studios, users, versions } from './db/schema';
+import { sendMail } from './mail';
+import { config } from './config';
+import type { Role } from '../vocab';
+
+/** The version page, optionally opened at a frame. */
+export function versionUrl(studioSlug: string, versionId: number, frame?: number): string {
+  return `${config.appUrl}/studios/${studioSlug}/versions/${versionId}${frame !== undefined ? `?frame=${frame}` : ''}`;
+}
+
+/** The studio members with one of the roles, with their e-mail. */
+export async function membersWithRoles(studioId: number, roles: Role[]) {
+  return db()
+    .select({ id: users.id, email: users.email, name: users.name, role: memberships.role })
+    .from(memberships)
+    .innerJoin(users, eq(users.id, memberships.userId))
+    .where(and(eq(memberships.studioId, studioId), inArray(memberships.role, roles)));
+}
+
+/** A version with its shot, show, studio and author, for e-mails. */
+export async function versionContext(versionId: number) {
+  const [row] = await db()
+    .select({
+      versionId: versions.id,
+      number: versions.number,
+      studioId: versions.studioId,
+      authorId: versions.authorId,
+      shotCode: shots.code,
+      showCode: shows.code,
+      studioSlug: studios.slug,
+      studioName: studios.name,
+      authorEmail: users.email,
+      authorName: users.name,
+    })
+    .from(versions)
+    .innerJoin(shots, eq(shots.id, versions.shotId))
+    .innerJoin(shows, eq(shows.id, shots.showId))
+    .innerJoin(studios, eq(studios.id, versions.studioId))
+    .leftJoin(users, eq(users.id, versions.authorId))
+    .where(eq(versions.id, versionId));
+  return row ?? null;
+}
+
+async function nameOf(userId: string | null): Promise<string> {
+  if (!userId) return 'Someone';
+  const [u] = await db().select({ name: users.name }).from(users).where(eq(users.id, userId));
+  return u?.name ?? 'Someone';
+}
+
+const label = (c: { showCode: string; shotCode: string; number: number }) => `${c.showCode} / ${c.shotCode} v${c.number}`;
+
+/** Tells the studio's supervisors and owners (not the person who submitted) that a version waits for review. */
+export async function notifySubmitted(versionId: number, actorId: string): Promise<number> {
+  const c = await versionContext(versionId);
+  if (!c) return 0;
+  const [actor, people] = await Promise.all([nameOf(actorId), membersWithRoles(c.studioId, ['supervisor', 'owner'])]);
+  const [event] = await db()
+    .select({ comment: reviewEvents.comment })
+    .from(reviewEvents)
+    .where(and(eq(reviewEvents.versionId, versionId), eq(reviewEvents.toState, 'submitted')))
+    .orderBy(desc(reviewEvents.id))
+    .limit(1);
+  const to = people.filter((p) => p.id !== actorId);
+  for (const p of to) {
+    await sendMail({
+      to: p.email,
+      subject: `Ready for your eyes: ${label(c)}`,
+      paragraphs: [
+        `Hello ${p.name},`,
+        `${actor} submitted version ${c.number} of shot ${c.shotCode} (${c.showCode}) in ${c.studioName}. It is baked and waits for your decision.`,
+        ...(event?.comment ? [`Their words: “${event.comment}”`] : []),
+        'Open it to play the bake over the plate, pin notes to frames, compare it with the last version, and approve it or send it back.',
+      ],
+      action: { label: `Open ${c.shotCode} v${c.number}`, url: versionUrl(c.studioSlug, versionId) },
+    });
+  }
+  return to.length;
+}
+
+/**
+ * Tells a version's author that it was approved or returned: the decision's comment, and every open note on the
+ * version with a link to its frame. Nothing is sent when the author made the decision themselves.
+ */
+export async function notifyDecision(versionId: number, actorId: string, comment: string | null): Promise<boolean> {
+  const c = await versionContext(versionId);
+  if (!c || !c.authorEmail || c.authorId === actorId) return false;
+  const [state] = await db().select({ reviewState: versions.reviewState }).from(versions).where(eq(versions.id, versionId));
+  const approved = state?.reviewState === 'approved';
+  const actor = await nameOf(actorId);
+  const open = await db()
+    .select({ frame: notes.frame, body: notes.body, authorName: users.name })
+    .from(notes)
+    .leftJoin(users, eq(users.id, notes.authorId))
+    .where(and(eq(notes.versionId, versionId), isNull(notes.parentId), isNull(notes.resolvedAt)))
+    .orderBy(asc(notes.frame), asc(notes.id))
+    .limit(50);
+  const short = (s: string) => (s.length > 240 ? `${s.slice(0, 237)}…` : s);
+  const paragraphs = [
+    `Hello ${c.authorName ?? ''},`.replace(' ,', ','),
+    approved
+      ? `${actor} approved version ${c.number} of shot ${c.shotCode} (${c.showCode}). Nice work.`
+      : `${actor} sent version ${c.number} of shot ${c.shotCode} (${c.showCode}) back for changes.`,
+    ...(comment ? [`${approved ? 'Comment' : 'What to change'}: “${comment}”`] : []),
+    ...(open.length
+      ? [
+          `${open.length === 1 ? 'One note is' : `${open.length} notes are`} pinned to frames of this version. Each link opens the version at that frame:`,
+          ...open.map((n) => `Frame ${n.frame} — ${n.authorName ?? 'a reviewer'}: ${short(n.body)}\n${versionUrl(c.studioSlug, versionId, n.frame)}`),
+        ]
+      : []),
+    approved ? 'The shot is marked approved.' : 'Save a new version of the shot when you have made the changes, bake it and submit it again.',
+  ];
+  await sendMail({
+    to: c.authorEmail,
+    subject: approved ? `Approved: ${label(c)}` : `Back for changes: ${label(c)}`,
+    paragraphs,
+    action: { label: open.length ? `Open frame ${open[0].frame}` : `Open ${c.shotCode} v${c.number}`, url: versionUrl(c.studioSlug, versionId, open[0]?.frame) },
+  });
+  return true;
+}
+
+// ── Daily digest ─────────────────────────────────────────────────────────────────────────────────────────────────
+
+const STATE_LINES: Record<string, string> = {
+  submitted: 'submitted for review',
+  approved: 'approved',
+  returned: 'sent back for changes',
+  superseded: 'replaced by a newer version',
+};
+
+/**
+ * Sends each person who opted in (users.daily_digest) one e-mail summing up the review activity of the window in
+ * every studio they belong to: decisions on versions they may see, versions waiting for them, notes on their
+ * versions. People with nothing to read get nothing. Returns who was written to.
+ */
+export async function sendDigests(opts: { now?: Date; hours?: number; dryRun?: boolean } = {}) {
+  const now = opts.now ?? new Date();
+  const since = new Date(now.getTime() - (opts.hours ?? 24) * 3600_000);
+  const readers = await db()
+    .select({ userId: users.id, email: users.email, name: users.name, studioId: memberships.studioId, role: memberships.role, slug: studios.slug, studioName: studios.name })
+    .from(users)
+    .innerJoin(memberships, eq(memberships.userId, users.id))
+    .innerJoin(studios, eq(studios.id, memberships.studioId))
+    .where(eq(users.dailyDigest, true))
+    .orderBy(users.id, studios.name);
+  const byUser = new Map<string, typeof readers>();
+  for (const r of readers) byUser.set(r.userId, [...(byUser.get(r.userId) ?? []), r]);
+
+  const sent: { email: string; lines: number }[] = [];
+  for (const rows of byUser.values()) {
+    const paragraphs: string[] = [];
+    for (const m of rows) {
+      const client = m.role === 'client';
+      const events = await db()
+        .select({ versionId: versions.id, number: versions.number, shotCode: shots.code, showCode: shows.code, toState: reviewEvents.toState, actorName: users.name })
+        .from(reviewEvents)
+        .innerJoin(versions, eq(versions.id, reviewEvents.versionId))
+        .innerJoin(shots, eq(shots.id, versions.shotId))
+        .innerJoin(shows, eq(shows.id, shots.showId))
+        .leftJoin(users, eq(users.id, reviewEvents.actorId))
+        .where(
+          and(
+            eq(reviewEvents.studioId, m.studioId),
+            gte(reviewEvents.createdAt, since),
+            ne(reviewEvents.toState, 'superseded'),
+            ...(client ? [eq(versions.sharedWithClient, true), ne(versions.reviewState, 'draft')] : []),
+          ),
+        )
+        .orderBy(asc(reviewEvents.id))
+        .limit(100);
+      const waiting =
+        m.role === 'supervisor' || m.role === 'owner'
+          ? await db()
+              .select({ versionId: versions.id })
+              .from(versions)
+              .where(and(eq(versions.studioId, m.studioId), eq(versions.reviewState, 'submitted')))
+          : [];
+      const newNotes = client
+        ? []
+        : await db()
+            .select({ versionId: versions.id, frame: notes.frame })
+            .from(notes)
+            .innerJoin(versions, eq(versions.id, notes.versionId))
+            .where(and(eq(notes.studioId, m.studioId), eq(versions.authorId, m.userId), ne(notes.authorId, m.userId), gte(notes.createdAt, since)));
+      if (!events.length && !waiting.length && !newNotes.length) continue;
+      paragraphs.push(`In ${m.studioName}:`);
+      for (const e of events) {
+        paragraphs.push(`• ${e.showCode} / ${e.shotCode} v${e.number} was ${STATE_LINES[e.toState] ?? e.toState}${e.actorName ? ` by ${e.actorName}` : ''} — ${versionUrl(m.slug, e.versionId)}`);
+      }
+      if (waiting.length) paragraphs.push(`• ${waiting.length === 1 ? 'One version waits' : `${waiting.length} versions wait`} for your decision.`);
+      if (newNotes.length) {
+        const versionsWithNotes = new Set(newNotes.map((n) => n.versionId)).size;
+        paragraphs.push(`• ${newNotes.length === 1 ? 'One new note' : `${newNotes.length} new notes`} on ${versionsWithNotes === 1 ? 'one of your versions' : `${versionsWithNotes} of your versions`}.`);
+      }
+    }
+    if (!paragraphs.length) continue;
+    const who = rows[0];
+    const inbox = `${config.appUrl}/studios/${rows[0].slug}/inbox`;
+    if (!opts.dryRun) {
+      await sendMail({
+        to: who.email,
+        subject: 'Your Tidemark review day',
+        paragraphs: [`Hello ${who.name},`, 'Here is what moved in review since yesterday.', ...paragraphs, 'You get this once a day because you asked for it; switch it off on your inbox page.'],
+        action: { label: 'Open your inbox', url: inbox },
+      });
+    }
+    sent.push({ email: who.email, lines: paragraphs.length });
+  }
+  return { since, sent };
+}
+
+/** The person's e-mail preferences. */
+export async function preferencesOf(userId: string) {
+  const [u] = await db().select({ dailyDigest: users.dailyDigest }).from(users).where(eq(users.id, userId));
+  return { dailyDigest: Boolean(u?.dailyDigest) };
+}
+
+/** Switches the daily digest on or off for the person. */
+export async function setDailyDigest(userId: string, on: boolean) {
+  await db().update(users).set({ dailyDigest: on }).where(eq(users.id, userId));
+  return preferencesOf(userId);
+}

@@ -1,0 +1,524 @@
+// Review on the server: version review transitions (with review events, the audit log and the shot's status in one
+// transaction), sharing with clients, frame-pinned notes, the review inbox and version comparison.
+// A client sees only versions shared with clients that are past draft, and never internal notes.
+import type { APIContext } from 'astro';
+import { and, asc, desc, eq, gt, inArray, isNull, lt, ne, or, sql, type SQL } from 'drizzle-orm';
+import { alias } from 'drizzle-orm/mysql-core';
+import { db, type Db } from './db';
+import { auditLog, noteReads, notes, reviewEvents, shots, shows, users, versions } from './db/schema';
+import { HttpError } from './http';
+import { requireRole, type StudioAccess } from './authz';
+import { decideTransition, shotStatusAfter, type ReviewAction } from '../review/states';
+import { diffScenes, countChanges } from '../review/diff';
+import type { NoteCreate, NoteView, NotePoint } from '../review/notes';
+import type { ReviewState, Role } from '../vocab';
+import { notifyDecision, notifySubmitted } from './notify';
+
+type Locals = APIContext['locals'];
+type Tx = Parameters<Parameters<Db['transaction']>[0]>[0];
+type VersionRow = typeof versions.$inferSelect;
+type ShotRow = typeof shots.$inferSelect;
+
+const isClient = (access: StudioAccess) => access.role === 'client';
+
+/** True when a client may see this version: shared with clients and past draft. */
+export const clientMaySee = (v: Pick<VersionRow, 'sharedWithClient' | 'reviewState'>) => v.sharedWithClient && v.reviewState !== 'draft';
+
+/**
+ * Loads a version with its shot for the signed-in user with at least `role`: 401 signed out, 404 when missing, in
+ * another studio or hidden from a client, 403 when the role is too low.
+ */
+export async function reviewVersionFor(locals: Locals, versionId: number, role: Role) {
+  if (!locals.user) throw new HttpError('unauthenticated', 'Please sign in');
+  const [row] = await db().select({ version: versions, shot: shots }).from(versions).innerJoin(shots, eq(shots.id, versions.shotId)).where(eq(versions.id, versionId));
+  if (!row) throw new HttpError('not_found', 'No such version');
+  const access = await requireRole(locals, row.version.studioId, role);
+  if (isClient(access) && !clientMaySee(row.version)) throw new HttpError('not_found', 'No such version');
+  return { version: row.version, shot: row.shot, access };
+}
+
+/** The review-facing view of a version (no scene). */
+export function reviewVersionView(v: VersionRow) {
+  return {
+    id: v.id,
+    shotId: v.shotId,
+    number: v.number,
+    authorId: v.authorId,
+    comment: v.comment,
+    reviewState: v.reviewState,
+    bakeState: v.bakeState,
+    sharedWithClient: v.sharedWithClient,
+    createdAt: v.createdAt.toISOString(),
+    updatedAt: v.updatedAt.toISOString(),
+  };
+}
+
+async function auditIn(tx: Tx, entry: { studioId: number; actorId: string | null; action: string; targetId: number; detail: Record<string, unknown> }) {
+  await tx.insert(auditLog).values({ studioId: entry.studioId, actorId: entry.actorId, action: entry.action, targetType: 'version', targetId: String(entry.targetId), detail: entry.detail });
+}
+
+async function followShotStatus(tx: Tx, shotId: number, to: ReviewState) {
+  const [shot] = await tx.select({ status: shots.status }).from(shots).where(eq(shots.id, shotId));
+  const next = shot ? shotStatusAfter(to, shot.status) : null;
+  if (next) await tx.update(shots).set({ status: next }).where(eq(shots.id, shotId));
+  return next;
+}
+
+// ── Transitions ──────────────────────────────────────────────────────────────────────────────────────────────────
+
+/**
+ * Moves a version through the review state machine for a person. In one transaction: locks the shot, then the version
+ * (the same order as saving a new version, so the two never deadlock), decides on the locked state, updates it only
+ * if it is still the state decided on, writes the review event and the audit entry, and moves the shot's status.
+ * Two supervisors deciding at once: the second waits for the lock, sees the new state and gets 409 with currentState.
+ * E-mails go out after the commit.
+ */
+export async function transitionVersion(access: StudioAccess, versionId: number, action: Exclude<ReviewAction, 'supersede'>, comment: string | null) {
+  const result = await db().transaction(async (tx) => {
+    const [peek] = await tx.select({ shotId: versions.shotId }).from(versions).where(and(eq(versions.id, versionId), eq(versions.studioId, access.studioId)));
+    if (!peek) throw new HttpError('not_found', 'No such version');
+    await tx.select({ id: shots.id }).from(shots).where(eq(shots.id, peek.shotId)).for('update');
+    const [v] = await tx.select().from(versions).where(eq(versions.id, versionId)).for('update');
+    const decision = decideTransition({ actor: access.role, action, from: v.reviewState, bakeState: v.bakeState, comment });
+    if (!decision.ok) {
+      if (decision.code === 'conflict') throw new HttpError('conflict', decision.message, undefined, { currentState: v.reviewState });
+      throw new HttpError(decision.code, decision.message, decision.field ? { [decision.field]: decision.message.replace(/^\w+: /, '') } : undefined);
+    }
+    const [updated] = await tx
+      .update(versions)
+      .set({ reviewState: decision.to })
+      .where(and(eq(versions.id, versionId), eq(versions.reviewState, v.reviewState)));
+    if (updated.affectedRows !== 1) {
+      const [now] = await tx.select({ reviewState: versions.reviewState }).from(versions).where(eq(versions.id, versionId));
+      throw new HttpError('conflict', 'Someone else changed this version a moment ago', undefined, { currentState: now?.reviewState });
+    }
+    const [ev] = await tx.insert(reviewEvents).values({ studioId: access.studioId, versionId, actorId: access.userId, fromState: v.reviewState, toState: decision.to, comment });
+    const shotStatus = await followShotStatus(tx, v.shotId, decision.to);
+    await auditIn(tx, {
+      studioId: access.studioId,
+      actorId: access.userId,
+      action: `version.${action}`,
+      targetId: versionId,
+      detail: { from: v.reviewState, to: decision.to, ...(comment ? { comment } : {}), ...(shotStatus ? { shotStatus } : {}) },
+    });
+    const [fresh] = await tx.select().from(versions).where(eq(versions.id, versionId));
+    return { version: fresh, eventId: Number(ev.insertId), from: v.reviewState, to: decision.to };
+  });
+  const send = result.to === 'submitted' ? notifySubmitted(versionId, access.userId) : notifyDecision(versionId, access.userId, comment);
+  void send.catch((err) => console.error(`[review] e-mail for version ${versionId} failed:`, err));
+  return {
+    version: reviewVersionView(result.version),
+    event: { id: result.eventId, fromState: result.from, toState: result.to, comment, actorId: access.userId },
+  };
+}
+
+/**
+ * Marks every older version of the shot superseded by a newly saved one, inside the caller's transaction (the shot row
+ * must already be locked). Writes a review event and an audit entry per version, and reopens the shot's status.
+ */
+export async function supersedeOlderVersions(tx: Tx, shot: Pick<ShotRow, 'id' | 'studioId'>, newVersionId: number, actorId: string | null) {
+  const older = await tx
+    .select({ id: versions.id, reviewState: versions.reviewState, number: versions.number })
+    .from(versions)
+    .where(and(eq(versions.shotId, shot.id), ne(versions.id, newVersionId), ne(versions.reviewState, 'superseded')))
+    .for('update');
+  if (older.length === 0) return 0;
+  await tx.update(versions).set({ reviewState: 'superseded' }).where(inArray(versions.id, older.map((o) => o.id)));
+  await tx.insert(reviewEvents).values(
+    older.map((o) => ({ studioId: shot.studioId, versionId: o.id, actorId, fromState: o.reviewState, toState: 'superseded' as const, comment: null })),
+  );
+  await tx.insert(auditLog).values(
+    older.map((o) => ({ studioId: shot.studioId, actorId, action: 'version.supersede', targetType: 'version', targetId: String(o.id), detail: { from: o.reviewState, to: 'superseded', by: newVersionId } })),
+  );
+  await followShotStatus(tx, shot.id, 'superseded');
+  return older.length;
+}
+
+/** Shares a version with the studio's clients or stops sharing it (supervisor+). A draft cannot be shared. */
+export async function setSharedWithClient(access: StudioAccess, versionId: number, shared: boolean) {
+  return db().transaction(async (tx) => {
+    const [v] = await tx.select().from(versions).where(and(eq(versions.id, versionId), eq(versions.studioId, access.studioId))).for('update');
+    if (!v) throw new HttpError('not_found', 'No such version');
+    if (shared && v.reviewState === 'draft') {
+      throw new HttpError('conflict', 'A draft stays inside the studio: submit it first, then share it with clients', undefined, { currentState: v.reviewState });
+    }
+    if (v.sharedWithClient !== shared) {
+      await tx.update(versions).set({ sharedWithClient: shared }).where(eq(versions.id, versionId));
+      await auditIn(tx, { studioId: access.studioId, actorId: access.userId, action: shared ? 'version.share' : 'version.unshare', targetId: versionId, detail: { shared } });
+    }
+    const [fresh] = await tx.select().from(versions).where(eq(versions.id, versionId));
+    return reviewVersionView(fresh);
+  });
+}
+
+/** The version's review events, oldest first. A client sees the states but not the studio's comments. */
+export async function reviewHistory(access: StudioAccess, versionId: number) {
+  const rows = await db()
+    .select({ id: reviewEvents.id, fromState: reviewEvents.fromState, toState: reviewEvents.toState, comment: reviewEvents.comment, createdAt: reviewEvents.createdAt, actorId: reviewEvents.actorId, actorName: users.name })
+    .from(reviewEvents)
+    .leftJoin(users, eq(users.id, reviewEvents.actorId))
+    .where(and(eq(reviewEvents.versionId, versionId), eq(reviewEvents.studioId, access.studioId)))
+    .orderBy(asc(reviewEvents.createdAt), asc(reviewEvents.id));
+  return rows.map((r) => ({
+    id: r.id,
+    fromState: r.fromState,
+    toState: r.toState,
+    comment: isClient(access) ? null : r.comment,
+    actor: { id: r.actorId, name: r.actorName ?? 'Tidemark' },
+    createdAt: r.createdAt.toISOString(),
+  }));
+}
+
+// ── Notes ────────────────────────────────────────────────────────────────────────────────────────────────────────
+
+const noteColumns = {
+  id: notes.id,
+  versionId: notes.versionId,
+  versionNumber: versions.number,
+  parentId: notes.parentId,
+  frame: notes.frame,
+  pointX: notes.pointX,
+  pointY: notes.pointY,
+  stroke: notes.stroke,
+  body: notes.body,
+  internal: notes.internal,
+  authorId: notes.authorId,
+  authorName: users.name,
+  guestName: notes.guestName,
+  resolvedAt: notes.resolvedAt,
+  resolvedBy: notes.resolvedBy,
+  createdAt: notes.createdAt,
+};
+interface NoteRow {
+  id: number;
+  versionId: number;
+  versionNumber: number | null;
+  parentId: number | null;
+  frame: number;
+  pointX: number | null;
+  pointY: number | null;
+  stroke: unknown;
+  body: string;
+  internal: boolean;
+  authorId: string | null;
+  authorName: string | null;
+  guestName: string | null;
+  resolvedAt: Date | null;
+  resolvedBy: string | null;
+  createdAt: Date;
+}
+
+function noteView(r: NoteRow): NoteView {
+  const stroke = typeof r.stroke === 'string' ? (JSON.parse(r.stroke) as NotePoint[]) : ((r.stroke as NotePoint[] | null) ?? null);
+  return {
+    id: r.id,
+    versionId: r.versionId,
+    versionNumber: r.versionNumber ?? undefined,
+    parentId: r.parentId ?? null,
+    frame: r.frame,
+    point: r.pointX !== null && r.pointY !== null ? { x: r.pointX, y: r.pointY } : null,
+    stroke,
+    body: r.body,
+    internal: r.internal,
+    author: { id: r.authorId ?? null, name: r.authorName ?? r.guestName ?? 'A former member' },
+    resolvedAt: r.resolvedAt ? r.resolvedAt.toISOString() : null,
+    resolvedBy: r.resolvedBy ?? null,
+    createdAt: r.createdAt.toISOString(),
+  };
+}
+
+function notesQuery() {
+  return db().select(noteColumns).from(notes).innerJoin(versions, eq(versions.id, notes.versionId)).leftJoin(users, eq(users.id, notes.authorId));
+}
+
+/** The frame range a note may be pinned to: the scene's timing, else the shot's frame range. */
+export function frameRangeOf(v: VersionRow, shot: ShotRow): { first: number; last: number } {
+  const timing = (v.scene as { timing?: { startFrame?: unknown; endFrame?: unknown } } | null)?.timing;
+  if (timing && Number.isInteger(timing.startFrame) && Number.isInteger(timing.endFrame)) return { first: timing.startFrame as number, last: timing.endFrame as number };
+  return { first: shot.firstFrame, last: shot.lastFrame };
+}
+
+/** Notes on a version, ordered by frame (replies included, each with its parentId). Clients never get internal notes. */
+export async function listNotes(access: StudioAccess, versionId: number) {
+  const where: SQL[] = [eq(notes.versionId, versionId), eq(notes.studioId, access.studioId)];
+  if (isClient(access)) where.push(eq(notes.internal, false));
+  const rows = await notesQuery().where(and(...where)).orderBy(asc(notes.frame), asc(notes.id));
+  return rows.map((r) => noteView(r));
+}
+
+/**
+ * Unresolved notes of the shot's earlier versions (each thread with its replies), so an artist opening the next
+ * version sees what is still open. A client gets only non-internal notes of versions they may see.
+ */
+export async function carriedNotes(access: StudioAccess, v: VersionRow) {
+  const verWhere: SQL[] = [eq(versions.shotId, v.shotId), lt(versions.number, v.number), eq(versions.studioId, access.studioId)];
+  if (isClient(access)) verWhere.push(eq(versions.sharedWithClient, true), ne(versions.reviewState, 'draft'));
+  const earlier = await db().select({ id: versions.id }).from(versions).where(and(...verWhere));
+  if (earlier.length === 0) return [];
+  const where: SQL[] = [inArray(notes.versionId, earlier.map((e) => e.id))];
+  if (isClient(access)) where.push(eq(notes.internal, false));
+  const rows = (await notesQuery().where(and(...where)).orderBy(asc(notes.frame), asc(notes.id))).map((r) => noteView(r));
+  const open = new Set(rows.filter((n) => n.parentId === null && n.resolvedAt === null).map((n) => n.id));
+  return rows.filter((n) => (n.parentId === null ? open.has(n.id) : open.has(n.parentId)));
+}
+
+/** Records that the user has read the version's notes now (notes by others after this are "new" in the inbox). */
+export async function markNotesRead(access: StudioAccess, versionId: number) {
+  const now = new Date();
+  await db()
+    .insert(noteReads)
+    .values({ studioId: access.studioId, userId: access.userId, versionId, seenAt: now })
+    .onDuplicateKeyUpdate({ set: { seenAt: now } });
+}
+
+const fieldError = (field: string, message: string) => new HttpError('validation_failed', `${field}: ${message}`, { [field]: message });
+
+/** Adds a note (or a reply) to a version. Checks the frame range, the parent and who may write internal notes. */
+export async function createNote(access: StudioAccess, v: VersionRow, shot: ShotRow, input: NoteCreate) {
+  if (isClient(access) && input.internal === true) throw fieldError('internal', 'clients write notes the studio and clients both see');
+  let frame = input.frame;
+  let internal = isClient(access) ? false : (input.internal ?? true);
+  if (input.parentId) {
+    const [parent] = await db()
+      .select({ id: notes.id, frame: notes.frame, parentId: notes.parentId, internal: notes.internal })
+      .from(notes)
+      .where(and(eq(notes.id, input.parentId), eq(notes.versionId, v.id), eq(notes.studioId, access.studioId)));
+    if (!parent || (isClient(access) && parent.internal)) throw fieldError('parentId', 'is not a note on this version');
+    if (parent.parentId !== null) throw fieldError('parentId', 'is a reply: reply to the note it answers');
+    frame ??= parent.frame;
+    // A reply to an internal note stays inside the studio.
+    if (parent.internal) internal = true;
+  }
+  if (frame === undefined) throw fieldError('frame', 'is required');
+  const range = frameRangeOf(v, shot);
+  if (frame < range.first || frame > range.last) throw fieldError('frame', `must be within the version's frames ${range.first}–${range.last}`);
+  const [res] = await db()
+    .insert(notes)
+    .values({
+      studioId: access.studioId,
+      versionId: v.id,
+      parentId: input.parentId ?? null,
+      authorId: access.userId,
+      frame,
+      pointX: input.point?.x ?? null,
+      pointY: input.point?.y ?? null,
+      stroke: input.stroke ?? null,
+      body: input.body,
+      internal,
+    });
+  const id = Number(res.insertId);
+  await markNotesRead(access, v.id);
+  const [row] = await notesQuery().where(eq(notes.id, id));
+  return noteView(row as NoteRow);
+}
+
+/** Loads a note for the signed-in user with at least `role` (401 / 404 other studio or hidden / 403). */
+export async function noteFor(locals: Locals, noteId: number, role: Role) {
+  if (!locals.user) throw new HttpError('unauthenticated', 'Please sign in');
+  const [n] = await db()
+    .select({ id: notes.id, studioId: notes.studioId, parentId: notes.parentId, resolvedAt: notes.resolvedAt, internal: notes.internal, version: versions })
+    .from(notes)
+    .innerJoin(versions, eq(versions.id, notes.versionId))
+    .where(eq(notes.id, noteId));
+  if (!n) throw new HttpError('not_found', 'No such note');
+  const access = await requireRole(locals, n.studioId, role);
+  if (isClient(access) && (n.internal || !clientMaySee(n.version))) throw new HttpError('not_found', 'No such note');
+  return { note: n, access };
+}
+
+/** Resolves or reopens a note thread (replies follow their thread, so only top-level notes are resolved). */
+export async function setNoteResolved(access: StudioAccess, note: { id: number; parentId: number | null; resolvedAt: Date | null }, resolved: boolean) {
+  if (note.parentId !== null) throw fieldError('resolved', 'applies to a whole thread: resolve the note this reply belongs to');
+  if (resolved !== (note.resolvedAt !== null)) {
+    await db()
+      .update(notes)
+      .set(resolved ? { resolvedAt: new Date(), resolvedBy: access.userId } : { resolvedAt: null, resolvedBy: null })
+      .where(and(eq(notes.id, note.id), eq(notes.studioId, access.studioId)));
+  }
+  const [row] = await notesQuery().where(eq(notes.id, note.id));
+  return noteView(row);
+}
+
+// ── Inbox ────────────────────────────────────────────────────────────────────────────────────────────────────────
+
+const noteAuthors = alias(users, 'note_authors');
+
+/** Versions with shot and show codes, for inbox rows. */
+function versionRowsQuery() {
+  return db()
+    .select({
+      versionId: versions.id,
+      number: versions.number,
+      reviewState: versions.reviewState,
+      sharedWithClient: versions.sharedWithClient,
+      updatedAt: versions.updatedAt,
+      shotId: shots.id,
+      shotCode: shots.code,
+      showCode: shows.code,
+      authorId: versions.authorId,
+      authorName: users.name,
+    })
+    .from(versions)
+    .innerJoin(shots, eq(shots.id, versions.shotId))
+    .innerJoin(shows, eq(shows.id, shots.showId))
+    .leftJoin(users, eq(users.id, versions.authorId));
+}
+
+/** The latest review event of each version (for "returned by X: comment"). */
+async function latestEvents(versionIds: number[]) {
+  if (versionIds.length === 0) return new Map<number, { comment: string | null; actorName: string | null; createdAt: Date }>();
+  const rows = await db()
+    .select({ versionId: reviewEvents.versionId, id: reviewEvents.id, comment: reviewEvents.comment, actorName: users.name, createdAt: reviewEvents.createdAt })
+    .from(reviewEvents)
+    .leftJoin(users, eq(users.id, reviewEvents.actorId))
+    .where(inArray(reviewEvents.versionId, versionIds))
+    .orderBy(asc(reviewEvents.id));
+  const out = new Map<number, { comment: string | null; actorName: string | null; createdAt: Date }>();
+  for (const r of rows) out.set(r.versionId, r);
+  return out;
+}
+
+/** Condition for notes that are new to the user on their own versions: by someone else, open, after their last read. */
+function newNotesWhere(studioId: number, userId: string): SQL {
+  return and(
+    eq(notes.studioId, studioId),
+    eq(versions.authorId, userId),
+    or(isNull(notes.authorId), ne(notes.authorId, userId)),
+    isNull(notes.resolvedAt),
+    ne(versions.reviewState, 'superseded'),
+    or(isNull(noteReads.seenAt), gt(notes.createdAt, noteReads.seenAt)),
+  )!;
+}
+
+/** Notes joined with their version and the version author's last read of it (for newNotesWhere). */
+function newNotesCount() {
+  return db()
+    .select({ n: sql<number>`count(*)`.mapWith(Number) })
+    .from(notes)
+    .innerJoin(versions, eq(versions.id, notes.versionId))
+    .leftJoin(noteReads, and(eq(noteReads.versionId, notes.versionId), eq(noteReads.userId, versions.authorId)));
+}
+
+function newNotesRows() {
+  return db()
+    .select({ ...noteColumns, authorName: noteAuthors.name })
+    .from(notes)
+    .innerJoin(versions, eq(versions.id, notes.versionId))
+    .leftJoin(noteReads, and(eq(noteReads.versionId, notes.versionId), eq(noteReads.userId, versions.authorId)))
+    .leftJoin(noteAuthors, eq(noteAuthors.id, notes.authorId));
+}
+
+export interface InboxCounts {
+  toReview: number;
+  returned: number;
+  newNotes: number;
+  total: number;
+}
+
+/** The counts for the navigation: cheap count queries only. */
+export async function inboxCounts(studioId: number, userId: string, role: Role): Promise<InboxCounts> {
+  const count = sql<number>`count(*)`.mapWith(Number);
+  const reviewWhere =
+    role === 'client'
+      ? and(eq(versions.studioId, studioId), eq(versions.reviewState, 'submitted'), eq(versions.sharedWithClient, true))
+      : role === 'artist'
+        ? undefined
+        : and(eq(versions.studioId, studioId), eq(versions.reviewState, 'submitted'));
+  const [toReview, returned, newNotes] = await Promise.all([
+    reviewWhere ? db().select({ n: count }).from(versions).where(reviewWhere) : Promise.resolve([{ n: 0 }]),
+    role === 'client'
+      ? Promise.resolve([{ n: 0 }])
+      : db().select({ n: count }).from(versions).where(and(eq(versions.studioId, studioId), eq(versions.authorId, userId), eq(versions.reviewState, 'returned'))),
+    role === 'client' ? Promise.resolve([{ n: 0 }]) : newNotesCount().where(newNotesWhere(studioId, userId)),
+  ]);
+  const c = { toReview: Number(toReview[0]?.n ?? 0), returned: Number(returned[0]?.n ?? 0), newNotes: Number(newNotes[0]?.n ?? 0) };
+  return { ...c, total: c.toReview + c.returned + c.newNotes };
+}
+
+/**
+ * What waits for the user in this studio:
+ * - toReview: supervisors and owners get every submitted version; a client gets submitted versions shared with them;
+ * - returned: the user's own versions that came back (artist and above);
+ * - newNotes: the user's own versions with notes by others since they last read them, with the notes.
+ */
+export async function inboxFor(access: StudioAccess) {
+  const { studioId, userId, role } = access;
+  const counts = await inboxCounts(studioId, userId, role);
+  const reviewWhere: SQL | null =
+    role === 'client'
+      ? and(eq(versions.studioId, studioId), eq(versions.reviewState, 'submitted'), eq(versions.sharedWithClient, true))!
+      : role === 'artist'
+        ? null
+        : and(eq(versions.studioId, studioId), eq(versions.reviewState, 'submitted'))!;
+  const [toReview, returned, fresh] = await Promise.all([
+    reviewWhere ? versionRowsQuery().where(reviewWhere).orderBy(asc(versions.updatedAt)).limit(200) : Promise.resolve([]),
+    role === 'client'
+      ? Promise.resolve([])
+      : versionRowsQuery()
+          .where(and(eq(versions.studioId, studioId), eq(versions.authorId, userId), eq(versions.reviewState, 'returned')))
+          .orderBy(desc(versions.updatedAt))
+          .limit(200),
+    role === 'client'
+      ? Promise.resolve([])
+      : newNotesRows()
+          .where(newNotesWhere(studioId, userId))
+          .orderBy(asc(notes.versionId), asc(notes.frame), asc(notes.id))
+          .limit(500),
+  ]);
+  const freshNotes = fresh.map((r) => noteView(r));
+  const noteVersionIds = [...new Set(freshNotes.map((n) => n.versionId))];
+  const [events, noteVersions] = await Promise.all([
+    latestEvents([...toReview, ...returned].map((r) => r.versionId)),
+    noteVersionIds.length ? versionRowsQuery().where(inArray(versions.id, noteVersionIds)) : Promise.resolve([]),
+  ]);
+  const item = (r: Awaited<ReturnType<typeof versionRowsQuery>>[number]) => {
+    const e = events.get(r.versionId);
+    return {
+      versionId: r.versionId,
+      number: r.number,
+      reviewState: r.reviewState,
+      shotId: r.shotId,
+      shotCode: r.shotCode,
+      showCode: r.showCode,
+      author: { id: r.authorId, name: r.authorName ?? 'A former member' },
+      updatedAt: r.updatedAt.toISOString(),
+      lastEvent: e ? { comment: role === 'client' ? null : e.comment, actorName: e.actorName, at: e.createdAt.toISOString() } : null,
+    };
+  };
+  return {
+    counts,
+    toReview: toReview.map(item),
+    returned: returned.map(item),
+    newNotes: noteVersions.map((r) => ({ ...item(r), notes: freshNotes.filter((n) => n.versionId === r.versionId) })),
+  };
+}
+
+// ── Compare ──────────────────────────────────────────────────────────────────────────────────────────────────────
+
+/** Two versions of the same shot with their scenes and the change table from `a` to `b`. */
+export async function compareVersions(locals: Locals, studioId: number, aId: number, bId: number) {
+  const access = await requireRole(locals, studioId, 'client');
+  const [a, b] = await Promise.all([reviewVersionFor(locals, aId, 'client'), reviewVersionFor(locals, bId, 'client')]);
+  if (a.version.studioId !== access.studioId || b.version.studioId !== access.studioId) throw new HttpError('not_found', 'No such version');
+  if (a.version.shotId !== b.version.shotId) throw fieldError('b', 'must be a version of the same shot as a');
+  const shot = a.shot;
+  const [show] = await db().select({ code: shows.code, name: shows.name }).from(shows).where(eq(shows.id, shot.showId));
+  const changes = diffScenes(a.version.scene, b.version.scene);
+  return {
+    shot: {
+      id: shot.id,
+      code: shot.code,
+      showCode: show?.code ?? null,
+      firstFrame: shot.firstFrame,
+      lastFrame: shot.lastFrame,
+      plateWidth: shot.plateWidth,
+      plateHeight: shot.plateHeight,
+      metresPerPixel: shot.metresPerPixel,
+      plateAssetId: shot.plateAssetId,
+    },
+    a: { ...reviewVersionView(a.version), scene: a.version.scene, plateAssetId: a.version.plateAssetId },
+    b: { ...reviewVersionView(b.version), scene: b.version.scene, plateAssetId: b.version.plateAssetId },
+    changes,
+    counts: countChanges(changes),
+  };
+}
