@@ -21,6 +21,10 @@ interface Props {
   plate: PlateInfo | null;
   /** Presigned clip URLs made with the page (null: the player asks the API). */
   clip: ClipInfo | null;
+  /** Told the frame whenever it changes (the review panel pins new notes to it). */
+  onFrame?: (frame: number) => void;
+  /** A request to show a frame (a note clicked, or ?frame= in the address); applied once the clip is open. */
+  seekTo?: { frame: number } | null;
 }
 
 type Status = { kind: 'loading' } | { kind: 'ready' } | { kind: 'error'; message: string };
@@ -45,7 +49,7 @@ function lookOptionsFrom(stats: BakeStats | null): LookOptions {
   };
 }
 
-export default function Player({ studioId, version, shot, plate, clip }: Props) {
+export default function Player({ studioId, version, shot, plate, clip, onFrame, seekTo }: Props) {
   const host = useRef<HTMLDivElement>(null);
   const engineRef = useRef<PlayerEngine | null>(null);
   const playbackRef = useRef<Playback | null>(null);
@@ -159,6 +163,12 @@ export default function Player({ studioId, version, shot, plate, clip }: Props) 
   }, []);
 
   const step = useCallback((by: number) => goTo(state.current.frame + by), [goTo]);
+
+  useEffect(() => onFrame?.(frame), [frame, onFrame]);
+  const ready = status.kind === 'ready';
+  useEffect(() => {
+    if (seekTo && ready) goTo(seekTo.frame);
+  }, [seekTo, ready, goTo]);
 
   const togglePlay = useCallback(() => {
     const pb = playbackRef.current;

@@ -6,6 +6,10 @@ import { api, ApiError } from '../shared/api';
 import { signInUrl } from '../shared/paths';
 import BakePanel from './BakePanel';
 import Player from './Player';
+import ReviewPanel from '../review/ReviewPanel';
+import NoteTicks from '../review/NoteTicks';
+import type { Role } from '~/lib/vocab';
+import type { NoteMarker } from '~/lib/review/notes';
 import { safeTimecode } from './Timeline';
 import type { BakeProgress, BakeState, ClipInfo, PlateInfo, ShotInfo, VersionInfo } from './types';
 
@@ -19,6 +23,10 @@ interface Props {
   clip: ClipInfo | null;
   /** Artist or above: may start and cancel bakes, and sees progress. */
   canBake: boolean;
+  /** The viewer's role in the studio (what the review panel offers). */
+  role: Role;
+  /** The shot's previous version, for a compare link. */
+  previousVersionId?: number | null;
 }
 
 export default function VersionScreen(props: Props) {
@@ -60,7 +68,15 @@ function Chip({ value, label, testId }: { value: string; label: string; testId?:
   );
 }
 
-function Version({ studioId, studioSlug, version, shot, plate, clip, canBake }: Props) {
+function Version({ studioId, studioSlug, version, shot, plate, clip, canBake, role, previousVersionId }: Props) {
+  const [currentFrame, setCurrentFrame] = useState(version.startFrame);
+  const [seekTo, setSeekTo] = useState<{ frame: number } | null>(() => {
+    // Links in review e-mails carry ?frame=<n>.
+    if (typeof window === 'undefined') return null;
+    const f = Number(new URLSearchParams(window.location.search).get('frame'));
+    return Number.isInteger(f) && f >= version.startFrame && f <= version.endFrame ? { frame: f } : null;
+  });
+  const [markers, setMarkers] = useState<NoteMarker[]>([]);
   const queryClient = useQueryClient();
   const progressKey = ['version', version.id, 'bake'];
   const progress = useQuery({
@@ -149,12 +165,26 @@ function Version({ studioId, studioSlug, version, shot, plate, clip, canBake }: 
 
       {bakeState === 'baked' &&
         (clipInfo ? (
-          <Player studioId={studioId} version={version} shot={shot} plate={plate} clip={clipInfo} />
+          <div className="space-y-2">
+            <Player studioId={studioId} version={version} shot={shot} plate={plate} clip={clipInfo} onFrame={setCurrentFrame} seekTo={seekTo} />
+            <NoteTicks markers={markers} start={version.startFrame} end={version.endFrame} currentFrame={currentFrame} onSeek={(f) => setSeekTo({ frame: f })} />
+          </div>
         ) : (
           <section className="card p-6 text-sm text-ink-muted" data-testid="player-loading">
             {clipQuery.error ? `The baked clip could not be opened: ${clipQuery.error.message}` : 'Opening the bake…'}
           </section>
         ))}
+
+      <ReviewPanel
+        versionId={version.id}
+        studioSlug={studioSlug}
+        role={role}
+        currentFrame={currentFrame}
+        onSeek={(f) => setSeekTo({ frame: f })}
+        frameRange={{ start: version.startFrame, end: version.endFrame }}
+        onMarkers={setMarkers}
+        compareWithVersionId={previousVersionId ?? null}
+      />
     </div>
   );
 }
