@@ -51,3 +51,17 @@ describe('demo studio', () => {
     for (const k of list) expect((await headObject(k))?.size).toBeGreaterThan(10_000);
   });
 });
+
+describe('demo plates through the API', () => {
+  it('the plate of a demo shot can be viewed (it is a finished upload)', async () => {
+    const id = await seedDemo();
+    const [shot] = (await db().select().from(shots).where(eq(shots.studioId, id))).filter((s) => s.plateAssetId);
+    const owner = DEMO_USERS.find((u) => u.role === 'owner')!;
+    const c = await new Client().signIn(owner.email, owner.password);
+    const res = await c.get(`/api/studios/${id}/plates/${shot.plateAssetId}`);
+    expect(res.status).toBe(200);
+    expect(res.body.asset.width).toBe(1920);
+    const png = await fetch(res.body.url);
+    expect(png.headers.get('content-type')).toBe('image/png');
+  });
+});

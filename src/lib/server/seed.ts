@@ -120,7 +120,7 @@ async function seedVersions(studioId: number, artistId: string) {
           height: 1080,
           shotId: shot.id,
           format: 'png',
-          meta: { demo: true, fileName: `${plateName}.png` },
+          meta: { state: 'ready', demo: true, fileName: `${plateName}.png`, declaredSize: entry.bytes.length },
         });
         entry.assetId = Number(a.insertId);
       }
