@@ -259,6 +259,8 @@ export function appEnvironment(o: { databaseUrl: string; s3Endpoint: string; buc
     HOST: '127.0.0.1',
     PORT: String(o.port),
     ASTRO_TELEMETRY_DISABLED: '1',
+    // Node 20 is what these machines run (the lock file pins SDK versions that support it): skip the SDK's reminder.
+    AWS_SDK_JS_NODE_VERSION_SUPPORT_WARNING_DISABLED: 'true',
   };
 }
 
