@@ -1,9 +1,10 @@
-// Issue 8 in Chromium: a supervisor exports an MP4, a GIF and a PNG ZIP of a really baked version with slate and
-// burn-ins (progress bar to 100 %, downloads caught by Playwright), cancels one export and carries on, makes a share
-// link, opens it in a fresh browser without signing in, leaves a comment, and the comment is on the version.
-// The files are checked in Node: ffprobe (MP4), omggif (GIF), fflate (ZIP).
+// Issue 8 in Chromium, on the real version page: a producer (the studio's supervisor) opens a really baked version,
+// exports an MP4, a GIF and a PNG ZIP with slate and burn-ins (progress bar to 100 %, downloads caught by Playwright),
+// cancels one export and carries on, makes a share link, opens it in a fresh browser without signing in, leaves a
+// named comment, and sees the comment in the version page's notes. The files are checked in Node: ffprobe (MP4),
+// omggif (GIF), fflate (ZIP). Chromium runs with web security on: the S3 stand-in allows the test app's origin.
 import { describe, it, expect, beforeAll, afterAll } from 'vitest';
-import { chromium, type BrowserContext, type Page } from 'playwright-core';
+import type { Page } from 'playwright-core';
 import { execFileSync } from 'node:child_process';
 import { mkdirSync, mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
@@ -11,15 +12,13 @@ import path from 'node:path';
 import { eq } from 'drizzle-orm';
 import { GifReader } from 'omggif';
 import { unzipSync } from 'fflate';
-import { APP, makeStudio, unique, type TestStudio } from '../support/app';
-import { SHOTS_DIR, screenshot, signInAs } from '../support/browser';
+import { makeStudio, unique, type TestStudio } from '../support/app';
+import { SHOTS_DIR, openBrowser, screenshot, signInAs } from '../support/browser';
 import { tinyScene } from '../support/scenes';
-import { buildHarness, routeHarness, HARNESS_BASE } from '../export/harness-build';
 import { closeDb, db } from '../../src/lib/server/db';
 import { notes, shots, shows } from '../../src/lib/server/db/schema';
 import { burnInLayout, gifDelays, GIF_SLATE_DELAY_CS } from '../../src/lib/export/layout';
 import { framesToTimecode } from '../../src/lib/timecode';
-import type { ExportPanelProps } from '../../src/components/export/ExportPanel';
 
 const FIRST = 1001;
 const LAST = 1024; // 24 frames at 24 fps
@@ -27,23 +26,8 @@ const PLATE = { width: 640, height: 360 }; // "Half" → 320×180
 
 let studio: TestStudio;
 let versionId: number;
-let props: ExportPanelProps;
-let harnessDir: string;
+let shotCode: string;
 const downloads = mkdtempSync(path.join(tmpdir(), 'tidemark-exports-'));
-
-/** Chromium as in tests/support/browser.ts; web security off because the S3 stand-in's CORS rules name fixed ports. */
-async function launch(): Promise<{ context: BrowserContext; page: Page; close: () => Promise<void> }> {
-  const dir = mkdtempSync(path.join(tmpdir(), 'tidemark-chromium-'));
-  const context = await chromium.launchPersistentContext(dir, {
-    executablePath: '/usr/bin/chromium',
-    args: ['--headless', '--no-sandbox', '--disable-gpu', '--disable-quic', '--no-first-run', '--disable-background-networking', '--disable-component-update', '--disable-sync', '--disable-web-security'],
-    viewport: { width: 1280, height: 1000 },
-    baseURL: APP,
-    acceptDownloads: true,
-  });
-  const page = context.pages()[0] ?? (await context.newPage());
-  return { context, page, close: async () => (await context.close(), rmSync(dir, { recursive: true, force: true })) };
-}
 
 async function waitBaked(id: number) {
   const c = studio.members.supervisor.client;
@@ -57,9 +41,7 @@ async function waitBaked(id: number) {
 }
 
 beforeAll(async () => {
-  const [s, dir] = await Promise.all([makeStudio(), buildHarness()]);
-  studio = s;
-  harnessDir = dir;
+  studio = await makeStudio();
   const [show] = await db().insert(shows).values({ studioId: studio.id, code: 'LT', name: 'Low Tide', frameRate: '24' });
   const [shot] = await db()
     .insert(shots)
@@ -72,32 +54,30 @@ beforeAll(async () => {
   expect((await sup.client.post(`/api/versions/${versionId}/bake`)).status).toBe(202);
   await waitBaked(versionId);
   const [shotRow] = await db().select().from(shots).where(eq(shots.id, shotId));
-  props = {
-    versionId,
-    studioId: studio.id,
-    studioName: `Studio ${studio.slug}`,
-    showName: 'Low Tide',
-    showCode: 'LT',
-    shotCode: shotRow.code,
-    versionNumber: 1,
-    artistName: sup.name,
-    reviewState: 'draft',
-    firstFrame: FIRST,
-    lastFrame: LAST,
-    handles: 4,
-    frameRate: '24',
-    plateWidth: PLATE.width,
-    plateHeight: PLATE.height,
-    metresPerPixel: null,
-    plate: null,
-  };
+  shotCode = shotRow.code;
 }, 240_000);
 
 afterAll(async () => {
   await closeDb();
   rmSync(downloads, { recursive: true, force: true });
-  if (harnessDir) rmSync(harnessDir, { recursive: true, force: true });
 });
+
+/**
+ * Waits until the island holding `testId` is hydrated: the version page mounts the Export and Share panels with
+ * `client:visible`, so they are scrolled to, and their server-rendered HTML is inert until Astro drops `ssr`.
+ */
+async function hydrated(page: Page, testId: string) {
+  const panel = page.getByTestId(testId);
+  await panel.scrollIntoViewIfNeeded({ timeout: 30_000 });
+  await page.locator(`astro-island:not([ssr]) [data-testid="${testId}"]`).waitFor({ timeout: 30_000 });
+  return panel;
+}
+
+/** A full-page screenshot from the top, so the app shell's sticky header is drawn where it belongs. */
+async function pageShot(page: Page, name: string) {
+  await page.evaluate(() => window.scrollTo(0, 0));
+  await screenshot(page, name);
+}
 
 /** Picks a format, exports, waits for the bar to reach 100 %, and saves the download. */
 async function exportAndDownload(page: Page, format: 'gif' | 'mp4' | 'zip'): Promise<string> {
@@ -134,23 +114,32 @@ function region(px: Uint8Array, width: number, r: { x0: number; y0: number; x1: 
 }
 
 describe('exports and share links in Chromium', () => {
-  it('exports MP4, GIF and PNG ZIP with slate and burn-ins, cancels one, shares the version, and a client comments', async () => {
-    const b = await launch();
-    const viewer = await launch();
+  it('exports MP4, GIF and PNG ZIP with slate and burn-ins from the version page, cancels one, shares the version, and a client comments', async () => {
+    const b = await openBrowser();
+    const viewer = await openBrowser();
     try {
-      const { page, context } = b;
-      await signInAs(page, studio.members.supervisor.email, studio.members.supervisor.password);
+      const { page } = b;
+      const sup = studio.members.supervisor;
+      await signInAs(page, sup.email, sup.password);
       await page.waitForURL((u) => !u.pathname.startsWith('/sign-in'));
-      await routeHarness(context, APP, harnessDir);
       const errors: string[] = [];
       page.on('pageerror', (e) => errors.push(e.message));
-      page.on('console', (m) => m.type() === 'error' && console.log(`[harness console] ${m.text()}`));
-      await page.goto(`${HARNESS_BASE}index.html#${encodeURIComponent(JSON.stringify(props))}`);
-      await page.getByTestId('export-panel').waitFor({ timeout: 15_000 }).catch(async (e) => {
-        await screenshot(page, 'export-harness-failed');
-        throw new Error(`${e.message}\npage errors: ${errors.join('; ')}\nurl: ${page.url()}\n${(await page.content()).slice(0, 500)}`);
+      page.on('console', (m) => m.type() === 'error' && console.log(`[version page console] ${m.text()}`));
+      const versionPage = `/studios/${studio.slug}/versions/${versionId}`;
+      await page.goto(versionPage);
+      await page.getByTestId('version-header').waitFor();
+      expect(await page.getByTestId('bake-state').textContent()).toBe('baked');
+      await hydrated(page, 'export-panel').catch(async (e) => {
+        await screenshot(page, 'export-page-failed');
+        throw new Error(`${e.message}\npage errors: ${errors.join('; ')}\nurl: ${page.url()}`);
       });
+      await hydrated(page, 'share-panel');
+      // The page hands the panel the show's name (for the slate), not only its code.
+      const islandProps = await page.locator('astro-island', { has: page.getByTestId('export-panel') }).getAttribute('props');
+      expect(islandProps).toContain('Low Tide');
       expect(await page.getByTestId('export-size').textContent()).toContain('320×180');
+      await page.getByTestId('export-list').or(page.getByText('None yet.')).waitFor();
+      await pageShot(page, 'export-version-page');
 
       // ── MP4 ──
       const mp4 = await exportAndDownload(page, 'mp4');
@@ -161,7 +150,7 @@ describe('exports and share links in Chromium', () => {
       expect(probe).toMatchObject({ codec_name: 'h264', pix_fmt: 'yuv420p', r_frame_rate: '24/1', width: 320, height: 180 });
       expect(Number(probe.nb_read_frames)).toBe(LAST - FIRST + 1 + 1); // 24 frames + the slate
       expect(await page.evaluate(() => document.fonts.check('600 16px "Space Grotesk"'))).toBe(true);
-      await screenshot(page, 'export-mp4-done');
+      await pageShot(page, 'export-mp4-done');
 
       // ── GIF ──
       const gifPath = await exportAndDownload(page, 'gif');
@@ -223,16 +212,22 @@ describe('exports and share links in Chromium', () => {
       await page.getByRole('combobox', { name: 'Size' }).selectOption('half');
       await page.getByRole('combobox', { name: 'Frame range' }).selectOption('shot');
 
-      // Stored exports are listed with the version.
-      const listed = await studio.members.supervisor.client.get(`/api/versions/${versionId}/exports`);
+      // Stored exports are listed with the version: by the API, and on the page.
+      const listed = await sup.client.get(`/api/versions/${versionId}/exports`);
       expect(listed.body.exports.map((e: { format: string }) => e.format).sort()).toEqual(['gif', 'mp4', 'zip']);
       await page.getByTestId('export-list').locator('li').nth(2).waitFor();
+      expect(await page.getByTestId('export-list').locator('li').count()).toBe(3);
+      // …and the Share panel offers the stored MP4 and GIF (not the ZIP) as link targets.
+      const exportTargets = page.getByRole('combobox', { name: 'Link shows' }).locator('option', { hasText: /^Export: / });
+      await exportTargets.nth(1).waitFor({ state: 'attached' });
+      expect(await exportTargets.count()).toBe(2);
 
       // ── Share link ──
       await page.getByRole('button', { name: 'Create link' }).click();
       const url = await page.getByTestId('share-url').inputValue();
       expect(url).toMatch(/\/share\/[a-z2-7]{32}$/);
-      await screenshot(page, 'export-share-made');
+      await page.getByTestId('share-links').locator('li').first().waitFor();
+      await pageShot(page, 'export-share-made');
       expect(errors).toEqual([]);
 
       // ── A client opens it without signing in and comments ──
@@ -240,7 +235,7 @@ describe('exports and share links in Chromium', () => {
       await v.goto(url);
       await v.getByTestId('share-slate').waitFor();
       const slate = await v.getByTestId('share-slate').textContent();
-      expect(slate).toContain(props.shotCode);
+      expect(slate).toContain(shotCode);
       expect(slate).toContain('v001');
       expect(slate).toContain('Low Tide');
       expect(await v.getByTestId('share-caution').textContent()).toContain('licensed special-effects coordinator');
@@ -251,17 +246,31 @@ describe('exports and share links in Chromium', () => {
       await v.getByTestId('shared-sent').waitFor();
       await screenshot(v, 'share-page-commented');
       const html = await v.content();
-      expect(html).not.toContain(studio.members.supervisor.email);
+      expect(html).not.toContain(sup.email);
       expect(html).not.toContain(`/api/versions/${versionId}`);
 
       // ── …and the comment is on the version as a client note ──
       const rows = await db().select().from(notes).where(eq(notes.versionId, versionId));
       expect(rows).toHaveLength(1);
       expect(rows[0]).toMatchObject({ guestName: 'Robin at the agency', internal: false, body: 'Can the splash reach the railing?', frame: FIRST });
-      const notesApi = await studio.members.supervisor.client.get(`/api/versions/${versionId}/notes`);
-      if (notesApi.status === 200) expect(JSON.stringify(notesApi.body)).toContain('Can the splash reach the railing?');
-      const links = await studio.members.supervisor.client.get(`/api/versions/${versionId}/share-links`);
+      const notesApi = await sup.client.get(`/api/versions/${versionId}/notes`);
+      expect(notesApi.status).toBe(200);
+      expect(JSON.stringify(notesApi.body)).toContain('Can the splash reach the railing?');
+      const links = await sup.client.get(`/api/versions/${versionId}/share-links`);
       expect(links.body.links[0].openCount).toBe(1);
+
+      // Back in the producer's browser: the version page lists the comment in the review panel's notes, under the
+      // client's name, and the Share panel counts the open.
+      await page.goto(versionPage);
+      const thread = page.getByTestId('note-list').getByTestId('note-thread').filter({ hasText: 'Can the splash reach the railing?' });
+      await thread.waitFor({ timeout: 15_000 });
+      expect(await thread.getAttribute('data-frame')).toBe(String(FIRST));
+      expect(await thread.textContent()).toContain('Robin at the agency');
+      expect(await thread.textContent()).not.toContain('studio only');
+      await hydrated(page, 'share-panel');
+      await page.getByTestId('share-links').filter({ hasText: '1 open ' }).waitFor();
+      await pageShot(page, 'export-version-page-with-client-note');
+      expect(errors).toEqual([]);
     } finally {
       await viewer.close();
       await b.close();
