@@ -1,16 +1,20 @@
-// Player benchmark: frame time of the player's drawing engine for 50k particles in headless Chromium on software
-// WebGL (SwiftShader), for each render look. Bundles the real engine (src/components/player/engine.ts) with esbuild,
-// feeds it synthetic splash frames over a painted plate, and times look + texture upload + render (gl.finish()).
-// Prints one line per look and view size, then a JSON line. Run: npx tsx src/cli/bench-player.ts
+// Player benchmark: the player's drawing engine with 50k particles in headless Chromium on software WebGL
+// (SwiftShader), for each render look at the on-page size and at full 1920×1080. Bundles the real engine and playback
+// (src/components/player/) with esbuild, feeds them synthetic splash frames over a painted plate, and prints per look
+// and size: frame time mean/p95 (CPU + upload + GPU, waited for), the most frames rAF can draw, the fps the player's
+// Playback holds at 25 and 30 fps, and the browser's own no-op redraw rate; then a JSON line.
+// Run: npx tsx src/cli/bench-player.ts (BENCH_QUICK=1: 960×540 only; BENCH_PREVIEW=dir: pictures of each look).
 import { build } from 'esbuild';
 import path from 'node:path';
 import { mkdtempSync, rmSync } from 'node:fs';
-import { tmpdir } from 'node:os';
+import { cpus, loadavg, tmpdir } from 'node:os';
 import { chromium } from 'playwright-core';
 
 const root = path.resolve(import.meta.dirname, '../..');
 const PARTICLES = Number(process.env.BENCH_PARTICLES ?? 50_000);
 const FRAMES = 48;
+const PLAY_FPS = [25, 30];
+const PLAY_MS = Number(process.env.BENCH_PLAY_MS ?? 3000);
 const SIZES: [number, number][] = process.env.BENCH_QUICK ? [[960, 540]] : [
   [960, 540],
   [1920, 1080],
@@ -19,6 +23,7 @@ const SIZES: [number, number][] = process.env.BENCH_QUICK ? [[960, 540]] : [
 // The page side: builds synthetic frames, opens the engine, and times each look.
 const entry = `
 import { PlayerEngine } from './src/components/player/engine';
+import { Playback } from './src/components/player/playback';
 import { RENDER_LOOKS } from './src/lib/render/looks';
 
 function splashFrames(n, frames) {
@@ -72,8 +77,28 @@ window.preview = async ({ particles, frames, width, height, look, frame }) => {
   window.previewEngine = engine;
 };
 
-window.runBench = async ({ particles, frames, width, height }) => {
+// rAF-paced loop for ms milliseconds: calls fn(now) every tick; returns ticks per second.
+async function rafRate(ms, fn) {
+  const nextTick = () => new Promise((r) => requestAnimationFrame(r));
+  for (let i = 0; i < 3; i++) await nextTick(); // let the compositor catch up after a burst of frames
+  let ticks = 0;
+  const start = await nextTick();
+  let last = start;
+  await new Promise((done) => {
+    const tick = (now) => {
+      last = now;
+      fn && fn(now);
+      ticks++;
+      if (now - start < ms) requestAnimationFrame(tick); else done();
+    };
+    requestAnimationFrame(tick);
+  });
+  return (ticks - 1) / ((last - start) / 1000);
+}
+
+window.runBench = async ({ particles, frames, width, height, playFps, playMs }) => {
   const host = document.getElementById('host');
+  host.innerHTML = '';
   host.style.width = width + 'px'; host.style.height = height + 'px';
   const data = splashFrames(particles, frames);
   const plateCanvas = platePicture(1920, 1080);
@@ -81,59 +106,65 @@ window.runBench = async ({ particles, frames, width, height }) => {
   const source = { startFrame: 1001, endFrame: 1000 + frames, tankWidth: 3.2, tankHeight: 1.8, frameAt: async (f) => data[f - 1001] };
   const engine = await PlayerEngine.create({ host, frames: source, plate, metresPerPixel: 3.2 / 1920, look: 'surface', lookOptions: { restDensity: particles * 0.8 / (3.2 * 0.5), speedScale: 6 } });
   const gl = engine.app.renderer.gl;
+  // gl.finish() returns before SwiftShader has drawn (Chromium's GPU process runs it later); reading one pixel back
+  // waits for the frame, so the frame time below includes the GPU's share.
+  const px = new Uint8Array(4);
+  const sync = () => gl.readPixels(0, 0, 1, 1, gl.RGBA, gl.UNSIGNED_BYTE, px);
   for (let f = 1001; f <= 1000 + frames; f++) await engine.decode(f);
   const results = [];
   for (const look of RENDER_LOOKS) {
     engine.setLook(look);
-    for (let f = 1001; f < 1006; f++) { engine.drawNow(f); gl.finish(); } // warm-up
-    // Paced by requestAnimationFrame, a new frame every tick, for two seconds: what playback can hold. (Let the
-    // compositor catch up first: after a burst of frames it presents them all before the next tick.)
-    const nextTick = () => new Promise((r) => requestAnimationFrame(r));
-    for (let i = 0; i < 3; i++) await nextTick();
-    let drawn = 0;
-    const start = await nextTick();
-    let last = start;
-    await new Promise((done) => {
-      const tick = (now) => {
-        last = now;
-        engine.drawNow(1001 + (drawn % frames)); drawn++;
-        if (now - start < 2000) requestAnimationFrame(tick); else done();
-      };
-      requestAnimationFrame(tick);
-    });
-    const rafFps = (drawn - 1) / ((last - start) / 1000);
-    const total = [], lookMs = [], gpuMs = [];
+    for (let f = 1001; f < 1006; f++) { engine.drawNow(f); sync(); } // warm-up
+    const total = [], lookMs = [];
     for (let rep = 0; rep < 2; rep++) {
       for (let f = 1001; f <= 1000 + frames; f++) {
         const t0 = performance.now();
         engine.drawNow(f);
-        gl.finish();
-        const t1 = performance.now();
-        total.push(t1 - t0);
+        sync();
+        total.push(performance.now() - t0);
         lookMs.push(engine.lastTiming.lookMs);
-        gpuMs.push(t1 - t0 - engine.lastTiming.lookMs);
       }
+    }
+    // Paced by requestAnimationFrame, a new frame every tick: the most playback could draw.
+    let drawn = 0;
+    const rafFps = await rafRate(2000, () => { engine.drawNow(1001 + (drawn++ % frames)); });
+    // End to end: the player's own Playback (wall-clock frame choice, skips when late) at each shot rate.
+    const playback = {};
+    for (const fps of playFps) {
+      const pb = new Playback(engine, () => {}, () => {});
+      await rafRate(100, null);
+      const t0 = performance.now();
+      pb.start(1001, fps, { inFrame: 1001, outFrame: 1000 + frames, loop: true });
+      await new Promise((r) => setTimeout(r, playMs));
+      const secs = (performance.now() - t0) / 1000;
+      pb.stop(false);
+      playback[fps] = { drawnFps: pb.drawn / secs, skipped: pb.skipped, seconds: secs };
     }
     const q = (a, p) => { const s = [...a].sort((x, y) => x - y); return s[Math.min(s.length - 1, Math.floor(p * s.length))]; };
     const mean = (a) => a.reduce((s, v) => s + v, 0) / a.length;
-    results.push({ look, width, height, particles, meanMs: mean(total), p95Ms: q(total, 0.95), lookMs: mean(lookMs), uploadDrawMs: mean(gpuMs), rafFps });
+    results.push({ look, width, height, particles, meanMs: mean(total), p95Ms: q(total, 0.95), lookMs: mean(lookMs), uploadDrawMs: mean(total) - mean(lookMs), rafFps, playback });
   }
-  // The ceiling set by the browser: the same rAF loop redrawing the stage with no new particle image.
-  {
-    const nextTick = () => new Promise((r) => requestAnimationFrame(r));
-    for (let i = 0; i < 3; i++) await nextTick();
-    let drawn = 0; const start = await nextTick(); let last = start;
-    await new Promise((done) => {
-      const tick = (now) => { last = now; engine.app.render(); drawn++; if (now - start < 2000) requestAnimationFrame(tick); else done(); };
-      requestAnimationFrame(tick);
-    });
-    results.push({ look: 'stage only', width, height, particles: 0, meanMs: 0, p95Ms: 0, lookMs: 0, uploadDrawMs: 0, rafFps: (drawn - 1) / ((last - start) / 1000) });
-  }
+  // Context: the browser's own rate on this machine now. A no-op redraw (pixi renders the unchanged stage), and
+  // requestAnimationFrame with nothing drawn at all.
+  const noopFps = await rafRate(2000, () => engine.app.render());
+  const idleFps = await rafRate(2000, null);
   const rendererName = gl.getParameter(gl.RENDERER);
   engine.destroy();
-  return { results, renderer: rendererName };
+  return { results, noopFps, idleFps, renderer: rendererName };
 };
 `;
+
+interface Result {
+  look: string;
+  width: number;
+  height: number;
+  meanMs: number;
+  p95Ms: number;
+  lookMs: number;
+  uploadDrawMs: number;
+  rafFps: number;
+  playback: Record<number, { drawnFps: number; skipped: number }>;
+}
 
 async function main() {
   const bundle = await build({
@@ -160,25 +191,35 @@ async function main() {
     page.on('pageerror', (e) => console.error('page error:', e.message));
     await page.setContent('<!doctype html><html><body style="margin:0"><div id="host"></div></body></html>');
     await page.addScriptTag({ content: script });
-    console.log(`player frame time, ${PARTICLES.toLocaleString('en')} particles, headless Chromium (software WebGL), one image per frame`);
+    console.log(`player, ${PARTICLES.toLocaleString('en')} particles, headless Chromium, software WebGL (SwiftShader); ${cpus().length} cores, load ${loadavg()[0].toFixed(1)}`);
+    console.log('  frame = look inputs on the CPU + upload + GPU draw, waited for (1-px read-back); rAF max = a new frame every tick;');
+    console.log(`  playback = the player's Playback at the shot's fps for ${(PLAY_MS / 1000).toFixed(0)} s (frames drawn per second, frames skipped)`);
     for (const [width, height] of SIZES) {
-      const out = (await page.evaluate((a) => (window as any).runBench(a), { particles: PARTICLES, frames: FRAMES, width, height })) as {
-        results: { look: string; width: number; height: number; meanMs: number; p95Ms: number; lookMs: number; uploadDrawMs: number; rafFps: number }[];
+      const out = (await page.evaluate((a) => (window as any).runBench(a), { particles: PARTICLES, frames: FRAMES, width, height, playFps: PLAY_FPS, playMs: PLAY_MS })) as {
+        results: Result[];
+        noopFps: number;
+        idleFps: number;
         renderer: string;
       };
       renderer = out.renderer;
       for (const r of out.results) {
-        if (r.look === 'stage only') {
-          console.log(`  ${'(stage)'.padEnd(8)} ${`${r.width}×${r.height}`.padEnd(10)} redraw with no new image: rAF-paced ${r.rafFps.toFixed(0)} fps (the browser's ceiling here)`);
-          all.push({ ...r, rafFps: +r.rafFps.toFixed(1) });
-          continue;
-        }
+        const play = PLAY_FPS.map((f) => `${f} fps → ${r.playback[f].drawnFps.toFixed(1)} drawn, ${r.playback[f].skipped} skipped`).join('; ');
         console.log(
           `  ${r.look.padEnd(8)} ${`${r.width}×${r.height}`.padEnd(10)} frame ${r.meanMs.toFixed(1).padStart(5)} ms mean, ${r.p95Ms.toFixed(1).padStart(5)} ms p95` +
-            `  (look ${r.lookMs.toFixed(1)} ms, upload + draw ${r.uploadDrawMs.toFixed(1)} ms)  → ${(1000 / r.p95Ms).toFixed(0)} fps at p95; rAF-paced ${r.rafFps.toFixed(0)} fps`,
+            ` (CPU ${r.lookMs.toFixed(1)} ms, upload + GPU ${r.uploadDrawMs.toFixed(1)} ms) · rAF max ${r.rafFps.toFixed(0)} fps · playback ${play}`,
         );
-        all.push({ ...r, meanMs: +r.meanMs.toFixed(2), p95Ms: +r.p95Ms.toFixed(2), lookMs: +r.lookMs.toFixed(2), uploadDrawMs: +r.uploadDrawMs.toFixed(2), rafFps: +r.rafFps.toFixed(1) });
+        all.push({
+          ...r,
+          meanMs: +r.meanMs.toFixed(2),
+          p95Ms: +r.p95Ms.toFixed(2),
+          lookMs: +r.lookMs.toFixed(2),
+          uploadDrawMs: +r.uploadDrawMs.toFixed(2),
+          rafFps: +r.rafFps.toFixed(1),
+          playback: Object.fromEntries(PLAY_FPS.map((f) => [f, { drawnFps: +r.playback[f].drawnFps.toFixed(1), skipped: r.playback[f].skipped }])),
+        });
       }
+      console.log(`  ${'(browser)'.padEnd(8)} ${`${width}×${height}`.padEnd(10)} no-op redraw ${out.noopFps.toFixed(0)} fps, rAF with nothing drawn ${out.idleFps.toFixed(0)} fps (the ceiling here)`);
+      all.push({ look: 'browser', width, height, noopRedrawFps: +out.noopFps.toFixed(1), idleRafFps: +out.idleFps.toFixed(1) });
     }
     // BENCH_PREVIEW=dir: a picture of frame 1012 in each look, to look at.
     if (process.env.BENCH_PREVIEW) {
@@ -193,7 +234,7 @@ async function main() {
     await context.close();
     rmSync(dir, { recursive: true, force: true });
   }
-  console.log(JSON.stringify({ bench: 'player', particles: PARTICLES, renderer, results: all }));
+  console.log(JSON.stringify({ bench: 'player', particles: PARTICLES, renderer, cores: cpus().length, load: +loadavg()[0].toFixed(2), results: all }));
 }
 
 main().catch((err) => {

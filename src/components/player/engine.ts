@@ -1,8 +1,12 @@
-// The player's drawing engine (no React): a pixi.js 8 stage with the plate underneath and one particle image on top,
-// redrawn on demand. Frames are decoded on the main thread, kept in a small cache around the playhead, and prefetched
-// ahead of it; every look is drawn on the CPU into one image (src/lib/render), so software WebGL draws two sprites.
-import { Application, BufferImageSource, Sprite, Texture } from 'pixi.js';
-import { LookRenderer, type LookOptions, type ParticleFrame, type RenderLook } from '~/lib/render/looks';
+// The player's drawing engine (no React): a pixi.js 8 stage with the plate underneath and the particles on top, redrawn
+// on demand. Frames are decoded on the main thread, kept in a small cache around the playhead, and prefetched ahead of
+// it; each look is drawn from small per-frame inputs (gpuLooks.ts: a density texture and a shader, or a dot-sized
+// canvas the compositor scales up), so software WebGL never uploads a full-size image. The plate is a DOM element (the plate's own image or
+// canvas) under the transparent WebGL canvas, as in the editor: the browser composites it, so software WebGL never
+// draws a full-view textured quad for it (≈ 60 ms at 1920×1080 on SwiftShader) nor re-uploads a video plate's frame.
+import { Application } from 'pixi.js';
+import type { LookOptions, ParticleFrame, RenderLook } from '~/lib/render/looks';
+import { GpuLooks } from './gpuLooks';
 import { layoutView, type ViewLayout } from '~/lib/render/view';
 import type { PlateFrameSource, PlateImage } from '~/lib/plate';
 
@@ -28,7 +32,7 @@ export interface EngineOptions {
   lookOptions?: LookOptions;
 }
 
-/** Milliseconds spent on the last drawn frame: the look on the CPU, and texture upload plus pixi's render. */
+/** Milliseconds spent on the last drawn frame: the look's inputs on the CPU, and their upload plus pixi's render. */
 export interface DrawTiming {
   frame: number;
   lookMs: number;
@@ -40,11 +44,10 @@ const PREFETCH_AHEAD = 12;
 
 export class PlayerEngine {
   readonly app = new Application();
-  private looks!: LookRenderer;
-  private overlaySource!: BufferImageSource;
-  private overlay!: Sprite;
-  private plateSprite: Sprite | null = null;
-  private plateImage: PlateImage | null = null;
+  private looks!: GpuLooks;
+  /** Holds the plate element and the canvas, on the view's background colour. */
+  private readonly stageEl: HTMLDivElement;
+  private plateEl: PlateImage | null = null;
   private layout!: ViewLayout;
   private decoded = new Map<number, ParticleFrame>();
   private pending = new Map<number, Promise<ParticleFrame>>();
@@ -58,6 +61,8 @@ export class PlayerEngine {
   lastTiming: DrawTiming | null = null;
 
   private constructor(private o: EngineOptions) {
+    this.stageEl = document.createElement('div');
+    this.stageEl.style.cssText = 'position:absolute;inset:0;overflow:hidden;background:#0b1418';
     this.look = o.look;
     this.lookOptions = o.lookOptions ?? {};
     this.playhead = o.frames.startFrame;
@@ -67,18 +72,19 @@ export class PlayerEngine {
   static async create(o: EngineOptions): Promise<PlayerEngine> {
     const engine = new PlayerEngine(o);
     const { width, height } = sizeOf(o.host);
-    await engine.app.init({ preference: 'webgl', width, height, background: 0x0b1418, antialias: false, autoStart: false, resolution: 1 });
+    await engine.app.init({ preference: 'webgl', width, height, backgroundAlpha: 0, antialias: false, autoStart: false, resolution: 1 });
     engine.app.ticker.stop();
     const canvas = engine.app.canvas;
-    canvas.style.width = '100%';
-    canvas.style.height = '100%';
-    canvas.style.display = 'block';
-    o.host.appendChild(canvas);
+    canvas.style.cssText = 'position:absolute;inset:0;width:100%;height:100%;display:block';
+    if (getComputedStyle(o.host).position === 'static') o.host.style.position = 'relative';
     if (o.plate) {
-      engine.plateImage = await o.plate.frameAt(o.frames.startFrame);
-      engine.plateSprite = new Sprite(Texture.from(engine.plateImage));
-      engine.app.stage.addChild(engine.plateSprite);
+      // The engine owns the plate source (it destroys it): its element goes into the page as it is.
+      engine.plateEl = await o.plate.frameAt(o.frames.startFrame);
+      engine.plateEl.style.cssText = 'position:absolute;display:block;max-width:none';
+      engine.stageEl.appendChild(engine.plateEl);
     }
+    engine.stageEl.appendChild(canvas);
+    o.host.appendChild(engine.stageEl);
     engine.build(width, height);
     if (typeof ResizeObserver !== 'undefined') {
       engine.resizeObserver = new ResizeObserver(() => engine.resize());
@@ -97,38 +103,30 @@ export class PlayerEngine {
     return this.shown;
   }
 
-  /** (Re)builds the particle image and the layout for a view size in pixels. */
+  /** (Re)builds the particle layer and the layout for a view size in pixels. */
   private build(width: number, height: number) {
     const { frames, plate, metresPerPixel } = this.o;
     this.layout = layoutView({ viewWidth: width, viewHeight: height, tankWidth: frames.tankWidth, tankHeight: frames.tankHeight, plate, metresPerPixel });
-    this.looks = new LookRenderer(width, height);
-    const old = this.overlay;
-    this.overlaySource = new BufferImageSource({
-      resource: this.looks.image.data,
-      width: this.looks.image.width,
-      height: this.looks.image.height,
-      format: 'rgba8unorm',
-      alphaMode: 'premultiplied-alpha',
-      scaleMode: 'nearest',
-    });
-    this.overlay = new Sprite(new Texture({ source: this.overlaySource }));
+    const old = this.looks;
+    this.looks = new GpuLooks(width, height);
     if (old) {
-      this.app.stage.removeChild(old);
-      old.texture.destroy(true);
+      this.app.stage.removeChild(old.container);
+      old.destroy();
     }
-    this.app.stage.addChild(this.overlay);
-    if (this.plateSprite && this.layout.plateRect) {
+    this.app.stage.addChild(this.looks.container);
+    if (this.app.canvas.parentElement === this.stageEl) this.stageEl.appendChild(this.looks.dotCanvasEl);
+    if (this.plateEl) {
       const r = this.layout.plateRect;
-      this.plateSprite.position.set(r.x, r.y);
-      this.plateSprite.width = r.width;
-      this.plateSprite.height = r.height;
+      const st = this.plateEl.style;
+      st.visibility = r ? 'visible' : 'hidden';
+      if (r) Object.assign(st, { left: `${r.x}px`, top: `${r.y}px`, width: `${r.width}px`, height: `${r.height}px` });
     }
   }
 
   resize() {
     if (this.destroyed) return;
     const { width, height } = sizeOf(this.o.host);
-    if (width === this.looks.image.width && height === this.looks.image.height) return;
+    if (width === this.looks.width && height === this.looks.height) return;
     this.app.renderer.resize(width, height);
     this.build(width, height);
     const f = this.shown;
@@ -201,24 +199,23 @@ export class PlayerEngine {
     if (!f) return false;
     this.wanted = frame;
     this.playhead = frame;
-    if (this.o.plate?.kind === 'video') void this.updatePlate(frame).then(() => this.destroyed || this.app.render());
+    if (this.o.plate?.kind === 'video') void this.updatePlate(frame);
     this.drawParticles(frame, f);
     return true;
   }
 
+  /** Brings a video plate to the frame (its canvas, in the page, redraws itself); a still has nothing to do. */
   private async updatePlate(frame: number) {
     const plate = this.o.plate;
-    if (!plate || plate.kind !== 'video' || !this.plateSprite) return;
+    if (!plate || plate.kind !== 'video') return;
     await plate.frameAt(frame);
-    this.plateSprite.texture.source.update();
   }
 
   private drawParticles(frame: number, f: ParticleFrame) {
     const t0 = performance.now();
     const { tankWidth, tankHeight } = this.o.frames;
-    this.looks.render(this.look, f, this.layout.toView, { tank: { width: tankWidth, height: tankHeight }, ...this.lookOptions });
+    this.looks.draw(this.look, f, this.layout.toView, { tank: { width: tankWidth, height: tankHeight }, ...this.lookOptions });
     const t1 = performance.now();
-    this.overlaySource.update();
     this.app.render();
     const t2 = performance.now();
     this.shown = frame;
@@ -230,6 +227,7 @@ export class PlayerEngine {
     this.resizeObserver?.disconnect();
     this.o.plate?.destroy();
     this.app.destroy(true, { children: true, texture: true });
+    this.stageEl.remove();
   }
 }
 

@@ -1,7 +1,8 @@
-// The player's render looks, drawn on the CPU into one image a frame (no per-particle sprites: software WebGL can't
-// draw 50k of them at the shot's fps, PITFALLS.md). "speed": particles as dots coloured by speed. "surface": a smooth
-// liquid surface from the particle density (splat → blur → threshold at half the rest density, with an edge line).
-// Free of React and the DOM, so exports and the editor can draw the same pictures.
+// The render looks. "speed": particles as dots coloured by speed. "surface": a smooth liquid surface from the particle
+// density (splat → blur → threshold at half the rest density, with an edge line). LookRenderer draws them on the CPU
+// into one image a frame (exports and the editor); the player draws the same looks on the GPU from the per-frame
+// inputs computed here (density field, spray droplets, dot sizes): src/components/player/gpuLooks.ts. Never a sprite
+// per particle: software WebGL can't draw 50k of them at the shot's fps (PITFALLS.md). Free of React and the DOM.
 import { createImage, packPremultiplied, rampColour, type PixelImage } from './image';
 import type { TankToView } from './view';
 
@@ -70,9 +71,43 @@ export function estimateRestDensity(frame: ParticleFrame): number {
   return p80 / (h * h);
 }
 
-/** Draws particle frames into one reusable image of the view's size. */
+/** Dot size and speed scale of the "speed" look, shared by the CPU image and the player's GPU points. */
+export interface SpeedDots {
+  /** Dot side in view pixels (1–4, about the particle spacing). */
+  dot: number;
+  /** Multiply a speed (m/s) by this to get its place on SPEED_RAMP (0–1, clamp above). */
+  perMetrePerSecond: number;
+}
+
+/**
+ * The surface look's density field: ρ/ρ₀ on a grid of `cellPx`-pixel cells with one guard cell on each side,
+ * row-major, `gw` × `gh`. Cell (i, j) is centred on view pixel ((i − 1 + ½)·cellPx, (j − 1 + ½)·cellPx).
+ */
+export interface DensityField {
+  cellPx: number;
+  gw: number;
+  gh: number;
+  /** ρ/ρ₀ per cell (reused between frames: read it before the next call). */
+  ratio: Float32Array;
+}
+
+/** Surface look colours, [r, g, b] in 0–255: fill at the surface, fill deep inside, and the edge line / spray. */
+export const SURFACE_COLOURS: Readonly<Record<'fill' | 'deep' | 'edge', readonly [number, number, number]>> = {
+  fill: SURFACE_FILL,
+  deep: SURFACE_DEEP,
+  edge: SURFACE_EDGE,
+};
+export const SPEED_DOT_ALPHA = SPEED_ALPHA;
+export const SPRAY_ALPHA = 0.85;
+
+/**
+ * Draws particle frames into one reusable image of the view's size, and computes the per-frame inputs (density field,
+ * spray droplets, dot sizes) that the player's GPU path draws with shaders instead.
+ */
 export class LookRenderer {
-  readonly image: PixelImage;
+  private img: PixelImage | null = null;
+  private readonly viewWidth: number;
+  private readonly viewHeight: number;
   private speedLut = new Uint32Array(256);
   // Surface look: density grid (cells of `cellPx` view pixels, one cell centred on every cellPx-th pixel).
   private cellPx = 0;
@@ -84,13 +119,20 @@ export class LookRenderer {
   private colIndex = new Int32Array(0);
   private colFrac = new Float32Array(0);
   private estimatedRest = 0;
+  private sprayScratch = new Int32Array(0);
 
   constructor(width: number, height: number) {
-    this.image = createImage(width, height);
+    this.viewWidth = Math.max(1, Math.round(width));
+    this.viewHeight = Math.max(1, Math.round(height));
     for (let i = 0; i < 256; i++) {
       const [r, g, b] = rampColour(SPEED_RAMP, i / 255);
       this.speedLut[i] = packPremultiplied(r, g, b, SPEED_ALPHA);
     }
+  }
+
+  /** The image `render` draws into (allocated on first use: the GPU path never needs it). */
+  get image(): PixelImage {
+    return (this.img ??= createImage(this.viewWidth, this.viewHeight));
   }
 
   /** Draws the frame in the look; returns the image (cleared first: transparent where there is no liquid). */
@@ -103,14 +145,20 @@ export class LookRenderer {
     return this.image;
   }
 
-  /** Dots of about the particle spacing (1–4 px), coloured by speed / speedScale through SPEED_RAMP. */
-  private drawSpeed(frame: ParticleFrame, t: TankToView, options: LookOptions) {
-    const { width, height, pixels } = this.image;
+  /** Dot size (view px) and speed scale of the speed look for this frame and view. */
+  speedDots(frame: ParticleFrame, t: TankToView, options: LookOptions = {}): SpeedDots {
     const rest = options.restDensity ?? this.restFor(frame);
     const spacingPx = t.sx / Math.sqrt(rest);
     const dot = Math.max(1, Math.min(4, Math.round(spacingPx)));
     const scale = options.speedScale && options.speedScale > 0 ? options.speedScale : frame.maxSpeed || 1;
-    const toLut = 255 / scale;
+    return { dot, perMetrePerSecond: 1 / scale };
+  }
+
+  /** Dots of about the particle spacing (1–4 px), coloured by speed / speedScale through SPEED_RAMP. */
+  private drawSpeed(frame: ParticleFrame, t: TankToView, options: LookOptions) {
+    const { width, height, pixels } = this.image;
+    const { dot, perMetrePerSecond } = this.speedDots(frame, t, options);
+    const toLut = 255 * perMetrePerSecond;
     const lut = this.speedLut;
     const half = (dot - 1) / 2;
     const { ox, oy, sx, sy } = t;
@@ -134,7 +182,8 @@ export class LookRenderer {
 
   private ensureGrid(cellPx: number) {
     if (cellPx === this.cellPx) return;
-    const { width, height } = this.image;
+    const width = this.viewWidth;
+    const height = this.viewHeight;
     this.cellPx = cellPx;
     this.gw = Math.ceil(width / cellPx) + 2;
     this.gh = Math.ceil(height / cellPx) + 2;
@@ -152,19 +201,18 @@ export class LookRenderer {
   }
 
   /**
-   * Splat each particle bilinearly into the density grid, blur it (two box passes ≈ a Gaussian), then colour
-   * every pixel from the bilinearly sampled density ratio r = ρ/ρ₀: liquid where r > ½ (the same iso-level as the
-   * solver's liquid area), anti-aliased over about a pixel, with a light edge line along r = ½.
+   * The surface look's density field for a frame: splat each particle bilinearly into the grid (particles near a
+   * tank side also splat their mirror image), blur it (two box passes ≈ a Gaussian), and normalise to r = ρ/ρ₀.
    */
-  private drawSurface(frame: ParticleFrame, t: TankToView, options: LookOptions) {
+  densityField(frame: ParticleFrame, t: TankToView, options: LookOptions = {}): DensityField {
     const rest = options.restDensity ?? this.restFor(frame);
     const spacingPx = t.sx / Math.sqrt(rest);
     const cellPx = Math.max(2, Math.min(16, Math.round(spacingPx * 1.5)));
     this.ensureGrid(cellPx);
-    const { gw, gh, density, scratch, quiet } = this;
+    const { gw, gh, density, scratch } = this;
     density.fill(0);
 
-    // Splat, in grid units (with the guard cell); particles near a tank side also splat their mirror image.
+    // Splat, in grid units (with the guard cell).
     const { ox, oy, sx, sy } = t;
     const inv = 1 / cellPx;
     const splat = (vx: number, vy: number) => {
@@ -210,9 +258,55 @@ export class LookRenderer {
 
     // Normalise to r = ρ/ρ₀: particles a cell at rest = ρ₀ · (cell side in metres)².
     const cellMetres = cellPx / sx;
-    const perCell = rest * cellMetres * cellMetres;
-    const norm = 1 / perCell;
+    const norm = 1 / (rest * cellMetres * cellMetres);
     for (let k = 0; k < density.length; k++) density[k] *= norm;
+    return { cellPx, gw, gh, ratio: density };
+  }
+
+  /** Side of a spray droplet in view pixels for a density grid of `cellPx`-pixel cells. */
+  static sprayDot(cellPx: number): number {
+    return cellPx >= 6 ? 2 : 1;
+  }
+
+  /**
+   * Spray: the particles where the density is too low to make surface (r < ½ at the particle). Writes the top-left
+   * pixel of each droplet (view px, x then y) into `out` (room for 2 × frame.count) and returns how many there are.
+   * Call right after `densityField` for the same frame.
+   */
+  sprayDroplets(frame: ParticleFrame, t: TankToView, out: Float32Array | Int32Array): number {
+    const { gw, density, colIndex, colFrac, cellPx } = this;
+    const width = this.viewWidth;
+    const height = this.viewHeight;
+    const dot = LookRenderer.sprayDot(cellPx);
+    const { ox, oy, sx, sy } = t;
+    const { x, y, count } = frame;
+    let n = 0;
+    for (let i = 0; i < count; i++) {
+      const px = Math.round(ox + x[i] * sx - dot / 2);
+      const py = Math.round(oy - y[i] * sy - dot / 2);
+      if (px < 0 || py < 0 || px + dot > width || py + dot > height) continue;
+      const k = colIndex[py] * gw + colIndex[px];
+      if (density[k] > 0.4) continue;
+      const fx = colFrac[px];
+      const fy = colFrac[py];
+      const top = density[k] + (density[k + 1] - density[k]) * fx;
+      const bottom = density[k + gw] + (density[k + gw + 1] - density[k + gw]) * fx;
+      if (top + (bottom - top) * fy >= 0.5) continue;
+      out[2 * n] = px;
+      out[2 * n + 1] = py;
+      n++;
+    }
+    return n;
+  }
+
+  /**
+   * The density field, coloured: every pixel from the bilinearly sampled ratio r = ρ/ρ₀, liquid where r > ½ (the
+   * same iso-level as the solver's liquid area), anti-aliased over about a pixel, with a light edge line along
+   * r = ½; then the spray droplets. (The player's fragment shader, src/components/player/gpuLooks.ts, mirrors this.)
+   */
+  private drawSurface(frame: ParticleFrame, t: TankToView, options: LookOptions) {
+    const { cellPx, gw, gh, ratio: density } = this.densityField(frame, t, options);
+    const quiet = this.quiet;
 
     // A quad (cells k, k+1, k+gw, k+gw+1) is quiet when none of its corners comes near the iso-level.
     const low = 0.5 - 0.5 / (2.5 * cellPx) * 3;
@@ -266,21 +360,14 @@ export class LookRenderer {
     }
 
     // Spray: particles where the density is too low to make surface are drawn as droplets in the edge colour.
-    const spray = packPremultiplied(er, eg, eb, 0.85);
-    const dot = cellPx >= 6 ? 2 : 1;
-    for (let i = 0; i < count; i++) {
-      const vx = ox + x[i] * sx;
-      const vy = oy - y[i] * sy;
-      const px = Math.round(vx - dot / 2);
-      const py = Math.round(vy - dot / 2);
-      if (px < 0 || py < 0 || px + dot > width || py + dot > height) continue;
-      const k = colIndex[py] * gw + colIndex[px];
-      if (density[k] > 0.4) continue;
-      const fx = colFrac[px];
-      const fy = colFrac[py];
-      const top = density[k] + (density[k + 1] - density[k]) * fx;
-      const bottom = density[k + gw] + (density[k + gw + 1] - density[k + gw]) * fx;
-      if (top + (bottom - top) * fy >= 0.5) continue;
+    const spray = packPremultiplied(er, eg, eb, SPRAY_ALPHA);
+    const dot = LookRenderer.sprayDot(cellPx);
+    if (this.sprayScratch.length < 2 * frame.count) this.sprayScratch = new Int32Array(2 * frame.count);
+    const n = this.sprayDroplets(frame, t, this.sprayScratch);
+    const at = this.sprayScratch;
+    for (let s = 0; s < n; s++) {
+      const px = at[2 * s];
+      const py = at[2 * s + 1];
       for (let dy = 0; dy < dot; dy++) for (let dx = 0; dx < dot; dx++) pixels[(py + dy) * width + px + dx] = spray;
     }
   }

@@ -1,0 +1,292 @@
+// The player's render looks, drawn without a full-size RGBA upload a frame (8 MB at 1920×1080, which software WebGL,
+// SwiftShader, can't keep up with). The CPU prepares small per-frame inputs with the shared LookRenderer
+// (src/lib/render/looks.ts). "surface" (pixi.js 8, WebGL): the density field ρ/ρ₀ as a small 16-bit texture (two
+// bytes a cell, about 60k cells), sampled bilinearly by a quad over the liquid whose fragment shader draws fill, depth
+// and edge line exactly as the CPU look does. "speed", and the surface's spray droplets: dots painted on the CPU into
+// a 2D canvas over the WebGL one, at the view's size up to ~0.64 megapixels and at half size above (1920×1080 →
+// 960×540, scaled up by the browser's compositor with image-rendering: pixelated); 50k GL points cost SwiftShader
+// 30–55 ms a frame, this a few ms. (At half size dots land on even pixels: the one difference from the CPU look.)
+import { Buffer, BufferImageSource, BufferUsage, Container, Geometry, GlProgram, Mesh, Shader, UniformGroup } from 'pixi.js';
+import { rampColour } from '~/lib/render/image';
+import {
+  LookRenderer,
+  SPEED_DOT_ALPHA,
+  SPEED_RAMP,
+  SPRAY_ALPHA,
+  SURFACE_COLOURS,
+  type LookOptions,
+  type ParticleFrame,
+  type RenderLook,
+} from '~/lib/render/looks';
+import type { TankToView } from '~/lib/render/view';
+
+/** The density ratio ρ/ρ₀ that maps to the top of the 16-bit texture (the deep colour is reached near r ≈ 2.9). */
+const DENSITY_RANGE = 4;
+
+// Uniforms every pixi mesh gets: uProjectionMatrix and uWorldTransformMatrix (global), uTransformMatrix (local).
+const MVP = /* glsl */ `
+uniform mat3 uProjectionMatrix;
+uniform mat3 uWorldTransformMatrix;
+uniform mat3 uTransformMatrix;
+vec4 toClip(vec2 viewPx) {
+  mat3 mvp = uProjectionMatrix * uWorldTransformMatrix * uTransformMatrix;
+  return vec4((mvp * vec3(viewPx, 1.0)).xy, 0.0, 1.0);
+}`;
+
+const SURFACE_VERTEX = /* glsl */ `
+in vec2 aPosition; // view px
+out vec2 vPos;
+${MVP}
+void main() {
+  gl_Position = toClip(aPosition);
+  vPos = aPosition;
+}`;
+
+// The same maths as LookRenderer's CPU surface (src/lib/render/looks.ts): (r − ½)·2.5·cellPx approximates the signed
+// distance to the surface in pixels; liquid anti-aliased over a pixel, a 2-px edge line on it, deeper colour inside.
+const SURFACE_FRAGMENT = /* glsl */ `
+in vec2 vPos;       // pixel centre, view px
+uniform sampler2D uDensity;
+uniform vec2 uTexSize;
+uniform float uCellPx;
+uniform float uRange;
+uniform vec3 uFill;
+uniform vec3 uDeep;
+uniform vec3 uEdge;
+out vec4 finalColor;
+void main() {
+  // Grid coordinate of the pixel centre (cell k centred on pixel (k − 1 + ½)·cellPx; one guard cell), then the
+  // bilinear sample; r is stored as 16 bits over two channels, both filtered linearly, so r interpolates exactly.
+  vec2 g = vPos / uCellPx + 0.5;
+  vec4 t = texture(uDensity, (g + 0.5) / uTexSize);
+  float r = (t.r * 65280.0 + t.g * 255.0) * (uRange / 65535.0);
+  float dist = (r - 0.5) * 2.5 * uCellPx;
+  if (dist < -1.5) discard;
+  float cover = clamp(dist + 0.5, 0.0, 1.0);
+  float edge = clamp(1.5 - abs(dist), 0.0, 1.0);
+  float depth = clamp(dist / (6.0 * uCellPx), 0.0, 1.0);
+  float fillA = cover * (0.58 + 0.22 * depth);
+  float we = edge * 0.95;
+  float wf = fillA * (1.0 - we);
+  float a = we + wf;
+  if (a <= 0.002) discard;
+  finalColor = vec4(we * uEdge + wf * mix(uFill, uDeep, depth), a);
+}`;
+
+const rgb01 = (c: readonly [number, number, number]) => new Float32Array([c[0] / 255, c[1] / 255, c[2] / 255]);
+
+/** Draws one look of a particle frame: a pixi container (the surface) and a canvas over it (dots), view-sized. */
+export class GpuLooks {
+  /** The WebGL part (surface and spray), for the pixi stage. */
+  readonly container = new Container();
+  /** The dots' canvas (speed look, spray), for the page above the WebGL canvas (covers the view from its top-left corner). */
+  readonly dotCanvasEl: HTMLCanvasElement;
+  private readonly dotContext: CanvasRenderingContext2D;
+  private dotImage: ImageData | null = null;
+  private dotWords = new Uint32Array(0);
+  private readonly speedLut = new Uint32Array(256);
+  private sprayXY = new Int32Array(0);
+  private readonly cpu: LookRenderer;
+  // Surface: a quad over the view, and the density texture (rebuilt when the grid's size changes).
+  private readonly surfaceUniforms = new UniformGroup({
+    uTexSize: { value: new Float32Array([1, 1]), type: 'vec2<f32>' },
+    uCellPx: { value: 1, type: 'f32' },
+    uRange: { value: DENSITY_RANGE, type: 'f32' },
+    uFill: { value: rgb01(SURFACE_COLOURS.fill), type: 'vec3<f32>' },
+    uDeep: { value: rgb01(SURFACE_COLOURS.deep), type: 'vec3<f32>' },
+    uEdge: { value: rgb01(SURFACE_COLOURS.edge), type: 'vec3<f32>' },
+  });
+  private readonly surfaceShader: Shader;
+  private readonly quad: Float32Array;
+  private readonly quadBuffer: Buffer;
+  private readonly surface: Mesh<Geometry, Shader>;
+  private densityBytes = new Uint8Array(0);
+  private densitySource: BufferImageSource | null = null;
+  private densityKey = '';
+
+  constructor(
+    readonly width: number,
+    readonly height: number,
+  ) {
+    this.cpu = new LookRenderer(width, height);
+    this.dotCanvasEl = document.createElement('canvas');
+    this.dotCanvasEl.style.cssText = 'position:absolute;left:0;top:0;display:none;image-rendering:pixelated';
+    this.dotContext = this.dotCanvasEl.getContext('2d')!;
+    // ImageData is not premultiplied: 0xAABBGGRR words with the ramp colour and the dots' alpha.
+    const alpha = Math.round(SPEED_DOT_ALPHA * 255);
+    for (let i = 0; i < 256; i++) {
+      const [r, g, b] = rampColour(SPEED_RAMP, i / 255);
+      this.speedLut[i] = ((alpha << 24) | (Math.round(b) << 16) | (Math.round(g) << 8) | Math.round(r)) >>> 0;
+    }
+
+    this.quad = new Float32Array([0, 0, width, 0, width, height, 0, height]);
+    this.quadBuffer = new Buffer({ data: this.quad, usage: BufferUsage.VERTEX | BufferUsage.COPY_DST, label: 'liquid surface quad' });
+    const surfaceGeometry = new Geometry({
+      attributes: { aPosition: { buffer: this.quadBuffer, format: 'float32x2' } },
+      indexBuffer: new Uint32Array([0, 1, 2, 0, 2, 3]),
+    });
+    this.surfaceShader = new Shader({
+      glProgram: GlProgram.from({ vertex: SURFACE_VERTEX, fragment: SURFACE_FRAGMENT, name: 'tidemark-liquid-surface' }),
+      resources: { surfaceUniforms: this.surfaceUniforms, uDensity: this.ensureDensityTexture(2, 2) },
+    });
+    this.surface = new Mesh({ geometry: surfaceGeometry, shader: this.surfaceShader });
+    this.surface.visible = false;
+    this.container.addChild(this.surface);
+  }
+
+  /** Prepares the look's GPU inputs for a frame (the next pixi render draws it). */
+  draw(look: RenderLook, frame: ParticleFrame, toView: TankToView, options: LookOptions = {}) {
+    this.surface.visible = false;
+    this.dotCanvasEl.style.display = 'none';
+    if (frame.count === 0) return;
+    if (look === 'speed') this.prepareSpeed(frame, toView, options);
+    else this.prepareSurface(frame, toView, options);
+  }
+
+  /**
+   * View pixels per texel of the dot canvas: 1 up to about 0.64 megapixels (960×540 and smaller: dots land on the
+   * same pixels as in the CPU look), 2 at 1920×1080, so putImageData never moves more than ~2.5 MB a frame.
+   */
+  private get texelPx(): number {
+    return Math.max(1, Math.ceil(Math.sqrt((this.width * this.height) / 640_000)));
+  }
+
+  /** Sizes the dot canvas for `texelPx` view pixels a texel and clears it; returns its words (0xAABBGGRR). */
+  private dotCanvas(texelPx: number): Uint32Array {
+    const cw = Math.ceil(this.width / texelPx);
+    const ch = Math.ceil(this.height / texelPx);
+    if (!this.dotImage || this.dotImage.width !== cw || this.dotImage.height !== ch) {
+      this.dotCanvasEl.width = cw;
+      this.dotCanvasEl.height = ch;
+      this.dotCanvasEl.style.width = `${cw * texelPx}px`;
+      this.dotCanvasEl.style.height = `${ch * texelPx}px`;
+      this.dotImage = new ImageData(cw, ch);
+      this.dotWords = new Uint32Array(this.dotImage.data.buffer);
+    }
+    this.dotWords.fill(0);
+    return this.dotWords;
+  }
+
+  /** Paints a square of `side` texels with its top-left texel at (tx, ty), clipped to the canvas. */
+  private paintDot(words: Uint32Array, tx: number, ty: number, side: number, colour: number) {
+    const { width: cw, height: ch } = this.dotImage!;
+    if (side === 1) {
+      if (tx >= 0 && ty >= 0 && tx < cw && ty < ch) words[ty * cw + tx] = colour;
+      return;
+    }
+    for (let y = Math.max(0, ty), y1 = Math.min(ch, ty + side); y < y1; y++) {
+      for (let x = Math.max(0, tx), x1 = Math.min(cw, tx + side); x < x1; x++) words[y * cw + x] = colour;
+    }
+  }
+
+  private showDots() {
+    this.dotContext.putImageData(this.dotImage!, 0, 0);
+    this.dotCanvasEl.style.display = 'block';
+  }
+
+  private prepareSpeed(frame: ParticleFrame, t: TankToView, options: LookOptions) {
+    const { dot, perMetrePerSecond } = this.cpu.speedDots(frame, t, options);
+    const texel = this.texelPx;
+    const words = this.dotCanvas(texel);
+    const side = Math.max(1, Math.round(dot / texel));
+    // The dot's top-left pixel as the CPU look rounds it; later particles cover earlier ones.
+    const half = (dot - 1) / 2;
+    const toLut = 255 * perMetrePerSecond;
+    const lut = this.speedLut;
+    const { ox, oy, sx, sy } = t;
+    const { x, y, speed, count } = frame;
+    for (let i = 0; i < count; i++) {
+      const tx = Math.floor(Math.round(ox + x[i] * sx - half) / texel);
+      const ty = Math.floor(Math.round(oy - y[i] * sy - half) / texel);
+      let s = (speed[i] * toLut) | 0;
+      if (s > 255) s = 255;
+      this.paintDot(words, tx, ty, side, lut[s]);
+    }
+    this.showDots();
+  }
+
+  private ensureDensityTexture(width: number, height: number): BufferImageSource {
+    const key = `${width}×${height}`;
+    if (this.densitySource && key === this.densityKey) return this.densitySource;
+    const old = this.densitySource;
+    this.densityKey = key;
+    this.densityBytes = new Uint8Array(width * height * 2);
+    this.densitySource = new BufferImageSource({
+      resource: this.densityBytes,
+      width,
+      height,
+      format: 'rg8unorm',
+      alphaMode: 'no-premultiply-alpha',
+      scaleMode: 'linear',
+      addressMode: 'clamp-to-edge',
+      autoGenerateMipmaps: false,
+    });
+    if (this.surfaceShader) this.surfaceShader.resources.uDensity = this.densitySource;
+    old?.destroy();
+    return this.densitySource;
+  }
+
+  private prepareSurface(frame: ParticleFrame, t: TankToView, options: LookOptions) {
+    const field = this.cpu.densityField(frame, t, options);
+    const { gw, gh, ratio, cellPx } = field;
+    // Rows of whole 4-byte words (WebGL's default unpack alignment): an even number of two-byte texels.
+    const texWidth = gw + (gw & 1);
+    const source = this.ensureDensityTexture(texWidth, gh);
+    const bytes = this.densityBytes;
+    const toWord = 65535 / DENSITY_RANGE;
+    // The shader discards pixels with r < ½ − 1.5/(2.5·cellPx); only cells at or above that level can colour a pixel,
+    // so the quad covers just their bounding box (software GL pays for every fragment of a full-view quad).
+    const low = 0.5 - 1.5 / (2.5 * cellPx);
+    let iMin = gw, iMax = -1, jMin = gh, jMax = -1;
+    for (let j = 0; j < gh; j++) {
+      let p = j * texWidth * 2;
+      for (let k = j * gw, end = k + gw; k < end; k++, p += 2) {
+        const r = ratio[k];
+        if (r >= low) {
+          const i = k - j * gw;
+          if (i < iMin) iMin = i;
+          if (i > iMax) iMax = i;
+          if (j < jMin) jMin = j;
+          if (j > jMax) jMax = j;
+        }
+        let v = r * toWord + 0.5;
+        v = v < 0 ? 0 : v > 65535 ? 65535 : v | 0;
+        bytes[p] = v >> 8;
+        bytes[p + 1] = v & 255;
+      }
+    }
+    source.update();
+    if (iMax >= 0) {
+      // Cell i (guard cell 0) is centred on pixel (i − ½)·cellPx and reaches a cell further by bilinear sampling.
+      const x0 = Math.max(0, Math.floor((iMin - 1.5) * cellPx));
+      const x1 = Math.min(this.width, Math.ceil((iMax + 0.5) * cellPx));
+      const y0 = Math.max(0, Math.floor((jMin - 1.5) * cellPx));
+      const y1 = Math.min(this.height, Math.ceil((jMax + 0.5) * cellPx));
+      this.quad.set([x0, y0, x1, y0, x1, y1, x0, y1]);
+      this.quadBuffer.update();
+    }
+    const u = this.surfaceUniforms.uniforms;
+    (u.uTexSize as Float32Array)[0] = texWidth;
+    (u.uTexSize as Float32Array)[1] = gh;
+    u.uCellPx = cellPx;
+    this.surfaceUniforms.update();
+    this.surface.visible = iMax >= 0;
+
+    // Spray droplets, in the edge colour, on the dot canvas too (as GL points they cost SwiftShader several ms).
+    if (this.sprayXY.length < 2 * frame.count) this.sprayXY = new Int32Array(2 * frame.count);
+    const n = this.cpu.sprayDroplets(frame, t, this.sprayXY);
+    const texel = this.texelPx;
+    const words = this.dotCanvas(texel);
+    const side = Math.max(1, Math.round(LookRenderer.sprayDot(cellPx) / texel));
+    const [er, eg, eb] = SURFACE_COLOURS.edge;
+    const spray = ((Math.round(SPRAY_ALPHA * 255) << 24) | (eb << 16) | (eg << 8) | er) >>> 0;
+    for (let k = 0; k < n; k++) this.paintDot(words, Math.floor(this.sprayXY[2 * k] / texel), Math.floor(this.sprayXY[2 * k + 1] / texel), side, spray);
+    this.showDots();
+  }
+
+  destroy() {
+    this.dotCanvasEl.remove();
+    this.container.destroy({ children: true });
+    this.densitySource?.destroy();
+  }
+}
