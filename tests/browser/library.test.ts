@@ -1,5 +1,7 @@
 // Browser: a producer (supervisor) creates a show, imports a CMX 3600 EDL, changes a status inline, opens a shot with
-// the keyboard, uploads a PNG plate straight to the object store and calibrates the scale by dragging on the plate.
+// the keyboard, uploads a PNG plate straight to the object store and calibrates the scale by dragging on the plate;
+// the plate's thumbnail (made by the server from a PNG, drawn by the browser from a WebP) shows on the shot page and
+// in the shots table.
 import { describe, it, expect, beforeAll, afterAll } from 'vitest';
 import { mkdtempSync, writeFileSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
@@ -9,8 +11,8 @@ import { openBrowser, screenshot as fullScreenshot, signInAs } from '../support/
 import type { Page } from 'playwright-core';
 import { APP, makeStudio, type TestStudio } from '../support/app';
 import { closeDb, db } from '../../src/lib/server/db';
-import { shots, shows } from '../../src/lib/server/db/schema';
-import { encodePng } from '../../src/lib/server/demo-plates';
+import { assets, shots, shows } from '../../src/lib/server/db/schema';
+import { encodePng } from '../../src/lib/server/png';
 
 // A CMX 3600 edit list (layout from memory): title, FCM, two cuts and a dissolve, clip names in comments. 24 fps.
 const EDL = [
@@ -204,6 +206,11 @@ describe('shot library in Chromium', () => {
       const [withPlate] = await db().select().from(shots).where(eq(shots.id, shotId));
       expect(withPlate!.plateAssetId).toBeTruthy();
       expect([withPlate!.plateWidth, withPlate!.plateHeight]).toEqual([PLATE_W, PLATE_H]);
+      // The server made the thumbnail from the PNG: it loads beside the shot's title, 320 px wide like the plate here.
+      expect(withPlate!.thumbnailAssetId).toBeTruthy();
+      const headerThumb = page.getByTestId('shot-page').getByTestId('shot-thumbnail');
+      await headerThumb.waitFor();
+      await expect.poll(() => headerThumb.evaluate((img: HTMLImageElement) => (img.complete ? [img.naturalWidth, img.naturalHeight] : null))).toEqual([320, 180]);
 
       // Calibrate: drag along the 160 px bar (x 32 → 192 of 320) and call it 4 m: 0.025 m per pixel.
       await page.getByRole('button', { name: 'Calibrate scale' }).click();
@@ -225,6 +232,42 @@ describe('shot library in Chromium', () => {
       expect(await page.getByTestId('scale-readout').textContent()).toMatch(/plate is 8\.\d\d m wide|plate is 7\.9\d m wide/);
       await page.getByTestId('activity').getByText(/calibrated the scale/).waitFor();
       await screenshot(page, 'library-shot');
+
+      // A WebP plate on BW_0020: the server cannot decode WebP, so this browser draws the thumbnail and uploads it.
+      await page.goto(`/studios/${studio.slug}/shots/${imported[1]!.id}`);
+      await page.getByTestId('shot-page').getByRole('heading', { name: 'BW_0020' }).waitFor();
+      const webp = await page.evaluate(async () => {
+        const canvas = document.createElement('canvas');
+        canvas.width = 160;
+        canvas.height = 90;
+        const ctx = canvas.getContext('2d')!;
+        ctx.fillStyle = '#2a6f97';
+        ctx.fillRect(0, 0, 160, 90);
+        ctx.fillStyle = '#f4d35e';
+        ctx.fillRect(0, 60, 160, 30);
+        const blob = await new Promise<Blob>((resolve) => canvas.toBlob((b) => resolve(b!), 'image/webp', 0.9));
+        return Array.from(new Uint8Array(await blob.arrayBuffer()));
+      });
+      await page.getByTestId('plate-file').setInputFiles({ name: 'bw_0020.webp', mimeType: 'image/webp', buffer: Buffer.from(webp) });
+      await page.getByText(/New plate: bw_0020\.webp, 160×90/).waitFor({ timeout: 30_000 });
+      const webpThumb = page.getByTestId('shot-page').getByTestId('shot-thumbnail');
+      await webpThumb.waitFor({ timeout: 30_000 });
+      await expect.poll(() => webpThumb.evaluate((img: HTMLImageElement) => (img.complete ? [img.naturalWidth, img.naturalHeight] : null))).toEqual([320, 180]);
+      const [webpShot] = await db().select().from(shots).where(eq(shots.id, imported[1]!.id));
+      const [webpThumbAsset] = await db().select().from(assets).where(eq(assets.id, webpShot!.thumbnailAssetId!));
+      expect([webpThumbAsset!.kind, webpThumbAsset!.contentType, webpThumbAsset!.width, webpThumbAsset!.height]).toEqual(['thumbnail', 'image/png', 320, 180]);
+      await page.getByTestId('activity').getByText(/set a new thumbnail/).waitFor();
+
+      // The shots table: a small thumbnail per shot that has one, loaded; a stand-in for the others.
+      await page.goto(`/studios/${studio.slug}/shows/${showId}`);
+      const shotsTable = page.getByTestId('shots-table');
+      for (const code of ['BW_0010', 'BW_0020']) {
+        const thumb = shotsTable.locator('tbody tr[data-row]', { hasText: code }).getByTestId('shot-thumbnail');
+        await thumb.waitFor();
+        await expect.poll(() => thumb.evaluate((img: HTMLImageElement) => img.complete && img.naturalWidth)).toBe(320);
+      }
+      await shotsTable.locator('tbody tr[data-row]', { hasText: 'BW_0030' }).getByTestId('shot-thumbnail-none').waitFor();
+      await screenshot(page, 'library-shots-thumbnails');
 
       // The library home now lists the show with its three shots.
       await page.goto(`/studios/${studio.slug}/`);

@@ -1,5 +1,6 @@
 // Plates: presigned upload to the object store, size limits before the store, type by magic bytes after it,
-// dimensions from the header, replacing a plate without touching old versions, viewing URLs and the plate's scale.
+// dimensions from the header, replacing a plate without touching old versions, viewing URLs and the plate's scale,
+// and the thumbnail the server makes from a PNG or JPEG plate (320 px wide, aspect kept, area-averaged).
 import { describe, it, expect, beforeAll, afterAll } from 'vitest';
 import { eq, sql } from 'drizzle-orm';
 import { makeStudio, unique, type TestStudio } from '../support/app';
@@ -7,6 +8,9 @@ import { makePng } from './endpoints';
 import { db, closeDb } from '../../src/lib/server/db';
 import { assets, shots, shows, versions } from '../../src/lib/server/db/schema';
 import { headObject } from '../../src/lib/server/storage';
+import { encodePng } from '../../src/lib/server/png';
+import pngjs from 'pngjs';
+import jpeg from 'jpeg-js';
 
 let studio: TestStudio;
 let showId: number;
@@ -57,6 +61,128 @@ function makeMp4Header(): Uint8Array {
   b.write('free', 28, 'ascii');
   return b;
 }
+
+/** A still split down the middle: left half `left`, right half `right` (RGB). */
+function halves(width: number, height: number, left: [number, number, number], right: [number, number, number]): Uint8Array {
+  const rgb = new Uint8Array(width * height * 3);
+  for (let y = 0; y < height; y++)
+    for (let x = 0; x < width; x++) rgb.set(x < width / 2 ? left : right, (y * width + x) * 3);
+  return rgb;
+}
+const toRgba = (rgb: Uint8Array) => {
+  const out = new Uint8Array((rgb.length / 3) * 4);
+  for (let i = 0; i < rgb.length / 3; i++) out.set([rgb[i * 3], rgb[i * 3 + 1], rgb[i * 3 + 2], 255], i * 4);
+  return out;
+};
+const RED: [number, number, number] = [220, 30, 40];
+const BLUE: [number, number, number] = [20, 60, 200];
+
+/** The shot's thumbnail as the API hands it out: its asset row, and its PNG decoded from the short-lived URL. */
+async function thumbnailOf(shotId: number) {
+  const [shot] = await db().select().from(shots).where(eq(shots.id, shotId));
+  expect(shot.thumbnailAssetId).toBeTruthy();
+  const [asset] = await db().select().from(assets).where(eq(assets.id, shot.thumbnailAssetId!));
+  const got = await artist().get(`${api()}/shots/${shotId}`);
+  expect(got.status).toBe(200);
+  expect(got.body.shot.thumbnail).toMatchObject({ id: asset.id, kind: 'thumbnail' });
+  expect(got.body.shot.thumbnailUrl).toMatch(/^https?:\/\//);
+  const res = await fetch(got.body.shot.thumbnailUrl);
+  expect(res.status).toBe(200);
+  const png = pngjs.PNG.sync.read(Buffer.from(await res.arrayBuffer()));
+  const pixel = (x: number, y: number) => Array.from(png.data.subarray((y * png.width + x) * 4, (y * png.width + x) * 4 + 3));
+  return { shot, asset, png, pixel, url: got.body.shot.thumbnailUrl as string };
+}
+const near = (got: number[], want: number[], tolerance: number) => got.every((v, i) => Math.abs(v - want[i]) <= tolerance);
+
+describe('plate thumbnails', () => {
+  it('a PNG plate gets a PNG thumbnail 320 px wide with the plate’s aspect, listed with a URL', async () => {
+    const shotId = await newShot();
+    // 640 × 270 (64:27, about 2.37:1): the thumbnail is 320 × 135.
+    const { start, complete } = await upload(shotId, encodePng(640, 270, halves(640, 270, RED, BLUE)), { fileName: 'wide.png', contentType: 'image/png' });
+    expect(complete.status, JSON.stringify(complete.body)).toBe(200);
+    expect(complete.body.thumbnail).toMatchObject({ width: 320, height: 135 });
+    const t = await thumbnailOf(shotId);
+    expect(t.shot.plateAssetId).toBe(start.body.assetId);
+    expect(t.asset).toMatchObject({ id: complete.body.thumbnail.id, kind: 'thumbnail', contentType: 'image/png', format: 'png', width: 320, height: 135, shotId });
+    expect([t.png.width, t.png.height]).toEqual([320, 135]);
+    // Area averaging keeps flat regions exact: the left half stays red, the right half blue.
+    expect(t.pixel(40, 60)).toEqual(RED);
+    expect(t.pixel(280, 60)).toEqual(BLUE);
+    // The shots table gets the same short-lived URL field.
+    const list = await artist().get(`${api()}/shots?showId=${showId}&pageSize=100`);
+    const row = list.body.items.find((s: { id: number }) => s.id === shotId);
+    expect(row.thumbnailAssetId).toBe(t.asset.id);
+    expect((await fetch(row.thumbnailUrl)).status).toBe(200);
+    // A shot without a thumbnail lists null.
+    const bare = await newShot();
+    const again = await artist().get(`${api()}/shots?showId=${showId}&pageSize=100`);
+    expect(again.body.items.find((s: { id: number }) => s.id === bare)).toMatchObject({ thumbnailAssetId: null, thumbnailUrl: null });
+  });
+
+  it('a JPEG plate gets a PNG thumbnail too (a small plate is scaled up to 320 wide)', async () => {
+    const shotId = await newShot();
+    // 200 × 150 (4:3): the thumbnail is 320 × 240.
+    const rgb = halves(200, 150, RED, BLUE);
+    const encoded = jpeg.encode({ width: 200, height: 150, data: toRgba(rgb) }, 95);
+    const { complete } = await upload(shotId, new Uint8Array(encoded.data), { fileName: 'plate.jpg', contentType: 'image/jpeg' });
+    expect(complete.status, JSON.stringify(complete.body)).toBe(200);
+    expect(complete.body.asset).toMatchObject({ width: 200, height: 150, format: 'jpg' });
+    const t = await thumbnailOf(shotId);
+    expect([t.png.width, t.png.height]).toEqual([320, 240]);
+    expect(t.asset.contentType).toBe('image/png');
+    // JPEG is lossy (and chroma is subsampled): compare away from the edge, within a few levels.
+    expect(near(t.pixel(60, 120), RED, 12), String(t.pixel(60, 120))).toBe(true);
+    expect(near(t.pixel(260, 120), BLUE, 12), String(t.pixel(260, 120))).toBe(true);
+  });
+
+  it('replacing a plate replaces the thumbnail; a video plate waits for the browser’s thumbnail', async () => {
+    const shotId = await newShot();
+    const first = await upload(shotId, encodePng(64, 36, halves(64, 36, RED, RED)), { fileName: 'a.png', contentType: 'image/png' });
+    const [v] = await db().insert(versions).values({ studioId: studio.id, shotId, number: 1, scene: {}, sceneHash: 't', plateAssetId: first.start.body.assetId });
+    const firstThumb = (await thumbnailOf(shotId)).asset.id;
+    const second = await upload(shotId, encodePng(48, 48, halves(48, 48, BLUE, BLUE)), { fileName: 'b.png', contentType: 'image/png' });
+    const t = await thumbnailOf(shotId);
+    expect(t.asset.id).not.toBe(firstThumb);
+    expect(t.asset.id).toBe(second.complete.body.thumbnail.id);
+    expect([t.png.width, t.png.height]).toEqual([320, 320]);
+    expect(t.pixel(160, 160)).toEqual(BLUE);
+    // The version keeps the plate it was blocked on.
+    const [version] = await db().select().from(versions).where(eq(versions.id, Number(v.insertId)));
+    expect(version.plateAssetId).toBe(first.start.body.assetId);
+
+    // A video: the server cannot decode it, so the old still's thumbnail goes and the browser sends the first frame.
+    const video = await upload(shotId, makeMp4Header(), { fileName: 'c.mp4', contentType: 'video/mp4' }, { width: 1920, height: 1080, durationSeconds: 2 });
+    expect(video.complete.status).toBe(200);
+    expect(video.complete.body.thumbnail).toBeNull();
+    const [cleared] = await db().select().from(shots).where(eq(shots.id, shotId));
+    expect([cleared.plateAssetId, cleared.thumbnailAssetId]).toEqual([video.start.body.assetId, null]);
+    expect((await artist().get(`${api()}/shots/${shotId}`)).body.shot).toMatchObject({ thumbnail: null, thumbnailUrl: null });
+    const frame = await upload(shotId, encodePng(320, 180, halves(320, 180, BLUE, RED)), { fileName: 'c-thumbnail.png', contentType: 'image/png', kind: 'thumbnail' });
+    expect(frame.complete.status).toBe(200);
+    expect(frame.complete.body.thumbnail).toBeNull(); // a thumbnail upload makes no thumbnail of its own
+    const sent = await thumbnailOf(shotId);
+    expect(sent.asset.id).toBe(frame.start.body.assetId);
+    expect(sent.shot.plateAssetId).toBe(video.start.body.assetId);
+    expect([sent.png.width, sent.png.height]).toEqual([320, 180]);
+  });
+
+  it('a plate the server cannot decode still completes, without a thumbnail (the browser makes it)', async () => {
+    const shotId = await newShot();
+    // Only the header of a JPEG: its size is readable, its picture is not.
+    const { complete } = await upload(shotId, makeJpegHeader(640, 360), { fileName: 'header-only.jpg', contentType: 'image/jpeg' });
+    expect(complete.status, JSON.stringify(complete.body)).toBe(200);
+    expect(complete.body.asset).toMatchObject({ width: 640, height: 360 });
+    expect(complete.body.thumbnail).toBeNull();
+    const [shot] = await db().select().from(shots).where(eq(shots.id, shotId));
+    expect(shot.thumbnailAssetId).toBeNull();
+  });
+
+  it('a client sees no thumbnail URL of a show not shared with clients', async () => {
+    const shotId = await newShot();
+    await upload(shotId, encodePng(32, 18, halves(32, 18, RED, BLUE)), { fileName: 'p.png', contentType: 'image/png' });
+    expect((await studio.members.client.client.get(`${api()}/shots/${shotId}`)).status).toBe(404);
+  });
+});
 
 describe('plate upload', () => {
   it('uploads a PNG still: real dimensions from its header become the shot’s plate size', async () => {

@@ -1,8 +1,8 @@
 // The demo studio: seeding twice changes nothing the second time, and every printed sign-in works.
 import { describe, it, expect, afterAll } from 'vitest';
-import { sql, eq } from 'drizzle-orm';
+import { and, inArray, sql, eq } from 'drizzle-orm';
 import { db, closeDb } from '../../src/lib/server/db';
-import { memberships, shots, shows, studios, versions } from '../../src/lib/server/db/schema';
+import { assets, memberships, shots, shows, studios, versions } from '../../src/lib/server/db/schema';
 import { seedDemo, DEMO_USERS, DEMO_STUDIO } from '../../src/lib/server/seed';
 import { headObject } from '../../src/lib/server/storage';
 import { Client } from '../support/app';
@@ -12,7 +12,11 @@ afterAll(closeDb);
 async function counts(studioId: number) {
   const n = async (t: typeof shows | typeof shots | typeof versions | typeof memberships) =>
     Number((await db().select({ n: sql<number>`count(*)` }).from(t).where(eq(t.studioId, studioId)))[0].n);
-  return { shows: await n(shows), shots: await n(shots), versions: await n(versions), members: await n(memberships) };
+  // Plates and thumbnails only: a bake worker may store a clip asset between two seeds.
+  const pictures = Number(
+    (await db().select({ n: sql<number>`count(*)` }).from(assets).where(and(eq(assets.studioId, studioId), inArray(assets.kind, ['plate', 'thumbnail']))))[0].n,
+  );
+  return { shows: await n(shows), shots: await n(shots), versions: await n(versions), members: await n(memberships), pictures };
 }
 
 describe('demo studio', () => {
@@ -32,6 +36,14 @@ describe('demo studio', () => {
     const withPlate = rows.filter((s) => s.plateAssetId);
     expect(withPlate.length).toBeGreaterThan(0);
     expect(withPlate.every((s) => s.metresPerPixel && s.metresPerPixel > 0)).toBe(true);
+    // Every shot on a painted plate has that plate's thumbnail: a PNG 320 px wide, 16:9 like the 1920 × 1080 plate.
+    expect(withPlate.every((s) => s.thumbnailAssetId)).toBe(true);
+    const thumbs = await db().select().from(assets).where(eq(assets.studioId, id));
+    for (const s of withPlate) {
+      const t = thumbs.find((a) => a.id === s.thumbnailAssetId)!;
+      expect([t.kind, t.contentType, t.width, t.height]).toEqual(['thumbnail', 'image/png', 320, 180]);
+      expect((await headObject(t.storageKey))?.size).toBeGreaterThan(100);
+    }
   });
 
   it('every printed demo sign-in works', async () => {
@@ -63,5 +75,18 @@ describe('demo plates through the API', () => {
     expect(res.body.asset.width).toBe(1920);
     const png = await fetch(res.body.url);
     expect(png.headers.get('content-type')).toBe('image/png');
+  });
+
+  it('demo shots list a thumbnail URL that serves a PNG', async () => {
+    const id = await seedDemo();
+    const owner = DEMO_USERS.find((u) => u.role === 'owner')!;
+    const c = await new Client().signIn(owner.email, owner.password);
+    const res = await c.get(`/api/studios/${id}/shots?pageSize=100`);
+    expect(res.status).toBe(200);
+    const withThumb = res.body.items.filter((s: { thumbnailUrl: string | null }) => s.thumbnailUrl);
+    expect(withThumb.length).toBeGreaterThan(0);
+    const png = await fetch(withThumb[0].thumbnailUrl);
+    expect(png.status).toBe(200);
+    expect(Buffer.from(await png.arrayBuffer()).subarray(1, 4).toString('ascii')).toBe('PNG');
   });
 });

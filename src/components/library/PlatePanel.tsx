@@ -1,5 +1,6 @@
 // The shot's plate: a still or a video, uploaded straight to the object store with a presigned PUT (with progress),
-// and the scale calibration — drag a line over something of known size, type its real length, store metres per pixel.
+// then its thumbnail (made by the server for PNG and JPEG; for video and WebP this browser draws the first frame and
+// uploads it as a thumbnail), and the scale calibration — drag a line over something of known size, type its real length, store metres per pixel.
 import { useEffect, useRef, useState, type PointerEvent } from 'react';
 import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
 import { MB, PLATE_LIMITS, STILL_TYPES, VIDEO_TYPES, scaleBody } from '~/lib/library/schemas';
@@ -40,8 +41,75 @@ function measureVideo(file: File): Promise<{ width: number; height: number; dura
   });
 }
 
+/** Thumbnail width in pixels (the server makes the same for PNG and JPEG plates). */
+const THUMBNAIL_WIDTH = 320;
+
+/** Waits for one of the element's events, or fails on `error` or after `ms`. */
+function once(el: HTMLElement, event: string, ms: number): Promise<void> {
+  return new Promise((resolve, reject) => {
+    const timer = setTimeout(() => finish(new Error(`timed out waiting for ${event}`)), ms);
+    const ok = () => finish();
+    const bad = () => finish(new Error('the file could not be decoded'));
+    function finish(err?: Error) {
+      clearTimeout(timer);
+      el.removeEventListener(event, ok);
+      el.removeEventListener('error', bad);
+      if (err) reject(err);
+      else resolve();
+    }
+    el.addEventListener(event, ok);
+    el.addEventListener('error', bad);
+  });
+}
+
+/**
+ * Draws the plate's first frame (a video's, or a still's) 320 px wide, aspect kept, and returns it as a PNG.
+ * Used for plates the server cannot decode (video, WebP) or did not.
+ */
+async function drawThumbnail(file: File): Promise<Blob> {
+  const url = URL.createObjectURL(file);
+  try {
+    let source: CanvasImageSource;
+    let w: number;
+    let h: number;
+    if (isVideo(file.type)) {
+      const video = document.createElement('video');
+      video.muted = true;
+      video.playsInline = true;
+      video.preload = 'auto';
+      const loaded = once(video, 'loadeddata', 15_000);
+      video.src = url;
+      await loaded;
+      // Make sure the first frame is the one painted (some browsers paint nothing before a seek).
+      const seeked = once(video, 'seeked', 3_000).catch(() => undefined);
+      video.currentTime = 0;
+      await seeked;
+      source = video;
+      w = video.videoWidth;
+      h = video.videoHeight;
+    } else {
+      const bitmap = await createImageBitmap(file);
+      source = bitmap;
+      w = bitmap.width;
+      h = bitmap.height;
+    }
+    if (!w || !h) throw new Error('the plate has no picture size');
+    const canvas = document.createElement('canvas');
+    canvas.width = THUMBNAIL_WIDTH;
+    canvas.height = Math.max(1, Math.round((THUMBNAIL_WIDTH * h) / w));
+    const ctx = canvas.getContext('2d')!;
+    ctx.imageSmoothingEnabled = true;
+    ctx.imageSmoothingQuality = 'high';
+    ctx.drawImage(source, 0, 0, canvas.width, canvas.height);
+    if (source instanceof ImageBitmap) source.close();
+    return await new Promise<Blob>((resolve, reject) => canvas.toBlob((b) => (b ? resolve(b) : reject(new Error('the browser could not encode the thumbnail'))), 'image/png'));
+  } finally {
+    URL.revokeObjectURL(url);
+  }
+}
+
 /** PUTs the file to the presigned URL and reports progress (0–1); resolves when the store answers 2xx. */
-function putWithProgress(url: string, headers: Record<string, string>, file: File, onProgress: (fraction: number) => void): Promise<void> {
+function putWithProgress(url: string, headers: Record<string, string>, file: Blob, onProgress: (fraction: number) => void): Promise<void> {
   return new Promise((resolve, reject) => {
     const xhr = new XMLHttpRequest();
     xhr.open('PUT', url);
@@ -67,6 +135,17 @@ export default function PlatePanel({ studioId, shot, canUpload }: Props) {
     staleTime: 4 * 60_000, // the view URL lives 5 minutes
     refetchOnWindowFocus: false,
   });
+
+  /** Draws the plate's thumbnail in this browser and uploads it through the thumbnail flow. */
+  const sendThumbnail = async (file: File) => {
+    const png = await drawThumbnail(file);
+    const started = await api<{ assetId: number; upload: { url: string; headers: Record<string, string> } }>(`/api/studios/${studioId}/shots/${shot.id}/plates`, {
+      method: 'POST',
+      body: { fileName: `${file.name.replace(/\.[^.]*$/, '')}-thumbnail.png`, contentType: 'image/png', byteSize: png.size, kind: 'thumbnail' },
+    });
+    await putWithProgress(started.upload.url, started.upload.headers, png, () => undefined);
+    await api(`/api/studios/${studioId}/plates/${started.assetId}/complete`, { method: 'POST', body: {} });
+  };
 
   const onFile = async (file: File | undefined) => {
     if (fileInput.current) fileInput.current.value = '';
@@ -96,10 +175,26 @@ export default function PlatePanel({ studioId, shot, canUpload }: Props) {
       });
       await putWithProgress(started.upload.url, started.upload.headers, file, (fraction) => setUpload({ name: file.name, fraction, stage: 'sending' }));
       setUpload({ name: file.name, fraction: 1, stage: 'checking' });
-      const completed = await api<{ asset: AssetInfo }>(`/api/studios/${studioId}/plates/${started.assetId}/complete`, { method: 'POST', body: measured });
-      setUploadDone(`New plate: ${file.name}${completed.asset.width ? `, ${completed.asset.width}×${completed.asset.height}` : ''}. Versions already blocked keep the plate they were made on.`);
+      const completed = await api<{ asset: AssetInfo; thumbnail: { id: number } | null }>(`/api/studios/${studioId}/plates/${started.assetId}/complete`, {
+        method: 'POST',
+        body: measured,
+      });
+      const done = `New plate: ${file.name}${completed.asset.width ? `, ${completed.asset.width}×${completed.asset.height}` : ''}. Versions already blocked keep the plate they were made on.`;
+      setUploadDone(done);
       await queryClient.invalidateQueries({ queryKey: keys.shot(studioId, shot.id) });
+      void queryClient.invalidateQueries({ queryKey: keys.allShots(studioId) });
       void queryClient.invalidateQueries({ queryKey: keys.activity(studioId, shot.id) });
+      if (!completed.thumbnail) {
+        // The server could not make the thumbnail (video, WebP): draw the first frame here and send it.
+        try {
+          await sendThumbnail(file);
+          await queryClient.invalidateQueries({ queryKey: keys.shot(studioId, shot.id) });
+          void queryClient.invalidateQueries({ queryKey: keys.allShots(studioId) });
+          void queryClient.invalidateQueries({ queryKey: keys.activity(studioId, shot.id) });
+        } catch (err) {
+          setUploadDone(`${done} No thumbnail could be made from it (${messageOf(err)}).`);
+        }
+      }
     } catch (err) {
       setUploadError(err instanceof ApiError && Object.keys(err.fields).length && !err.message.includes(':') ? `${err.message} (${Object.values(err.fields).join('; ')})` : messageOf(err));
     } finally {

@@ -11,6 +11,7 @@ import { Dialog } from './fields';
 import { StatusBadge, StateWord } from './status';
 import { AssigneeSelect, StatusSelect } from './inline';
 import PlatePanel from './PlatePanel';
+import { ShotThumbnail } from './thumbnail';
 import ShotForm from './ShotForm';
 import { dueLabel, rangeLength, rateLabel, timecodeOf } from './format';
 import { can, keys, type ActivityEntry, type Person, type ShotDetail, type Viewer } from './types';
@@ -97,22 +98,29 @@ function Shot({ viewer, shot: initialShot, showName }: Props) {
   return (
     <div className="space-y-6">
       <header className="flex flex-wrap items-start justify-between gap-4">
-        <div className="min-w-0">
-          <p className="text-sm text-ink-muted">
-            <a href={`/studios/${studioSlug}/`} className="link">
-              Library
-            </a>{' '}
-            <span aria-hidden="true">/</span>{' '}
-            <a href={showHref} className="link" title={showName}>
-              {shot.showCode}
-            </a>{' '}
-            <span aria-hidden="true">/</span> Shot
-          </p>
-          <h1 className="mt-1 flex flex-wrap items-center gap-3 text-3xl font-semibold tracking-tight">
-            {shot.code}
-            {shot.archivedAt && <span className="rounded-full border border-sand-line px-2.5 py-0.5 text-sm font-normal text-ink-muted">archived</span>}
-          </h1>
-          {shot.description && <p className="mt-1.5 max-w-2xl text-ink-soft">{shot.description}</p>}
+        <div className="flex min-w-0 items-start gap-4">
+          {(shot.thumbnailUrl || shot.plateAssetId) && (
+            <div className="mt-1 hidden shrink-0 sm:block">
+              <ShotThumbnail url={shot.thumbnailUrl} code={shot.code} size="header" />
+            </div>
+          )}
+          <div className="min-w-0">
+            <p className="text-sm text-ink-muted">
+              <a href={`/studios/${studioSlug}/`} className="link">
+                Library
+              </a>{' '}
+              <span aria-hidden="true">/</span>{' '}
+              <a href={showHref} className="link" title={showName}>
+                {shot.showCode}
+              </a>{' '}
+              <span aria-hidden="true">/</span> Shot
+            </p>
+            <h1 className="mt-1 flex flex-wrap items-center gap-3 text-3xl font-semibold tracking-tight">
+              {shot.code}
+              {shot.archivedAt && <span className="rounded-full border border-sand-line px-2.5 py-0.5 text-sm font-normal text-ink-muted">archived</span>}
+            </h1>
+            {shot.description && <p className="mt-1.5 max-w-2xl text-ink-soft">{shot.description}</p>}
+          </div>
         </div>
         <div className="flex flex-wrap items-center gap-2">
           {supervisor && (

@@ -16,6 +16,7 @@ import { StatusBadge, StatusIcon, STATUS_TONE } from './status';
 import { AssigneeSelect, StatusSelect } from './inline';
 import ShotForm from './ShotForm';
 import ShowForm from './ShowForm';
+import { ShotThumbnail } from './thumbnail';
 import { dueLabel, isOverdue, rangeLength, rateLabel, timecodeOf } from './format';
 import { can, keys, type Page, type Person, type ShotRow, type ShowDetail, type Viewer } from './types';
 
@@ -182,6 +183,12 @@ function Show({ viewer, show: initialShow, initialSearch }: Props) {
             }),
           ]
         : []),
+      column.accessor('thumbnailUrl', {
+        id: 'thumbnail',
+        header: () => <span className="sr-only">Thumbnail</span>,
+        meta: { className: 'w-0 py-1.5 pr-0' } satisfies ColumnMeta,
+        cell: (c) => <ShotThumbnail url={c.getValue()} code={c.row.original.code} />,
+      }),
       column.accessor('code', {
         header: 'Shot',
         meta: { sortKey: 'code' } satisfies ColumnMeta,

@@ -45,6 +45,8 @@ export interface ShotRow {
   status: ShotStatus;
   plateAssetId: number | null;
   thumbnailAssetId: number | null;
+  /** A short-lived URL of the thumbnail (PNG, 320 px wide), or null when the shot has none. */
+  thumbnailUrl: string | null;
   metresPerPixel: number | null;
   archivedAt: string | null;
   createdAt: string;

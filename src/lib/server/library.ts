@@ -7,6 +7,7 @@ import { assets, auditLog, memberships, shots, shows, users, versions } from './
 import { HttpError } from './http';
 import type { StudioAccess } from './authz';
 import { audit } from './audit';
+import { presignGet } from './storage';
 import type { ShotStatus } from '../vocab';
 import type { ImportBody, ShotCreate, ShotListQuery, ShotPatch, ShowCreate, ShowListQuery, ShowPatch } from '../library/schemas';
 import { previewText, type ImportPreview } from '../edl';
@@ -197,6 +198,26 @@ const shotColumns = {
   updatedAt: shots.updatedAt,
 };
 
+/** How long a thumbnail URL in a shot answer lives: the tables refetch on focus, well within it. */
+export const THUMBNAIL_URL_SECONDS = 900;
+
+/** Short-lived GET URLs of the given thumbnail assets of the studio, by asset id (missing ids are left out). */
+async function thumbnailUrls(studioId: number, ids: (number | null)[]): Promise<Map<number, string>> {
+  const wanted = [...new Set(ids.filter((id): id is number => !!id))];
+  if (!wanted.length) return new Map();
+  const rows = await db()
+    .select({ id: assets.id, storageKey: assets.storageKey })
+    .from(assets)
+    .where(and(eq(assets.studioId, studioId), inArray(assets.id, wanted)));
+  return new Map(await Promise.all(rows.map(async (r) => [r.id, await presignGet(r.storageKey, THUMBNAIL_URL_SECONDS)] as const)));
+}
+
+/** Adds `thumbnailUrl` (a short-lived URL of the shot's thumbnail, or null) to shot rows. */
+async function withThumbnailUrls<T extends { thumbnailAssetId: number | null }>(studioId: number, rows: T[]): Promise<(T & { thumbnailUrl: string | null })[]> {
+  const urls = await thumbnailUrls(studioId, rows.map((r) => r.thumbnailAssetId));
+  return rows.map((r) => ({ ...r, thumbnailUrl: (r.thumbnailAssetId && urls.get(r.thumbnailAssetId)) || null }));
+}
+
 function shotsQuery() {
   return db().select(shotColumns).from(shots).innerJoin(shows, eq(shows.id, shots.showId)).leftJoin(users, eq(users.id, shots.assigneeId));
 }
@@ -240,7 +261,7 @@ export async function listShots(access: StudioAccess, query: ShotListQuery) {
       .innerJoin(shows, eq(shows.id, shots.showId))
       .where(and(...where)),
   ]);
-  return { items, total, page: query.page, pageSize: query.pageSize };
+  return { items: await withThumbnailUrls(access.studioId, items), total, page: query.page, pageSize: query.pageSize };
 }
 
 /** Returns the shot row (404 when missing, in another studio, or in a show hidden from a client). */
@@ -282,8 +303,9 @@ export async function getShot(access: StudioAccess, shotId: number) {
           .where(and(eq(assets.studioId, access.studioId), inArray(assets.id, [shot.plateAssetId ?? 0, shot.thumbnailAssetId ?? 0])))
       : Promise.resolve([]),
   ]);
+  const [withUrl] = await withThumbnailUrls(access.studioId, [shot]);
   return {
-    ...shot,
+    ...withUrl,
     plate: plateRows.find((a) => a.id === shot.plateAssetId) ?? null,
     thumbnail: plateRows.find((a) => a.id === shot.thumbnailAssetId) ?? null,
     versions: versionRows,
@@ -401,7 +423,7 @@ export async function updateShotWorkflow(access: StudioAccess, shotId: number, b
   if (body.status !== undefined) detail.status = { from: before.status, to: body.status };
   if (body.assigneeId !== undefined) detail.assigneeId = { from: before.assigneeId, to: body.assigneeId };
   await audit({ studioId: access.studioId, actorId: access.userId, action: 'shot.workflow', targetType: 'shot', targetId: shotId, detail });
-  return getShotRow(access, shotId);
+  return (await withThumbnailUrls(access.studioId, [await getShotRow(access, shotId)]))[0];
 }
 
 /** Sets one status on many shots in one transaction; all of them must be in the studio (else 404, nothing changes). */
@@ -442,7 +464,7 @@ export async function setShotArchived(access: StudioAccess, shotId: number, arch
     .where(and(eq(shots.id, shotId), eq(shots.studioId, access.studioId)));
   await touchShow(before.showId);
   await audit({ studioId: access.studioId, actorId: access.userId, action: archived ? 'shot.archive' : 'shot.unarchive', targetType: 'shot', targetId: shotId });
-  return getShotRow(access, shotId);
+  return (await withThumbnailUrls(access.studioId, [await getShotRow(access, shotId)]))[0];
 }
 
 // ── Imports ──────────────────────────────────────────────────────────────────────────────────────────────────────

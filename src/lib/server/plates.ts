@@ -1,6 +1,8 @@
 // Plates: the browser uploads straight to the object store with a presigned PUT; the server checks the declared size
 // first, then on completion the real size, the real type by magic bytes and a still's dimensions, and only then makes
-// it the shot's current plate (versions keep the plate they were blocked on). Also the plate's scale in metres.
+// it the shot's current plate (versions keep the plate they were blocked on). A PNG or JPEG plate gets its thumbnail
+// made here (thumbnails.ts); for video and WebP the browser draws the first frame and uploads it as kind 'thumbnail'.
+// Also the plate's scale in metres.
 import { randomBytes } from 'node:crypto';
 import { and, eq } from 'drizzle-orm';
 import { fileTypeFromBuffer } from 'file-type';
@@ -10,8 +12,9 @@ import { assets, shots } from './db/schema';
 import { HttpError } from './http';
 import type { StudioAccess } from './authz';
 import { audit } from './audit';
-import { deleteObject, getObject, headObject, presignGet, presignPut } from './storage';
+import { deleteObject, getObject, headObject, presignGet, presignPut, putObject } from './storage';
 import { getShotRow } from './library';
+import { canThumbnailOnServer, makeStillThumbnail } from './thumbnails';
 import { PLATE_LIMITS, STILL_TYPES, MB, type PlateUploadBody } from '../library/schemas';
 
 const UPLOAD_SECONDS = 900;
@@ -55,6 +58,28 @@ interface PendingMeta {
   fileName: string;
   declaredSize: number;
   durationSeconds?: number;
+  /** On a thumbnail made by the server: the plate it was made from. */
+  madeFromPlate?: number;
+}
+
+const thumbnailKey = (studioId: number, shotId: number) => `studios/${studioId}/shots/${shotId}/thumbnails/${randomBytes(12).toString('hex')}.png`;
+
+/**
+ * Makes and stores the thumbnail of a PNG or JPEG plate; null for other types, or when the plate cannot be decoded
+ * here (too large, unusual encoding): the browser then makes one. Never fails the plate itself.
+ */
+async function makePlateThumbnail(studioId: number, shotId: number, plate: { storageKey: string; contentType: string }, size: number, head: Uint8Array) {
+  if (!canThumbnailOnServer(plate.contentType)) return null;
+  try {
+    const bytes = head.length >= size ? head : await getObject(plate.storageKey);
+    const made = makeStillThumbnail(bytes, plate.contentType);
+    const storageKey = thumbnailKey(studioId, shotId);
+    await putObject(storageKey, made.png, 'image/png');
+    return { storageKey, ...made };
+  } catch (err) {
+    console.warn(`thumbnail of ${plate.storageKey} not made on the server: ${(err as Error).message}`);
+    return null;
+  }
 }
 
 /**
@@ -172,18 +197,42 @@ export async function completePlateUpload(
     height = measured.height ?? null;
   }
 
+  // A new plate brings its own thumbnail (made here for PNG and JPEG; for other types the browser sends one next).
+  const thumb = kind === 'plate' ? await makePlateThumbnail(access.studioId, asset.shotId!, asset, head.size, bytes) : null;
   const ready: PendingMeta = { ...meta, state: 'ready', ...(measured.durationSeconds ? { durationSeconds: measured.durationSeconds } : {}) };
-  await db().transaction(async (tx) => {
+  const thumbnailId = await db().transaction(async (tx) => {
     await tx
       .update(assets)
       .set({ byteSize: head.size, width, height, format: detected.ext, meta: ready })
       .where(eq(assets.id, asset.id));
+    let thumbId: number | null = null;
+    if (thumb) {
+      const thumbMeta: PendingMeta = { state: 'ready', fileName: `${meta.fileName.replace(/\.[^.]*$/, '')}-thumbnail.png`, declaredSize: thumb.png.length, madeFromPlate: asset.id };
+      const [res] = await tx.insert(assets).values({
+        studioId: access.studioId,
+        kind: 'thumbnail',
+        storageKey: thumb.storageKey,
+        contentType: 'image/png',
+        byteSize: thumb.png.length,
+        width: thumb.width,
+        height: thumb.height,
+        format: 'png',
+        shotId: asset.shotId!,
+        meta: thumbMeta,
+        createdBy: access.userId,
+      });
+      thumbId = Number(res.insertId);
+    }
+    // Replacing the plate replaces the thumbnail: the old plate's picture must not stand for the new one.
     const shotChange: Partial<typeof shots.$inferInsert> =
-      kind === 'plate' ? { plateAssetId: asset.id, ...(width && height ? { plateWidth: width, plateHeight: height } : {}) } : { thumbnailAssetId: asset.id };
+      kind === 'plate'
+        ? { plateAssetId: asset.id, thumbnailAssetId: thumbId, ...(width && height ? { plateWidth: width, plateHeight: height } : {}) }
+        : { thumbnailAssetId: asset.id };
     await tx
       .update(shots)
       .set(shotChange)
       .where(and(eq(shots.id, asset.shotId!), eq(shots.studioId, access.studioId)));
+    return thumbId;
   });
   await audit({
     studioId: access.studioId,
@@ -191,9 +240,13 @@ export async function completePlateUpload(
     action: `${kind}.set`,
     targetType: 'shot',
     targetId: asset.shotId!,
-    detail: { assetId: asset.id, type: detected.mime, width, height, byteSize: head.size },
+    detail: { assetId: asset.id, type: detected.mime, width, height, byteSize: head.size, ...(thumbnailId ? { thumbnailAssetId: thumbnailId } : {}) },
   });
-  return { asset: { id: asset.id, kind, shotId: asset.shotId!, contentType: asset.contentType, format: detected.ext, byteSize: head.size, width, height } };
+  return {
+    asset: { id: asset.id, kind, shotId: asset.shotId!, contentType: asset.contentType, format: detected.ext, byteSize: head.size, width, height },
+    /** The thumbnail made from this plate; null when the browser must make it (video, WebP, or a still not decoded here). */
+    thumbnail: thumb && thumbnailId ? { id: thumbnailId, width: thumb.width, height: thumb.height } : null,
+  };
 }
 
 /** A short-lived URL to view a ready plate or thumbnail (old versions' plates too), with its description. */

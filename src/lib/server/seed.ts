@@ -7,6 +7,7 @@ import { hashPassword } from './password';
 import { newUserId } from './tokens';
 import { putObject } from './storage';
 import { rooftopPoolPlate, harbourWallPlate } from './demo-plates';
+import { makeStillThumbnail } from './thumbnails';
 import { parseScene, sceneHash } from '../scene';
 import { enqueueBake } from '../bake/queue';
 
@@ -92,43 +93,76 @@ function demoScene(code: string, fps: number, first: number, last: number): { sc
   return null;
 }
 
-/** Gives demo shots a painted plate and a first version; queues one bake so the library has a baked version. */
+/**
+ * The studio's asset stored under `storageKey` (found again by its key, so seeding twice makes no second row), or a
+ * new one made with `make` and put in the store.
+ */
+async function demoAsset(
+  studioId: number,
+  shotId: number,
+  kind: 'plate' | 'thumbnail',
+  storageKey: string,
+  fileName: string,
+  make: () => { bytes: Uint8Array; width: number; height: number },
+): Promise<number> {
+  const d = db();
+  const [found] = await d
+    .select({ id: assets.id })
+    .from(assets)
+    .where(and(eq(assets.studioId, studioId), eq(assets.storageKey, storageKey)));
+  if (found) return found.id;
+  const { bytes, width, height } = make();
+  await putObject(storageKey, bytes, 'image/png');
+  const [a] = await d.insert(assets).values({
+    studioId,
+    kind,
+    storageKey,
+    contentType: 'image/png',
+    byteSize: bytes.length,
+    width,
+    height,
+    shotId,
+    format: 'png',
+    meta: { state: 'ready', demo: true, fileName, declaredSize: bytes.length },
+  });
+  return Number(a.insertId);
+}
+
+/**
+ * Gives demo shots a painted plate, its thumbnail and a first version; queues one bake so the library has a baked
+ * version. Shots keep a plate or thumbnail someone already set.
+ */
 async function seedVersions(studioId: number, artistId: string) {
   const d = db();
-  const plates: Record<string, { bytes: Uint8Array; assetId?: number }> = {};
+  const painted: Record<string, Uint8Array> = {};
+  const paintedPlate = (name: string) => (painted[name] ??= name === 'rooftop-pool' ? rooftopPoolPlate() : harbourWallPlate());
   const rows = await d.select().from(shots).where(eq(shots.studioId, studioId));
   for (const shot of rows) {
     const fps = Number(shot.frameRate);
     const demo = demoScene(shot.code, fps, shot.firstFrame, shot.lastFrame);
     if (!demo) continue;
     const plateName = shot.code.startsWith('CNB') ? 'rooftop-pool' : 'harbour-wall';
+    const plateKey = `studios/${studioId}/plates/demo-${plateName}.png`;
     if (!shot.plateAssetId) {
-      let entry = plates[plateName];
-      if (!entry) {
-        entry = plates[plateName] = { bytes: plateName === 'rooftop-pool' ? rooftopPoolPlate() : harbourWallPlate() };
-      }
-      if (!entry.assetId) {
-        const key = `studios/${studioId}/plates/demo-${plateName}.png`;
-        await putObject(key, entry.bytes, 'image/png');
-        const [a] = await d.insert(assets).values({
-          studioId,
-          kind: 'plate',
-          storageKey: key,
-          contentType: 'image/png',
-          byteSize: entry.bytes.length,
-          width: 1920,
-          height: 1080,
-          shotId: shot.id,
-          format: 'png',
-          meta: { state: 'ready', demo: true, fileName: `${plateName}.png`, declaredSize: entry.bytes.length },
-        });
-        entry.assetId = Number(a.insertId);
-      }
+      const plateId = await demoAsset(studioId, shot.id, 'plate', plateKey, `${plateName}.png`, () => ({ bytes: paintedPlate(plateName), width: 1920, height: 1080 }));
       await d
         .update(shots)
-        .set({ plateAssetId: entry.assetId, metresPerPixel: demo.tankWidth / 1920 })
+        .set({ plateAssetId: plateId, metresPerPixel: demo.tankWidth / 1920 })
         .where(eq(shots.id, shot.id));
-      shot.plateAssetId = entry.assetId;
+      shot.plateAssetId = plateId;
+    }
+    if (!shot.thumbnailAssetId) {
+      // Only a shot still on its painted plate gets the painted plate's thumbnail.
+      const [plate] = await d.select({ storageKey: assets.storageKey }).from(assets).where(eq(assets.id, shot.plateAssetId));
+      if (plate?.storageKey === plateKey) {
+        const thumbKey = `studios/${studioId}/plates/demo-${plateName}-thumbnail.png`;
+        const thumbId = await demoAsset(studioId, shot.id, 'thumbnail', thumbKey, `${plateName}-thumbnail.png`, () => {
+          const made = makeStillThumbnail(paintedPlate(plateName), 'image/png');
+          return { bytes: made.png, width: made.width, height: made.height };
+        });
+        await d.update(shots).set({ thumbnailAssetId: thumbId }).where(eq(shots.id, shot.id));
+        shot.thumbnailAssetId = thumbId;
+      }
     }
     const [existing] = await d.select({ id: versions.id }).from(versions).where(eq(versions.shotId, shot.id)).limit(1);
     if (existing) continue;
