@@ -29,13 +29,21 @@ export interface Message {
 
 const escape = (s: string) => s.replace(/[&<>"']/g, (c) => `&#${c.charCodeAt(0)};`);
 
+/** Escapes a paragraph for HTML and turns the links in it (e.g. a note's frame link) into anchors. */
+function paragraphHtml(p: string): string {
+  return p
+    .split(/(https?:\/\/[^\s<>"]+)/g)
+    .map((part, i) => (i % 2 === 1 ? `<a href="${escape(part)}" style="color:#0d7a78">${escape(part)}</a>` : escape(part)))
+    .join('');
+}
+
 /** Renders a message to plain text and HTML in Tidemark's own plain layout. */
 export function render(m: Message): { text: string; html: string } {
   const text = [...m.paragraphs, ...(m.action ? [`${m.action.label}: ${m.action.url}`] : []), '— Tidemark'].join('\n\n');
   const html = `<!doctype html><html><body style="font-family:'Space Grotesk',Arial,sans-serif;background:#f4f1ea;color:#13232b;padding:24px">
 <div style="max-width:560px;margin:auto;background:#fff;border-radius:10px;padding:24px;border-top:6px solid #0d7a78">
 <p style="font-weight:700;letter-spacing:.04em;color:#0d7a78;margin-top:0">TIDEMARK</p>
-${m.paragraphs.map((p) => `<p>${escape(p)}</p>`).join('\n')}
+${m.paragraphs.map((p) => `<p>${paragraphHtml(p)}</p>`).join('\n')}
 ${m.action ? `<p><a href="${escape(m.action.url)}" style="display:inline-block;background:#0d7a78;color:#fff;padding:10px 16px;border-radius:6px;text-decoration:none">${escape(m.action.label)}</a></p><p style="font-size:12px;color:#5b6b72">${escape(m.action.url)}</p>` : ''}
 </div></body></html>`;
   return { text, html };
