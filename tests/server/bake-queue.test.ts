@@ -75,6 +75,22 @@ function startWorker(extraEnv: Record<string, string> = {}, threads = 1): ChildP
   return child;
 }
 
+/** Resolves once the worker's threads are polling the queue (their first empty poll has been logged or 10 s passed). */
+function workerReady(child: ChildProcess): Promise<void> {
+  return new Promise((resolve) => {
+    const timer = setTimeout(resolve, 10_000);
+    const onData = (d: Buffer) => {
+      if (/thread\(s\) started/.test(d.toString())) {
+        clearTimeout(timer);
+        child.stdout!.off('data', onData);
+        // Threads load the solver after the pool announces them.
+        setTimeout(resolve, 1500);
+      }
+    };
+    child.stdout!.on('data', onData);
+  });
+}
+
 function stopWorker(child: ChildProcess, signal: NodeJS.Signals = 'SIGTERM'): Promise<void> {
   if (child.exitCode !== null || child.signalCode !== null) return Promise.resolve();
   return new Promise((resolve) => {
@@ -145,13 +161,13 @@ async function claimsOf(jobIds: number[]) {
 
 describe('bake queue', () => {
   it('several workers never take the same job: each of many jobs is baked exactly once', async () => {
+    // Workers first, and jobs long enough (a few hundred ms each) that every worker is polling while others bake.
+    const started = [startWorker({}, 2), startWorker({}, 1), startWorker({}, 1)];
+    await Promise.all(started.map((w) => workerReady(w)));
     const versionIds: number[] = [];
-    for (let i = 0; i < 10; i++) versionIds.push(await makeVersion(tinyScene(6, i + 1)));
+    for (let i = 0; i < 10; i++) versionIds.push(await makeVersion(slowScene(4)));
     const jobIds: number[] = [];
     for (const id of versionIds) jobIds.push((await m.queue.enqueueBake(id, studioId, userId)).jobId!);
-    startWorker({}, 2);
-    startWorker({}, 1);
-    startWorker({}, 1);
     await waitFor('all jobs done', async () => {
       const rows = await Promise.all(versionIds.map(jobOf));
       return rows.every((r) => r.job.state === 'done');
