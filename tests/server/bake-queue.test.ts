@@ -162,7 +162,9 @@ async function claimsOf(jobIds: number[]) {
 describe('bake queue', () => {
   it('several workers never take the same job: each of many jobs is baked exactly once', async () => {
     // Workers first, and jobs long enough (a few hundred ms each) that every worker is polling while others bake.
-    const started = [startWorker({}, 2), startWorker({}, 1), startWorker({}, 1)];
+    // A lease long enough that a slow frame on a loaded machine never lets it lapse (lapses are the next test's subject).
+    const lease = { BAKE_LEASE_MS: '15000' };
+    const started = [startWorker(lease, 2), startWorker(lease, 1), startWorker(lease, 1)];
     await Promise.all(started.map((w) => workerReady(w)));
     const versionIds: number[] = [];
     for (let i = 0; i < 10; i++) versionIds.push(await makeVersion(slowScene(4)));
