@@ -18,7 +18,7 @@ const rootSql = (q: string) => execFileSync('mariadb', ['--no-defaults', `--sock
 
 const workerEnv = {
   DATABASE_URL: url.toString(),
-  BAKE_LEASE_MS: '1500',
+  BAKE_LEASE_MS: '3000',
   BAKE_POLL_MS: '100',
   BAKE_RETRY_DELAY_MS: '200',
   BAKE_MAX_ATTEMPTS: '3',
