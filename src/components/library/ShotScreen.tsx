@@ -4,7 +4,7 @@ import { useState } from 'react';
 import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
 import type { ShotStatus } from '~/lib/vocab';
 import { api, messageOf } from '../shared/api';
-import { FormMessage, Spinner } from '../shared/form';
+import { DismissableNotice, FormMessage, Spinner } from '../shared/form';
 import { fullDate, relativeTime } from '../members/time';
 import { LibraryQueries } from './query';
 import { Dialog } from './fields';
@@ -147,16 +147,7 @@ function Shot({ viewer, shot: initialShot, showName }: Props) {
       </header>
 
       <div aria-live="polite">
-        {notice && (
-          <div className="flex items-start gap-3">
-            <div className="flex-1">
-              <FormMessage tone={notice.tone}>{notice.text}</FormMessage>
-            </div>
-            <button type="button" className="btn-quiet px-3 py-2" onClick={() => setNotice(null)}>
-              Dismiss
-            </button>
-          </div>
-        )}
+        <DismissableNotice notice={notice} onDismiss={() => setNotice(null)} />
       </div>
 
       <dl className="card grid grid-cols-2 gap-x-6 gap-y-4 p-5 text-sm sm:grid-cols-3 lg:grid-cols-6" data-testid="shot-facts">

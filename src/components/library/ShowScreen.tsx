@@ -6,7 +6,7 @@ import { keepPreviousData, useMutation, useQuery, useQueryClient, type QueryKey 
 import { createColumnHelper, getCoreRowModel, useReactTable } from '@tanstack/react-table';
 import { SHOT_STATUSES, type ShotStatus } from '~/lib/vocab';
 import { api, ApiError, messageOf } from '../shared/api';
-import { FormMessage, Spinner } from '../shared/form';
+import { DismissableNotice, FormMessage, Spinner } from '../shared/form';
 import { fullDate, relativeTime } from '../members/time';
 import { LibraryQueries } from './query';
 import { parseSearch, toQuery, useUrlState, type UrlState } from './url-state';
@@ -323,16 +323,7 @@ function Show({ viewer, show: initialShow, initialSearch }: Props) {
       <StatusSummary counts={show.statusCounts} />
 
       <div aria-live="polite">
-        {notice && (
-          <div className="flex items-start gap-3">
-            <div className="flex-1">
-              <FormMessage tone={notice.tone}>{notice.text}</FormMessage>
-            </div>
-            <button type="button" className="btn-quiet px-3 py-2" onClick={() => setNotice(null)}>
-              Dismiss
-            </button>
-          </div>
-        )}
+        <DismissableNotice notice={notice} onDismiss={() => setNotice(null)} />
         {failure && <FormMessage>Could not load the shots: {messageOf(failure)}</FormMessage>}
       </div>
 

@@ -3,7 +3,7 @@ import { useMemo, useState } from 'react';
 import { keepPreviousData, useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
 import { createColumnHelper, getCoreRowModel, useReactTable } from '@tanstack/react-table';
 import { api, ApiError, messageOf } from '../shared/api';
-import { FormMessage } from '../shared/form';
+import { DismissableNotice, FormMessage } from '../shared/form';
 import { relativeTime, fullDate } from '../members/time';
 import { LibraryQueries } from './query';
 import { parseSearch, toQuery, useUrlState, type UrlState } from './url-state';
@@ -140,16 +140,7 @@ function Shows({ viewer, studioName, initialSearch }: Props) {
   return (
     <div className="space-y-4">
       <div aria-live="polite">
-        {notice && (
-          <div className="flex items-start gap-3">
-            <div className="flex-1">
-              <FormMessage tone={notice.tone}>{notice.text}</FormMessage>
-            </div>
-            <button type="button" className="btn-quiet px-3 py-2" onClick={() => setNotice(null)}>
-              Dismiss
-            </button>
-          </div>
-        )}
+        <DismissableNotice notice={notice} onDismiss={() => setNotice(null)} />
         {failure && <FormMessage>Could not load the shows: {messageOf(failure)}</FormMessage>}
       </div>
 

@@ -2,7 +2,7 @@
 import { useState } from 'react';
 import { QueryClient, QueryClientProvider, useQuery } from '@tanstack/react-query';
 import { api, ApiError, messageOf } from '../shared/api';
-import { FormMessage } from '../shared/form';
+import { DismissableNotice, FormMessage } from '../shared/form';
 import { signInUrl } from '../shared/paths';
 import MembersTable from './MembersTable';
 import InviteForm from './InviteForm';
@@ -76,16 +76,7 @@ function Members({ studioId, studioSlug, studioName, initialMembers, initialInvi
   return (
     <div className="space-y-8">
       <div aria-live="polite">
-        {notice && (
-          <div className="flex items-start justify-between gap-3">
-            <div className="flex-1">
-              <FormMessage tone={notice.tone}>{notice.text}</FormMessage>
-            </div>
-            <button type="button" className="btn-quiet px-3 py-2" onClick={() => setNotice(null)}>
-              Dismiss
-            </button>
-          </div>
-        )}
+        <DismissableNotice notice={notice} onDismiss={() => setNotice(null)} />
         {failure && !(failure instanceof ApiError && failure.status < 500) && (
           <FormMessage>Could not refresh the list: {messageOf(failure)}</FormMessage>
         )}

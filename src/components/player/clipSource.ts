@@ -1,5 +1,6 @@
 // Opens a baked clip over HTTP Range requests as the player's frame source; asks the API for fresh presigned URLs
 // when the ones it has expire (they live 15 minutes).
+import { refreshingRangeFetcher } from '~/lib/clip/fetch';
 import { ClipReader } from '~/lib/clip/decode';
 import { api } from '../shared/api';
 import type { FrameSource } from './engine';
@@ -18,24 +19,7 @@ export async function openClip(versionId: number, initial: ClipInfo | null): Pro
   let refreshing: Promise<ClipInfo> | null = null;
   const refresh = () => (refreshing ??= api<ClipInfo>(`/api/versions/${versionId}/clip`).then((fresh) => ((info = fresh), (refreshing = null), fresh)));
 
-  const fetchRange = async (start: number, end: number): Promise<Uint8Array> => {
-    for (let attempt = 0; ; attempt++) {
-      let res: Response | null = null;
-      try {
-        res = await fetch(info.clipUrl, { headers: { range: `bytes=${start}-${end}` } });
-      } catch {
-        res = null;
-      }
-      if (res && (res.status === 206 || res.status === 200)) {
-        const bytes = new Uint8Array(await res.arrayBuffer());
-        // A server that ignores Range answers 200 with the whole object: cut out the part asked for.
-        return res.status === 200 && bytes.length > end - start + 1 ? bytes.subarray(start, end + 1) : bytes;
-      }
-      if (attempt >= 2) throw new Error(res ? `Could not read the baked clip (HTTP ${res.status})` : 'Could not reach the object store holding the baked clip');
-      // An expired or refused URL (403/400) or a network hiccup: get fresh URLs and try again.
-      await refresh();
-    }
-  };
+  const fetchRange = refreshingRangeFetcher(() => info.clipUrl, refresh);
 
   const reader = await ClipReader.open(fetchRange, 12);
   const h = reader.header;

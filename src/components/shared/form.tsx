@@ -110,3 +110,24 @@ export function Spinner() {
     </svg>
   );
 }
+
+/** A message about the last action (saved, refused…) that the reader can dismiss; nothing when `notice` is null. */
+export function DismissableNotice({
+  notice,
+  onDismiss,
+}: {
+  notice: { tone: 'error' | 'success' | 'info'; text: ReactNode } | null;
+  onDismiss: () => void;
+}) {
+  if (!notice) return null;
+  return (
+    <div className="flex items-start gap-3">
+      <div className="flex-1">
+        <FormMessage tone={notice.tone}>{notice.text}</FormMessage>
+      </div>
+      <button type="button" className="btn-quiet px-3 py-2" onClick={onDismiss}>
+        Dismiss
+      </button>
+    </div>
+  );
+}

@@ -1,6 +1,7 @@
 // Opens a baked clip for export or the share page: presigned URLs from an API call (asked again when they expire),
 // frames read with HTTP Range requests, and the look options (rest density, top of the speed ramp) from the bake's
 // statistics so every exported frame is coloured on the same scale.
+import { refreshingRangeFetcher } from '../clip/fetch';
 import { ClipReader } from '../clip/decode';
 import type { ClipHeader } from '../clip/format';
 import type { LookOptions, ParticleFrame } from '../render/looks';
@@ -39,22 +40,7 @@ export async function openParticleSource(getUrls: () => Promise<ClipUrls>): Prom
   let urls = await getUrls();
   let refreshing: Promise<ClipUrls> | null = null;
   const refresh = () => (refreshing ??= getUrls().then((u) => ((urls = u), (refreshing = null), u)));
-  const fetchRange = async (start: number, end: number): Promise<Uint8Array> => {
-    for (let attempt = 0; ; attempt++) {
-      let res: Response | null = null;
-      try {
-        res = await fetch(urls.clipUrl, { headers: { range: `bytes=${start}-${end}` } });
-      } catch {
-        res = null;
-      }
-      if (res && (res.status === 206 || res.status === 200)) {
-        const bytes = new Uint8Array(await res.arrayBuffer());
-        return res.status === 200 && bytes.length > end - start + 1 ? bytes.subarray(start, end + 1) : bytes;
-      }
-      if (attempt >= 2) throw new Error(res ? `Could not read the baked clip (HTTP ${res.status})` : 'Could not reach the object store holding the baked clip');
-      await refresh();
-    }
-  };
+  const fetchRange = refreshingRangeFetcher(() => urls.clipUrl, refresh);
   const reader = await ClipReader.open(fetchRange, 12);
   let stats: StatsFile | null = null;
   if (urls.statsUrl) {
