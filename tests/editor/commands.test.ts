@@ -5,7 +5,7 @@ import { startingScene, makeItem, type EditorDoc } from '../../src/lib/editor/do
 import { addItem, removeItems, updateItem, updateItems, setSection, replaceDocument, batch, type Command } from '../../src/lib/editor/commands';
 import { History } from '../../src/lib/editor/history';
 import { EditorStore } from '../../src/lib/editor/store';
-import { applyLook, STARTING_LOOKS } from '../../src/lib/editor/params';
+import { applyPreset, PHYSICS_PRESETS } from '../../src/lib/editor/params';
 import { planDrop } from '../../src/lib/editor/timing';
 
 function richDoc(): EditorDoc {
@@ -52,7 +52,7 @@ describe('document commands', () => {
     ['setSection tank', setSection('tank', { ...doc.tank, width: 2, sides: { ...doc.tank.sides, top: true } })],
     ['setSection timing', setSection('timing', { ...doc.timing, substeps: 9 })],
     ['setSection physics', setSection('physics', { ...doc.physics, flipRatio: 0.5, gravity: [0, -3] })],
-    ['replaceDocument (a starting look)', replaceDocument(applyLook(doc, STARTING_LOOKS[2]))],
+    ['replaceDocument (a physics preset)', replaceDocument(applyPreset(doc, PHYSICS_PRESETS[2]))],
     ['timing helper keys', updateItem({ group: 'props', id: prop.id }, { ...prop, keys: planDrop(doc, prop, { releaseFrame: 1003, impactFrame: 1012, surfaceY: 0.3, mode: 'keep-height' }).keys })],
     ['batch', batch('several', [removeItems([{ group: 'pours', id: doc.pours[0].id }]), setSection('physics', { ...doc.physics, seed: 7 })])],
   ];

@@ -6,7 +6,7 @@ import { addItem } from '../../src/lib/editor/commands';
 import { ellipseFromCorners, rotateShape } from '../../src/lib/editor/geometry';
 import { parseScene, tankCells } from '../../src/lib/scene/schema';
 import { previewScene } from '../../src/lib/editor/preview';
-import { applyLook, STARTING_LOOKS } from '../../src/lib/editor/params';
+import { applyPreset, PHYSICS_PRESETS } from '../../src/lib/editor/params';
 import { planDrop } from '../../src/lib/editor/timing';
 import { shapeArea } from '../../src/lib/scene/shapes';
 
@@ -21,7 +21,7 @@ function blocked(): EditorDoc {
   add('props', { type: 'rect', x: 0.8, y: 0.7, width: 0.1, height: 0.1 });
   const prop = d.props[0];
   d = { ...d, props: [{ ...prop, keys: planDrop(d, prop, { releaseFrame: 1004, impactFrame: 1012, surfaceY: 0.2, mode: 'keep-height' }).keys }] };
-  return applyLook(d, STARTING_LOOKS[2]);
+  return applyPreset(d, PHYSICS_PRESETS[2]);
 }
 
 describe('scene round-trip through the schema', () => {

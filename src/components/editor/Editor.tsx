@@ -22,7 +22,7 @@ import type { EditorBoot } from './types';
 
 const TOOLS: { id: ToolId; label: string; key: string; what: string; icon: ReactElement }[] = [
   { id: 'select', label: 'Pick', key: '1', what: 'Select, move, resize, rotate', icon: <path d="M5 3l10 6-4.5 1.2L13 15l-2 1-2.4-4.8L5 14z" fill="currentColor" /> },
-  { id: 'pour', label: 'Pour', key: '2', what: 'Liquid at the first frame', icon: <path d="M3 12c2-2 4 2 7 0s5 2 7 0v5H3z" fill="currentColor" /> },
+  { id: 'pour', label: 'Standing liquid', key: '2', what: 'Liquid standing in the tank at the first frame', icon: <path d="M3 12c2-2 4 2 7 0s5 2 7 0v5H3z" fill="currentColor" /> },
   { id: 'spout', label: 'Spout', key: '3', what: 'Emitter over frames', icon: <g fill="currentColor"><rect x="2" y="7" width="6" height="5" rx="1" /><path d="M9 9.5h7M13 7l3 2.5-3 2.5" stroke="currentColor" strokeWidth="1.6" fill="none" /></g> },
   { id: 'wall', label: 'Wall', key: '4', what: 'Static solid', icon: <g fill="currentColor"><rect x="3" y="4" width="6" height="4" /><rect x="11" y="4" width="6" height="4" /><rect x="6" y="10" width="8" height="4" /><rect x="3" y="10" width="2" height="4" /><rect x="15" y="10" width="2" height="4" /></g> },
   { id: 'prop', label: 'Prop', key: '5', what: 'Moving solid with keys', icon: <g><rect x="7" y="2" width="6" height="6" fill="currentColor" /><path d="M10 9v7M7 13l3 3 3-3" stroke="currentColor" strokeWidth="1.6" fill="none" /></g> },
@@ -109,6 +109,8 @@ export default function Editor({ boot }: { boot: EditorBoot }) {
         case 'restart': restartPreview(); break;
         case 'frame-back': store.setFrame(store.snapshot.frame - 1); break;
         case 'frame-forward': store.setFrame(store.snapshot.frame + 1); break;
+        case 'frames-back': store.setFrame(store.snapshot.frame - 10); break;
+        case 'frames-forward': store.setFrame(store.snapshot.frame + 10); break;
         case 'snap': store.setSnap(({ grid: 'cells', cells: 'off', off: 'grid' } as const)[store.snapshot.snap]); break;
         case 'fit': viewRef.current?.fit(); break;
         case 'save': setSaving(true); break;

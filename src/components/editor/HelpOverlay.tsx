@@ -18,7 +18,7 @@ export function HelpOverlay({ onClose }: { onClose(): void }) {
           ))}
           <div className="contents"><dt><kbd className="rounded border border-sand-line bg-sand px-1.5 py-0.5 font-mono text-xs">Wheel</kbd></dt><dd className="text-ink-soft">Zoom about the pointer</dd></div>
           <div className="contents"><dt><kbd className="rounded border border-sand-line bg-sand px-1.5 py-0.5 font-mono text-xs">Space + drag · middle drag</kbd></dt><dd className="text-ink-soft">Pan the view</dd></div>
-          <div className="contents"><dt><kbd className="rounded border border-sand-line bg-sand px-1.5 py-0.5 font-mono text-xs">Shift + click</kbd></dt><dd className="text-ink-soft">Add to or remove from the selection; Shift while rotating turns by 1° instead of 15°</dd></div>
+          <div className="contents"><dt><kbd className="rounded border border-sand-line bg-sand px-1.5 py-0.5 font-mono text-xs">Shift + click</kbd></dt><dd className="text-ink-soft">Add to or remove from the selection; Shift while rotating snaps the angle to 15° steps (free without it)</dd></div>
           <div className="contents"><dt><kbd className="rounded border border-sand-line bg-sand px-1.5 py-0.5 font-mono text-xs">Enter · Backspace</kbd></dt><dd className="text-ink-soft">Polygon: finish · remove the last point (or click the first point, or double-click)</dd></div>
         </dl>
       </div>

@@ -1,11 +1,11 @@
 // The editor's side panels: the Inspector (the selected item's numbers, a spout's aim and frames, a prop's keys and the
-// timing helper) and the Parameters panel (tank, frame range, physics with units and explanations, starting looks).
+// timing helper) and the Parameters panel (tank, frame range, physics with units and explanations, physics presets).
 // Both read the same document as the view and change it only through the store's commands.
 import { useState } from 'react';
 import type { EditorStore, EditorSnapshot } from '~/lib/editor/store';
 import { GROUP_LABEL, CELL_SIZES, toWholeCells, type AnyItem, type ItemRef } from '~/lib/editor/document';
 import { setSection, replaceDocument } from '~/lib/editor/commands';
-import { PARAMS, STARTING_LOOKS, applyLook, readPath, sectionWith } from '~/lib/editor/params';
+import { PARAMS, PHYSICS_PRESETS, applyPreset, readPath, sectionWith, type ParamSpec } from '~/lib/editor/params';
 import { planDrop, surfaceHeightAt, impactFrameOf } from '~/lib/editor/timing';
 import { tankCells } from '~/lib/scene/schema';
 import { shapeCentroid } from '~/lib/scene/shapes';
@@ -192,14 +192,29 @@ export function ParamsPanel({ store, snap }: { store: EditorStore; snap: EditorS
   const setCell = (cellSize: number) => {
     store.execute(setSection('tank', { ...doc.tank, cellSize, width: toWholeCells(doc.tank.width, cellSize), height: toWholeCells(doc.tank.height, cellSize) }, `Cell size ${cellSize} m`));
   };
+  const paramField = (p: ParamSpec) =>
+    p.choices ? (
+      <div key={p.path} className="py-1">
+        <div className="flex items-center justify-between">
+          <label htmlFor={`param-${p.path}`} className="text-[0.8rem] font-medium">{p.label}</label>
+          <select id={`param-${p.path}`} value={readPath(doc, p.path) as number} onChange={(e) => set(p.path, Number(e.target.value), p.label)} className="rounded-md border border-sand-line bg-white px-2 py-1 text-[0.8rem]">
+            {p.choices.map((c) => <option key={c} value={c}>{c}</option>)}
+          </select>
+        </div>
+        <p className="mt-0.5 text-[0.7rem] leading-snug text-ink-muted">{p.help}</p>
+      </div>
+    ) : (
+      <NumberField key={p.path} label={p.label} unit={p.unit} value={readPath(doc, p.path) as number} min={p.min} max={p.max} step={p.step} integer={p.integer} help={p.help}
+        onCommit={(v) => set(p.path, v, p.label)} testId={`param-${p.path}`} />
+    );
   const sides = doc.tank.sides;
   return (
     <>
-      <Section title="Starting looks">
+      <Section title="Physics presets">
         <div className="grid grid-cols-3 gap-1.5">
-          {STARTING_LOOKS.map((look) => (
-            <button key={look.id} type="button" title={look.blurb} className="btn-quiet px-2 py-1 text-xs" onClick={() => store.execute(replaceDocument(applyLook(doc, look), `Look: ${look.label}`))}>
-              {look.label}
+          {PHYSICS_PRESETS.map((preset) => (
+            <button key={preset.id} type="button" title={preset.blurb} className="btn-quiet px-2 py-1 text-xs" onClick={() => store.execute(replaceDocument(applyPreset(doc, preset), `Preset: ${preset.label}`))}>
+              {preset.label}
             </button>
           ))}
         </div>
@@ -233,30 +248,19 @@ export function ParamsPanel({ store, snap }: { store: EditorStore; snap: EditorS
         <p className="text-[0.7rem] text-ink-muted">{+doc.timing.fps.toFixed(3)} frames per second, from the shot.</p>
       </Section>
       <Section title="Physics">
-        <div className="flex items-center justify-between py-1">
-          <label htmlFor="pressure-solver" className="text-[0.8rem] font-medium">Pressure solver</label>
-          <select id="pressure-solver" value={doc.physics.pressureSolver} onChange={(e) => set('physics.pressureSolver', e.target.value, 'Pressure solver')} className="rounded-md border border-sand-line bg-white px-2 py-1 text-[0.8rem]">
-            <option value="pcg-mic0">Conjugate gradient (MIC)</option>
-            <option value="gauss-seidel">Gauss–Seidel</option>
-          </select>
-        </div>
-        <p className="text-[0.7rem] leading-snug text-ink-muted">Conjugate gradient reaches the tolerance in fewer, costlier steps and is the faster default.</p>
-        {PARAMS.filter((p) => p.path !== 'tank.cellSize').map((p) =>
-          p.choices ? (
-            <div key={p.path} className="py-1">
-              <div className="flex items-center justify-between">
-                <label htmlFor={`param-${p.path}`} className="text-[0.8rem] font-medium">{p.label}</label>
-                <select id={`param-${p.path}`} value={readPath(doc, p.path) as number} onChange={(e) => set(p.path, Number(e.target.value), p.label)} className="rounded-md border border-sand-line bg-white px-2 py-1 text-[0.8rem]">
-                  {p.choices.map((c) => <option key={c} value={c}>{c}</option>)}
-                </select>
-              </div>
-              <p className="mt-0.5 text-[0.7rem] leading-snug text-ink-muted">{p.help}</p>
-            </div>
-          ) : (
-            <NumberField key={p.path} label={p.label} unit={p.unit} value={readPath(doc, p.path) as number} min={p.min} max={p.max} step={p.step} integer={p.integer} help={p.help}
-              onCommit={(v) => set(p.path, v, p.label)} testId={`param-${p.path}`} />
-          ),
-        )}
+        {PARAMS.filter((p) => p.path !== 'tank.cellSize' && !p.advanced).map(paramField)}
+        <details className="mt-2 rounded-md border border-sand-line px-2 py-1" data-testid="advanced-physics">
+          <summary className="cursor-pointer text-[0.8rem] font-medium">Advanced: solver settings for FX TDs</summary>
+          <div className="flex items-center justify-between py-1">
+            <label htmlFor="pressure-solver" className="text-[0.8rem] font-medium">Pressure solver</label>
+            <select id="pressure-solver" value={doc.physics.pressureSolver} onChange={(e) => set('physics.pressureSolver', e.target.value, 'Pressure solver')} className="rounded-md border border-sand-line bg-white px-2 py-1 text-[0.8rem]">
+              <option value="pcg-mic0">Conjugate gradient (MIC)</option>
+              <option value="gauss-seidel">Gauss–Seidel</option>
+            </select>
+          </div>
+          <p className="text-[0.7rem] leading-snug text-ink-muted">Conjugate gradient reaches the tolerance in fewer, costlier steps and is the faster default.</p>
+          {PARAMS.filter((p) => p.advanced).map(paramField)}
+        </details>
       </Section>
     </>
   );

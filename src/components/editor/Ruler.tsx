@@ -55,7 +55,6 @@ export function Ruler({ doc, frame, rate, computedTo, onFrame }: Props) {
         className="relative mt-1 h-10 cursor-pointer rounded-md border border-sand-line bg-white"
         onPointerDown={(e) => { (e.target as HTMLElement).setPointerCapture(e.pointerId); pick(e.clientX); }}
         onPointerMove={(e) => { if (e.buttons & 1) pick(e.clientX); }}
-        onKeyDown={(e) => { if (e.key === 'ArrowLeft') onFrame(frame - 1); if (e.key === 'ArrowRight') onFrame(frame + 1); }}
       >
         {computedTo !== null && <div className="absolute inset-y-0 left-0 rounded-l-md bg-harbour-50" style={{ width: pos(computedTo) }} title="Preview computed" />}
         {doc.spouts.map((s, i) => (

@@ -5,6 +5,7 @@ import { parseScene, type SceneError } from '~/lib/scene/schema';
 import type { EditorDoc } from '~/lib/editor/document';
 import { api, ApiError, messageOf } from '~/components/shared/api';
 import { Spinner } from '~/components/shared/form';
+import { fieldLabel } from '~/lib/scene/labels';
 
 interface Saved { id: number; number: number; sceneHash: string }
 
@@ -61,7 +62,7 @@ export function SavePanel({ doc, shotId, studioSlug, onSaved, onClose }: { doc: 
             {errors.length > 0 && (
               <div role="alert" className="mt-3 rounded-lg border border-coral-100 bg-coral-50 px-3 py-2 text-sm text-coral-700">
                 <p className="font-medium">The scene needs fixing before it can be saved:</p>
-                <ul className="mt-1 list-disc pl-5">{errors.slice(0, 8).map((e) => <li key={e.path + e.message}><code>{e.path}</code>: {e.message}</li>)}</ul>
+                <ul className="mt-1 list-disc pl-5">{errors.slice(0, 8).map((e) => <li key={e.path + e.message}><strong className="font-semibold">{fieldLabel(e.path)}</strong>: {e.message}</li>)}</ul>
               </div>
             )}
             {message && errors.length === 0 && <p role="alert" className="mt-3 text-sm text-coral-700">{message}</p>}

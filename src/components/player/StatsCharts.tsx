@@ -10,15 +10,17 @@ interface Series {
   label: string;
   unit: string;
   log?: boolean;
+  /** Solver internals for FX TDs, under the "Advanced" fold. */
+  advanced?: boolean;
   format: (v: number) => string;
 }
 
 const SERIES: Series[] = [
   { key: 'liquidArea', label: 'Liquid area', unit: 'm²', format: (v) => v.toFixed(v < 0.1 ? 4 : 3) },
   { key: 'maxSpeed', label: 'Max speed', unit: 'm/s', format: (v) => v.toFixed(2) },
-  { key: 'cfl', label: 'CFL', unit: '', format: (v) => v.toFixed(2) },
-  { key: 'pressureResidual', label: 'Pressure residual', unit: '', log: true, format: (v) => v.toExponential(1) },
-  { key: 'stepMs', label: 'Step time', unit: 'ms', format: (v) => v.toFixed(0) },
+  { key: 'cfl', label: 'CFL', unit: '', advanced: true, format: (v) => v.toFixed(2) },
+  { key: 'pressureResidual', label: 'Pressure residual', unit: '', log: true, advanced: true, format: (v) => v.toExponential(1) },
+  { key: 'stepMs', label: 'Step time', unit: 'ms', advanced: true, format: (v) => v.toFixed(0) },
 ];
 
 interface Props {
@@ -51,11 +53,19 @@ export default function StatsCharts({ stats, frame, onSeek }: Props) {
         </p>
       )}
       <div className="mt-2 space-y-2">
-        {SERIES.map((s) => (
+        {SERIES.filter((s) => !s.advanced).map((s) => (
           <Chart key={s.key} stats={stats} series={s} frame={frame} onSeek={onSeek} />
         ))}
       </div>
-      <p className="mt-2 text-xs text-ink-muted">Solver build {stats.solverBuild}</p>
+      <details className="mt-2 rounded-md border border-sand-line px-2 py-1" data-testid="bake-stats-advanced">
+        <summary className="cursor-pointer text-xs font-medium text-ink-soft">Advanced: solver figures for FX TDs</summary>
+        <div className="mt-1 space-y-2">
+          {SERIES.filter((s) => s.advanced).map((s) => (
+            <Chart key={s.key} stats={stats} series={s} frame={frame} onSeek={onSeek} />
+          ))}
+        </div>
+        <p className="mt-2 text-xs text-ink-muted">Solver build {stats.solverBuild}</p>
+      </details>
     </section>
   );
 }

@@ -10,7 +10,7 @@ export const GROUPS = ['pours', 'spouts', 'walls', 'props', 'drains'] as const;
 export type Group = (typeof GROUPS)[number];
 
 /** Our product word for an item of each group (DEVELOPERS.md). */
-export const GROUP_LABEL: Record<Group, string> = { pours: 'Pour', spouts: 'Spout', walls: 'Wall', props: 'Prop', drains: 'Drain' };
+export const GROUP_LABEL: Record<Group, string> = { pours: 'Standing liquid', spouts: 'Spout', walls: 'Wall', props: 'Prop', drains: 'Drain' };
 
 export type Item<G extends Group = Group> = EditorDoc[G][number];
 export type AnyItem = Item<Group>;

@@ -1,5 +1,5 @@
 // The parameters panel's fields: what each solver setting means, its unit and range (the schema's limits), and the
-// starting looks — our own presets that set sensible physics for a kind of splash.
+// physics presets — our own settings that suit a kind of splash (a "look" is a render look, not physics).
 import type { EditorDoc } from './document';
 
 export interface ParamSpec {
@@ -16,6 +16,8 @@ export interface ParamSpec {
   integer?: boolean;
   /** Allowed values only (particles per cell). */
   choices?: readonly number[];
+  /** Solver internals for FX TDs: shown under the "Advanced" fold. */
+  advanced?: boolean;
 }
 
 export const PARAMS: readonly ParamSpec[] = [
@@ -24,14 +26,14 @@ export const PARAMS: readonly ParamSpec[] = [
   { path: 'tank.cellSize', label: 'Cell size', unit: 'm', min: 0.001, max: 1, step: 0.0005, help: 'Grid spacing of the bake. Smaller shows finer droplets but costs about the cube of the refinement.' },
   { path: 'physics.particlesPerCell', label: 'Particles per cell', unit: '', min: 1, max: 16, step: 1, integer: true, choices: [1, 4, 9, 16], help: 'Seeding density: 4 is a 2 × 2 sub-grid per cell. More gives smoother surfaces and slower bakes.' },
   { path: 'physics.flipRatio', label: 'FLIP / PIC blend', unit: '', min: 0, max: 1, step: 0.01, help: '1 keeps every swirl (lively, noisy); 0 smooths each step (calm, syrupy). 0.9–0.97 reads as water.' },
-  { path: 'physics.pressureTolerance', label: 'Pressure tolerance', unit: 'relative', min: 0.0001, max: 0.5, step: 0.0001, help: 'How far the pressure solve must shrink its residual. Smaller keeps volume better and costs time.' },
-  { path: 'physics.pressureIterations', label: 'Pressure iterations (cap)', unit: '', min: 1, max: 10000, step: 1, integer: true, help: 'Most iterations a step may use to reach the tolerance.' },
-  { path: 'physics.overRelaxation', label: 'Over-relaxation', unit: '', min: 0.1, max: 1.99, step: 0.01, help: 'Gauss–Seidel only: step size of each sweep; 1.9 converges fastest on most tanks.' },
+  { path: 'physics.pressureTolerance', label: 'Pressure tolerance', unit: 'relative', min: 0.0001, max: 0.5, step: 0.0001, help: 'How far the pressure solve must shrink its residual. Smaller keeps volume better and costs time.', advanced: true },
+  { path: 'physics.pressureIterations', label: 'Pressure iterations (cap)', unit: '', min: 1, max: 10000, step: 1, integer: true, help: 'Most iterations a step may use to reach the tolerance.', advanced: true },
+  { path: 'physics.overRelaxation', label: 'Over-relaxation', unit: '', min: 0.1, max: 1.99, step: 0.01, help: 'Gauss–Seidel only: step size of each sweep; 1.9 converges fastest on most tanks.', advanced: true },
   { path: 'physics.driftCorrection', label: 'Drift correction', unit: '', min: 0, max: 10, step: 0.1, help: 'Pushes crowded particles apart so the liquid keeps its volume over long shots. 0 turns it off.' },
-  { path: 'physics.separationIterations', label: 'Separation passes', unit: '', min: 0, max: 20, step: 1, integer: true, help: 'Passes that keep particles from clumping. 2 is usually enough.' },
-  { path: 'physics.particleRadius', label: 'Particle radius', unit: '× cell', min: 0.05, max: 0.5, step: 0.01, help: 'Particle size as a fraction of the cell, used when separating particles.' },
+  { path: 'physics.separationIterations', label: 'Separation passes', unit: '', min: 0, max: 20, step: 1, integer: true, help: 'Passes that keep particles from clumping. 2 is usually enough.', advanced: true },
+  { path: 'physics.particleRadius', label: 'Particle radius', unit: '× cell', min: 0.05, max: 0.5, step: 0.01, help: 'Particle size as a fraction of the cell, used when separating particles.', advanced: true },
   { path: 'timing.substeps', label: 'Substeps per frame (min)', unit: '', min: 1, max: 200, step: 1, integer: true, help: 'Fewest solver steps per frame; more are added when the liquid moves fast (see CFL).' },
-  { path: 'physics.cfl', label: 'CFL limit', unit: 'cells/step', min: 0.1, max: 100, step: 0.1, help: 'Farthest a particle may travel in one step. Lower is steadier for fast impacts and slower to bake.' },
+  { path: 'physics.cfl', label: 'CFL limit', unit: 'cells/step', min: 0.1, max: 100, step: 0.1, help: 'Farthest a particle may travel in one step. Lower is steadier for fast impacts and slower to bake.', advanced: true },
   { path: 'physics.seed', label: 'Seed', unit: '', min: 0, max: 4294967295, step: 1, integer: true, help: 'Drives the particle jitter at seeding. Same seed, same splash; change it for a variation.' },
 ];
 
@@ -50,7 +52,7 @@ export function sectionWith<S extends 'tank' | 'timing' | 'physics'>(doc: Editor
   return { section, value: copy as EditorDoc[S] };
 }
 
-export interface StartingLook {
+export interface PhysicsPreset {
   id: string;
   label: string;
   /** One line on what it is for. */
@@ -59,8 +61,8 @@ export interface StartingLook {
   substeps: number;
 }
 
-/** Our starting looks. Values are common practice for FLIP liquids at previs resolution (no source). */
-export const STARTING_LOOKS: readonly StartingLook[] = [
+/** Our physics presets. Values are common practice for FLIP liquids at previs resolution (no source). */
+export const PHYSICS_PRESETS: readonly PhysicsPreset[] = [
   {
     id: 'drip', label: 'Drip', blurb: 'Small, slow drops and trickles: calm transfer, tight volume.',
     physics: { flipRatio: 0.85, driftCorrection: 1, separationIterations: 2, cfl: 1, pressureTolerance: 5e-3, pressureIterations: 80, particlesPerCell: 4 },
@@ -78,7 +80,7 @@ export const STARTING_LOOKS: readonly StartingLook[] = [
   },
 ];
 
-/** The document with a starting look's physics and substeps applied (everything else unchanged). */
-export function applyLook(doc: EditorDoc, look: StartingLook): EditorDoc {
-  return { ...doc, physics: { ...doc.physics, ...look.physics }, timing: { ...doc.timing, substeps: look.substeps } };
+/** The document with a preset's physics and substeps applied (everything else unchanged). */
+export function applyPreset(doc: EditorDoc, preset: PhysicsPreset): EditorDoc {
+  return { ...doc, physics: { ...doc.physics, ...preset.physics }, timing: { ...doc.timing, substeps: preset.substeps } };
 }

@@ -180,13 +180,13 @@ export class EditorStore {
 
 /** Editor actions reachable from the keyboard. */
 export type Action =
-  | 'undo' | 'redo' | 'delete' | 'duplicate' | 'help' | 'play' | 'restart' | 'frame-back' | 'frame-forward'
+  | 'undo' | 'redo' | 'delete' | 'duplicate' | 'help' | 'play' | 'restart' | 'frame-back' | 'frame-forward' | 'frames-back' | 'frames-forward'
   | 'snap' | 'fit' | 'escape' | 'save' | `tool:${ToolId}`;
 
 /** Tidemark's own keyboard map, listed in the help overlay. */
 export const SHORTCUTS: readonly { keys: string; action: Action; what: string }[] = [
   { keys: '1', action: 'tool:select', what: 'Pick tool: select, move, resize, rotate, drag keys' },
-  { keys: '2', action: 'tool:pour', what: 'Pour: liquid there at the first frame' },
+  { keys: '2', action: 'tool:pour', what: 'Standing liquid: liquid in the tank at the first frame' },
   { keys: '3', action: 'tool:spout', what: 'Spout: emits liquid over a frame range' },
   { keys: '4', action: 'tool:wall', what: 'Wall: a solid that stays put' },
   { keys: '5', action: 'tool:prop', what: 'Prop: a solid that moves on keys' },
@@ -198,9 +198,10 @@ export const SHORTCUTS: readonly { keys: string; action: Action; what: string }[
   { keys: 'Ctrl+D', action: 'duplicate', what: 'Duplicate the selection' },
   { keys: 'P', action: 'play', what: 'Play or pause the live preview' },
   { keys: 'Shift+P', action: 'restart', what: 'Restart the preview with the current scene' },
-  { keys: ',  /  .', action: 'frame-back', what: 'Previous / next frame' },
+  { keys: '←  /  →', action: 'frame-back', what: 'Previous / next frame' },
+  { keys: 'Shift+←  /  Shift+→', action: 'frames-back', what: 'Ten frames back / forward' },
   { keys: 'N', action: 'snap', what: 'Snapping: grid → cells → off' },
-  { keys: 'H', action: 'fit', what: 'Home: fit the tank in the view' },
+  { keys: 'F', action: 'fit', what: 'Fit the tank in the view' },
   { keys: 'Ctrl+S', action: 'save', what: 'Save as a new version' },
   { keys: 'Esc', action: 'escape', what: 'Cancel the shape in progress, clear the selection' },
   { keys: '?', action: 'help', what: 'Show or hide this list' },
@@ -221,10 +222,10 @@ export function actionForKey(key: string, mod: boolean, shift: boolean): Action 
   if (tools[k]) return `tool:${tools[k]}`;
   if (k === 'Delete' || k === 'Backspace') return 'delete';
   if (k === 'p') return shift ? 'restart' : 'play';
-  if (k === ',') return 'frame-back';
-  if (k === '.') return 'frame-forward';
+  if (k === 'ArrowLeft') return shift ? 'frames-back' : 'frame-back';
+  if (k === 'ArrowRight') return shift ? 'frames-forward' : 'frame-forward';
   if (k === 'n') return 'snap';
-  if (k === 'h') return 'fit';
+  if (k === 'f') return 'fit';
   if (k === 'Escape') return 'escape';
   return null;
 }

@@ -188,7 +188,8 @@ export class SelectTool implements Tool {
       case 'rotate': {
         const c = shapeCentroid(item.shape);
         let deg = ((Math.atan2(at[1] - c[1], at[0] - c[0]) - Math.atan2(s.start[1] - c[1], s.start[0] - c[0])) * 180) / Math.PI;
-        deg = p.shift ? Math.round(deg) : Math.round(deg / 15) * 15;
+        // free rotation (whole degrees); Shift snaps to 15° steps
+        deg = p.shift ? Math.round(deg / 15) * 15 : Math.round(deg);
         if (deg === 0) return [];
         return [{ ref, next: { ...item, shape: rotateShape(item.shape, deg, c) } as AnyItem }];
       }
