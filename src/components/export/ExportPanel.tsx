@@ -33,6 +33,10 @@ export interface ExportPanelProps {
   handles: number;
   /** Frame rate id of the shot, e.g. '24' or '29.97df'. */
   frameRate: string;
+  /** Source timecode at the cut in, and where the shot sits in the cut (burn-ins and slate print these). */
+  sourceTimecodeIn: string | null;
+  recordIn: string | null;
+  recordOut: string | null;
   /** The shot's plate size in pixels (the export's full resolution) and scale. */
   plateWidth: number;
   plateHeight: number;
@@ -132,6 +136,10 @@ export default function ExportPanel(p: ExportPanelProps) {
         date: new Date().toISOString().slice(0, 10),
         reviewState: p.reviewState,
         rateId: p.frameRate,
+        cutIn: p.firstFrame,
+        sourceTimecodeIn: p.sourceTimecodeIn,
+        recordIn: p.recordIn,
+        recordOut: p.recordOut,
       };
       const result = await runExport(
         {

@@ -13,7 +13,8 @@ import { AssigneeSelect, StatusSelect } from './inline';
 import PlatePanel from './PlatePanel';
 import { ShotThumbnail } from './thumbnail';
 import ShotForm from './ShotForm';
-import { dueLabel, rangeLength, rateLabel, timecodeOf } from './format';
+import { dueLabel, rangeLength, rateLabel } from './format';
+import { sourceTimecodeLabel } from '~/lib/timecode';
 import { can, keys, type ActivityEntry, type Person, type ShotDetail, type Viewer } from './types';
 
 interface Props {
@@ -168,8 +169,8 @@ function Shot({ viewer, shot: initialShot, showName }: Props) {
           <span className="text-ink-muted">
             · {rangeLength(shot.firstFrame, shot.lastFrame)} frames{shot.handles ? ` + ${shot.handles} handles each side` : ''}
           </span>
-          <span className="block text-xs text-ink-muted tabular-nums" title={`SMPTE timecode at ${rateLabel(shot.frameRate)} fps`}>
-            {timecodeOf(shot.firstFrame, shot.frameRate)} – {timecodeOf(shot.lastFrame, shot.frameRate)}
+          <span className="block text-xs text-ink-muted tabular-nums" title={`Source timecode at ${rateLabel(shot.frameRate)} fps`}>
+            {sourceTimecodeLabel(shot, shot.firstFrame)} – {sourceTimecodeLabel(shot, shot.lastFrame)}
           </span>
         </Fact>
         <Fact label="Rate">{rateLabel(shot.frameRate)} fps</Fact>

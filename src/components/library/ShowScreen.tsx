@@ -17,7 +17,8 @@ import { AssigneeSelect, StatusSelect } from './inline';
 import ShotForm from './ShotForm';
 import ShowForm from './ShowForm';
 import { ShotThumbnail } from './thumbnail';
-import { dueLabel, isOverdue, rangeLength, rateLabel, timecodeOf } from './format';
+import { dueLabel, isOverdue, rangeLength, rateLabel } from './format';
+import { sourceTimecodeLabel } from '~/lib/timecode';
 import { can, keys, type Page, type Person, type ShotRow, type ShowDetail, type Viewer } from './types';
 
 export const SHOT_DEFAULTS: UrlState = { q: '', status: '', assignee: '', archived: 'false', sort: 'code', order: 'asc', page: '1', pageSize: '25' };
@@ -493,8 +494,8 @@ export function FrameRange({ shot }: { shot: Pick<ShotRow, 'firstFrame' | 'lastF
       <span className="text-xs text-ink-muted">
         {rangeLength(shot.firstFrame, shot.lastFrame)}f{shot.handles ? ` +${shot.handles}h` : ''}
       </span>
-      <div className="text-xs text-ink-muted" title={`SMPTE timecode at ${rateLabel(shot.frameRate)} fps`}>
-        {timecodeOf(shot.firstFrame, shot.frameRate)} – {timecodeOf(shot.lastFrame, shot.frameRate)}
+      <div className="text-xs text-ink-muted" title={`Source timecode at ${rateLabel(shot.frameRate)} fps`}>
+        {sourceTimecodeLabel(shot, shot.firstFrame)} – {sourceTimecodeLabel(shot, shot.lastFrame)}
       </div>
     </div>
   );

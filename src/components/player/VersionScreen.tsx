@@ -10,7 +10,7 @@ import ReviewPanel from '../review/ReviewPanel';
 import NoteTicks from '../review/NoteTicks';
 import type { Role } from '~/lib/vocab';
 import type { NoteMarker } from '~/lib/review/notes';
-import { safeTimecode } from './Timeline';
+import { sourceTimecodeLabel } from '~/lib/timecode';
 import type { BakeProgress, BakeState, ClipInfo, PlateInfo, ShotInfo, VersionInfo } from './types';
 
 interface Props {
@@ -139,9 +139,9 @@ function Version({ studioId, studioSlug, version, shot, plate, clip, canBake, ro
           <dd className="tabular-nums">
             {version.startFrame}–{version.endFrame} <span className="text-ink-muted">({frames})</span>
           </dd>
-          <dt className="text-ink-muted">Timecode</dt>
+          <dt className="text-ink-muted">Source timecode</dt>
           <dd className="font-mono text-xs leading-5 tabular-nums">
-            {safeTimecode(version.startFrame, shot.frameRate)} – {safeTimecode(version.endFrame, shot.frameRate)}
+            {sourceTimecodeLabel(shot, version.startFrame, '—')} – {sourceTimecodeLabel(shot, version.endFrame, '—')}
           </dd>
           <dt className="text-ink-muted">Shot</dt>
           <dd className="tabular-nums">

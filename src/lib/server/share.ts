@@ -278,6 +278,7 @@ export async function publicShareInfo(opened: OpenedShare) {
     artist: row.artist ?? null,
     reviewState: version.reviewState,
     frameRate: row.shot.frameRate,
+    sourceTimecodeIn: row.shot.sourceTimecodeIn,
     shotRange: { first: row.shot.firstFrame, last: row.shot.lastFrame },
     bakedRange: { first: scene.timing?.startFrame ?? row.shot.firstFrame, last: scene.timing?.endFrame ?? row.shot.lastFrame },
     createdAt: version.createdAt.toISOString(),

@@ -148,11 +148,11 @@ export function sourceTimecodeAt(shot: SourceTimecodeShot, frame: number): strin
   return framesToTimecode(n, shot.frameRate);
 }
 
-/** sourceTimecodeAt for display: '' when the shot's source timecode or rate cannot label the frame. */
-export function sourceTimecodeLabel(shot: SourceTimecodeShot, frame: number): string {
+/** sourceTimecodeAt for display: `fallback` ('' unless given) when the shot's source timecode or rate cannot label the frame. */
+export function sourceTimecodeLabel(shot: SourceTimecodeShot, frame: number, fallback = ''): string {
   try {
     return sourceTimecodeAt(shot, frame);
   } catch {
-    return '';
+    return fallback;
   }
 }
