@@ -116,7 +116,9 @@ describe('shot library in Chromium', () => {
         ['create', 'BW_0020', '1009–1044'],
         ['create', 'BW_0030', '1009–1080'],
       ]);
-      expect(await previewTable.textContent()).toContain('00:00:42:01'); // frame 1009 at 24 fps
+      // The cut in (frame 1009) is labelled with the event's source in, 48 frames to 10:00:01:23 (CMX 3600 out exclusive).
+      expect(await previewTable.textContent()).toContain('source 10:00:00:00 – 10:00:01:23');
+      expect(await previewTable.textContent()).not.toContain('00:00:42:01'); // frame 1009 read as timecode at 24 fps
       await screenshot(page, 'library-import-preview');
       await page.getByRole('button', { name: 'Confirm import' }).click();
       await page.getByText('Imported into BW').waitFor();
@@ -131,7 +133,8 @@ describe('shot library in Chromium', () => {
       await page.getByRole('link', { name: 'See the shots' }).click();
       const table = page.getByTestId('shots-table');
       await table.locator('tbody tr[data-row]').nth(2).waitFor();
-      expect(await table.textContent()).toContain('00:00:42:01 – 00:00:45:00'); // 1009–1080 at 24 fps
+      // BW_0030 (1009–1080, 72 frames) cuts in at source 12:00:00:00 (the dissolve's incoming side).
+      expect(await table.textContent()).toContain('12:00:00:00 – 12:00:02:23');
       await page.getByLabel('Status of BW_0020').selectOption('in review');
       await expect.poll(async () => (await db().select().from(shots).where(eq(shots.code, 'BW_0020')))[0]?.status).toBe('in review');
       // Filter by status: the URL keeps the filter.
