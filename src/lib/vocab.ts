@@ -1,5 +1,8 @@
 // Tidemark's own words for roles and states, shared by the database schema, the API and the browser.
 
+/** A version number as Tidemark shows it everywhere (screens, e-mails, file names, slate): three digits, "v001". */
+export const versionLabel = (n: number) => `v${String(n).padStart(3, '0')}`;
+
 export const ROLES = ['owner', 'supervisor', 'artist', 'client'] as const;
 export type Role = (typeof ROLES)[number];
 

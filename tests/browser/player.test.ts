@@ -74,7 +74,7 @@ describe('version page and player in Chromium', () => {
       await header.waitFor();
       const headerText = (await header.textContent()) ?? '';
       expect(headerText).toContain(shotCode);
-      expect(headerText).toContain('v1');
+      expect(headerText).toContain('v001');
       expect(headerText).toContain('1001–1048');
       // The cut in is labelled with the shot's source timecode, not with frame 1001 read as timecode (00:00:40:01).
       expect(headerText).toContain('01:00:10:00 – 01:00:11:22'); // 47 frames on at 25 fps = 1 s 22 frames

@@ -12,6 +12,7 @@ import type { Role } from '~/lib/vocab';
 import type { NoteMarker } from '~/lib/review/notes';
 import { sourceTimecodeLabel } from '~/lib/timecode';
 import type { BakeProgress, BakeState, ClipInfo, PlateInfo, ShotInfo, VersionInfo } from './types';
+import { versionLabel } from '~/lib/vocab';
 
 interface Props {
   studioId: number;
@@ -123,7 +124,7 @@ function Version({ studioId, studioSlug, version, shot, plate, clip, canBake, ro
           </p>
           <h1 className="mt-1 flex flex-wrap items-center gap-3 text-3xl font-semibold tracking-tight">
             <span>
-              {shot.code} <span className="text-ink-muted">v{version.number}</span>
+              {shot.code} <span className="text-ink-muted">{versionLabel(version.number)}</span>
             </span>
             <Chip value={version.reviewState} label={version.reviewState} testId="review-state" />
             <Chip value={bakeState} label={BAKE_LABEL[bakeState]} testId="bake-state" />

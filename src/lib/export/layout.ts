@@ -1,6 +1,7 @@
 // The export's arithmetic and text layout, free of the DOM so Node tests can check it: which frames go out, at what
 // size, with which GIF delays, and where every slate and burn-in text sits (what it says included).
 import { rateInfo, sourceTimecodeAt } from '../timecode';
+import { versionLabel } from '../vocab';
 
 export const EXPORT_FORMATS = ['gif', 'mp4', 'zip'] as const;
 export type ExportFormat = (typeof EXPORT_FORMATS)[number];
@@ -119,7 +120,7 @@ export function exportTimecode(labels: ExportLabels, frame: number): string {
   return sourceTimecodeAt({ firstFrame: labels.cutIn, frameRate: labels.rateId, sourceTimecodeIn: labels.sourceTimecodeIn }, frame);
 }
 
-export const versionLabel = (n: number) => `v${String(n).padStart(3, '0')}`;
+export { versionLabel };
 
 /** A text placed on the frame: `x`,`y` in pixels (y is the text's baseline), `size` the font size in pixels. */
 export interface TextItem {

@@ -17,7 +17,8 @@ import { config } from './config';
 import { presignGet } from './storage';
 import { exportFileNameOf, readyExportOf } from './exports';
 import { clipOf } from './versions';
-import { CAUTION, versionLabel } from '../export/layout';
+import { CAUTION } from '../export/layout';
+import { versionLabel } from '../vocab';
 import type { ShareCreateBody } from '../export/schemas';
 
 type LinkRow = typeof shareLinks.$inferSelect;
