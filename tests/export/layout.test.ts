@@ -3,6 +3,7 @@
 import { describe, it, expect } from 'vitest';
 import {
   CAUTION,
+  PREVIS_MARK,
   burnInLayout,
   exportFileName,
   ffmpegRate,
@@ -101,9 +102,20 @@ describe('burn-ins', () => {
       expect(byId.frame.text).toBe(`frame ${frame}`);
       expect(byId.shot.text).toBe('LT_010 · v003');
       expect(byId.studio.text).toBe('Gull Point Pictures');
+      expect(byId.previs.text).toBe(PREVIS_MARK);
     }
     // Not the frame number read as timecode (frame 1001 at 24 would be 00:00:41:17).
     expect(burnInLayout(labels, 1001, 960, 540).texts.find((t) => t.id === 'timecode')!.text).not.toBe('00:00:41:17');
+  });
+  it('carry the PREVIS mark in the top-right corner by default, and only when it is not turned off', () => {
+    const on = burnInLayout(labels, 1001, 960, 540).texts.find((t) => t.id === 'previs')!;
+    expect(on.text).toMatch(/PREVIS/);
+    expect(on.align).toBe('right');
+    expect(on.x).toBeGreaterThan(960 * 0.9); // right edge
+    expect(on.y).toBeLessThan(540 * 0.1); // top band
+    const off = burnInLayout({ ...labels, previsMark: false }, 1001, 960, 540).texts;
+    expect(off.find((t) => t.id === 'previs')).toBeUndefined();
+    expect(off.find((t) => t.id === 'studio')!.text).toBe('Gull Point Pictures');
   });
   it('stays inside the frame, in bands at the top and bottom', () => {
     const l = burnInLayout(labels, 1001, 480, 270);

@@ -1,6 +1,6 @@
 // Source timecode of a shot frame: the plate's timecode at the cut in plus the frame's offset from the cut in.
 import { describe, it, expect } from 'vitest';
-import { sourceTimecodeAt, sourceTimecodeLabel, TimecodeError } from '../../src/lib/timecode';
+import { rateText, sourceTimecodeAt, sourceTimecodeLabel, TimecodeError } from '../../src/lib/timecode';
 
 describe('sourceTimecodeAt', () => {
   it('labels the cut-in frame with the source in, not the frame number (non-drop 24, SMPTE ST 12-1)', () => {
@@ -40,5 +40,14 @@ describe('sourceTimecodeAt', () => {
     const shot = { firstFrame: 1001, frameRate: '24', sourceTimecodeIn: '1:00:00' };
     expect(() => sourceTimecodeAt(shot, 1001)).toThrow(TimecodeError);
     expect(sourceTimecodeLabel(shot, 1001)).toBe('');
+  });
+});
+
+describe('rateText', () => {
+  it('reads "29.97 DF" for drop frame, not the raw id "29.97df fps"; whole rates keep fps', () => {
+    expect(rateText('29.97df')).toBe('29.97 DF');
+    expect(rateText('59.94')).toBe('59.94 NDF');
+    expect(rateText('24')).toBe('24 fps');
+    expect(rateText('23.976')).toBe('23.976 fps');
   });
 });

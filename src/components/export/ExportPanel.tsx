@@ -2,7 +2,7 @@
 // in this browser with a staged progress bar, ETA and Cancel; the file is downloaded and stored on the version, and
 // the version's stored exports are listed with who made them, when, and a download link.
 import { useCallback, useEffect, useRef, useState } from 'react';
-import { rateInfo } from '~/lib/timecode';
+import { rateInfo, rateText } from '~/lib/timecode';
 import { LOOK_LABELS, RENDER_LOOKS, type RenderLook } from '~/lib/render/looks';
 import {
   EXPORT_FORMATS,
@@ -300,7 +300,7 @@ export default function ExportPanel(p: ExportPanelProps) {
           </button>
         )}
         <span className="text-sm text-ink-muted">
-          {frameCount} frames at {rateInfo(p.frameRate).label} fps
+          {frameCount} frames at {rateText(p.frameRate)}
         </span>
       </div>
 

@@ -9,8 +9,8 @@ import { importBody, MAX_IMPORT_BYTES } from '~/lib/library/schemas';
 import { api, ApiError } from '../shared/api';
 import { applyServerError, FormMessage, SubmitButton, Spinner } from '../shared/form';
 import { InputField, toNumber } from './fields';
-import { rangeLength, rateLabel } from './format';
-import { sourceTimecodeLabel } from '~/lib/timecode';
+import { rangeLength } from './format';
+import { rateText, sourceTimecodeLabel } from '~/lib/timecode';
 import type { ShotSource } from '~/lib/edl/preview';
 import type { ShowDetail, Viewer } from './types';
 
@@ -136,7 +136,7 @@ export default function ImportScreen({ viewer, show }: { viewer: Viewer; show: S
             <p className="field-error">Edit list {errors.text.message}</p>
           ) : (
             <p id="field-text-hint" className="mt-1.5 text-xs text-ink-muted">
-              Paste it, or open a .edl or .csv file. Timecodes are read at the show’s rate, {rateLabel(show.frameRate)} fps.
+              Paste it, or open a .edl or .csv file. Timecodes are read at the show’s rate, {rateText(show.frameRate)}.
             </p>
           )}
         </div>
@@ -242,7 +242,7 @@ export default function ImportScreen({ viewer, show }: { viewer: Viewer; show: S
                       What happens
                     </th>
                     <th scope="col" className="px-3 py-2.5 pr-5 font-medium">
-                      Frame range ({rateLabel(p.frameRate)} fps)
+                      Frame range ({rateText(p.frameRate)})
                     </th>
                   </tr>
                 </thead>

@@ -6,11 +6,11 @@ import { zodResolver } from '@hookform/resolvers/zod';
 import type { z } from 'zod';
 import { DEFAULT_FIRST_FRAME, shotCreate } from '~/lib/library/schemas';
 import { SHOT_STATUSES } from '~/lib/vocab';
-import { FRAME_RATES, RATES, framesToTimecode, sourceTimecodeLabel } from '~/lib/timecode';
+import { FRAME_RATES, rateText, framesToTimecode, sourceTimecodeLabel } from '~/lib/timecode';
 import { api } from '../shared/api';
 import { applyServerError, FormMessage, SubmitButton } from '../shared/form';
 import { blankToNull, InputField, SelectField, TextAreaField, toNumber } from './fields';
-import { rangeLength, rateLabel } from './format';
+import { rangeLength } from './format';
 import type { Person, ShotDetail, ShotRow } from './types';
 
 type Input = z.input<typeof shotCreate>;
@@ -109,13 +109,13 @@ export default function ShotForm({ studioId, showId, showRate, shot, people, onS
           <SelectField label="Frame rate" registration={form.register('frameRate')} error={errors.frameRate?.message}>
             {FRAME_RATES.map((r) => (
               <option key={r} value={r}>
-                {RATES[r].label}
+                {rateText(r)}
               </option>
             ))}
           </SelectField>
         </div>
         <p className="mt-3 text-xs text-ink-muted" aria-live="polite">
-          {validRange ? `${rangeLength(first as number, last as number)} frames in the cut. Source timecode shown at ${rateLabel(String(rate))} fps.` : 'First frame defaults to 1001.'}
+          {validRange ? `${rangeLength(first as number, last as number)} frames in the cut. Source timecode shown at ${rateText(String(rate))}.` : 'First frame defaults to 1001.'}
         </p>
       </fieldset>
 

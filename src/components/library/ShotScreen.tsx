@@ -13,8 +13,8 @@ import { AssigneeSelect, StatusSelect } from './inline';
 import PlatePanel from './PlatePanel';
 import { ShotThumbnail } from './thumbnail';
 import ShotForm from './ShotForm';
-import { dueLabel, rangeLength, rateLabel } from './format';
-import { sourceTimecodeLabel } from '~/lib/timecode';
+import { dueLabel, rangeLength } from './format';
+import { rateText, sourceTimecodeLabel } from '~/lib/timecode';
 import { can, keys, type ActivityEntry, type Person, type ShotDetail, type Viewer } from './types';
 import { versionLabel } from '~/lib/vocab';
 
@@ -170,7 +170,7 @@ function Shot({ viewer, shot: initialShot, showName }: Props) {
           <span className="text-ink-muted">
             · {rangeLength(shot.firstFrame, shot.lastFrame)} frames{shot.handles ? ` + ${shot.handles} handles each side` : ''}
           </span>
-          <span className="block text-xs text-ink-muted tabular-nums" data-testid="source-range" title={`Source timecode at ${rateLabel(shot.frameRate)} fps`}>
+          <span className="block text-xs text-ink-muted tabular-nums" data-testid="source-range" title={`Source timecode at ${rateText(shot.frameRate)}`}>
             {shot.firstFrame} · {sourceTimecodeLabel(shot, shot.firstFrame)} – {shot.lastFrame} · {sourceTimecodeLabel(shot, shot.lastFrame)} source
           </span>
         </Fact>
@@ -182,7 +182,7 @@ function Shot({ viewer, shot: initialShot, showName }: Props) {
             {(shot.reel || shot.clipName) && <span className="block text-xs text-ink-muted">{[shot.reel && `reel ${shot.reel}`, shot.clipName].filter(Boolean).join(' · ')}</span>}
           </Fact>
         )}
-        <Fact label="Rate">{rateLabel(shot.frameRate)} fps</Fact>
+        <Fact label="Rate">{rateText(shot.frameRate)}</Fact>
         <Fact label="Due">{shot.dueDate ? dueLabel(shot.dueDate) : '—'}</Fact>
       </dl>
 

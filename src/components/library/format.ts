@@ -1,10 +1,4 @@
 // Display helpers for the library: frame ranges with SMPTE timecode beside them, rates, dates and sizes.
-import { isFrameRate, RATES } from '~/lib/timecode';
-
-/** "23.976", "29.97 DF", "24" … for a rate id. */
-export function rateLabel(rate: string): string {
-  return isFrameRate(rate) ? RATES[rate].label : rate;
-}
 
 /** Frames in an inclusive range. */
 export function rangeLength(first: number, last: number): number {

@@ -10,7 +10,7 @@ import ReviewPanel from '../review/ReviewPanel';
 import NoteTicks from '../review/NoteTicks';
 import type { Role } from '~/lib/vocab';
 import type { NoteMarker } from '~/lib/review/notes';
-import { sourceTimecodeLabel } from '~/lib/timecode';
+import { rateText, sourceTimecodeLabel } from '~/lib/timecode';
 import type { BakeProgress, BakeState, ClipInfo, PlateInfo, ShotInfo, VersionInfo } from './types';
 import { versionLabel } from '~/lib/vocab';
 
@@ -147,7 +147,7 @@ function Version({ studioId, studioSlug, version, shot, plate, clip, canBake, ro
           <dt className="text-ink-muted">Shot</dt>
           <dd className="tabular-nums">
             {shot.firstFrame}–{shot.lastFrame}
-            {shot.handles ? <span className="text-ink-muted"> + {shot.handles} handles</span> : null} · {shot.frameRate} fps
+            {shot.handles ? <span className="text-ink-muted"> + {shot.handles} handles</span> : null} · {rateText(shot.frameRate)}
           </dd>
         </dl>
       </header>

@@ -156,3 +156,10 @@ export function sourceTimecodeLabel(shot: SourceTimecodeShot, frame: number, fal
     return fallback;
   }
 }
+
+/** A rate as people read it: "24 fps", "25 fps", but "29.97 DF" / "59.94 NDF" (the counting mode says it is a rate). */
+export function rateText(rate: FrameRate | string): string {
+  if (!isFrameRate(rate)) return String(rate);
+  const label = RATES[rate].label;
+  return /DF$/.test(label) ? label : `${label} fps`;
+}
