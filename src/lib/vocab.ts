@@ -12,6 +12,18 @@ export type ShotStatus = (typeof SHOT_STATUSES)[number];
 export const REVIEW_STATES = ['draft', 'submitted', 'approved', 'returned', 'superseded'] as const;
 export type ReviewState = (typeof REVIEW_STATES)[number];
 
+/** One set of words for the review states, on every screen, e-mail and slate. */
+export const REVIEW_STATE_WORDS: Record<ReviewState, string> = {
+  draft: 'Draft',
+  submitted: 'Waiting for review',
+  approved: 'Approved',
+  returned: 'Back for changes',
+  superseded: 'Replaced by a newer version',
+};
+
+/** The words for a review state id ('' → the id itself when unknown). */
+export const reviewStateWord = (state: string) => REVIEW_STATE_WORDS[state as ReviewState] ?? state;
+
 export const BAKE_STATES = ['none', 'queued', 'baking', 'baked', 'failed', 'cancelled'] as const;
 export const JOB_STATES = ['queued', 'running', 'done', 'failed', 'cancelled'] as const;
 export const ASSET_KINDS = ['plate', 'thumbnail', 'clip', 'stats', 'export'] as const;

@@ -3,6 +3,7 @@
 // the version's stored exports are listed with who made them, when, and a download link.
 import { useCallback, useEffect, useRef, useState } from 'react';
 import { rateInfo, rateText } from '~/lib/timecode';
+import { reviewStateWord } from '~/lib/vocab';
 import { LOOK_LABELS, RENDER_LOOKS, type RenderLook } from '~/lib/render/looks';
 import {
   EXPORT_FORMATS,
@@ -134,7 +135,7 @@ export default function ExportPanel(p: ExportPanelProps) {
         versionNumber: p.versionNumber,
         artistName: p.artistName,
         date: new Date().toISOString().slice(0, 10),
-        reviewState: p.reviewState,
+        reviewState: reviewStateWord(p.reviewState),
         rateId: p.frameRate,
         cutIn: p.firstFrame,
         sourceTimecodeIn: p.sourceTimecodeIn,

@@ -7,7 +7,7 @@ import { memberships, notes, reviewEvents, shots, shows, studios, users, version
 import { sendMail } from './mail';
 import { config } from './config';
 import type { Role } from '../vocab';
-import { versionLabel } from '../vocab';
+import { reviewStateWord, versionLabel } from '../vocab';
 
 /** The version page, optionally opened at a frame. */
 export function versionUrl(studioSlug: string, versionId: number, frame?: number): string {
@@ -126,12 +126,6 @@ export async function notifyDecision(versionId: number, actorId: string, comment
 
 // ── Daily digest ─────────────────────────────────────────────────────────────────────────────────────────────────
 
-const STATE_LINES: Record<string, string> = {
-  submitted: 'submitted for review',
-  approved: 'approved',
-  returned: 'sent back for changes',
-  superseded: 'replaced by a newer version',
-};
 
 /**
  * Sends each person who opted in (users.daily_digest) one e-mail summing up the review activity of the window in
@@ -190,7 +184,7 @@ export async function sendDigests(opts: { now?: Date; hours?: number; dryRun?: b
       if (!events.length && !waiting.length && !newNotes.length) continue;
       paragraphs.push(`In ${m.studioName}:`);
       for (const e of events) {
-        paragraphs.push(`• ${e.showCode} / ${e.shotCode} ${versionLabel(e.number)} was ${STATE_LINES[e.toState] ?? e.toState}${e.actorName ? ` by ${e.actorName}` : ''} — ${versionUrl(m.slug, e.versionId)}`);
+        paragraphs.push(`• ${e.showCode} / ${e.shotCode} ${versionLabel(e.number)} — ${reviewStateWord(e.toState)}${e.actorName ? ` (${e.actorName})` : ''} — ${versionUrl(m.slug, e.versionId)}`);
       }
       if (waiting.length) paragraphs.push(`• ${waiting.length === 1 ? 'One version waits' : `${waiting.length} versions wait`} for your decision.`);
       if (newNotes.length) {
