@@ -1,5 +1,8 @@
 // Tidemark's own words for roles and states, shared by the database schema, the API and the browser.
 
+/** A version number as Tidemark shows it everywhere (screens, e-mails, file names, slate): three digits, "v001". */
+export const versionLabel = (n: number) => `v${String(n).padStart(3, '0')}`;
+
 export const ROLES = ['owner', 'supervisor', 'artist', 'client'] as const;
 export type Role = (typeof ROLES)[number];
 
@@ -8,6 +11,18 @@ export type ShotStatus = (typeof SHOT_STATUSES)[number];
 
 export const REVIEW_STATES = ['draft', 'submitted', 'approved', 'returned', 'superseded'] as const;
 export type ReviewState = (typeof REVIEW_STATES)[number];
+
+/** One set of words for the review states, on every screen, e-mail and slate. */
+export const REVIEW_STATE_WORDS: Record<ReviewState, string> = {
+  draft: 'Draft',
+  submitted: 'Waiting for review',
+  approved: 'Approved',
+  returned: 'Back for changes',
+  superseded: 'Replaced by a newer version',
+};
+
+/** The words for a review state id ('' → the id itself when unknown). */
+export const reviewStateWord = (state: string) => REVIEW_STATE_WORDS[state as ReviewState] ?? state;
 
 export const BAKE_STATES = ['none', 'queued', 'baking', 'baked', 'failed', 'cancelled'] as const;
 export const JOB_STATES = ['queued', 'running', 'done', 'failed', 'cancelled'] as const;

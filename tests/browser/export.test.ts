@@ -18,7 +18,6 @@ import { tinyScene } from '../support/scenes';
 import { closeDb, db } from '../../src/lib/server/db';
 import { notes, shots, shows } from '../../src/lib/server/db/schema';
 import { burnInLayout, gifDelays, GIF_SLATE_DELAY_CS } from '../../src/lib/export/layout';
-import { framesToTimecode } from '../../src/lib/timecode';
 
 const FIRST = 1001;
 const LAST = 1024; // 24 frames at 24 fps
@@ -45,7 +44,7 @@ beforeAll(async () => {
   const [show] = await db().insert(shows).values({ studioId: studio.id, code: 'LT', name: 'Low Tide', frameRate: '24' });
   const [shot] = await db()
     .insert(shots)
-    .values({ studioId: studio.id, showId: Number(show.insertId), code: unique('LT_010').slice(0, 20), firstFrame: FIRST, lastFrame: LAST, handles: 4, frameRate: '24', plateWidth: PLATE.width, plateHeight: PLATE.height });
+    .values({ studioId: studio.id, showId: Number(show.insertId), code: unique('LT_010').slice(0, 20), firstFrame: FIRST, lastFrame: LAST, handles: 4, frameRate: '24', sourceTimecodeIn: '01:00:10:00', plateWidth: PLATE.width, plateHeight: PLATE.height });
   const shotId = Number(shot.insertId);
   const sup = studio.members.supervisor;
   const saved = await sup.client.post(`/api/shots/${shotId}/versions`, { scene: tinyScene(LAST - FIRST + 1, 7), comment: 'for export' });
@@ -167,11 +166,12 @@ describe('exports and share links in Chromium', () => {
       expect(delays.slice(1).reduce((a, c) => a + c, 0)).toBe(100);
 
       // Burn-in pixels: the timecode corner holds text, and differs between the first and last frames, whose
-      // labels are the timecode module's.
-      const lay = (f: number) => burnInLayout({ studioName: '', showName: '', shotCode: '', versionNumber: 1, artistName: null, date: '', reviewState: '', rateId: '24' }, f, 320, 180);
+      // labels are the source timecode of those frames (source in 01:00:10:00 at the cut in; 23 frames on at 24 fps).
+      const lay = (f: number) =>
+        burnInLayout({ studioName: '', showName: '', shotCode: '', versionNumber: 1, artistName: null, date: '', reviewState: '', rateId: '24', cutIn: FIRST, sourceTimecodeIn: '01:00:10:00' }, f, 320, 180);
       const tcFirst = lay(FIRST).texts.find((t) => t.id === 'timecode')!;
-      expect(tcFirst.text).toBe(framesToTimecode(FIRST, '24'));
-      expect(lay(LAST).texts.find((t) => t.id === 'timecode')!.text).toBe(framesToTimecode(LAST, '24'));
+      expect(tcFirst.text).toBe('01:00:10:00');
+      expect(lay(LAST).texts.find((t) => t.id === 'timecode')!.text).toBe('01:00:10:23');
       const box = { x0: tcFirst.x - tcFirst.maxWidth * 0.8, y0: tcFirst.y - tcFirst.size, x1: tcFirst.x, y1: tcFirst.y + 2 };
       const first = region(gifFrame(gif, 1), 320, box);
       const last = region(gifFrame(gif, gif.numFrames() - 1), 320, box);

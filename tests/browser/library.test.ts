@@ -116,7 +116,9 @@ describe('shot library in Chromium', () => {
         ['create', 'BW_0020', '1009–1044'],
         ['create', 'BW_0030', '1009–1080'],
       ]);
-      expect(await previewTable.textContent()).toContain('00:00:42:01'); // frame 1009 at 24 fps
+      // The cut in (frame 1009) is labelled with the event's source in, 48 frames to 10:00:01:23 (CMX 3600 out exclusive).
+      expect(await previewTable.textContent()).toContain('source 10:00:00:00 – 10:00:01:23');
+      expect(await previewTable.textContent()).not.toContain('00:00:42:01'); // frame 1009 read as timecode at 24 fps
       await screenshot(page, 'library-import-preview');
       await page.getByRole('button', { name: 'Confirm import' }).click();
       await page.getByText('Imported into BW').waitFor();
@@ -131,7 +133,8 @@ describe('shot library in Chromium', () => {
       await page.getByRole('link', { name: 'See the shots' }).click();
       const table = page.getByTestId('shots-table');
       await table.locator('tbody tr[data-row]').nth(2).waitFor();
-      expect(await table.textContent()).toContain('00:00:42:01 – 00:00:45:00'); // 1009–1080 at 24 fps
+      // BW_0030 (1009–1080, 72 frames) cuts in at source 12:00:00:00 (the dissolve's incoming side).
+      expect(await table.textContent()).toContain('12:00:00:00 – 12:00:02:23');
       await page.getByLabel('Status of BW_0020').selectOption('in review');
       await expect.poll(async () => (await db().select().from(shots).where(eq(shots.code, 'BW_0020')))[0]?.status).toBe('in review');
       // Filter by status: the URL keeps the filter.
@@ -165,22 +168,27 @@ describe('shot library in Chromium', () => {
       // A new shot by hand: a server refusal (code taken) and a client one (range) land next to their fields.
       await page.getByRole('button', { name: 'New shot', exact: true }).click();
       const shotDialog = page.getByRole('dialog');
-      await shotDialog.getByLabel('Code').fill('BW_0010');
+      await shotDialog.getByLabel('Code', { exact: true }).fill('BW_0010');
       await shotDialog.getByLabel('Last frame').fill('1100');
       await shotDialog.getByRole('button', { name: 'Create shot' }).click();
       await shotDialog.getByText('Code is already used by another shot in this show').waitFor();
-      await shotDialog.getByLabel('Code').fill('BW_0040');
+      await shotDialog.getByLabel('Code', { exact: true }).fill('BW_0040');
       await shotDialog.getByLabel('Last frame').fill('1000');
       await shotDialog.getByRole('button', { name: 'Create shot' }).click();
       await shotDialog.getByText('Last frame must not be before the first frame').waitFor();
       await screenshot(page, 'library-new-shot');
       await shotDialog.getByLabel('Last frame').fill('1100');
       await shotDialog.getByLabel('Due date').fill('2031-03-31');
+      // A shot by hand starts at 00:00:00:00 at the show's rate; the plate's own timecode is typed in.
+      expect(await shotDialog.getByLabel('Source timecode at cut in').inputValue()).toBe('00:00:00:00');
+      await shotDialog.getByLabel('Source timecode at cut in').fill('02:10:00:00');
       await shotDialog.getByRole('button', { name: 'Create shot' }).click();
       await page.getByText('Created BW_0040.').waitFor();
       await expect.poll(() => table.locator('tbody tr[data-row]').count()).toBe(4);
       const [made] = await db().select().from(shots).where(eq(shots.code, 'BW_0040'));
-      expect([made!.firstFrame, made!.lastFrame, made!.handles, made!.frameRate, String(made!.dueDate).slice(0, 10)]).toEqual([1001, 1100, 8, '24', '2031-03-31']);
+      expect([made!.firstFrame, made!.lastFrame, made!.handles, made!.frameRate, String(made!.dueDate).slice(0, 10), made!.sourceTimecodeIn]).toEqual([1001, 1100, 8, '24', '2031-03-31', '02:10:00:00']);
+      // 1001–1100 is 100 frames: the cut out is 99 frames after 02:10:00:00 at 24 fps (SMPTE ST 12-1, non-drop).
+      expect(await table.textContent()).toContain('02:10:00:00 – 02:10:04:03');
       await screenshot(page, 'library-shots');
 
       // Keyboard: focus the first row, ↓ to the second, ↑ back, Enter opens BW_0010.
@@ -193,6 +201,9 @@ describe('shot library in Chromium', () => {
       const shotId = Number(page.url().match(/\/shots\/(\d+)$/)![1]);
       expect(shotId).toBe(imported[0]!.id);
       await page.getByTestId('shot-page').getByRole('heading', { name: 'BW_0010' }).waitFor();
+      // Frame 1009 (the cut in) is paired with the event's source in; the record range from the edit is shown too.
+      expect(await page.getByTestId('source-range').textContent()).toContain('1009 · 10:00:00:00 – 1056 · 10:00:01:23');
+      expect(await page.getByTestId('record-range').textContent()).toBe('record 01:00:00:00 – 01:00:02:00');
       expect(await page.getByRole('link', { name: 'Block a new version' }).getAttribute('href')).toBe(`/studios/${studio.slug}/shots/${shotId}/edit`);
 
       // Upload a plate: presigned PUT from the browser, then the server's checks.

@@ -7,7 +7,10 @@ import { makeStudio, unique, type TestStudio } from '../support/app';
 import { closeDb, db } from '../../src/lib/server/db';
 import { shots, shows } from '../../src/lib/server/db/schema';
 import { rooftopPoolPlate } from '../../src/lib/server/demo-plates';
-import { framesToTimecode } from '../../src/lib/timecode';
+import { framesToTimecode, timecodeToFrames } from '../../src/lib/timecode';
+
+// The source timecode of a shot frame here: the cut in (1001) is 01:00:10:00, one label per frame at 25 (SMPTE ST 12-1, non-drop).
+const sourceTc = (frame: number) => framesToTimecode(timecodeToFrames('01:00:10:00', '25') + frame - 1001, '25');
 
 let studio: TestStudio;
 let versionId: number;
@@ -36,7 +39,7 @@ beforeAll(async () => {
   shotCode = unique('SPL').slice(0, 20);
   const [shot] = await db()
     .insert(shots)
-    .values({ studioId: studio.id, showId: Number(show.insertId), code: shotCode, firstFrame: 1001, lastFrame: 1048, frameRate: '25' });
+    .values({ studioId: studio.id, showId: Number(show.insertId), code: shotCode, firstFrame: 1001, lastFrame: 1048, frameRate: '25', sourceTimecodeIn: '01:00:10:00' });
   const shotId = Number(shot.insertId);
 
   // The plate: the painted rooftop pool, uploaded like an artist's file; the tank spans its width.
@@ -71,10 +74,11 @@ describe('version page and player in Chromium', () => {
       await header.waitFor();
       const headerText = (await header.textContent()) ?? '';
       expect(headerText).toContain(shotCode);
-      expect(headerText).toContain('v1');
+      expect(headerText).toContain('v001');
       expect(headerText).toContain('1001–1048');
-      // 1001 frames at 25 fps = 40 s + 1 frame (SMPTE ST 12-1, non-drop).
-      expect(headerText).toContain('00:00:40:01');
+      // The cut in is labelled with the shot's source timecode, not with frame 1001 read as timecode (00:00:40:01).
+      expect(headerText).toContain('01:00:10:00 – 01:00:11:22'); // 47 frames on at 25 fps = 1 s 22 frames
+      expect(headerText).not.toContain('00:00:40:01');
       expect(await page.getByTestId('bake-state').textContent()).toBe('not baked');
       await screenshot(page, 'player-unbaked');
 
@@ -118,16 +122,16 @@ describe('version page and player in Chromium', () => {
       const scrubbed = Number(await page.getByTestId('frame-readout').textContent());
       expect(scrubbed).toBeGreaterThanOrEqual(1022);
       expect(scrubbed).toBeLessThanOrEqual(1027);
-      expect(await page.getByTestId('timecode-readout').textContent()).toBe(framesToTimecode(scrubbed, '25'));
+      expect(await page.getByTestId('timecode-readout').textContent()).toBe(sourceTc(scrubbed));
 
       // Step with the arrow keys: exactly one frame each, timecode with it.
       await page.keyboard.press('ArrowRight');
       await expect.poll(async () => Number(await page.getByTestId('frame-readout').textContent())).toBe(scrubbed + 1);
-      expect(await page.getByTestId('timecode-readout').textContent()).toBe(framesToTimecode(scrubbed + 1, '25'));
+      expect(await page.getByTestId('timecode-readout').textContent()).toBe(sourceTc(scrubbed + 1));
       await page.keyboard.press('ArrowLeft');
       await page.keyboard.press('ArrowLeft');
       await expect.poll(async () => Number(await page.getByTestId('frame-readout').textContent())).toBe(scrubbed - 1);
-      expect(await page.getByTestId('timecode-readout').textContent()).toBe(framesToTimecode(scrubbed - 1, '25'));
+      expect(await page.getByTestId('timecode-readout').textContent()).toBe(sourceTc(scrubbed - 1));
       const shown = scrubbed - 1;
 
       // Screenshots of the splash over the plate, in both looks, once the frame is drawn.

@@ -164,7 +164,7 @@ describe('import preview', () => {
     );
     const second = previewText('edl', updated, '24', existing, options);
     expect(second.create.map((s) => [s.code, s.firstFrame, s.lastFrame])).toEqual([['CNB_050', 1009, 1056]]);
-    expect(second.update).toEqual([{ id: 2, line: 7, code: 'CNB_020', from: { first: 1009, last: 1044, handles: 8 }, to: { first: 1009, last: 1038, handles: 8 } }]);
+    expect(second.update).toEqual([{ id: 2, line: 7, code: 'CNB_020', from: { first: 1009, last: 1044, handles: 8 }, to: { first: 1009, last: 1038, handles: 8 }, source: expect.objectContaining({ reel: 'A001C007', recordIn: '01:00:02:00' }) }]);
     expect(second.unchanged.map((s) => s.code)).toEqual(['CNB_010', 'CNB_030', 'CNB_040_plate']);
     expect(second.errors.map((e) => e.line)).toEqual([16, 17, 20]);
   });

@@ -3,6 +3,7 @@
 import { describe, it, expect } from 'vitest';
 import {
   CAUTION,
+  PREVIS_MARK,
   burnInLayout,
   exportFileName,
   ffmpegRate,
@@ -17,7 +18,6 @@ import {
   type ExportLabels,
 } from '../../src/lib/export/layout';
 import { ProgressTracker } from '../../src/lib/export/progress';
-import { framesToTimecode } from '../../src/lib/timecode';
 
 const labels: ExportLabels = {
   studioName: 'Gull Point Pictures',
@@ -29,6 +29,10 @@ const labels: ExportLabels = {
   date: '2025-06-01',
   reviewState: 'submitted',
   rateId: '24',
+  cutIn: 1009,
+  sourceTimecodeIn: '01:00:10:00',
+  recordIn: '01:00:00:00',
+  recordOut: '01:00:02:00',
 };
 
 describe('GIF delays (hundredths of a second)', () => {
@@ -83,21 +87,35 @@ describe('frame range and size', () => {
 });
 
 describe('burn-ins', () => {
-  it('print shot · version, studio, frame number and the SMPTE timecode of the first and last frames', () => {
-    for (const [frame, rate] of [
-      [1001, '24'],
-      [1048, '24'],
-      [1001, '29.97df'],
-      [1800, '29.97df'], // 00:01:00;02 (SMPTE ST 12-1 drop-frame rule)
+  it('print shot · version, studio, frame number and the SOURCE timecode of the exported first and last frames', () => {
+    const df = { rateId: '29.97df', cutIn: 1001, sourceTimecodeIn: '00:00:59;28' };
+    for (const [frame, over, tc] of [
+      [1001, {}, '01:00:09:16'], // first frame with 8 head handles: 8 frames before the source in (SMPTE ST 12-1, 24 non-drop)
+      [1009, {}, '01:00:10:00'], // cut in = the EDL's source in
+      [1056, {}, '01:00:11:23'], // cut out: 47 frames after the cut in at 24
+      [1001, df, '00:00:59;28'],
+      [1003, df, '00:01:00;02'], // ;00 and ;01 skipped at minute 1 (SMPTE ST 12-1 drop-frame rule)
     ] as const) {
-      const l = burnInLayout({ ...labels, rateId: rate }, frame, 960, 540);
+      const l = burnInLayout({ ...labels, ...over }, frame, 960, 540);
       const byId = Object.fromEntries(l.texts.map((t) => [t.id, t]));
-      expect(byId.timecode.text).toBe(framesToTimecode(frame, rate));
+      expect(byId.timecode.text).toBe(tc);
       expect(byId.frame.text).toBe(`frame ${frame}`);
       expect(byId.shot.text).toBe('LT_010 · v003');
       expect(byId.studio.text).toBe('Gull Point Pictures');
+      expect(byId.previs.text).toBe(PREVIS_MARK);
     }
-    expect(burnInLayout({ ...labels, rateId: '29.97df' }, 1800, 960, 540).texts.find((t) => t.id === 'timecode')!.text).toBe('00:01:00;02');
+    // Not the frame number read as timecode (frame 1001 at 24 would be 00:00:41:17).
+    expect(burnInLayout(labels, 1001, 960, 540).texts.find((t) => t.id === 'timecode')!.text).not.toBe('00:00:41:17');
+  });
+  it('carry the PREVIS mark in the top-right corner by default, and only when it is not turned off', () => {
+    const on = burnInLayout(labels, 1001, 960, 540).texts.find((t) => t.id === 'previs')!;
+    expect(on.text).toMatch(/PREVIS/);
+    expect(on.align).toBe('right');
+    expect(on.x).toBeGreaterThan(960 * 0.9); // right edge
+    expect(on.y).toBeLessThan(540 * 0.1); // top band
+    const off = burnInLayout({ ...labels, previsMark: false }, 1001, 960, 540).texts;
+    expect(off.find((t) => t.id === 'previs')).toBeUndefined();
+    expect(off.find((t) => t.id === 'studio')!.text).toBe('Gull Point Pictures');
   });
   it('stays inside the frame, in bands at the top and bottom', () => {
     const l = burnInLayout(labels, 1001, 480, 270);
@@ -117,6 +135,9 @@ describe('slate', () => {
     expect(rows).toMatchObject({ Studio: 'Gull Point Pictures', Show: 'Low Tide (LT)', Shot: 'LT_010', Version: 'v003', Artist: 'Ana Ruiz', Date: '2025-06-01', Review: 'submitted' });
     expect(rows.Frames).toContain('1001–1048');
     expect(rows.Frames).toContain('48 frames');
+    expect(rows.Frames).toContain('source 01:00:09:16 – 01:00:11:15');
+    expect(rows.Record).toBe('01:00:00:00 – 01:00:02:00 in the cut');
+    expect(Object.fromEntries(slateRows({ ...labels, recordIn: null, recordOut: null }, 1001, 1048).map((r) => [r.label, r.value])).Record).toBe('not from an edit');
     const texts = slateLayout(labels, 1001, 1048, 960, 540).texts;
     expect(texts.find((t) => t.id === 'caution')!.text).toBe(CAUTION);
     expect(CAUTION).toMatch(/licensed special-effects coordinator/);

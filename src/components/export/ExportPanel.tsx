@@ -2,7 +2,8 @@
 // in this browser with a staged progress bar, ETA and Cancel; the file is downloaded and stored on the version, and
 // the version's stored exports are listed with who made them, when, and a download link.
 import { useCallback, useEffect, useRef, useState } from 'react';
-import { rateInfo } from '~/lib/timecode';
+import { rateInfo, rateText } from '~/lib/timecode';
+import { reviewStateWord } from '~/lib/vocab';
 import { LOOK_LABELS, RENDER_LOOKS, type RenderLook } from '~/lib/render/looks';
 import {
   EXPORT_FORMATS,
@@ -33,6 +34,10 @@ export interface ExportPanelProps {
   handles: number;
   /** Frame rate id of the shot, e.g. '24' or '29.97df'. */
   frameRate: string;
+  /** Source timecode at the cut in, and where the shot sits in the cut (burn-ins and slate print these). */
+  sourceTimecodeIn: string | null;
+  recordIn: string | null;
+  recordOut: string | null;
   /** The shot's plate size in pixels (the export's full resolution) and scale. */
   plateWidth: number;
   plateHeight: number;
@@ -130,8 +135,12 @@ export default function ExportPanel(p: ExportPanelProps) {
         versionNumber: p.versionNumber,
         artistName: p.artistName,
         date: new Date().toISOString().slice(0, 10),
-        reviewState: p.reviewState,
+        reviewState: reviewStateWord(p.reviewState),
         rateId: p.frameRate,
+        cutIn: p.firstFrame,
+        sourceTimecodeIn: p.sourceTimecodeIn,
+        recordIn: p.recordIn,
+        recordOut: p.recordOut,
       };
       const result = await runExport(
         {
@@ -292,7 +301,7 @@ export default function ExportPanel(p: ExportPanelProps) {
           </button>
         )}
         <span className="text-sm text-ink-muted">
-          {frameCount} frames at {rateInfo(p.frameRate).label} fps
+          {frameCount} frames at {rateText(p.frameRate)}
         </span>
       </div>
 

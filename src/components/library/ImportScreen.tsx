@@ -9,7 +9,9 @@ import { importBody, MAX_IMPORT_BYTES } from '~/lib/library/schemas';
 import { api, ApiError } from '../shared/api';
 import { applyServerError, FormMessage, SubmitButton, Spinner } from '../shared/form';
 import { InputField, toNumber } from './fields';
-import { rangeLength, rateLabel, timecodeOf } from './format';
+import { rangeLength } from './format';
+import { rateText, sourceTimecodeLabel } from '~/lib/timecode';
+import type { ShotSource } from '~/lib/edl/preview';
 import type { ShowDetail, Viewer } from './types';
 
 type Input = z.input<typeof importBody>;
@@ -23,8 +25,8 @@ interface Range {
 }
 interface Preview {
   frameRate: string;
-  create: { line: number; code: string; firstFrame: number; lastFrame: number; handles: number; description: string | null; source?: { event?: string; clipName?: string | null; recordIn: string; recordOut: string } }[];
-  update: { id: number; line: number; code: string; from: Range; to: Range }[];
+  create: { line: number; code: string; firstFrame: number; lastFrame: number; handles: number; description: string | null; source?: ShotSource }[];
+  update: { id: number; line: number; code: string; from: Range; to: Range; source?: ShotSource }[];
   unchanged: { id: number; line: number; code: string; firstFrame: number; lastFrame: number }[];
   errors: { line: number; message: string }[];
   summary: { create: number; update: number; unchanged: number; errors: number };
@@ -134,7 +136,7 @@ export default function ImportScreen({ viewer, show }: { viewer: Viewer; show: S
             <p className="field-error">Edit list {errors.text.message}</p>
           ) : (
             <p id="field-text-hint" className="mt-1.5 text-xs text-ink-muted">
-              Paste it, or open a .edl or .csv file. Timecodes are read at the show’s rate, {rateLabel(show.frameRate)} fps.
+              Paste it, or open a .edl or .csv file. Timecodes are read at the show’s rate, {rateText(show.frameRate)}.
             </p>
           )}
         </div>
@@ -240,14 +242,14 @@ export default function ImportScreen({ viewer, show }: { viewer: Viewer; show: S
                       What happens
                     </th>
                     <th scope="col" className="px-3 py-2.5 pr-5 font-medium">
-                      Frame range ({rateLabel(p.frameRate)} fps)
+                      Frame range ({rateText(p.frameRate)})
                     </th>
                   </tr>
                 </thead>
                 <tbody className="divide-y divide-sand-line/70">
                   {[
-                    ...p.create.map((s) => ({ line: s.line, key: `c${s.line}`, row: <PlanRow line={s.line} code={s.code} kind="create" first={s.firstFrame} last={s.lastFrame} handles={s.handles} rate={p.frameRate} note={s.source?.clipName ?? undefined} /> })),
-                    ...p.update.map((u) => ({ line: u.line, key: `u${u.line}`, row: <PlanRow line={u.line} code={u.code} kind="update" first={u.to.first} last={u.to.last} handles={u.to.handles} rate={p.frameRate} from={u.from} /> })),
+                    ...p.create.map((s) => ({ line: s.line, key: `c${s.line}`, row: <PlanRow line={s.line} code={s.code} kind="create" first={s.firstFrame} last={s.lastFrame} handles={s.handles} rate={p.frameRate} sourceIn={s.source?.sourceIn ?? null} note={s.source?.clipName ?? undefined} /> })),
+                    ...p.update.map((u) => ({ line: u.line, key: `u${u.line}`, row: <PlanRow line={u.line} code={u.code} kind="update" first={u.to.first} last={u.to.last} handles={u.to.handles} rate={p.frameRate} sourceIn={u.source?.sourceIn ?? null} from={u.from} /> })),
                     ...p.unchanged.map((s) => ({ line: s.line, key: `n${s.line}`, row: <PlanRow line={s.line} code={s.code} kind="unchanged" first={s.firstFrame} last={s.lastFrame} rate={p.frameRate} /> })),
                   ]
                     .sort((a, b) => a.line - b.line)
@@ -310,7 +312,7 @@ const KIND = {
   unchanged: { label: 'unchanged', mark: '=', tone: 'text-ink-muted' },
 } as const;
 
-function PlanRow({ line, code, kind, first, last, handles, rate, from, note }: { line: number; code: string; kind: keyof typeof KIND; first: number; last: number; handles?: number; rate: string; from?: Range; note?: string }) {
+function PlanRow({ line, code, kind, first, last, handles, rate, sourceIn, from, note }: { line: number; code: string; kind: keyof typeof KIND; first: number; last: number; handles?: number; rate: string; sourceIn?: string | null; from?: Range; note?: string }) {
   const k = KIND[kind];
   return (
     <tr data-kind={kind} className={kind === 'unchanged' ? 'text-ink-muted' : ''}>
@@ -339,7 +341,7 @@ function PlanRow({ line, code, kind, first, last, handles, rate, from, note }: {
           {rangeLength(first, last)}f{handles ? ` +${handles}h` : ''}
         </span>
         <span className="block text-xs text-ink-muted">
-          {timecodeOf(first, rate)} – {timecodeOf(last, rate)}
+          {sourceIn ? `source ${sourceTimecodeLabel({ firstFrame: first, frameRate: rate, sourceTimecodeIn: sourceIn }, first)} – ${sourceTimecodeLabel({ firstFrame: first, frameRate: rate, sourceTimecodeIn: sourceIn }, last)}` : 'no source timecode'}
         </span>
       </td>
     </tr>

@@ -6,16 +6,16 @@ import { zodResolver } from '@hookform/resolvers/zod';
 import type { z } from 'zod';
 import { DEFAULT_FIRST_FRAME, shotCreate } from '~/lib/library/schemas';
 import { SHOT_STATUSES } from '~/lib/vocab';
-import { FRAME_RATES, RATES } from '~/lib/timecode';
+import { FRAME_RATES, rateText, framesToTimecode, sourceTimecodeLabel } from '~/lib/timecode';
 import { api } from '../shared/api';
 import { applyServerError, FormMessage, SubmitButton } from '../shared/form';
 import { blankToNull, InputField, SelectField, TextAreaField, toNumber } from './fields';
-import { rangeLength, rateLabel, timecodeOf } from './format';
+import { rangeLength } from './format';
 import type { Person, ShotDetail, ShotRow } from './types';
 
 type Input = z.input<typeof shotCreate>;
 type Output = z.output<typeof shotCreate>;
-const FIELDS = ['code', 'description', 'firstFrame', 'lastFrame', 'handles', 'frameRate', 'plateWidth', 'plateHeight', 'pixelAspect', 'assigneeId', 'dueDate', 'status'] as const;
+const FIELDS = ['code', 'description', 'firstFrame', 'lastFrame', 'handles', 'frameRate', 'plateWidth', 'plateHeight', 'pixelAspect', 'assigneeId', 'dueDate', 'status', 'sourceTimecodeIn'] as const;
 
 interface Props {
   studioId: number;
@@ -46,12 +46,16 @@ export default function ShotForm({ studioId, showId, showRate, shot, people, onS
       assigneeId: shot?.assigneeId ?? null,
       dueDate: shot?.dueDate ? shot.dueDate.slice(0, 10) : null,
       status: shot?.status ?? 'blocking',
+      // 00:00:00:00 at the show's rate (00:00:00;00 when it counts drop frame) for a new shot.
+      sourceTimecodeIn: shot?.sourceTimecodeIn ?? framesToTimecode(0, shot?.frameRate ?? showRate),
     },
   });
   const { errors, isSubmitting } = form.formState;
-  const [first, last, rate] = form.watch(['firstFrame', 'lastFrame', 'frameRate']);
+  const [first, last, rate, sourceIn] = form.watch(['firstFrame', 'lastFrame', 'frameRate', 'sourceTimecodeIn']);
   const validRange = Number.isInteger(first) && Number.isInteger(last) && (last as number) >= (first as number);
-  const tc = (f: unknown) => (Number.isInteger(f) ? timecodeOf(f as number, String(rate)) : '');
+  // Hints show the source timecode of the frame (from the source timecode at the cut in), never the frame number as timecode.
+  const tc = (f: unknown) =>
+    Number.isInteger(f) && Number.isInteger(first) ? sourceTimecodeLabel({ firstFrame: first as number, frameRate: String(rate), sourceTimecodeIn: sourceIn ?? null }, f as number) : '';
 
   const submit = form.handleSubmit(async (values) => {
     setMessage('');
@@ -92,20 +96,26 @@ export default function ShotForm({ studioId, showId, showRate, shot, people, onS
 
       <fieldset className="rounded-lg border border-sand-line p-4">
         <legend className="px-1 text-sm font-semibold">Frame range</legend>
-        <div className="grid gap-4 sm:grid-cols-4">
+        <div className="grid gap-4 sm:grid-cols-5">
           <InputField label="First frame" type="number" inputMode="numeric" registration={form.register('firstFrame', num)} error={errors.firstFrame?.message} hint={tc(first)} />
           <InputField label="Last frame" type="number" inputMode="numeric" registration={form.register('lastFrame', num)} error={errors.lastFrame?.message} hint={tc(last)} />
           <InputField label="Handles" type="number" inputMode="numeric" registration={form.register('handles', num)} error={errors.handles?.message} hint="frames each side" />
+          <InputField
+            label="Source timecode at cut in"
+            registration={form.register('sourceTimecodeIn', { setValueAs: blankToNull })}
+            error={errors.sourceTimecodeIn?.message}
+            hint="the plate's own timecode, e.g. 01:00:10:00"
+          />
           <SelectField label="Frame rate" registration={form.register('frameRate')} error={errors.frameRate?.message}>
             {FRAME_RATES.map((r) => (
               <option key={r} value={r}>
-                {RATES[r].label}
+                {rateText(r)}
               </option>
             ))}
           </SelectField>
         </div>
         <p className="mt-3 text-xs text-ink-muted" aria-live="polite">
-          {validRange ? `${rangeLength(first as number, last as number)} frames in the cut. Timecode shown at ${rateLabel(String(rate))} fps.` : 'First frame defaults to 1001.'}
+          {validRange ? `${rangeLength(first as number, last as number)} frames in the cut. Source timecode shown at ${rateText(String(rate))}.` : 'First frame defaults to 1001.'}
         </p>
       </fieldset>
 

@@ -13,8 +13,10 @@ import { AssigneeSelect, StatusSelect } from './inline';
 import PlatePanel from './PlatePanel';
 import { ShotThumbnail } from './thumbnail';
 import ShotForm from './ShotForm';
-import { dueLabel, rangeLength, rateLabel, timecodeOf } from './format';
+import { dueLabel, rangeLength } from './format';
+import { rateText, sourceTimecodeLabel } from '~/lib/timecode';
 import { can, keys, type ActivityEntry, type Person, type ShotDetail, type Viewer } from './types';
+import { versionLabel } from '~/lib/vocab';
 
 interface Props {
   viewer: Viewer;
@@ -168,11 +170,19 @@ function Shot({ viewer, shot: initialShot, showName }: Props) {
           <span className="text-ink-muted">
             · {rangeLength(shot.firstFrame, shot.lastFrame)} frames{shot.handles ? ` + ${shot.handles} handles each side` : ''}
           </span>
-          <span className="block text-xs text-ink-muted tabular-nums" title={`SMPTE timecode at ${rateLabel(shot.frameRate)} fps`}>
-            {timecodeOf(shot.firstFrame, shot.frameRate)} – {timecodeOf(shot.lastFrame, shot.frameRate)}
+          <span className="block text-xs text-ink-muted tabular-nums" data-testid="source-range" title={`Source timecode at ${rateText(shot.frameRate)}`}>
+            {shot.firstFrame} · {sourceTimecodeLabel(shot, shot.firstFrame)} – {shot.lastFrame} · {sourceTimecodeLabel(shot, shot.lastFrame)} source
           </span>
         </Fact>
-        <Fact label="Rate">{rateLabel(shot.frameRate)} fps</Fact>
+        {shot.recordIn && shot.recordOut && (
+          <Fact label="In the cut" wide>
+            <span className="tabular-nums" data-testid="record-range">
+              record {shot.recordIn} – {shot.recordOut}
+            </span>
+            {(shot.reel || shot.clipName) && <span className="block text-xs text-ink-muted">{[shot.reel && `reel ${shot.reel}`, shot.clipName].filter(Boolean).join(' · ')}</span>}
+          </Fact>
+        )}
+        <Fact label="Rate">{rateText(shot.frameRate)}</Fact>
         <Fact label="Due">{shot.dueDate ? dueLabel(shot.dueDate) : '—'}</Fact>
       </dl>
 
@@ -238,7 +248,7 @@ function Versions({ shot, studioSlug, canBlock }: { shot: ShotDetail; studioSlug
           {shot.versions.map((v) => (
             <li key={v.id}>
               <a href={`/studios/${studioSlug}/versions/${v.id}`} className="grid grid-cols-[auto_1fr] gap-x-3 px-5 py-3 hover:bg-sand/60 focus-visible:bg-harbour-50">
-                <span className="row-span-2 grid size-10 place-items-center rounded-lg bg-ink text-sm font-semibold text-sand tabular-nums">v{v.number}</span>
+                <span className="row-span-2 grid size-10 place-items-center rounded-lg bg-ink text-sm font-semibold text-sand tabular-nums">{versionLabel(v.number)}</span>
                 <span className="flex items-baseline justify-between gap-2 text-sm">
                   <span className="truncate font-medium">{v.authorName ?? 'Someone'}</span>
                   <time dateTime={v.createdAt} title={fullDate(v.createdAt)} className="shrink-0 text-xs text-ink-muted" suppressHydrationWarning>

@@ -4,7 +4,7 @@ import { useForm } from 'react-hook-form';
 import { zodResolver } from '@hookform/resolvers/zod';
 import type { z } from 'zod';
 import { showCreate } from '~/lib/library/schemas';
-import { FRAME_RATES, RATES } from '~/lib/timecode';
+import { FRAME_RATES, rateText } from '~/lib/timecode';
 import { api } from '../shared/api';
 import { applyServerError, FormMessage, SubmitButton } from '../shared/form';
 import { blankToNull, InputField, SelectField, TextAreaField } from './fields';
@@ -50,7 +50,7 @@ export default function ShowForm({ studioId, show, onSaved, onCancel }: { studio
       >
         {FRAME_RATES.map((r) => (
           <option key={r} value={r}>
-            {RATES[r].label} fps
+            {rateText(r)}
           </option>
         ))}
       </SelectField>

@@ -17,7 +17,8 @@ import { AssigneeSelect, StatusSelect } from './inline';
 import ShotForm from './ShotForm';
 import ShowForm from './ShowForm';
 import { ShotThumbnail } from './thumbnail';
-import { dueLabel, isOverdue, rangeLength, rateLabel, timecodeOf } from './format';
+import { dueLabel, isOverdue, rangeLength } from './format';
+import { rateText, sourceTimecodeLabel } from '~/lib/timecode';
 import { can, keys, type Page, type Person, type ShotRow, type ShowDetail, type Viewer } from './types';
 
 export const SHOT_DEFAULTS: UrlState = { q: '', status: '', assignee: '', archived: 'false', sort: 'code', order: 'asc', page: '1', pageSize: '25' };
@@ -293,7 +294,7 @@ function Show({ viewer, show: initialShow, initialSearch }: Props) {
             {show.archivedAt && <span className="rounded-full border border-sand-line px-2.5 py-0.5 text-sm font-normal text-ink-muted">archived</span>}
           </h1>
           <p className="mt-2 text-sm text-ink-soft">
-            {rateLabel(show.frameRate)} fps · {show.shotCount} active shot{show.shotCount === 1 ? '' : 's'}
+            {rateText(show.frameRate)} · {show.shotCount} active shot{show.shotCount === 1 ? '' : 's'}
             {show.description && <span className="block max-w-2xl text-ink-muted">{show.description}</span>}
           </p>
         </div>
@@ -493,8 +494,8 @@ export function FrameRange({ shot }: { shot: Pick<ShotRow, 'firstFrame' | 'lastF
       <span className="text-xs text-ink-muted">
         {rangeLength(shot.firstFrame, shot.lastFrame)}f{shot.handles ? ` +${shot.handles}h` : ''}
       </span>
-      <div className="text-xs text-ink-muted" title={`SMPTE timecode at ${rateLabel(shot.frameRate)} fps`}>
-        {timecodeOf(shot.firstFrame, shot.frameRate)} – {timecodeOf(shot.lastFrame, shot.frameRate)}
+      <div className="text-xs text-ink-muted" title={`Source timecode at ${rateText(shot.frameRate)}`}>
+        {sourceTimecodeLabel(shot, shot.firstFrame)} – {sourceTimecodeLabel(shot, shot.lastFrame)}
       </div>
     </div>
   );

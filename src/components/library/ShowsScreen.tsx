@@ -10,7 +10,7 @@ import { parseSearch, toQuery, useUrlState, type UrlState } from './url-state';
 import { Pager, SearchBox, TableView, type ColumnMeta } from './TableView';
 import { Dialog } from './fields';
 import ShowForm from './ShowForm';
-import { rateLabel } from './format';
+import { rateText } from '~/lib/timecode';
 import { can, keys, type Page, type ShowRow, type Viewer } from './types';
 
 export const SHOW_DEFAULTS: UrlState = { q: '', archived: 'false', sort: 'code', order: 'asc', page: '1', pageSize: '25' };
@@ -81,7 +81,7 @@ function Shows({ viewer, studioName, initialSearch }: Props) {
           </div>
         ),
       }),
-      column.accessor('frameRate', { header: 'Rate', meta: { className: 'whitespace-nowrap text-ink-soft tabular-nums' } satisfies ColumnMeta, cell: (c) => `${rateLabel(c.getValue())} fps` }),
+      column.accessor('frameRate', { header: 'Rate', meta: { className: 'whitespace-nowrap text-ink-soft tabular-nums' } satisfies ColumnMeta, cell: (c) => rateText(c.getValue()) }),
       column.accessor('shotCount', {
         header: 'Shots',
         meta: { sortKey: 'shots', className: 'tabular-nums', headClassName: '' } satisfies ColumnMeta,

@@ -1,19 +1,4 @@
 // Display helpers for the library: frame ranges with SMPTE timecode beside them, rates, dates and sizes.
-import { framesToTimecode, isFrameRate, RATES } from '~/lib/timecode';
-
-/** The timecode label of a frame number at the shot's rate, or '' when it cannot be labelled. */
-export function timecodeOf(frame: number, rate: string): string {
-  try {
-    return framesToTimecode(frame, rate);
-  } catch {
-    return '';
-  }
-}
-
-/** "23.976", "29.97 DF", "24" … for a rate id. */
-export function rateLabel(rate: string): string {
-  return isFrameRate(rate) ? RATES[rate].label : rate;
-}
 
 /** Frames in an inclusive range. */
 export function rangeLength(first: number, last: number): number {

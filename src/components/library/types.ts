@@ -36,6 +36,12 @@ export interface ShotRow {
   lastFrame: number;
   handles: number;
   frameRate: string;
+  /** Source timecode of the cut-in frame; from an edit also record in/out (out exclusive), reel and clip name. */
+  sourceTimecodeIn: string | null;
+  recordIn: string | null;
+  recordOut: string | null;
+  reel: string | null;
+  clipName: string | null;
   plateWidth: number;
   plateHeight: number;
   pixelAspect: number;

@@ -2,7 +2,7 @@
 // stepped with ←/→, played at the shot's fps with loop and in/out range, in the "surface" or "speed" look, with the
 // bake statistics beside it.
 import { useCallback, useEffect, useRef, useState } from 'react';
-import { rateInfo } from '~/lib/timecode';
+import { rateInfo, sourceTimecodeLabel } from '~/lib/timecode';
 import { openPlate, type PlateFrameSource } from '~/lib/plate';
 import { LOOK_LABELS, RENDER_LOOKS, SPEED_RAMP, type LookOptions, type RenderLook } from '~/lib/render/looks';
 import { api, messageOf } from '../shared/api';
@@ -10,7 +10,7 @@ import { FormMessage } from '../shared/form';
 import type { PlayerEngine } from './engine';
 import { Playback } from './playback';
 import { openClip, loadStats } from './clipSource';
-import Timeline, { safeTimecode } from './Timeline';
+import Timeline from './Timeline';
 import StatsCharts from './StatsCharts';
 import type { BakeStats, ClipInfo, PlateInfo, ShotInfo, VersionInfo } from './types';
 
@@ -264,7 +264,7 @@ export default function Player({ studioId, version, shot, plate, clip, onFrame, 
   };
 
   const total = range.end - range.start + 1;
-  const tc = safeTimecode(frame, shot.frameRate);
+  const tc = sourceTimecodeLabel(shot, frame, '—');
 
   return (
     <div className="grid gap-5 lg:grid-cols-[minmax(0,1fr)_18rem]">
@@ -315,7 +315,7 @@ export default function Player({ studioId, version, shot, plate, clip, onFrame, 
             outFrame={outFrame}
             shotFirst={shot.firstFrame}
             shotLast={shot.lastFrame}
-            rate={shot.frameRate}
+            tcShot={shot}
             onScrub={goTo}
           />
 

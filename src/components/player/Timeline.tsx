@@ -1,6 +1,6 @@
 // The timeline ruler: shot frame numbers with ticks, the in/out range shaded, the playhead; drag to scrub.
 import { useRef, type PointerEvent as ReactPointerEvent, type KeyboardEvent } from 'react';
-import { framesToTimecode } from '~/lib/timecode';
+import { sourceTimecodeLabel, type SourceTimecodeShot } from '~/lib/timecode';
 
 interface Props {
   start: number;
@@ -11,7 +11,8 @@ interface Props {
   /** The shot's frame range (handles outside it are drawn dimmed). */
   shotFirst: number;
   shotLast: number;
-  rate: string;
+  /** Labels frames with their source timecode (the shot's cut in, rate and source timecode at the cut in). */
+  tcShot: SourceTimecodeShot;
   onScrub: (frame: number) => void;
   onScrubEnd?: () => void;
 }
@@ -27,15 +28,7 @@ function niceStep(frames: number, widthPx: number, minPx: number): number {
   return frames;
 }
 
-export function safeTimecode(frame: number, rate: string): string {
-  try {
-    return framesToTimecode(frame, rate);
-  } catch {
-    return '—';
-  }
-}
-
-export default function Timeline({ start, end, frame, inFrame, outFrame, shotFirst, shotLast, rate, onScrub, onScrubEnd }: Props) {
+export default function Timeline({ start, end, frame, inFrame, outFrame, shotFirst, shotLast, tcShot, onScrub, onScrubEnd }: Props) {
   const ref = useRef<HTMLDivElement>(null);
   const dragging = useRef(false);
   const count = end - start + 1;
@@ -86,7 +79,7 @@ export default function Timeline({ start, end, frame, inFrame, outFrame, shotFir
       aria-valuemin={start}
       aria-valuemax={end}
       aria-valuenow={frame}
-      aria-valuetext={`Frame ${frame}, ${safeTimecode(frame, rate)}`}
+      aria-valuetext={`Frame ${frame}, ${sourceTimecodeLabel(tcShot, frame, '—')}`}
       data-testid="timeline"
       className="relative h-12 cursor-ew-resize touch-none rounded-md bg-ink select-none"
       onPointerDown={down}

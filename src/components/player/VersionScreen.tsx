@@ -10,8 +10,9 @@ import ReviewPanel from '../review/ReviewPanel';
 import NoteTicks from '../review/NoteTicks';
 import type { Role } from '~/lib/vocab';
 import type { NoteMarker } from '~/lib/review/notes';
-import { safeTimecode } from './Timeline';
+import { rateText, sourceTimecodeLabel } from '~/lib/timecode';
 import type { BakeProgress, BakeState, ClipInfo, PlateInfo, ShotInfo, VersionInfo } from './types';
+import { versionLabel } from '~/lib/vocab';
 
 interface Props {
   studioId: number;
@@ -123,7 +124,7 @@ function Version({ studioId, studioSlug, version, shot, plate, clip, canBake, ro
           </p>
           <h1 className="mt-1 flex flex-wrap items-center gap-3 text-3xl font-semibold tracking-tight">
             <span>
-              {shot.code} <span className="text-ink-muted">v{version.number}</span>
+              {shot.code} <span className="text-ink-muted">{versionLabel(version.number)}</span>
             </span>
             <Chip value={version.reviewState} label={version.reviewState} testId="review-state" />
             <Chip value={bakeState} label={BAKE_LABEL[bakeState]} testId="bake-state" />
@@ -139,14 +140,14 @@ function Version({ studioId, studioSlug, version, shot, plate, clip, canBake, ro
           <dd className="tabular-nums">
             {version.startFrame}–{version.endFrame} <span className="text-ink-muted">({frames})</span>
           </dd>
-          <dt className="text-ink-muted">Timecode</dt>
+          <dt className="text-ink-muted">Source timecode</dt>
           <dd className="font-mono text-xs leading-5 tabular-nums">
-            {safeTimecode(version.startFrame, shot.frameRate)} – {safeTimecode(version.endFrame, shot.frameRate)}
+            {sourceTimecodeLabel(shot, version.startFrame, '—')} – {sourceTimecodeLabel(shot, version.endFrame, '—')}
           </dd>
           <dt className="text-ink-muted">Shot</dt>
           <dd className="tabular-nums">
             {shot.firstFrame}–{shot.lastFrame}
-            {shot.handles ? <span className="text-ink-muted"> + {shot.handles} handles</span> : null} · {shot.frameRate} fps
+            {shot.handles ? <span className="text-ink-muted"> + {shot.handles} handles</span> : null} · {rateText(shot.frameRate)}
           </dd>
         </dl>
       </header>

@@ -26,6 +26,8 @@ export interface ShotInfo {
   handles: number;
   /** Frame rate id, e.g. '25' or '29.97df'. */
   frameRate: string;
+  /** Source timecode of the cut-in frame (null reads as 00:00:00:00): every frame is shown with its source timecode. */
+  sourceTimecodeIn: string | null;
   metresPerPixel: number | null;
 }
 

@@ -1,5 +1,6 @@
 // The table of what changed between two versions' scenes (rows from src/lib/review/diff), grouped by area.
 import type { SceneChange } from '~/lib/review/diff';
+import { versionLabel } from '~/lib/vocab';
 
 const AREA_WORDS: Record<string, string> = {
   document: 'Document',
@@ -33,7 +34,7 @@ export default function ChangeTable({ changes, counts, older, newer }: { changes
   return (
     <section className="card p-4" data-testid="change-table">
       <h2 className="text-lg font-semibold">
-        What changed from v{older} to v{newer}
+        What changed from {versionLabel(older)} to {versionLabel(newer)}
       </h2>
       <p className="mt-1 text-sm text-ink-soft">{changes.length === 0 ? 'The two scenes are the same.' : summary.join(' · ')}</p>
       {changes.length > 0 && (
@@ -44,8 +45,8 @@ export default function ChangeTable({ changes, counts, older, newer }: { changes
                 <th className="py-2 pr-3 font-medium">Area</th>
                 <th className="py-2 pr-3 font-medium">What</th>
                 <th className="py-2 pr-3 font-medium">Change</th>
-                <th className="py-2 pr-3 font-medium">v{older}</th>
-                <th className="py-2 font-medium">v{newer}</th>
+                <th className="py-2 pr-3 font-medium">{versionLabel(older)}</th>
+                <th className="py-2 font-medium">{versionLabel(newer)}</th>
               </tr>
             </thead>
             <tbody>

@@ -9,6 +9,7 @@ import { openPlate, type PlateFrameSource } from '~/lib/plate';
 import { rateInfo } from '~/lib/timecode';
 import ChangeTable from './ChangeTable';
 import { STATE_TONE, STATE_WORDS, type CompareAnswer } from './types';
+import { versionLabel } from '~/lib/vocab';
 
 interface Props {
   studioId: number;
@@ -123,7 +124,7 @@ export default function CompareScreen({ studioId, studioSlug, compare, frameRate
   const label = (v: typeof a) => (
     <span className="flex items-center gap-2">
       <a className="font-semibold hover:underline" href={`/studios/${studioSlug}/versions/${v.id}${frame !== null ? `?frame=${frame}` : ''}`}>
-        v{v.number}
+        {versionLabel(v.number)}
       </a>
       <span className={`rounded-full px-2 py-0.5 text-xs font-medium ${STATE_TONE[v.reviewState] ?? ''}`}>{STATE_WORDS[v.reviewState] ?? v.reviewState}</span>
     </span>
@@ -161,20 +162,20 @@ export default function CompareScreen({ studioId, studioSlug, compare, frameRate
           <div className={mode === 'side' ? 'grid gap-3 sm:grid-cols-2' : 'relative'}>
             <div className="relative w-full overflow-hidden rounded-lg bg-ink" style={{ aspectRatio: aspect }}>
               <div ref={hostA} className="absolute inset-0" data-testid="compare-a" />
-              {mode === 'side' && <Tag text={`v${a.number}`} />}
+              {mode === 'side' && <Tag text={versionLabel(a.number)} />}
             </div>
             <div
               className={mode === 'side' ? 'relative w-full overflow-hidden rounded-lg bg-ink' : 'absolute inset-0 overflow-hidden rounded-lg'}
               style={mode === 'side' ? { aspectRatio: aspect } : { clipPath: `inset(0 0 0 ${wipe * 100}%)` }}
             >
               <div ref={hostB} className="absolute inset-0" data-testid="compare-b" />
-              {mode === 'side' && <Tag text={`v${b.number}`} />}
+              {mode === 'side' && <Tag text={versionLabel(b.number)} />}
             </div>
             {mode === 'wipe' && (
               <>
                 <div className="pointer-events-none absolute inset-y-0 w-0.5 bg-white/90" style={{ left: `${wipe * 100}%` }} aria-hidden="true" />
-                <Tag text={`v${a.number}`} />
-                <Tag text={`v${b.number}`} right />
+                <Tag text={versionLabel(a.number)} />
+                <Tag text={versionLabel(b.number)} right />
               </>
             )}
           </div>

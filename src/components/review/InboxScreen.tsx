@@ -5,6 +5,7 @@ import { QueryClient, QueryClientProvider, useMutation, useQuery, useQueryClient
 import { api, ApiError, messageOf } from '../shared/api';
 import { FormMessage } from '../shared/form';
 import { STATE_TONE, STATE_WORDS, type InboxAnswer, type InboxItem } from './types';
+import { versionLabel } from '~/lib/vocab';
 
 interface Props {
   studioId: number;
@@ -69,7 +70,7 @@ function Inbox({ studioId, studioSlug, role, initial, dailyDigest }: Props) {
           {data.newNotes.map((v) => (
             <li key={v.versionId} className="card p-4" data-testid="inbox-note-version">
               <a className="font-semibold hover:underline" href={link(v.versionId)}>
-                {v.showCode} · {v.shotCode} v{v.number}
+                {v.showCode} · {v.shotCode} {versionLabel(v.number)}
               </a>
               <ul className="mt-2 space-y-1.5">
                 {v.notes.map((n) => (
@@ -113,7 +114,7 @@ function Row({ item, href }: { item: InboxItem; href: string }) {
     <li className="card flex flex-wrap items-start justify-between gap-3 p-4" data-testid="inbox-version" data-version-id={item.versionId}>
       <div className="min-w-0">
         <a className="font-semibold hover:underline" href={href}>
-          {item.showCode} · {item.shotCode} v{item.number}
+          {item.showCode} · {item.shotCode} {versionLabel(item.number)}
         </a>
         <p className="text-sm text-ink-soft">
           By {item.author.name} · {when(item.updatedAt)}

@@ -8,6 +8,7 @@ import { FormMessage, Spinner } from '../shared/form';
 import { markersOf, threadsOf, type NoteMarker, type NotePoint } from '~/lib/review/notes';
 import type { Role } from '~/lib/vocab';
 import { STATE_TONE, STATE_WORDS, type NotesAnswer, type NoteView, type ReviewAnswer } from './types';
+import { versionLabel } from '~/lib/vocab';
 
 /** A mark drawn on the image for the next note: a point or a rough stroke, in plate-normalised 0..1 coordinates. */
 export type NoteMark = { point: NotePoint; stroke?: undefined } | { stroke: NotePoint[]; point?: undefined };
@@ -403,7 +404,7 @@ function CarriedNotes(p: ReviewPanelProps & { notes: NoteView[] }) {
         {threads.map(({ note, replies }) => (
           <li key={note.id} className="rounded-lg border border-sand-line p-3 text-sm" data-testid="carried-note">
             <p className="text-xs text-ink-muted">
-              v{note.versionNumber} ·{' '}
+              {note.versionNumber !== undefined ? versionLabel(note.versionNumber) : ''} ·{' '}
               {inRange(note.frame) ? (
                 <button type="button" className="link" onClick={() => p.onSeek(note.frame)}>
                   frame {note.frame}

@@ -1,4 +1,5 @@
 // Answers of the review endpoints as the review islands use them.
+import { REVIEW_STATE_WORDS } from '~/lib/vocab';
 import type { NoteView } from '~/lib/review/notes';
 import type { SceneChange } from '~/lib/review/diff';
 import type { ReviewAction } from '~/lib/review/states';
@@ -59,13 +60,7 @@ export interface CompareAnswer {
 }
 
 /** Our words for the review states, as shown to people. */
-export const STATE_WORDS: Record<string, string> = {
-  draft: 'Draft',
-  submitted: 'Waiting for review',
-  approved: 'Approved',
-  returned: 'Back for changes',
-  superseded: 'Replaced by a newer version',
-};
+export const STATE_WORDS: Record<string, string> = REVIEW_STATE_WORDS;
 
 export const STATE_TONE: Record<string, string> = {
   draft: 'bg-sand-deep text-ink-soft',

@@ -1,13 +1,16 @@
 // The public share page's island: plays what the link shows (the version's splash over its plate on a canvas, or the
 // stored MP4/GIF) and takes the viewer's named comment at the current frame, filed as a client note.
 import { useEffect, useRef, useState } from 'react';
-import { framesToTimecode, rateInfo } from '~/lib/timecode';
+import { rateInfo, sourceTimecodeLabel, type SourceTimecodeShot } from '~/lib/timecode';
 import type { RenderLook } from '~/lib/render/looks';
 import type { FrameRenderer } from '~/lib/export/frames';
 
 interface Props {
   token: string;
   frameRate: string;
+  /** The shot's cut-in frame and its source timecode: frames are shown with the plate's own timecode. */
+  cutIn: number;
+  sourceTimecodeIn: string | null;
   bakedRange: { first: number; last: number };
   media: { kind: 'version' } | { kind: 'export'; format: string };
 }
@@ -32,7 +35,7 @@ async function getJson<T>(path: string, init?: RequestInit): Promise<T> {
 
 const VIEW_WIDTH = 960;
 
-function ClipPlayer({ token, frameRate, bakedRange, onFrame }: { token: string; frameRate: string; bakedRange: Props['bakedRange']; onFrame: (f: number) => void }) {
+function ClipPlayer({ token, frameRate, tcShot, bakedRange, onFrame }: { token: string; frameRate: string; tcShot: SourceTimecodeShot; bakedRange: Props['bakedRange']; onFrame: (f: number) => void }) {
   const host = useRef<HTMLDivElement>(null);
   const rendererRef = useRef<FrameRenderer | null>(null);
   const [status, setStatus] = useState<'loading' | 'ready' | string>('loading');
@@ -65,7 +68,7 @@ function ClipPlayer({ token, frameRate, bakedRange, onFrame }: { token: string; 
       const r = new FrameRenderer({
         width,
         height,
-        labels: { studioName: '', showName: '', shotCode: '', versionNumber: 0, artistName: null, date: '', reviewState: '', rateId: frameRate },
+        labels: { studioName: '', showName: '', shotCode: '', versionNumber: 0, artistName: null, date: '', reviewState: '', rateId: frameRate, cutIn: first.firstFrame, sourceTimecodeIn: null },
         look: 'surface',
         source,
         plate,
@@ -149,7 +152,7 @@ function ClipPlayer({ token, frameRate, bakedRange, onFrame }: { token: string; 
           }}
         />
         <span className="tabular-nums" data-testid="shared-frame">
-          {frame} · {framesToTimecode(frame, frameRate)}
+          {frame} · {sourceTimecodeLabel(tcShot, frame)}
         </span>
         <select className="field-input w-auto" aria-label="Look" value={look} onChange={(e) => setLook(e.target.value as RenderLook)}>
           <option value="surface">Surface</option>
@@ -182,7 +185,8 @@ function ExportPlayer({ token }: { token: string }) {
   );
 }
 
-export default function SharedViewer({ token, frameRate, bakedRange, media }: Props) {
+export default function SharedViewer({ token, frameRate, cutIn, sourceTimecodeIn, bakedRange, media }: Props) {
+  const tcShot: SourceTimecodeShot = { firstFrame: cutIn, frameRate, sourceTimecodeIn };
   const [frame, setFrame] = useState(bakedRange.first);
   const [name, setName] = useState('');
   const [body, setBody] = useState('');
@@ -210,7 +214,7 @@ export default function SharedViewer({ token, frameRate, bakedRange, media }: Pr
 
   return (
     <div className="grid gap-6">
-      {media.kind === 'version' ? <ClipPlayer token={token} frameRate={frameRate} bakedRange={bakedRange} onFrame={setFrame} /> : <ExportPlayer token={token} />}
+      {media.kind === 'version' ? <ClipPlayer token={token} frameRate={frameRate} tcShot={tcShot} bakedRange={bakedRange} onFrame={setFrame} /> : <ExportPlayer token={token} />}
       <form className="card grid gap-3 p-5 text-sm" onSubmit={send} noValidate data-testid="shared-comment-form">
         <h2 className="text-base font-semibold">Leave a comment for the studio</h2>
         <label>
@@ -219,7 +223,7 @@ export default function SharedViewer({ token, frameRate, bakedRange, media }: Pr
           {error?.fields.name && <span className="field-error">Name {error.fields.name}</span>}
         </label>
         <label>
-          <span className="field-label">Comment{media.kind === 'version' ? ` (at frame ${frame}, ${framesToTimecode(frame, frameRate)})` : ''}</span>
+          <span className="field-label">Comment{media.kind === 'version' ? ` (at frame ${frame}, ${sourceTimecodeLabel(tcShot, frame)})` : ''}</span>
           <textarea className="field-input" name="comment" rows={3} value={body} maxLength={2000} onChange={(e) => setBody(e.target.value)} aria-invalid={!!error?.fields.body || undefined} />
           {error?.fields.body && <span className="field-error">Comment {error.fields.body}</span>}
         </label>

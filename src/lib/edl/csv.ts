@@ -1,6 +1,7 @@
 // Reads a shot list as CSV: header `code,first,last[,handles,description]` (frame numbers) or
 // `code,tc_in,tc_out[,handles,description]` (timecodes at the show's rate, out exclusive as in an edit list).
-import { timecodeToFrames, TimecodeError, type FrameRate } from '../timecode';
+// Optional columns either way: source_in (source timecode of the cut in), reel, clip_name.
+import { framesToTimecode, timecodeToFrames, TimecodeError, type FrameRate } from '../timecode';
 import type { EdlLineError } from './cmx3600';
 
 export interface CsvShotRow {
@@ -16,6 +17,10 @@ export interface CsvShotRow {
   recordOutFrame?: number;
   handles?: number;
   description?: string;
+  /** Source timecode of the cut-in frame, normalised at the rate. */
+  sourceIn?: string;
+  reel?: string;
+  clipName?: string;
 }
 
 export interface ParsedCsv {
@@ -89,6 +94,12 @@ const HEADER_ALIASES: Record<string, string> = {
   out: 'tc_out',
   handles: 'handles',
   description: 'description',
+  source_in: 'source_in',
+  src_in: 'source_in',
+  source_timecode_in: 'source_in',
+  reel: 'reel',
+  clip_name: 'clip_name',
+  clip: 'clip_name',
 };
 
 const INT = /^-?\d+$/;
@@ -143,6 +154,19 @@ export function parseShotCsv(text: string, rate: FrameRate): ParsedCsv {
     }
     const description = get('description');
     if (description) row.description = description;
+    const sourceIn = get('source_in');
+    if (sourceIn) {
+      try {
+        row.sourceIn = framesToTimecode(timecodeToFrames(sourceIn, rate), rate);
+      } catch (e) {
+        fail(e instanceof TimecodeError ? `bad source_in: ${e.message}` : 'bad source_in');
+        continue;
+      }
+    }
+    const reel = get('reel');
+    if (reel) row.reel = reel.slice(0, 64);
+    const clipName = get('clip_name');
+    if (clipName) row.clipName = clipName.slice(0, 255);
     if (out.mode === 'frames') {
       const first = get('first');
       const last = get('last');

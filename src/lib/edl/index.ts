@@ -9,6 +9,7 @@ export {
   codeFromClipName,
   type PlanOptions,
   type PlannedShot,
+  type ShotSource,
   type ExistingShot,
   type ImportPreview,
 } from './preview';

@@ -22,7 +22,18 @@ export interface PlannedShot {
   handles: number;
   description: string | null;
   /** Where it came from in the edit, when it came from one. */
-  source?: { event?: string; reel?: string; clipName?: string | null; recordIn: string; recordOut: string };
+  source?: ShotSource;
+}
+
+/** What a shot keeps from the edit: source timecode of the cut in, and where it sits in the cut. */
+export interface ShotSource {
+  event?: string;
+  reel?: string | null;
+  clipName?: string | null;
+  /** Source timecode of the cut-in frame. */
+  sourceIn?: string | null;
+  recordIn?: string | null;
+  recordOut?: string | null;
 }
 
 export interface ExistingShot {
@@ -41,7 +52,7 @@ export interface FrameRange {
 
 export interface ImportPreview {
   create: PlannedShot[];
-  update: { id: number; line: number; code: string; from: FrameRange; to: FrameRange }[];
+  update: { id: number; line: number; code: string; from: FrameRange; to: FrameRange; source?: ShotSource }[];
   unchanged: { id: number; line: number; code: string; firstFrame: number; lastFrame: number }[];
   errors: EdlLineError[];
 }
@@ -100,7 +111,7 @@ export function planFromEdl(parsed: ParsedEdl, options: PlanOptions): { shots: P
       ...rangeFromRecord(ev.recordInFrame, ev.recordOutFrame, options, options.handles),
       handles: options.handles,
       description: null,
-      source: { event: ev.event, reel: ev.reel, clipName: ev.clipName, recordIn: ev.recordIn, recordOut: ev.recordOut },
+      source: { event: ev.event, reel: ev.reel, clipName: ev.clipName, sourceIn: ev.sourceIn, recordIn: ev.recordIn, recordOut: ev.recordOut },
     });
   }
   return { shots, errors };
@@ -120,7 +131,9 @@ export function planFromCsv(parsed: ParsedCsv, options: PlanOptions): { shots: P
       ...range,
       handles,
       description: row.description ?? null,
-      ...(row.recordIn ? { source: { recordIn: row.recordIn, recordOut: row.recordOut! } } : {}),
+      ...(row.recordIn || row.sourceIn || row.reel || row.clipName
+        ? { source: { recordIn: row.recordIn ?? null, recordOut: row.recordOut ?? null, sourceIn: row.sourceIn ?? null, reel: row.reel ?? null, clipName: row.clipName ?? null } }
+        : {}),
     };
   });
   return { shots, errors: [...parsed.errors] };
@@ -162,6 +175,7 @@ export function previewImport(existing: ExistingShot[], planned: PlannedShot[], 
         code: old.code,
         from: { first: old.firstFrame, last: old.lastFrame, handles: old.handles },
         to: { first: shot.firstFrame, last: shot.lastFrame, handles: shot.handles },
+        ...(shot.source ? { source: shot.source } : {}),
       });
     } else {
       result.unchanged.push({ id: old.id, line: shot.line, code: old.code, firstFrame: old.firstFrame, lastFrame: old.lastFrame });

@@ -44,6 +44,8 @@ window.tidemarkExportBench = async ({ format, width, height, frames, look }) => 
     date: new Date().toISOString().slice(0, 10),
     reviewState: 'draft',
     rateId: '24',
+    cutIn: first,
+    sourceTimecodeIn: '01:00:00:00',
   };
   const t0 = performance.now();
   const result = await runExport(

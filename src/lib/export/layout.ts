@@ -1,6 +1,7 @@
 // The export's arithmetic and text layout, free of the DOM so Node tests can check it: which frames go out, at what
 // size, with which GIF delays, and where every slate and burn-in text sits (what it says included).
-import { framesToTimecode, rateInfo } from '../timecode';
+import { rateInfo, rateText, sourceTimecodeAt } from '../timecode';
+import { versionLabel } from '../vocab';
 
 export const EXPORT_FORMATS = ['gif', 'mp4', 'zip'] as const;
 export type ExportFormat = (typeof EXPORT_FORMATS)[number];
@@ -106,9 +107,25 @@ export interface ExportLabels {
   reviewState: string;
   /** Frame rate id, e.g. '24' or '29.97df'. */
   rateId: string;
+  /** The shot's cut-in frame number and the source timecode of that frame (null reads as 00:00:00:00). */
+  cutIn: number;
+  sourceTimecodeIn: string | null;
+  /** Where the shot sits in the cut (record in/out, out exclusive), when it came from an edit. */
+  recordIn?: string | null;
+  recordOut?: string | null;
+  /** The PREVIS mark in the burn-ins' top-right corner; on unless set to false. */
+  previsMark?: boolean;
 }
 
-export const versionLabel = (n: number) => `v${String(n).padStart(3, '0')}`;
+/** Burnt into a corner of every frame, so a frame cut out of context still says what it is. */
+export const PREVIS_MARK = 'PREVIS ONLY · NOT A RIG PLAN';
+
+/** The source timecode of a shot frame for the slate and burn-ins (never the frame number read as timecode). */
+export function exportTimecode(labels: ExportLabels, frame: number): string {
+  return sourceTimecodeAt({ firstFrame: labels.cutIn, frameRate: labels.rateId, sourceTimecodeIn: labels.sourceTimecodeIn }, frame);
+}
+
+export { versionLabel };
 
 /** A text placed on the frame: `x`,`y` in pixels (y is the text's baseline), `size` the font size in pixels. */
 export interface TextItem {
@@ -141,15 +158,17 @@ export interface TextLayout {
 export const BURN_IN_FONT = 'Space Grotesk';
 
 /**
- * The burn-ins of one frame: a translucent band at the top (shot · version on the left, the studio on the right)
- * and at the bottom (the frame number on the left, the SMPTE timecode of the frame from src/lib/timecode on the
- * right). Sizes scale with the frame height (a 3.4 % type, never under 10 px).
+ * The burn-ins of one frame: a translucent band at the top (shot · version on the left, the PREVIS mark in the right
+ * corner — the studio there instead when the mark is turned off) and at the bottom (the frame number on the left, the
+ * studio in the middle, the frame's source timecode — the plate's own, from the shot's
+ * source timecode at the cut in — on the right). Sizes scale with the frame height (a 3.4 % type, never under 10 px).
  */
 export function burnInLayout(labels: ExportLabels, frame: number, width: number, height: number): TextLayout {
   const size = Math.max(10, Math.round(height * 0.034));
   const pad = Math.round(size * 0.6);
   const band = size + 2 * pad;
   const half = width / 2 - 2 * pad;
+  const third = width / 3 - 2 * pad;
   const colour = '#f4f1ea';
   const bandColour = 'rgba(10, 22, 28, 0.55)';
   const top = pad + size * 0.8;
@@ -161,16 +180,19 @@ export function burnInLayout(labels: ExportLabels, frame: number, width: number,
     ],
     texts: [
       { id: 'shot', text: `${labels.shotCode} · ${versionLabel(labels.versionNumber)}`, x: pad, y: top, size, align: 'left', weight: 600, colour, maxWidth: half },
-      { id: 'studio', text: labels.studioName, x: width - pad, y: top, size, align: 'right', weight: 500, colour, maxWidth: half },
-      { id: 'frame', text: `frame ${frame}`, x: pad, y: bottom, size, align: 'left', weight: 500, colour, maxWidth: half },
-      { id: 'timecode', text: framesToTimecode(frame, labels.rateId), x: width - pad, y: bottom, size, align: 'right', weight: 600, colour, maxWidth: half },
+      labels.previsMark === false
+        ? { id: 'studio', text: labels.studioName, x: width - pad, y: top, size, align: 'right', weight: 500, colour, maxWidth: half }
+        : { id: 'previs', text: PREVIS_MARK, x: width - pad, y: top, size, align: 'right', weight: 700, colour: '#ffd27a', maxWidth: half },
+      { id: 'frame', text: `frame ${frame}`, x: pad, y: bottom, size, align: 'left', weight: 500, colour, maxWidth: third },
+      ...(labels.previsMark === false ? [] : [{ id: 'studio', text: labels.studioName, x: width / 2, y: bottom, size, align: 'center' as const, weight: 500 as const, colour, maxWidth: third }]),
+      { id: 'timecode', text: exportTimecode(labels, frame), x: width - pad, y: bottom, size, align: 'right', weight: 600, colour, maxWidth: third },
     ],
   };
 }
 
 /** The slate's rows, label and value, in the order they are printed. */
 export function slateRows(labels: ExportLabels, first: number, last: number): { label: string; value: string }[] {
-  const rate = rateInfo(labels.rateId);
+  rateInfo(labels.rateId); // throws for an unknown rate id
   const count = last - first + 1;
   return [
     { label: 'Studio', value: labels.studioName },
@@ -181,8 +203,9 @@ export function slateRows(labels: ExportLabels, first: number, last: number): { 
     { label: 'Date', value: labels.date },
     {
       label: 'Frames',
-      value: `${first}–${last} · ${count} frame${count === 1 ? '' : 's'} · ${rate.label} fps · ${framesToTimecode(first, labels.rateId)} – ${framesToTimecode(last, labels.rateId)}`,
+      value: `${first}–${last} · ${count} frame${count === 1 ? '' : 's'} · ${rateText(labels.rateId)} · source ${exportTimecode(labels, first)} – ${exportTimecode(labels, last)}`,
     },
+    { label: 'Record', value: labels.recordIn && labels.recordOut ? `${labels.recordIn} – ${labels.recordOut} in the cut` : 'not from an edit' },
     { label: 'Review', value: labels.reviewState },
   ];
 }
@@ -192,7 +215,7 @@ export function slateRows(labels: ExportLabels, first: number, last: number): { 
  * a column of label/value rows, and the caution in an amber-edged strip along the bottom.
  */
 export function slateLayout(labels: ExportLabels, first: number, last: number, width: number, height: number): TextLayout {
-  // One layout unit = 1/29 of the height: title, eight rows and the caution strip fill it at any size.
+  // One layout unit = 1/29 of the height: title, nine rows and the caution strip fill it at any size.
   const unit = height / 29;
   const left = Math.round(width * 0.09);
   const right = width - Math.round(width * 0.06);

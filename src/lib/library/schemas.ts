@@ -28,6 +28,8 @@ const frame = z.number(num).int('must be a whole number').min(0, 'must be 0 or m
 const handles = z.number(num).int('must be a whole number').min(0, 'must be 0 or more').max(1000, 'must be at most 1000');
 const pixels = z.number(num).int('must be a whole number').min(1, 'must be at least 1').max(65_536, 'must be at most 65536');
 const pixelAspect = z.number(num).min(0.1, 'must be at least 0.1').max(10, 'must be at most 10');
+/** A timecode label HH:MM:SS:FF (';' before the frames for drop frame); the server checks it exists at the shot's rate. */
+export const timecodeLabel = z.string(req).trim().regex(/^\d{2}:\d{2}:\d{2}[:;]\d{2}$/, 'must be a timecode like 01:00:10:00');
 /** A calendar date, YYYY-MM-DD, that exists. */
 export const dueDate = z
   .string(req)
@@ -75,6 +77,7 @@ const shotFields = {
   assigneeId: assigneeId.nullable(),
   dueDate: dueDate.nullable(),
   status: shotStatus,
+  sourceTimecodeIn: timecodeLabel.nullable(),
 };
 
 const lastNotBeforeFirst = (v: { firstFrame?: number; lastFrame?: number }) =>
@@ -96,6 +99,8 @@ export const shotCreate = z
     assigneeId: assigneeId.nullish(),
     dueDate: dueDate.nullish(),
     status: shotStatus.default('blocking'),
+    /** Source timecode at the cut in; 00:00:00:00 when not given. */
+    sourceTimecodeIn: shotFields.sourceTimecodeIn.optional(),
   })
   .refine(lastNotBeforeFirst, { message: 'must not be before the first frame', path: ['lastFrame'] });
 export type ShotCreate = z.infer<typeof shotCreate>;
@@ -115,6 +120,7 @@ export const shotPatch = z
     assigneeId: shotFields.assigneeId,
     dueDate: shotFields.dueDate,
     status: shotFields.status,
+    sourceTimecodeIn: shotFields.sourceTimecodeIn,
   })
   .partial()
   .strict('unknown field')

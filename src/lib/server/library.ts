@@ -10,8 +10,8 @@ import { audit } from './audit';
 import { presignGet } from './storage';
 import type { ShotStatus } from '../vocab';
 import type { ImportBody, ShotCreate, ShotListQuery, ShotPatch, ShowCreate, ShowListQuery, ShowPatch } from '../library/schemas';
-import { previewText, type ImportPreview } from '../edl';
-import { isFrameRate, type FrameRate } from '../timecode';
+import { previewText, type ImportPreview, type ShotSource } from '../edl';
+import { framesToTimecode, isFrameRate, timecodeToFrames, TimecodeError, type FrameRate } from '../timecode';
 
 // ── Helpers ──────────────────────────────────────────────────────────────────────────────────────────────────────
 
@@ -193,6 +193,11 @@ const shotColumns = {
   plateAssetId: shots.plateAssetId,
   thumbnailAssetId: shots.thumbnailAssetId,
   metresPerPixel: shots.metresPerPixel,
+  sourceTimecodeIn: shots.sourceTimecodeIn,
+  recordIn: shots.recordIn,
+  recordOut: shots.recordOut,
+  reel: shots.reel,
+  clipName: shots.clipName,
   archivedAt: shots.archivedAt,
   createdAt: shots.createdAt,
   updatedAt: shots.updatedAt,
@@ -360,6 +365,7 @@ export async function createShot(access: StudioAccess, body: ShotCreate) {
         assigneeId: body.assigneeId ?? null,
         dueDate: body.dueDate ?? null,
         status: body.status,
+        sourceTimecodeIn: checkSourceTimecode(body.sourceTimecodeIn ?? null, body.frameRate ?? showRate(show)),
       });
     id = Number(res.insertId);
   } catch (e) {
@@ -369,6 +375,17 @@ export async function createShot(access: StudioAccess, body: ShotCreate) {
   await touchShow(body.showId);
   await audit({ studioId: access.studioId, actorId: access.userId, action: 'shot.create', targetType: 'shot', targetId: id, detail: { code: body.code, showId: body.showId } });
   return getShot(access, id);
+}
+
+/** Returns the source timecode normalised at the rate (';' for drop frame), or a 422 naming the field when that label does not exist. */
+function checkSourceTimecode(tc: string | null, rate: string): string | null {
+  if (tc === null) return null;
+  try {
+    return framesToTimecode(timecodeToFrames(tc, rate), rate);
+  } catch (e) {
+    const message = e instanceof TimecodeError ? e.message : 'is not a timecode';
+    throw new HttpError('validation_failed', `sourceTimecodeIn: ${message}`, { sourceTimecodeIn: message });
+  }
 }
 
 /** Marks the show as changed, so "recently updated" shows surface shot work. */
@@ -384,6 +401,10 @@ export async function updateShot(access: StudioAccess, shotId: number, body: Sho
     throw new HttpError('validation_failed', `lastFrame: must not be before the first frame (${first})`, { lastFrame: `must not be before the first frame (${first})` });
   }
   if (body.assigneeId !== undefined) await checkAssignee(access.studioId, body.assigneeId);
+  if (body.sourceTimecodeIn !== undefined || body.frameRate !== undefined) {
+    const tc = checkSourceTimecode(body.sourceTimecodeIn !== undefined ? body.sourceTimecodeIn : before.sourceTimecodeIn, body.frameRate ?? before.frameRate);
+    if (body.sourceTimecodeIn !== undefined) body = { ...body, sourceTimecodeIn: tc };
+  }
   if (body.code !== undefined && body.code !== before.code) {
     const [taken] = await db()
       .select({ id: shots.id })
@@ -477,6 +498,17 @@ function summary(p: ImportPreview) {
   return { create: p.create.length, update: p.update.length, unchanged: p.unchanged.length, errors: p.errors.length };
 }
 
+/** The shot columns an import keeps from the edit (source timecode of the cut in, record in/out, reel, clip name). */
+function sourceColumns(source: ShotSource | undefined) {
+  return {
+    sourceTimecodeIn: source?.sourceIn ?? null,
+    recordIn: source?.recordIn ?? null,
+    recordOut: source?.recordOut ?? null,
+    reel: source?.reel ? source.reel.slice(0, 64) : null,
+    clipName: source?.clipName ? source.clipName.slice(0, 255) : null,
+  };
+}
+
 /** Previews an import into a show; writes nothing. Existing shots (archived ones too) are matched by code. */
 export async function previewShowImport(access: StudioAccess, showId: number, body: ImportBody) {
   const show = await getShowRow(access, showId);
@@ -528,13 +560,14 @@ export async function confirmShowImport(access: StudioAccess, showId: number, bo
         lastFrame: s.lastFrame,
         handles: s.handles,
         frameRate: showRate(show),
+        ...sourceColumns(s.source),
       });
       created.push({ id: Number(res.insertId), code: s.code });
     }
     for (const u of preview.update) {
       await tx
         .update(shots)
-        .set({ firstFrame: u.to.first, lastFrame: u.to.last, handles: u.to.handles })
+        .set({ firstFrame: u.to.first, lastFrame: u.to.last, handles: u.to.handles, ...(u.source ? sourceColumns(u.source) : {}) })
         .where(and(eq(shots.id, u.id), eq(shots.studioId, access.studioId)));
     }
     await tx.update(shows).set({ updatedAt: new Date() }).where(eq(shows.id, showId));

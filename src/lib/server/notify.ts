@@ -7,6 +7,7 @@ import { memberships, notes, reviewEvents, shots, shows, studios, users, version
 import { sendMail } from './mail';
 import { config } from './config';
 import type { Role } from '../vocab';
+import { reviewStateWord, versionLabel } from '../vocab';
 
 /** The version page, optionally opened at a frame. */
 export function versionUrl(studioSlug: string, versionId: number, frame?: number): string {
@@ -52,7 +53,7 @@ async function nameOf(userId: string | null): Promise<string> {
   return u?.name ?? 'Someone';
 }
 
-const label = (c: { showCode: string; shotCode: string; number: number }) => `${c.showCode} / ${c.shotCode} v${c.number}`;
+const label = (c: { showCode: string; shotCode: string; number: number }) => `${c.showCode} / ${c.shotCode} ${versionLabel(c.number)}`;
 
 /** Tells the studio's supervisors and owners (not the person who submitted) that a version waits for review. */
 export async function notifySubmitted(versionId: number, actorId: string): Promise<number> {
@@ -72,11 +73,11 @@ export async function notifySubmitted(versionId: number, actorId: string): Promi
       subject: `Ready for your eyes: ${label(c)}`,
       paragraphs: [
         `Hello ${p.name},`,
-        `${actor} submitted version ${c.number} of shot ${c.shotCode} (${c.showCode}) in ${c.studioName}. It is baked and waits for your decision.`,
+        `${actor} submitted ${versionLabel(c.number)} of shot ${c.shotCode} (${c.showCode}) in ${c.studioName}. It is baked and waits for your decision.`,
         ...(event?.comment ? [`Their words: “${event.comment}”`] : []),
         'Open it to play the bake over the plate, pin notes to frames, compare it with the last version, and approve it or send it back.',
       ],
-      action: { label: `Open ${c.shotCode} v${c.number}`, url: versionUrl(c.studioSlug, versionId) },
+      action: { label: `Open ${c.shotCode} ${versionLabel(c.number)}`, url: versionUrl(c.studioSlug, versionId) },
     });
   }
   return to.length;
@@ -103,8 +104,8 @@ export async function notifyDecision(versionId: number, actorId: string, comment
   const paragraphs = [
     `Hello ${c.authorName ?? ''},`.replace(' ,', ','),
     approved
-      ? `${actor} approved version ${c.number} of shot ${c.shotCode} (${c.showCode}). Nice work.`
-      : `${actor} sent version ${c.number} of shot ${c.shotCode} (${c.showCode}) back for changes.`,
+      ? `${actor} approved ${versionLabel(c.number)} of shot ${c.shotCode} (${c.showCode}). Nice work.`
+      : `${actor} sent ${versionLabel(c.number)} of shot ${c.shotCode} (${c.showCode}) back for changes.`,
     ...(comment ? [`${approved ? 'Comment' : 'What to change'}: “${comment}”`] : []),
     ...(open.length
       ? [
@@ -118,19 +119,13 @@ export async function notifyDecision(versionId: number, actorId: string, comment
     to: c.authorEmail,
     subject: approved ? `Approved: ${label(c)}` : `Back for changes: ${label(c)}`,
     paragraphs,
-    action: { label: open.length ? `Open frame ${open[0].frame}` : `Open ${c.shotCode} v${c.number}`, url: versionUrl(c.studioSlug, versionId, open[0]?.frame) },
+    action: { label: open.length ? `Open frame ${open[0].frame}` : `Open ${c.shotCode} ${versionLabel(c.number)}`, url: versionUrl(c.studioSlug, versionId, open[0]?.frame) },
   });
   return true;
 }
 
 // ── Daily digest ─────────────────────────────────────────────────────────────────────────────────────────────────
 
-const STATE_LINES: Record<string, string> = {
-  submitted: 'submitted for review',
-  approved: 'approved',
-  returned: 'sent back for changes',
-  superseded: 'replaced by a newer version',
-};
 
 /**
  * Sends each person who opted in (users.daily_digest) one e-mail summing up the review activity of the window in
@@ -189,7 +184,7 @@ export async function sendDigests(opts: { now?: Date; hours?: number; dryRun?: b
       if (!events.length && !waiting.length && !newNotes.length) continue;
       paragraphs.push(`In ${m.studioName}:`);
       for (const e of events) {
-        paragraphs.push(`• ${e.showCode} / ${e.shotCode} v${e.number} was ${STATE_LINES[e.toState] ?? e.toState}${e.actorName ? ` by ${e.actorName}` : ''} — ${versionUrl(m.slug, e.versionId)}`);
+        paragraphs.push(`• ${e.showCode} / ${e.shotCode} ${versionLabel(e.number)} — ${reviewStateWord(e.toState)}${e.actorName ? ` (${e.actorName})` : ''} — ${versionUrl(m.slug, e.versionId)}`);
       }
       if (waiting.length) paragraphs.push(`• ${waiting.length === 1 ? 'One version waits' : `${waiting.length} versions wait`} for your decision.`);
       if (newNotes.length) {

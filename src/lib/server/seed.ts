@@ -18,30 +18,30 @@ export const DEMO_USERS: { email: string; name: string; role: Role; password: st
   { email: 'ines@saltmarsh.example', name: 'Ines Alvarado', role: 'owner', password: 'demo-owner-tide' },
   { email: 'tom@saltmarsh.example', name: 'Tom Okoro', role: 'supervisor', password: 'demo-super-tide' },
   { email: 'priya@saltmarsh.example', name: 'Priya Nair', role: 'artist', password: 'demo-artist-tide' },
-  { email: 'dana@briskcola.example', name: 'Dana Whitfield', role: 'client', password: 'demo-client-tide' },
+  { email: 'dana@kestrelwell.example', name: 'Dana Whitfield', role: 'client', password: 'demo-client-tide' },
 ];
 
 const DEMO_SHOWS = [
   {
     code: 'CNB',
-    name: 'Brisk Cola — "Cannonball"',
-    description: '30-second commercial: a can of cola cannonballs into a rooftop pool.',
+    name: 'Kestrelwell Soda — "Cannonball"',
+    description: '30-second commercial: a can of soda cannonballs into a rooftop pool.',
     frameRate: '25',
     shots: [
-      { code: 'CNB_010', description: 'Can tumbles off the diving board', first: 1001, last: 1048, status: 'blocking' as const },
-      { code: 'CNB_020', description: 'Impact: the can hits the pool surface', first: 1001, last: 1036, status: 'blocking' as const },
-      { code: 'CNB_030', description: 'Splash crown catches the sunset, slow motion', first: 1001, last: 1096, status: 'on hold' as const },
+      { code: 'CNB_010', source: '03:12:40:00', description: 'Can tumbles off the diving board', first: 1001, last: 1048, status: 'blocking' as const },
+      { code: 'CNB_020', source: '03:14:02:10', description: 'Impact: the can hits the pool surface', first: 1001, last: 1036, status: 'blocking' as const },
+      { code: 'CNB_030', source: '03:20:18:05', description: 'Splash crown catches the sunset, slow motion', first: 1001, last: 1096, status: 'on hold' as const },
     ],
   },
   {
     code: 'LHK',
-    name: 'The Lamplighters — "Harbour Wall"',
+    name: 'The Gannet Hours — "Harbour Wall"',
     description: 'Music video: a storm wave slaps the harbour wall behind the band.',
     frameRate: '24',
     shots: [
-      { code: 'LHK_0100', description: 'Wide: first wave rolls in under the pier', first: 1001, last: 1072, status: 'blocking' as const },
-      { code: 'LHK_0200', description: 'Wave slaps the wall, spray over the singer', first: 1001, last: 1060, status: 'blocking' as const },
-      { code: 'LHK_0300', description: 'Runoff pours down the steps', first: 1001, last: 1120, status: 'blocking' as const },
+      { code: 'LHK_0100', source: '11:04:10:00', description: 'Wide: first wave rolls in under the pier', first: 1001, last: 1072, status: 'blocking' as const },
+      { code: 'LHK_0200', source: '11:06:33:12', description: 'Wave slaps the wall, spray over the singer', first: 1001, last: 1060, status: 'blocking' as const },
+      { code: 'LHK_0300', source: '11:09:01:00', description: 'Runoff pours down the steps', first: 1001, last: 1120, status: 'blocking' as const },
     ],
   },
 ];
@@ -50,7 +50,7 @@ const DEMO_SHOWS = [
 function demoScene(code: string, fps: number, first: number, last: number): { scene: unknown; tankWidth: number } | null {
   const timing = { fps, startFrame: first, endFrame: last, substeps: 4 };
   if (code.startsWith('CNB_0')) {
-    // A cola can (about 66 mm × 122 mm) falls from above the rooftop pool and lands in it.
+    // A soda can (about 66 mm × 122 mm) falls from above the rooftop pool and lands in it.
     return {
       tankWidth: 1.6,
       scene: {
@@ -221,6 +221,8 @@ export async function seedDemo(): Promise<number> {
           lastFrame: shot.last,
           handles: 8,
           frameRate: s.frameRate,
+          // Source timecode of the plate at the cut in (fictional camera timecode).
+          sourceTimecodeIn: shot.source,
           status: shot.status,
           assigneeId: userIds.artist,
         })

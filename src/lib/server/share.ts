@@ -17,7 +17,8 @@ import { config } from './config';
 import { presignGet } from './storage';
 import { exportFileNameOf, readyExportOf } from './exports';
 import { clipOf } from './versions';
-import { CAUTION, versionLabel } from '../export/layout';
+import { CAUTION } from '../export/layout';
+import { versionLabel } from '../vocab';
 import type { ShareCreateBody } from '../export/schemas';
 
 type LinkRow = typeof shareLinks.$inferSelect;
@@ -278,6 +279,7 @@ export async function publicShareInfo(opened: OpenedShare) {
     artist: row.artist ?? null,
     reviewState: version.reviewState,
     frameRate: row.shot.frameRate,
+    sourceTimecodeIn: row.shot.sourceTimecodeIn,
     shotRange: { first: row.shot.firstFrame, last: row.shot.lastFrame },
     bakedRange: { first: scene.timing?.startFrame ?? row.shot.firstFrame, last: scene.timing?.endFrame ?? row.shot.lastFrame },
     createdAt: version.createdAt.toISOString(),

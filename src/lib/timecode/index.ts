@@ -124,3 +124,42 @@ export function isTimecode(timecode: string, rate: FrameRate | string): boolean 
 export function framesToSeconds(frames: number, rate: FrameRate | string): number {
   return frames / rateInfo(rate).fps;
 }
+
+/** What a shot needs to label its frames with the plate's own (source) timecode. */
+export interface SourceTimecodeShot {
+  /** Shot frame number of the cut in (the first frame of the cut). */
+  firstFrame: number;
+  frameRate: FrameRate | string;
+  /** Source timecode of the cut-in frame (from the edit's source in, or typed in); null/empty reads as 00:00:00:00. */
+  sourceTimecodeIn?: string | null;
+}
+
+/**
+ * Returns the source timecode of a shot frame: the shot's source timecode at the cut in plus the frame's offset from
+ * the cut in (handle frames before the cut count backwards). Counting is in frames, so drop-frame labels follow
+ * SMPTE ST 12-1; timecode wraps at 24 hours as the standard's counter does. Throws TimecodeError for a malformed
+ * source timecode or a non-integer frame.
+ */
+export function sourceTimecodeAt(shot: SourceTimecodeShot, frame: number): string {
+  if (!Number.isInteger(frame)) throw new TimecodeError(`Frame number must be a whole number, got ${frame}`);
+  const start = shot.sourceTimecodeIn ? timecodeToFrames(shot.sourceTimecodeIn, shot.frameRate) : 0;
+  const day = framesPerDay(shot.frameRate);
+  const n = (((start + frame - shot.firstFrame) % day) + day) % day;
+  return framesToTimecode(n, shot.frameRate);
+}
+
+/** sourceTimecodeAt for display: `fallback` ('' unless given) when the shot's source timecode or rate cannot label the frame. */
+export function sourceTimecodeLabel(shot: SourceTimecodeShot, frame: number, fallback = ''): string {
+  try {
+    return sourceTimecodeAt(shot, frame);
+  } catch {
+    return fallback;
+  }
+}
+
+/** A rate as people read it: "24 fps", "25 fps", but "29.97 DF" / "59.94 NDF" (the counting mode says it is a rate). */
+export function rateText(rate: FrameRate | string): string {
+  if (!isFrameRate(rate)) return String(rate);
+  const label = RATES[rate].label;
+  return /DF$/.test(label) ? label : `${label} fps`;
+}

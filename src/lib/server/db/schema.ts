@@ -196,6 +196,13 @@ export const shots = mysqlTable(
     plateAssetId: ref('plate_asset_id').references(() => assets.id, { onDelete: 'set null' }),
     thumbnailAssetId: ref('thumbnail_asset_id').references(() => assets.id, { onDelete: 'set null' }),
     metresPerPixel: double('metres_per_pixel'),
+    /** Source (plate) timecode of the cut-in frame; null reads as 00:00:00:00. */
+    sourceTimecodeIn: varchar('source_timecode_in', { length: 11 }),
+    /** Where the shot sits in the cut, when it came from an edit: record in/out (out exclusive), reel, clip name. */
+    recordIn: varchar('record_in', { length: 11 }),
+    recordOut: varchar('record_out', { length: 11 }),
+    reel: varchar('reel', { length: 64 }),
+    clipName: varchar('clip_name', { length: 255 }),
     archivedAt: datetime('archived_at', { mode: 'date' }),
     createdAt: createdAt(),
     updatedAt: updatedAt(),
