@@ -6,7 +6,8 @@
 import type { Scene, ShapeDoc } from '../scene/schema';
 import { tankCells, spoutEmissionEstimate, SCENE_LIMITS } from '../scene/schema';
 import { shapeSignedDistance, pointInShape, shapeBounds, shapeCentroid } from '../scene/shapes';
-import { poseInto, type Key, type Pose } from '../scene/keys';
+import { type Key, type Pose } from '../scene/keys';
+import { propPoseInto, type PropLike } from '../scene/pose';
 import { mulberry32 } from './prng';
 import { FLUID, AIR, SOLID, type ProjectionGrid } from './pressure';
 
@@ -20,9 +21,11 @@ export interface SolverOptions {
   hashCellFactor?: number;
 }
 
-interface PropRuntime {
+export interface PropRuntime {
   shape: ShapeDoc;
   keys: Key[];
+  /** The scene's prop (motion, release frame) for the shared pose function. */
+  doc: PropLike;
   cx: number; cy: number; // drawn centroid (m)
   reach: number; // max distance from centroid to the drawn bounds' corners (m)
   // placement at the end of the current step: world = R·(drawn − c) + c + d
@@ -121,7 +124,7 @@ export class FlipState implements ProjectionGrid {
       const b = shapeBounds(p.shape);
       const reach = Math.max(Math.hypot(b.minX - cx, b.minY - cy), Math.hypot(b.maxX - cx, b.minY - cy),
         Math.hypot(b.minX - cx, b.maxY - cy), Math.hypot(b.maxX - cx, b.maxY - cy));
-      return { shape: p.shape, keys: p.keys, cx, cy, reach, dx: 0, dy: 0, cos: 1, sin: 0, angle: 0, vx: 0, vy: 0, omega: 0 };
+      return { shape: p.shape, keys: p.keys, doc: p, cx, cy, reach, dx: 0, dy: 0, cos: 1, sin: 0, angle: 0, vx: 0, vy: 0, omega: 0 };
     });
     this.buildStaticSolids();
     const startFrame = scene.timing.startFrame;
@@ -194,9 +197,9 @@ export class FlipState implements ProjectionGrid {
   /** Places a prop at the pose of frame f1 and sets its rigid velocity from the pose change over dt seconds since f0. */
   placeProp(p: PropRuntime, f0: number, f1: number, dt: number): void {
     const pose = this.pose;
-    poseInto(p.keys, f0, pose);
+    propPoseInto(p.doc, f0, pose);
     const dx0 = pose.dx, dy0 = pose.dy, a0 = (pose.angle * Math.PI) / 180;
-    poseInto(p.keys, f1, pose);
+    propPoseInto(p.doc, f1, pose);
     const a1 = (pose.angle * Math.PI) / 180;
     p.dx = pose.dx; p.dy = pose.dy; p.angle = a1; p.cos = Math.cos(a1); p.sin = Math.sin(a1);
     p.vx = (pose.dx - dx0) / dt; p.vy = (pose.dy - dy0) / dt; p.omega = (a1 - a0) / dt;
