@@ -20,6 +20,8 @@ export interface FrameStats {
   /** Its time in seconds, (frame − startFrame)/fps. */
   time: number;
   count: number;
+  /** Particles of each liquid, in the order of scene.liquids (they sum to count). */
+  liquidCounts: number[];
   /**
    * Area inside the ρ/ρ₀ = ½ iso-contour of the cell-centred particle density, m² (marching squares; solids
    * excluded, see area.ts). Grows when the liquid spreads below rest density, shrinks when it is compressed.
@@ -76,6 +78,8 @@ export interface Solver {
   readonly v: Float32Array;
   /** Stable particle ids (order of the arrays changes between steps; ids follow particles). */
   readonly ids: Int32Array;
+  /** Liquid of each particle: index into scene.liquids (same order as x/y/u/v). */
+  readonly liquid: Uint8Array;
   /** Particle capacity allocated for this scene. */
   readonly capacity: number;
   readonly grid: Grid;
@@ -179,7 +183,7 @@ export function createSolver(scene: Scene, options: SolverOptions = {}): Solver 
     frame++;
     time = tEnd;
     return {
-      frame, time, count: S.n, liquidArea: liquidArea(S), maxSpeed: S.maxSpeed, cfl,
+      frame, time, count: S.n, liquidCounts: S.liquidCounts(), liquidArea: liquidArea(S), maxSpeed: S.maxSpeed, cfl,
       pressureResidual: res, pressureIterations: iters, substeps, stepMs: performance.now() - t0,
     };
   }
@@ -192,7 +196,7 @@ export function createSolver(scene: Scene, options: SolverOptions = {}): Solver 
     // calling stats() never changes a bake).
     const rest = S.restDensity > 0 ? S.restDensity : estimateRestDensity(S);
     return {
-      frame, time, count: S.n, liquidArea: liquidArea(S, rest), maxSpeed: Math.sqrt(max2), cfl: 0,
+      frame, time, count: S.n, liquidCounts: S.liquidCounts(), liquidArea: liquidArea(S, rest), maxSpeed: Math.sqrt(max2), cfl: 0,
       pressureResidual: 0, pressureIterations: 0, substeps: 0, stepMs: 0,
     };
   }
@@ -245,6 +249,7 @@ export function createSolver(scene: Scene, options: SolverOptions = {}): Solver 
     get u() { return S.u.subarray(0, S.n); },
     get v() { return S.v.subarray(0, S.n); },
     get ids() { return S.ids.subarray(0, S.n); },
+    get liquid() { return S.liquid.subarray(0, S.n); },
     get capacity() { return S.cap; },
     grid: { nx: S.nx, ny: S.ny, cellSize: S.h, originX: -S.h, originY: -S.h },
     stepFrame, step, stats, pressureField, pressureAt, solidDistance,
