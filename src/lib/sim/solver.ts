@@ -9,8 +9,10 @@ import {
 } from './stages';
 import { projectGaussSeidel, projectPcgMic0, solveDriftPart, FLUID } from './pressure';
 import { liquidArea } from './area';
+import { createRigidBodies, type PropState } from './rigid';
 
 export type { SolverOptions } from './stages';
+export type { PropState } from './rigid';
 export { WATER_DENSITY } from './stages';
 
 /** Statistics of one shot frame. */
@@ -22,6 +24,8 @@ export interface FrameStats {
   count: number;
   /** Particles of each liquid, in the order of scene.liquids (they sum to count). */
   liquidCounts: number[];
+  /** Every prop (keyed and free) at the frame's end: centroid (tank m), angle (deg), velocity (m/s), spin (deg/s). */
+  props: PropState[];
   /**
    * Area inside the ρ/ρ₀ = ½ iso-contour of the cell-centred particle density, m² (marching squares; solids
    * excluded, see area.ts). Grows when the liquid spreads below rest density, shrinks when it is compressed.
@@ -126,6 +130,8 @@ export function createSolver(scene: Scene, options: SolverOptions = {}): Solver 
   if (S.props.length > 0) placeSolids(S, timing.startFrame, timing.startFrame, frameDt);
   classifyCells(S);
   depositDensity(S);
+  const rigid = createRigidBodies(S, scene);
+  const hasFree = scene.props.some((p) => p.motion === 'free');
 
   function project(dt: number): number {
     // warm start for CG: q scales with dt (q = p·dt/(ρh))
@@ -139,6 +145,7 @@ export function createSolver(scene: Scene, options: SolverOptions = {}): Solver 
   /** One substep: the method's stages in order. */
   function step(dt: number): number {
     const f0 = timing.startFrame + time * timing.fps, f1 = timing.startFrame + (time + dt) * timing.fps;
+    if (hasFree) rigid.advance(dt, f0);
     placeSolids(S, f0, f1, dt);
     integrate(S, dt);
     S.sortByHashCell();
@@ -148,6 +155,7 @@ export function createSolver(scene: Scene, options: SolverOptions = {}): Solver 
     particlesToGrid(S);
     densityAndDrift(S, dt);
     lastResidual = project(dt);
+    if (hasFree) rigid.measureForces();
     gridToParticles(S);
     time += dt;
     steps++;
@@ -183,7 +191,7 @@ export function createSolver(scene: Scene, options: SolverOptions = {}): Solver 
     frame++;
     time = tEnd;
     return {
-      frame, time, count: S.n, liquidCounts: S.liquidCounts(), liquidArea: liquidArea(S), maxSpeed: S.maxSpeed, cfl,
+      frame, time, count: S.n, liquidCounts: S.liquidCounts(), props: rigid.states(), liquidArea: liquidArea(S), maxSpeed: S.maxSpeed, cfl,
       pressureResidual: res, pressureIterations: iters, substeps, stepMs: performance.now() - t0,
     };
   }
@@ -196,7 +204,7 @@ export function createSolver(scene: Scene, options: SolverOptions = {}): Solver 
     // calling stats() never changes a bake).
     const rest = S.restDensity > 0 ? S.restDensity : estimateRestDensity(S);
     return {
-      frame, time, count: S.n, liquidCounts: S.liquidCounts(), liquidArea: liquidArea(S, rest), maxSpeed: Math.sqrt(max2), cfl: 0,
+      frame, time, count: S.n, liquidCounts: S.liquidCounts(), props: rigid.states(), liquidArea: liquidArea(S, rest), maxSpeed: Math.sqrt(max2), cfl: 0,
       pressureResidual: 0, pressureIterations: 0, substeps: 0, stepMs: 0,
     };
   }

@@ -32,6 +32,8 @@ export interface PropRuntime {
   dx: number; dy: number; cos: number; sin: number; angle: number;
   // rigid velocity over the current step: translation (m/s) and angular velocity (rad/s)
   vx: number; vy: number; omega: number;
+  /** True once a free prop is released: rigid.ts moves it, its keys no longer do. */
+  free: boolean;
 }
 
 interface SpoutRuntime {
@@ -131,7 +133,7 @@ export class FlipState implements ProjectionGrid {
       const b = shapeBounds(p.shape);
       const reach = Math.max(Math.hypot(b.minX - cx, b.minY - cy), Math.hypot(b.maxX - cx, b.minY - cy),
         Math.hypot(b.minX - cx, b.maxY - cy), Math.hypot(b.maxX - cx, b.maxY - cy));
-      return { shape: p.shape, keys: p.keys, doc: p, cx, cy, reach, dx: 0, dy: 0, cos: 1, sin: 0, angle: 0, vx: 0, vy: 0, omega: 0 };
+      return { shape: p.shape, keys: p.keys, doc: p, cx, cy, reach, dx: 0, dy: 0, cos: 1, sin: 0, angle: 0, vx: 0, vy: 0, omega: 0, free: false };
     });
     this.buildStaticSolids();
     const startFrame = scene.timing.startFrame;
@@ -205,6 +207,7 @@ export class FlipState implements ProjectionGrid {
 
   /** Places a prop at the pose of frame f1 and sets its rigid velocity from the pose change over dt seconds since f0. */
   placeProp(p: PropRuntime, f0: number, f1: number, dt: number): void {
+    if (p.free) return; // a released free prop keeps the pose rigid.ts gave it
     const pose = this.pose;
     propPoseInto(p.doc, f0, pose);
     const dx0 = pose.dx, dy0 = pose.dy, a0 = (pose.angle * Math.PI) / 180;
