@@ -250,7 +250,7 @@ export function createRigidBodies(S: FlipState, scene: Scene): RigidBodies {
     const { nx, ny, h, type, solid } = S;
     // the pressure of the divergence alone: the drift correction's share (a numerical density fix, large and
     // alternating beside a moving solid) is removed, as Solver.pressureField({ withoutDrift }) does
-    solveDriftPart(S, qPhys, 100, 1e-2);
+    solveDriftPart(S, qPhys, 200, 1e-3);
     for (let k2 = 0; k2 < S.fluidCount; k2++) { const c = S.fluid[k2]; qPhys[c] = S.q[c] - qPhys[c]; }
     const q = qPhys;
     const k = S.lastDt > 0 ? (WATER_DENSITY * h) / S.lastDt : 0; // p = q·ρ·h/dt (Pa)
