@@ -31,6 +31,8 @@ const FRICTION = 0.4;
  * inertia used (Förster et al. 2007), so 6 leaves margin. Tuned by measurement, not from a source.
  */
 const ADDED_MASS = 6;
+/** Penetration (m) left uncorrected between two free props. */
+const CONTACT_SLOP = 2e-4;
 /** Contact iterations per substep. */
 const CONTACT_PASSES = 4;
 
@@ -144,6 +146,9 @@ export function createRigidBodies(S: FlipState, scene: Scene): RigidBodies {
     }
     // positional correction (shared by mass with a free obstacle)
     const share = o ? o.m / (a.m + o.m) : 1;
+    // a free obstacle: correct only what exceeds a small slop, so resting stacks do not push each other
+    // into the floor and back every pass (common practice in sequential-impulse solvers (no source))
+    if (o) depth = Math.max(0, depth - CONTACT_SLOP);
     pa.dx += nx * depth * share; pa.dy += ny * depth * share;
     if (o) { o.prop.dx -= nx * depth * (1 - share); o.prop.dy -= ny * depth * (1 - share); }
     const vn = vx * nx + vy * ny;
@@ -178,6 +183,7 @@ export function createRigidBodies(S: FlipState, scene: Scene): RigidBodies {
     let ox: Body | null = null, okin: PropRuntime | null = null, oid = -2;
     let best = 0, bnx = 0, bny = 0;
     let sumX = 0, sumY = 0, cnt = 0;
+    const ids: number[] = [];
     for (let pass = 0; pass < CONTACT_PASSES; pass++) {
       for (const a of bodies) {
         if (!a.prop.free) continue;
@@ -203,17 +209,23 @@ export function createRigidBodies(S: FlipState, scene: Scene): RigidBodies {
             }
           }
         };
-        best = 0; oid = -2;
-        visit((_px, _py, id, nx, ny, d) => { if (d > best) { best = d; bnx = nx; bny = ny; oid = id; } });
-        if (oid === -2) continue;
-        sumX = 0; sumY = 0; cnt = 0;
-        visit((px, py, id, nx, ny) => { if (id === oid && nx * bnx + ny * bny > 0.8) { sumX += px; sumY += py; cnt++; } });
-        okin = null; ox = null;
-        if (oid >= 1000) {
-          const q = S.props[oid - 1000];
-          if (q.free) ox = bodies.find((b) => b.prop === q) ?? null; else okin = q;
+        // every obstacle touched (tank sides are one obstacle per normal, so a corner resolves both)
+        ids.length = 0;
+        visit((_px, _py, id, nx, ny) => { const key = id === -1 ? -1 - (nx > 0 ? 1 : nx < 0 ? 2 : ny > 0 ? 3 : 4) : id; if (!ids.includes(key)) ids.push(key); });
+        for (const key of ids) {
+          best = 0; oid = -2;
+          const match = (id: number, nx: number, ny: number) => (id === -1 ? -1 - (nx > 0 ? 1 : nx < 0 ? 2 : ny > 0 ? 3 : 4) : id) === key;
+          visit((_px, _py, id, nx, ny, d) => { if (match(id, nx, ny) && d > best) { best = d; bnx = nx; bny = ny; oid = id; } });
+          if (oid === -2) continue;
+          sumX = 0; sumY = 0; cnt = 0;
+          visit((px, py, id, nx, ny) => { if (match(id, nx, ny) && nx * bnx + ny * bny > 0.8) { sumX += px; sumY += py; cnt++; } });
+          okin = null; ox = null;
+          if (oid >= 1000) {
+            const q = S.props[oid - 1000];
+            if (q.free) ox = bodies.find((bb) => bb.prop === q) ?? null; else okin = q;
+          }
+          contact(a, sumX / cnt, sumY / cnt, bnx, bny, best, ox, okin);
         }
-        contact(a, sumX / cnt, sumY / cnt, bnx, bny, best, ox, okin);
       }
     }
   }
