@@ -31,6 +31,8 @@ const FRICTION = 0.4;
  * inertia used (Förster et al. 2007), so 6 leaves margin. Tuned by measurement, not from a source.
  */
 const ADDED_MASS = 6;
+/** Speed (m/s) below which a prop in contact is stopped. */
+const REST_SPEED = 1e-3;
 /** Penetration (m) left uncorrected between two free props. */
 const CONTACT_SLOP = 2e-4;
 /** Contact iterations per substep. */
@@ -47,6 +49,8 @@ interface Body {
   fx: number; fy: number; tau: number;
   /** Share of boundary faces wetted in the last projection (0…1). */
   wet: number;
+  /** Touched an obstacle in this substep's contact passes. */
+  touching: boolean;
 }
 
 /** Pose and velocity of a prop for FrameStats: centroid (tank m), angle (deg), velocity (m/s), spin (deg/s). */
@@ -109,7 +113,7 @@ export function createRigidBodies(S: FlipState, scene: Scene): RigidBodies {
     const prop = S.props[k];
     const rho = doc.density ?? WATER_DENSITY;
     const { sx, sy } = boundarySamples(doc.shape, prop.cx, prop.cy, S.h);
-    bodies.push({ prop, doc, m: rho * shapeArea(doc.shape), I: rho * polarMoment(doc.shape, prop.cx, prop.cy), sx, sy, fx: 0, fy: 0, tau: 0, wet: 0 });
+    bodies.push({ prop, doc, m: rho * shapeArea(doc.shape), I: rho * polarMoment(doc.shape, prop.cx, prop.cy), sx, sy, fx: 0, fy: 0, tau: 0, wet: 0, touching: false });
     if (doc.releaseFrame === undefined) {
       prop.free = true;
       prop.vx = doc.velocity?.[0] ?? 0; prop.vy = doc.velocity?.[1] ?? 0; prop.omega = (doc.spin ?? 0) / DEG;
@@ -133,6 +137,7 @@ export function createRigidBodies(S: FlipState, scene: Scene): RigidBodies {
    */
   function contact(a: Body, px: number, py: number, nx: number, ny: number, depth: number, o: Body | null, kin: PropRuntime | null): void {
     const pa = a.prop;
+    a.touching = true;
     const rax = px - (pa.cx + pa.dx), ray = py - (pa.cy + pa.dy);
     let vx = pa.vx - pa.omega * ray, vy = pa.vy + pa.omega * rax;
     let rbx = 0, rby = 0, invB = 0;
@@ -255,6 +260,13 @@ export function createRigidBodies(S: FlipState, scene: Scene): RigidBodies {
       setAngle(p, p.angle + p.omega * dt);
     }
     resolveContacts();
+    // rest: a prop in contact whose every point moves slower than 1 mm/s is stopped, so round-off in the
+    // contact passes cannot grow into rocking (sleeping bodies, common practice in rigid-body engines (no source))
+    for (const b of bodies) {
+      const p = b.prop;
+      if (p.free && b.touching && Math.hypot(p.vx, p.vy) + Math.abs(p.omega) * p.reach < REST_SPEED) { p.vx = 0; p.vy = 0; p.omega = 0; }
+      b.touching = false;
+    }
   }
 
   const qPhys = new Float64Array(S.nc);
