@@ -4,7 +4,7 @@
 // its rigid velocity as the boundary condition, so it pushes the liquid), and the liquid's pressure from that
 // projection is integrated over the prop's boundary faces into a force and torque that move the prop in the
 // next step (the pressure-integration coupling of Guendelman, Selle, Losasso & Fedkiw 2005, "Coupling water and
-// smoke to thin deformable and rigid shells", §6). Chosen over Carlson, Mucha & Turk 2004 ("Rigid fluid") because
+// smoke to thin deformable and rigid shells", SIGGRAPH 2005). Chosen over Carlson, Mucha & Turk 2004 ("Rigid fluid") because
 // it needs no change to the pressure solve (a variable-density projection), which other work owns.
 // A partitioned scheme is unstable for props lighter than the liquid they move (the added-mass instability,
 // Förster, Wall & Ramm 2007, "Artificial added mass instabilities in sequential staggered coupling…", CMAME 196);
