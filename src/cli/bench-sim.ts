@@ -8,7 +8,7 @@ import { existsSync } from 'node:fs';
 import { resolve } from 'node:path';
 import { createSolver } from '../lib/sim/solver';
 import { referenceDamBreak } from '../lib/sim/reference';
-import { DEFAULT_PRESSURE_SOLVER, DEFAULT_PRESSURE_TOLERANCE, type PressureSolverName } from '../lib/scene/schema';
+import { DEFAULT_PRESSURE_SOLVER, DEFAULT_PRESSURE_TOLERANCE, parseScene, type PressureSolverName } from '../lib/scene/schema';
 
 interface RunFigures {
   label: string; scale: number; solver: PressureSolverName; tolerance: number;
@@ -81,7 +81,31 @@ function runNative(): NativeFigures | null {
   return { psteps_per_s: num('psteps_per_s'), wall_s: num('wall_s'), cpu_s: num('cpu_s'), particles: num('particles'), line };
 }
 
+/**
+ * The reference dam break with one prop dropped into the column, keyed (held still) and free (500 kg/m³):
+ * the free prop's cost (rigid step, pressure integration, contacts) as a ratio of CPU time to the keyed one.
+ */
+function runPropCost(): { keyed_cpu_s: number; free_cpu_s: number; ratio: number } {
+  const base = referenceDamBreak(1);
+  const shape = { type: 'rect' as const, x: 0.2, y: 0.85, width: 0.1, height: 0.1 };
+  const cpuOf = (prop: Record<string, unknown>): number => {
+    const r = parseScene({ ...base.scene, props: [prop] });
+    if (!r.ok) throw new Error(JSON.stringify(r.errors));
+    const sim = createSolver(r.scene, base.options);
+    const c0 = process.cpuUsage();
+    for (let s = 1; s <= base.steps; s++) sim.stepFrame();
+    const c = process.cpuUsage(c0);
+    return (c.user + c.system) / 1e6;
+  };
+  const keyed = cpuOf({ id: 'can', shape, keys: [{ frame: 0, dx: 0, dy: 0, angle: 0 }] });
+  const free = cpuOf({ id: 'can', shape, motion: 'free', density: 500 });
+  const ratio = free / keyed;
+  console.log(`one prop in the reference dam break: keyed cpu_s=${keyed.toFixed(3)} free cpu_s=${free.toFixed(3)} ratio free/keyed=${ratio.toFixed(3)} (target ≤ 1.3)`);
+  return { keyed_cpu_s: +keyed.toFixed(4), free_cpu_s: +free.toFixed(4), ratio: +ratio.toFixed(4) };
+}
+
 function main(): void {
+  if (process.argv.includes('--props-only')) { console.log(JSON.stringify({ free_prop: runPropCost() })); return; }
   const rounds = Number(arg('--rounds') ?? 1);
   const scales = (arg('--scales') ?? '1,2').split(',').map(Number);
   const defaultSolver = (arg('--solver') as PressureSolverName | undefined) ?? DEFAULT_PRESSURE_SOLVER;
@@ -119,6 +143,7 @@ function main(): void {
       }
     }
   }
+  summary.free_prop = runPropCost();
   console.log(JSON.stringify(summary));
 }
 

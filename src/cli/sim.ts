@@ -1,12 +1,14 @@
 // Headless bake: reads a scene document, steps the solver and writes one JSON line per frame,
 // the first being the initial state at startFrame:
-//   {"frame":1001,"time":0,"count":N,"x":[…],"y":[…],"u":[…],"v":[…]}   (metres, m/s)
+//   {"frame":1001,"time":0,"count":N,"x":[…],"y":[…],"u":[…],"v":[…],"liquid":[…],"props":[…]}   (metres, m/s)
+// liquid: index into the scene's liquids per particle; props: every prop's {id,x,y,angle,vx,vy,spin}
+// (centroid in tank metres, angle in degrees, velocities in m/s and deg/s).
 // Usage: npx tsx src/cli/sim.ts --scene <scene.json> --out <frames.jsonl> [--frames N]
 // N = number of lines written (default: the whole frame range). Exit code 2 + one line on a bad scene.
 import { readFileSync, createWriteStream } from 'node:fs';
 import { parseScene, formatSceneErrors } from '../lib/scene/schema';
 import { frameCount, frameToTime } from '../lib/scene/time';
-import { createSolver, type Solver } from '../lib/sim/solver';
+import { createSolver, type Solver, type PropState } from '../lib/sim/solver';
 
 function fail(message: string, code = 2): never {
   process.stderr.write(message.replace(/\s*\n\s*/g, ' ') + '\n');
@@ -19,15 +21,16 @@ function arg(name: string): string | undefined {
 }
 
 /** Number array as JSON; float32 values are written with the digits that round-trip them exactly. */
-function list(a: Float32Array): string {
+function list(a: Float32Array | Uint8Array): string {
   let s = '[';
   for (let i = 0; i < a.length; i++) s += (i ? ',' : '') + a[i];
   return s + ']';
 }
 
-function frameLine(sim: Solver): string {
+function frameLine(sim: Solver, props: PropState[]): string {
   const t = frameToTime(sim.scene.timing, sim.frame);
-  return `{"frame":${sim.frame},"time":${t},"count":${sim.count},"x":${list(sim.x)},"y":${list(sim.y)},"u":${list(sim.u)},"v":${list(sim.v)}}\n`;
+  return `{"frame":${sim.frame},"time":${t},"count":${sim.count},"x":${list(sim.x)},"y":${list(sim.y)},"u":${list(sim.u)},"v":${list(sim.v)},`
+    + `"liquid":${list(sim.liquid)},"props":${JSON.stringify(props)}}\n`;
 }
 
 async function main(): Promise<void> {
@@ -43,10 +46,10 @@ async function main(): Promise<void> {
   const sim = createSolver(scene);
   const out = createWriteStream(outPath);
   const write = (s: string) => new Promise<void>((res, rej) => (out.write(s) ? res() : out.once('drain', res), out.once('error', rej)));
-  await write(frameLine(sim));
+  await write(frameLine(sim, sim.stats().props));
   for (let f = 1; f < total; f++) {
-    sim.stepFrame();
-    await write(frameLine(sim));
+    const st = sim.stepFrame();
+    await write(frameLine(sim, st.props));
   }
   await new Promise<void>((res, rej) => out.end((e?: Error | null) => (e ? rej(e) : res())));
 }

@@ -9,7 +9,7 @@ import { shapeBounds } from '../../src/lib/scene/shapes';
 
 function sceneWithProp(fps: string, propY: number): { doc: EditorDoc; prop: EditorDoc['props'][number] } {
   let doc = startingScene({ firstFrame: 1001, lastFrame: 1060, frameRate: fps, plateWidth: 1920, plateHeight: 1080, metresPerPixel: 0.001 });
-  doc = { ...doc, pours: [{ id: 'pool', shape: { type: 'rect', x: 0, y: 0, width: 1.92, height: 0.25 }, velocity: [0, 0] }] };
+  doc = { ...doc, pours: [{ id: 'pool', liquid: doc.liquids[0].id, shape: { type: 'rect', x: 0, y: 0, width: 1.92, height: 0.25 }, velocity: [0, 0] }] };
   const prop = makeItem(doc, 'props', { type: 'rect', x: 0.9, y: propY, width: 0.1, height: 0.08 }) as EditorDoc['props'][number];
   return { doc: { ...doc, props: [prop] }, prop };
 }

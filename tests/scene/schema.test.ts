@@ -1,4 +1,4 @@
-// Scene document v1: good documents parse with defaults; bad fields are reported by path.
+// Scene document (v1 documents here, migrated on read): good documents parse with defaults; bad fields are reported by path.
 import { describe, it, expect } from 'vitest';
 import { readFileSync } from 'node:fs';
 import { parseScene, formatSceneErrors, DEFAULT_PRESSURE_SOLVER, DEFAULT_PRESSURE_TOLERANCE } from '../../src/lib/scene/schema';
@@ -67,7 +67,7 @@ describe('parseScene', () => {
     [['props', 0, 'keys', 1, 'frame'], 1000, 'props.0.keys.1.frame'],
     [['spouts', 0, 'endFrame'], 1000, 'spouts.0.endFrame'],
     [['drains', 0, 'id'], 'basin', 'drains.0.id'],
-    [['version'], 2, 'version'],
+    [['version'], 3, 'version'],
   ])('reports %j = %j at path %s', (path, value, expected) => {
     const errors = errorsOf(withChange(path as (string | number)[], value));
     expect(errors.map((e) => e.path)).toContain(expected);

@@ -20,7 +20,9 @@ describe('sim CLI', () => {
     expect(lines[1].time).toBeCloseTo(1 / 24, 12);
     for (const l of lines) {
       expect(l.count).toBeGreaterThan(0);
-      for (const k of ['x', 'y', 'u', 'v']) expect(l[k]).toHaveLength(l.count);
+      for (const k of ['x', 'y', 'u', 'v', 'liquid']) expect(l[k]).toHaveLength(l.count);
+      expect(l.liquid.every((i: number) => i === 0)).toBe(true); // a version 1 scene: all water
+      expect(Array.isArray(l.props)).toBe(true);
     }
     expect(lines[0].v.every((v: number) => v === 0)).toBe(true);
     expect(lines[2].v.some((v: number) => v < 0)).toBe(true); // falling

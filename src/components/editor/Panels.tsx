@@ -74,10 +74,10 @@ function ItemInspector({ store, snap, refItem, item }: { store: EditorStore; sna
           </>
         )}
         {s.type === 'polygon' && <p className="py-1 text-[0.8rem] text-ink-soft">{s.points.length} points. Drag the corners to resize, the knob above to rotate.</p>}
-        {'velocity' in item && refItem.group === 'pours' && (
+        {'velocity' in item && item.velocity && refItem.group === 'pours' && (
           <>
-            <NumberField label="Start speed x" unit="m/s" value={item.velocity[0]} onCommit={(vx) => put({ ...item, velocity: [vx, item.velocity[1]] } as AnyItem)} compact />
-            <NumberField label="Start speed y" unit="m/s" value={item.velocity[1]} onCommit={(vy) => put({ ...item, velocity: [item.velocity[0], vy] } as AnyItem)} compact />
+            <NumberField label="Start speed x" unit="m/s" value={item.velocity[0]} onCommit={(vx) => put({ ...item, velocity: [vx, item.velocity![1]] } as AnyItem)} compact />
+            <NumberField label="Start speed y" unit="m/s" value={item.velocity[1]} onCommit={(vy) => put({ ...item, velocity: [item.velocity![0], vy] } as AnyItem)} compact />
           </>
         )}
       </Section>

@@ -1,6 +1,6 @@
-// The editor's document: a parsed scene (version 1, every default filled in), the groups of items it holds,
+// The editor's document: a parsed scene (version 2, every default filled in), the groups of items it holds,
 // and the starting scene for a shot (sized to the plate at its scale, or a 1.6 m × 0.9 m default).
-import type { Scene, ShapeDoc } from '../scene/schema';
+import { DEFAULT_LIQUID, type Scene, type ShapeDoc } from '../scene/schema';
 import { rateInfo, isFrameRate } from '../timecode';
 
 /** The document the editor edits: exactly the scene format, defaults filled in. */
@@ -92,7 +92,8 @@ export function startingScene(shot: ShotFacts): EditorDoc {
   const h = scaled ? shot.plateHeight * shot.metresPerPixel! : DEFAULT_TANK.height;
   const cellSize = niceCellSize(w / START_CELLS_ACROSS);
   return {
-    version: 1,
+    version: 2,
+    liquids: [{ ...DEFAULT_LIQUID }],
     tank: { width: toWholeCells(w, cellSize), height: toWholeCells(h, cellSize), cellSize, sides: { left: true, right: true, bottom: true, top: false } },
     timing: { fps: fpsOf(shot.frameRate), startFrame: shot.firstFrame, endFrame: Math.max(shot.firstFrame, shot.lastFrame), substeps: 4 },
     physics: {
@@ -107,9 +108,9 @@ export function startingScene(shot: ShotFacts): EditorDoc {
 export function makeItem(doc: EditorDoc, group: Group, shape: ShapeDoc, id = nextId(doc, group)): AnyItem {
   const t = doc.timing;
   switch (group) {
-    case 'pours': return { id, shape, velocity: [0, 0] };
-    case 'spouts': return { id, shape, velocity: [1.5, 0], startFrame: t.startFrame, endFrame: Math.min(t.endFrame, t.startFrame + Math.round(t.fps)) };
-    case 'props': return { id, shape, keys: [{ frame: t.startFrame, dx: 0, dy: 0, angle: 0 }] };
+    case 'pours': return { id, liquid: doc.liquids[0].id, shape, velocity: [0, 0] };
+    case 'spouts': return { id, liquid: doc.liquids[0].id, shape, velocity: [1.5, 0], startFrame: t.startFrame, endFrame: Math.min(t.endFrame, t.startFrame + Math.round(t.fps)) };
+    case 'props': return { id, shape, motion: 'keyed', keys: [{ frame: t.startFrame, dx: 0, dy: 0, angle: 0 }] };
     default: return { id, shape };
   }
 }

@@ -2,7 +2,8 @@
 // hit tests and handles for the select tool; snapping to the grid or the cells. Pure functions.
 import type { ShapeDoc } from '../scene/schema';
 import { shapeBounds, shapeCentroid, pointInShape, shapeSignedDistance, type Bounds } from '../scene/shapes';
-import { poseAt, placementOf, toDrawn, toWorld } from '../scene/keys';
+import { toDrawn, toWorld } from '../scene/keys';
+import { propPlacementAt, type PropLike } from '../scene/pose';
 import { type EditorDoc, type ItemRef, type AnyItem, allItems } from './document';
 
 export type Vec = [number, number];
@@ -116,8 +117,8 @@ export function shapeOutline(shape: ShapeDoc, segments = 64): Vec[] {
 }
 
 /** A prop's outline where its keys put it at `frame` (world metres). */
-export function propOutlineAt(item: { shape: ShapeDoc; keys: { frame: number; dx: number; dy: number; angle: number }[] }, frame: number): Vec[] {
-  const place = placementOf(item.shape, poseAt(item.keys, frame));
+export function propOutlineAt(item: PropLike, frame: number): Vec[] {
+  const place = propPlacementAt(item, frame);
   const out: Vec[] = [];
   const tmp = [0, 0];
   for (const p of shapeOutline(item.shape)) { toWorld(place, p[0], p[1], tmp); out.push([tmp[0], tmp[1]]); }
@@ -127,7 +128,7 @@ export function propOutlineAt(item: { shape: ShapeDoc; keys: { frame: number; dx
 /** The drawn-pose point of world point (x, y) for an item at `frame` (props move; everything else stays). */
 function toItemFrame(item: AnyItem, x: number, y: number, frame: number): Vec {
   if (!('keys' in item)) return [x, y];
-  const place = placementOf(item.shape, poseAt(item.keys, frame));
+  const place = propPlacementAt(item, frame);
   const out = [0, 0];
   toDrawn(place, x, y, out);
   return [out[0], out[1]];

@@ -1,6 +1,6 @@
 // Stable scene identity for the bake queue: canonical JSON (sorted keys) hashed with SHA-256 (FIPS 180-4).
 // Pure TypeScript and synchronous, so it runs the same in a browser, a Web Worker and Node.
-import type { Scene } from './schema';
+import { DEFAULT_LIQUID, type Scene } from './schema';
 
 /** JSON with object keys sorted at every level and no whitespace; arrays keep their order. */
 export function canonicalJson(value: unknown): string {
@@ -67,7 +67,28 @@ export function utf8(s: string): Uint8Array {
   return new TextEncoder().encode(s);
 }
 
-/** SHA-256 hex of the scene's canonical JSON: equal scenes (after defaults) give equal hashes. */
+/**
+ * SHA-256 hex of the scene's canonical JSON: equal scenes (after defaults) give equal hashes. A scene that
+ * version 1 could express (the one default water liquid, every prop keyed with no free-prop fields) is hashed
+ * in its version 1 form, so scenes saved before version 2 keep their hash (and their baked clips).
+ */
 export function sceneHash(scene: Scene): string {
-  return sha256Hex(utf8(canonicalJson(scene)));
+  return sha256Hex(utf8(canonicalJson(asVersion1(scene) ?? scene)));
+}
+
+/** The version 1 form of a scene, or null when it uses anything version 2 added. */
+export function asVersion1(scene: Scene): Record<string, unknown> | null {
+  if (scene.liquids.length !== 1 || canonicalJson(scene.liquids[0]) !== canonicalJson(DEFAULT_LIQUID)) return null;
+  const water = DEFAULT_LIQUID.id;
+  if (scene.pours.some((p) => p.liquid !== water) || scene.spouts.some((p) => p.liquid !== water)) return null;
+  const freeFields = ['density', 'velocity', 'spin', 'releaseFrame'] as const;
+  if (scene.props.some((p) => p.motion !== 'keyed' || freeFields.some((f) => p[f] !== undefined))) return null;
+  const { liquids: _liquids, ...rest } = scene;
+  return {
+    ...rest,
+    version: 1,
+    pours: scene.pours.map(({ liquid: _l, ...p }) => p),
+    spouts: scene.spouts.map(({ liquid: _l, ...p }) => p),
+    props: scene.props.map(({ motion: _m, ...p }) => p),
+  };
 }

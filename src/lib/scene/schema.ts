@@ -1,5 +1,6 @@
-// The scene document, version 1: one zod schema, its defaults and limits, and `parseScene`,
+// The scene document, version 2: one zod schema, its defaults and limits, and `parseScene`,
 // which answers either the parsed scene or errors that name the path of each bad field.
+// Version 1 documents (no liquids, every prop keyed) are migrated on read: see migrateV1.
 // Units: metres, seconds, degrees; y up; origin at the tank's lower-left inner corner.
 import { z } from 'zod';
 import { shapeArea, polygonSignedArea } from './shapes';
@@ -93,17 +94,77 @@ const physicsSchema = z
   })
   .strict();
 
-const pourSchema = z.object({ id, shape: shapeSchema, velocity: vec2.default([0, 0]) }).strict();
+/** Current scene document version; version 1 documents are migrated on read. */
+export const SCENE_VERSION = 2;
+
+/**
+ * Kinematic viscosity range, m²/s: 0 (inviscid) up to 1 (far thicker than syrup; beyond it the implicit
+ * solve's matrix is dominated by the viscous term at any cell size we offer and nothing visible changes).
+ */
+export const VISCOSITY_RANGE = { min: 0, max: 1 } as const;
+/** Free prop density range, kg/m³ (cork-like foam … denser than lead is never needed for previs). */
+export const PROP_DENSITY_RANGE = { min: 1, max: 20000 } as const;
+
+/** The liquid a scene has when it declares none (and every version 1 scene). */
+export const DEFAULT_LIQUID = { id: 'water', name: 'Water', colour: '#3A8FB7', viscosity: 1e-6 } as const;
+
+const liquidSchema = z
+  .object({
+    id,
+    name: z.string().min(1, 'must not be empty').max(80, 'must be at most 80 characters'),
+    colour: z.string().regex(/^#[0-9A-Fa-f]{6}$/, 'must be a colour #RRGGBB'),
+    viscosity: finite
+      .min(VISCOSITY_RANGE.min, `must be between ${VISCOSITY_RANGE.min} and ${VISCOSITY_RANGE.max} m²/s`)
+      .max(VISCOSITY_RANGE.max, `must be between ${VISCOSITY_RANGE.min} and ${VISCOSITY_RANGE.max} m²/s`),
+  })
+  .strict();
+
+/** `liquid` on pours and spouts: an id from `liquids`; filled with the first liquid's id when omitted. */
+const liquidRef = id.optional();
+
+const pourSchema = z.object({ id, liquid: liquidRef, shape: shapeSchema, velocity: vec2.default([0, 0]) }).strict();
 const spoutSchema = z
-  .object({ id, shape: shapeSchema, velocity: vec2, startFrame: frameNumber, endFrame: frameNumber })
+  .object({ id, liquid: liquidRef, shape: shapeSchema, velocity: vec2, startFrame: frameNumber, endFrame: frameNumber })
   .strict()
   .refine((s) => s.endFrame >= s.startFrame, { message: 'endFrame must not be before startFrame', path: ['endFrame'] });
 const wallSchema = z.object({ id, shape: shapeSchema }).strict();
 const keySchema = z.object({ frame: finite, dx: finite.default(0), dy: finite.default(0), angle: finite.default(0) }).strict();
+export const PROP_MOTIONS = ['keyed', 'free'] as const;
+export type PropMotion = (typeof PROP_MOTIONS)[number];
+/**
+ * A prop follows its keys (`keyed`) or is a rigid body (`free`) of `density` kg/m³ that starts with
+ * `velocity` (m/s) and `spin` (deg/s, counter-clockwise) at the start frame, or — with `releaseFrame` — follows its
+ * keys up to that frame and is then free with the velocity the keys had there.
+ */
 const propSchema = z
-  .object({ id, shape: shapeSchema, keys: z.array(keySchema).min(1, 'needs at least one key').max(10000) })
+  .object({
+    id, shape: shapeSchema,
+    motion: z.enum(PROP_MOTIONS, { errorMap: () => ({ message: "must be 'keyed' or 'free'" }) }).default('keyed'),
+    keys: z.array(keySchema).max(10000, 'at most 10000 keys').default([]),
+    density: finite
+      .min(PROP_DENSITY_RANGE.min, `must be between ${PROP_DENSITY_RANGE.min} and ${PROP_DENSITY_RANGE.max} kg/m³`)
+      .max(PROP_DENSITY_RANGE.max, `must be between ${PROP_DENSITY_RANGE.min} and ${PROP_DENSITY_RANGE.max} kg/m³`)
+      .optional(),
+    velocity: vec2.optional(),
+    spin: finite.optional(),
+    releaseFrame: frameNumber.optional(),
+  })
   .strict()
   .superRefine((p, ctx) => {
+    const issue = (path: (string | number)[], message: string) => ctx.addIssue({ code: z.ZodIssueCode.custom, path, message });
+    // A keyed prop may keep density, velocity, spin and releaseFrame (unused while keyed), so switching
+    // motion back and forth in the editor loses nothing.
+    if (p.motion === 'keyed') {
+      if (p.keys.length === 0) issue(['keys'], 'needs at least one key');
+    } else {
+      if (p.density === undefined) issue(['density'], 'is required for a free prop');
+      if (p.releaseFrame !== undefined) {
+        if (p.keys.length === 0) issue(['keys'], 'needs at least one key when the prop has a release frame');
+        for (const f of ['velocity', 'spin'] as const) {
+          if (p[f] !== undefined) issue([f], 'comes from the keys when the prop has a release frame');
+        }
+      }
+    }
     for (let k = 1; k < p.keys.length; k++) {
       if (!(p.keys[k].frame > p.keys[k - 1].frame)) {
         ctx.addIssue({ code: z.ZodIssueCode.custom, path: ['keys', k, 'frame'], message: 'keys must be in increasing frame order' });
@@ -114,7 +175,8 @@ const drainSchema = z.object({ id, shape: shapeSchema }).strict();
 
 const sceneObject = z
   .object({
-    version: z.literal(1, { errorMap: () => ({ message: 'must be 1 (this reader knows scene version 1)' }) }),
+    version: z.literal(SCENE_VERSION, { errorMap: () => ({ message: 'must be 1 or 2 (this reader knows scene versions 1 and 2)' }) }),
+    liquids: z.array(liquidSchema).min(1, 'needs at least one liquid').max(64, 'at most 64 liquids').default([{ ...DEFAULT_LIQUID }]),
     tank: tankSchema,
     timing: timingSchema.default({ fps: 24, startFrame: 1001, endFrame: 1048, substeps: 5 }),
     physics: physicsSchema.default({}),
@@ -164,7 +226,7 @@ export function spoutEmissionEstimate(
   return 1.25 * (area * perArea + perArea * speed * (w + cellSize) * duration) + 4 * particlesPerCell;
 }
 
-export const sceneSchema = sceneObject.superRefine((s, ctx) => {
+const refinedScene = sceneObject.superRefine((s, ctx) => {
   const { width, height, cellSize } = s.tank;
   for (const [key, len] of [['width', width], ['height', height]] as const) {
     const n = len / cellSize;
@@ -192,6 +254,21 @@ export const sceneSchema = sceneObject.superRefine((s, ctx) => {
       message: `pours and spouts would need about ${n.toLocaleString('en-US')} particles; at most ${SCENE_LIMITS.maxParticles.toLocaleString('en-US')}`,
     });
   }
+  const liquidIds = new Map<string, number>();
+  s.liquids.forEach((l, i) => {
+    if (liquidIds.has(l.id)) ctx.addIssue({ code: z.ZodIssueCode.custom, path: ['liquids', i, 'id'], message: `id '${l.id}' is already used by liquids.${liquidIds.get(l.id)}` });
+    else liquidIds.set(l.id, i);
+  });
+  for (const group of ['pours', 'spouts'] as const) {
+    s[group].forEach((item, i) => {
+      if (item.liquid !== undefined && !liquidIds.has(item.liquid)) {
+        ctx.addIssue({
+          code: z.ZodIssueCode.custom, path: [group, i, 'liquid'],
+          message: `no liquid '${item.liquid}' in liquids (${[...liquidIds.keys()].map((k) => `'${k}'`).join(', ')})`,
+        });
+      }
+    });
+  }
   const seen = new Map<string, string>();
   for (const group of ['pours', 'spouts', 'walls', 'props', 'drains'] as const) {
     s[group].forEach((item, i) => {
@@ -203,10 +280,22 @@ export const sceneSchema = sceneObject.superRefine((s, ctx) => {
   }
 });
 
+/** Fills each pour's and spout's `liquid` with the first liquid's id when omitted. */
+export const sceneSchema = refinedScene.transform((s) => {
+  const first = s.liquids[0].id;
+  return {
+    ...s,
+    pours: s.pours.map((p) => ({ ...p, liquid: p.liquid ?? first })),
+    spouts: s.spouts.map((p) => ({ ...p, liquid: p.liquid ?? first })),
+  };
+});
+
 /** The parsed scene with every default filled in. */
 export type Scene = z.infer<typeof sceneSchema>;
-/** The scene as written by a user (defaults optional). */
-export type SceneInput = z.input<typeof sceneSchema>;
+/** The scene as written by a user (defaults optional); version 1 documents are accepted too (see migrateV1). */
+export type SceneInput = Omit<z.input<typeof sceneSchema>, 'version'> & { version: 1 | 2 };
+export type Liquid = Scene['liquids'][number];
+export type Pour = Scene['pours'][number];
 export type ShapeDoc = z.infer<typeof shapeSchema>;
 export type Prop = Scene['props'][number];
 export type Spout = Scene['spouts'][number];
@@ -233,10 +322,40 @@ export function parseScene(input: unknown): ParseResult {
       return { ok: false, errors: [{ path: '(document)', message: `not valid JSON: ${(e as Error).message}` }] };
     }
   }
-  const r = sceneSchema.safeParse(value);
+  const migrated = migrateV1(value);
+  if (!migrated.ok) return migrated;
+  const r = sceneSchema.safeParse(migrated.value);
   if (r.success) return { ok: true, scene: r.data };
   const errors = r.error.issues.map((iss) => ({ path: pathString(iss.path), message: iss.message }));
   return { ok: false, errors };
+}
+
+/** Fields a version 1 document cannot have (they came with version 2). */
+const V2_ONLY = { top: ['liquids'], pours: ['liquid'], spouts: ['liquid'], props: ['motion', 'density', 'velocity', 'spin', 'releaseFrame'] } as const;
+
+/**
+ * Version 1 → 2 on read: a version 1 document is a version 2 document with one water liquid (DEFAULT_LIQUID)
+ * that every pour and spout uses and every prop keyed, so migration only sets `version: 2` and lets the
+ * defaults fill the rest. A version 1 document that already uses a version 2 field is refused at that field.
+ * Anything that is not a version 1 object passes through unchanged.
+ */
+export function migrateV1(value: unknown): { ok: true; value: unknown } | { ok: false; errors: SceneError[] } {
+  if (value === null || typeof value !== 'object' || Array.isArray(value)) return { ok: true, value };
+  const doc = value as Record<string, unknown>;
+  if (doc.version !== 1) return { ok: true, value };
+  const errors: SceneError[] = [];
+  const v2 = 'needs scene version 2 (a version 1 document has one water liquid and keyed props only)';
+  for (const f of V2_ONLY.top) if (f in doc) errors.push({ path: f, message: v2 });
+  for (const group of ['pours', 'spouts', 'props'] as const) {
+    const items = doc[group];
+    if (!Array.isArray(items)) continue;
+    items.forEach((it, i) => {
+      if (it === null || typeof it !== 'object') return;
+      for (const f of V2_ONLY[group]) if (f in (it as object)) errors.push({ path: `${group}.${i}.${f}`, message: v2 });
+    });
+  }
+  if (errors.length > 0) return { ok: false, errors };
+  return { ok: true, value: { ...doc, version: SCENE_VERSION } };
 }
 
 /** One line summarising parse errors, e.g. for a CLI: `physics.flipRatio: must be between 0 and 1; …`. */

@@ -9,8 +9,10 @@ import {
 } from './stages';
 import { projectGaussSeidel, projectPcgMic0, solveDriftPart, FLUID } from './pressure';
 import { liquidArea } from './area';
+import { createRigidBodies, type PropState } from './rigid';
 
 export type { SolverOptions } from './stages';
+export type { PropState } from './rigid';
 export { WATER_DENSITY } from './stages';
 
 /** Statistics of one shot frame. */
@@ -20,6 +22,10 @@ export interface FrameStats {
   /** Its time in seconds, (frame − startFrame)/fps. */
   time: number;
   count: number;
+  /** Particles of each liquid, in the order of scene.liquids (they sum to count). */
+  liquidCounts: number[];
+  /** Every prop (keyed and free) at the frame's end: centroid (tank m), angle (deg), velocity (m/s), spin (deg/s). */
+  props: PropState[];
   /**
    * Area inside the ρ/ρ₀ = ½ iso-contour of the cell-centred particle density, m² (marching squares; solids
    * excluded, see area.ts). Grows when the liquid spreads below rest density, shrinks when it is compressed.
@@ -76,6 +82,8 @@ export interface Solver {
   readonly v: Float32Array;
   /** Stable particle ids (order of the arrays changes between steps; ids follow particles). */
   readonly ids: Int32Array;
+  /** Liquid of each particle: index into scene.liquids (same order as x/y/u/v). */
+  readonly liquid: Uint8Array;
   /** Particle capacity allocated for this scene. */
   readonly capacity: number;
   readonly grid: Grid;
@@ -122,6 +130,8 @@ export function createSolver(scene: Scene, options: SolverOptions = {}): Solver 
   if (S.props.length > 0) placeSolids(S, timing.startFrame, timing.startFrame, frameDt);
   classifyCells(S);
   depositDensity(S);
+  const rigid = createRigidBodies(S, scene);
+  const hasFree = scene.props.some((p) => p.motion === 'free');
 
   function project(dt: number): number {
     // warm start for CG: q scales with dt (q = p·dt/(ρh))
@@ -135,6 +145,7 @@ export function createSolver(scene: Scene, options: SolverOptions = {}): Solver 
   /** One substep: the method's stages in order. */
   function step(dt: number): number {
     const f0 = timing.startFrame + time * timing.fps, f1 = timing.startFrame + (time + dt) * timing.fps;
+    if (hasFree) rigid.advance(dt, f0);
     placeSolids(S, f0, f1, dt);
     integrate(S, dt);
     S.sortByHashCell();
@@ -144,6 +155,7 @@ export function createSolver(scene: Scene, options: SolverOptions = {}): Solver 
     particlesToGrid(S);
     densityAndDrift(S, dt);
     lastResidual = project(dt);
+    if (hasFree) rigid.measureForces();
     gridToParticles(S);
     time += dt;
     steps++;
@@ -179,7 +191,7 @@ export function createSolver(scene: Scene, options: SolverOptions = {}): Solver 
     frame++;
     time = tEnd;
     return {
-      frame, time, count: S.n, liquidArea: liquidArea(S), maxSpeed: S.maxSpeed, cfl,
+      frame, time, count: S.n, liquidCounts: S.liquidCounts(), props: rigid.states(), liquidArea: liquidArea(S), maxSpeed: S.maxSpeed, cfl,
       pressureResidual: res, pressureIterations: iters, substeps, stepMs: performance.now() - t0,
     };
   }
@@ -192,7 +204,7 @@ export function createSolver(scene: Scene, options: SolverOptions = {}): Solver 
     // calling stats() never changes a bake).
     const rest = S.restDensity > 0 ? S.restDensity : estimateRestDensity(S);
     return {
-      frame, time, count: S.n, liquidArea: liquidArea(S, rest), maxSpeed: Math.sqrt(max2), cfl: 0,
+      frame, time, count: S.n, liquidCounts: S.liquidCounts(), props: rigid.states(), liquidArea: liquidArea(S, rest), maxSpeed: Math.sqrt(max2), cfl: 0,
       pressureResidual: 0, pressureIterations: 0, substeps: 0, stepMs: 0,
     };
   }
@@ -245,6 +257,7 @@ export function createSolver(scene: Scene, options: SolverOptions = {}): Solver 
     get u() { return S.u.subarray(0, S.n); },
     get v() { return S.v.subarray(0, S.n); },
     get ids() { return S.ids.subarray(0, S.n); },
+    get liquid() { return S.liquid.subarray(0, S.n); },
     get capacity() { return S.cap; },
     grid: { nx: S.nx, ny: S.ny, cellSize: S.h, originX: -S.h, originY: -S.h },
     stepFrame, step, stats, pressureField, pressureAt, solidDistance,

@@ -6,7 +6,8 @@
 import type { Scene, ShapeDoc } from '../scene/schema';
 import { tankCells, spoutEmissionEstimate, SCENE_LIMITS } from '../scene/schema';
 import { shapeSignedDistance, pointInShape, shapeBounds, shapeCentroid } from '../scene/shapes';
-import { poseInto, type Key, type Pose } from '../scene/keys';
+import { type Key, type Pose } from '../scene/keys';
+import { propPoseInto, type PropLike } from '../scene/pose';
 import { mulberry32 } from './prng';
 import { FLUID, AIR, SOLID, type ProjectionGrid } from './pressure';
 
@@ -20,19 +21,25 @@ export interface SolverOptions {
   hashCellFactor?: number;
 }
 
-interface PropRuntime {
+export interface PropRuntime {
   shape: ShapeDoc;
   keys: Key[];
+  /** The scene's prop (motion, release frame) for the shared pose function. */
+  doc: PropLike;
   cx: number; cy: number; // drawn centroid (m)
   reach: number; // max distance from centroid to the drawn bounds' corners (m)
   // placement at the end of the current step: world = R·(drawn − c) + c + d
   dx: number; dy: number; cos: number; sin: number; angle: number;
   // rigid velocity over the current step: translation (m/s) and angular velocity (rad/s)
   vx: number; vy: number; omega: number;
+  /** True once a free prop is released: rigid.ts moves it, its keys no longer do. */
+  free: boolean;
 }
 
 interface SpoutRuntime {
   vx: number; vy: number;
+  /** Index into scene.liquids of what it emits. */
+  liquid: number;
   startFrame: number; endFrame: number;
   cells: Int32Array; // grid cells holding emission samples
   sampleStart: Int32Array; // per cell, offset into sx/sy (length cells+1)
@@ -53,7 +60,12 @@ export class FlipState implements ProjectionGrid {
   readonly cap: number;
   n = 0;
   x: Float32Array; y: Float32Array; u: Float32Array; v: Float32Array; ids: Int32Array;
+  /** Per particle: index into scene.liquids of its liquid (kept in the order of x/y/u/v; never changes). */
+  liquid: Uint8Array;
   private x2: Float32Array; private y2: Float32Array; private u2: Float32Array; private v2: Float32Array; private ids2: Int32Array;
+  private liquid2: Uint8Array;
+  /** Number of liquids of the scene. */
+  readonly liquidCount: number;
   readonly key: Int32Array;
   nextId = 0;
   // spatial hash (padded by one empty column on the right and one empty row on top)
@@ -121,12 +133,13 @@ export class FlipState implements ProjectionGrid {
       const b = shapeBounds(p.shape);
       const reach = Math.max(Math.hypot(b.minX - cx, b.minY - cy), Math.hypot(b.maxX - cx, b.minY - cy),
         Math.hypot(b.minX - cx, b.maxY - cy), Math.hypot(b.maxX - cx, b.maxY - cy));
-      return { shape: p.shape, keys: p.keys, cx, cy, reach, dx: 0, dy: 0, cos: 1, sin: 0, angle: 0, vx: 0, vy: 0, omega: 0 };
+      return { shape: p.shape, keys: p.keys, doc: p, cx, cy, reach, dx: 0, dy: 0, cos: 1, sin: 0, angle: 0, vx: 0, vy: 0, omega: 0, free: false };
     });
     this.buildStaticSolids();
     const startFrame = scene.timing.startFrame;
     for (const p of this.props) this.placeProp(p, startFrame, startFrame, 1);
-    this.spouts = scene.spouts.map((s) => this.buildSpout(s));
+    this.liquidCount = scene.liquids.length;
+    this.spouts = scene.spouts.map((s) => this.buildSpout(s, liquidIndex(scene, s.liquid)));
 
     // hash: cell size ≥ 2r so every contact lies in the 3×3 block of hash cells
     this.hs = Math.max(2 * this.radius * Math.max(1.0001, opts.hashCellFactor ?? 1.1), 1e-9);
@@ -144,6 +157,7 @@ export class FlipState implements ProjectionGrid {
     const f32 = () => new Float32Array(this.cap);
     this.x = f32(); this.y = f32(); this.u = f32(); this.v = f32(); this.ids = new Int32Array(this.cap);
     this.x2 = f32(); this.y2 = f32(); this.u2 = f32(); this.v2 = f32(); this.ids2 = new Int32Array(this.cap);
+    this.liquid = new Uint8Array(this.cap); this.liquid2 = new Uint8Array(this.cap);
     this.key = new Int32Array(this.cap);
     this.seedPours(scene, false);
   }
@@ -193,10 +207,11 @@ export class FlipState implements ProjectionGrid {
 
   /** Places a prop at the pose of frame f1 and sets its rigid velocity from the pose change over dt seconds since f0. */
   placeProp(p: PropRuntime, f0: number, f1: number, dt: number): void {
+    if (p.free) return; // a released free prop keeps the pose rigid.ts gave it
     const pose = this.pose;
-    poseInto(p.keys, f0, pose);
+    propPoseInto(p.doc, f0, pose);
     const dx0 = pose.dx, dy0 = pose.dy, a0 = (pose.angle * Math.PI) / 180;
-    poseInto(p.keys, f1, pose);
+    propPoseInto(p.doc, f1, pose);
     const a1 = (pose.angle * Math.PI) / 180;
     p.dx = pose.dx; p.dy = pose.dy; p.angle = a1; p.cos = Math.cos(a1); p.sin = Math.sin(a1);
     p.vx = (pose.dx - dx0) / dt; p.vy = (pose.dy - dy0) / dt; p.omega = (a1 - a0) / dt;
@@ -229,6 +244,7 @@ export class FlipState implements ProjectionGrid {
     let n = 0;
     if (scene.pours.length === 0) return 0;
     const bounds = scene.pours.map((p) => shapeBounds(p.shape));
+    const pourLiquid = scene.pours.map((p) => liquidIndex(scene, p.liquid));
     for (let j = 0; j < nyIn; j++) {
       for (let i = 0; i < nxIn; i++) {
         for (let b = 0; b < k; b++) {
@@ -246,6 +262,7 @@ export class FlipState implements ProjectionGrid {
               const vel = scene.pours[which].velocity;
               this.x[n] = px + jx; this.y[n] = py + jy; this.u[n] = vel[0]; this.v[n] = vel[1];
               this.ids[n] = this.nextId++;
+              this.liquid[n] = pourLiquid[which];
             }
             n++;
           }
@@ -257,7 +274,7 @@ export class FlipState implements ProjectionGrid {
   }
 
   /** Emission samples of a spout: sub-grid points inside its shape and the tank, outside walls, grouped by cell. */
-  private buildSpout(s: Scene['spouts'][number]): SpoutRuntime {
+  private buildSpout(s: Scene['spouts'][number], liquid: number): SpoutRuntime {
     const { h, ppc } = this;
     const k = Math.round(Math.sqrt(ppc)), sub = h / k;
     const b = shapeBounds(s.shape);
@@ -276,7 +293,7 @@ export class FlipState implements ProjectionGrid {
     }
     starts.push(sx.length);
     return {
-      vx: s.velocity[0], vy: s.velocity[1], startFrame: s.startFrame, endFrame: s.endFrame,
+      vx: s.velocity[0], vy: s.velocity[1], liquid, startFrame: s.startFrame, endFrame: s.endFrame,
       cells: Int32Array.from(cells), sampleStart: Int32Array.from(starts), sx: Float64Array.from(sx), sy: Float64Array.from(sy),
     };
   }
@@ -297,32 +314,45 @@ export class FlipState implements ProjectionGrid {
       hstart[c + 1]++;
     }
     for (let c = 0; c < hnc; c++) { hstart[c + 1] += hstart[c]; hcursor[c] = hstart[c]; }
-    const u = this.u, v = this.v, ids = this.ids;
-    const x2 = this.x2, y2 = this.y2, u2 = this.u2, v2 = this.v2, ids2 = this.ids2;
+    const u = this.u, v = this.v, ids = this.ids, liq = this.liquid;
+    const x2 = this.x2, y2 = this.y2, u2 = this.u2, v2 = this.v2, ids2 = this.ids2, liq2 = this.liquid2;
     for (let p = 0; p < n; p++) {
       const d = hcursor[key[p]]++;
-      x2[d] = x[p]; y2[d] = y[p]; u2[d] = u[p]; v2[d] = v[p]; ids2[d] = ids[p];
+      x2[d] = x[p]; y2[d] = y[p]; u2[d] = u[p]; v2[d] = v[p]; ids2[d] = ids[p]; liq2[d] = liq[p];
     }
-    this.x = x2; this.y = y2; this.u = u2; this.v = v2; this.ids = ids2;
-    this.x2 = x; this.y2 = y; this.u2 = u; this.v2 = v; this.ids2 = ids;
+    this.x = x2; this.y = y2; this.u = u2; this.v = v2; this.ids = ids2; this.liquid = liq2;
+    this.x2 = x; this.y2 = y; this.u2 = u; this.v2 = v; this.ids2 = ids; this.liquid2 = liq;
   }
 
   /** Removes particle p by moving the last particle into its slot. */
   removeAt(p: number): void {
     const last = --this.n;
     this.x[p] = this.x[last]; this.y[p] = this.y[last]; this.u[p] = this.u[last]; this.v[p] = this.v[last];
-    this.ids[p] = this.ids[last];
+    this.ids[p] = this.ids[last]; this.liquid[p] = this.liquid[last];
   }
 
-  /** Appends a particle; returns false when the capacity is reached. */
-  add(x: number, y: number, u: number, v: number): boolean {
+  /** Appends a particle of liquid index `liquid`; returns false when the capacity is reached. */
+  add(x: number, y: number, u: number, v: number, liquid = 0): boolean {
     if (this.n >= this.cap) { this.emissionDropped++; return false; }
     const p = this.n++;
-    this.x[p] = x; this.y[p] = y; this.u[p] = u; this.v[p] = v; this.ids[p] = this.nextId++;
+    this.x[p] = x; this.y[p] = y; this.u[p] = u; this.v[p] = v; this.ids[p] = this.nextId++; this.liquid[p] = liquid;
     return true;
   }
 
+  /** Particles of each liquid (index into scene.liquids), counted now. */
+  liquidCounts(): number[] {
+    const counts = new Array<number>(this.liquidCount).fill(0);
+    const liq = this.liquid;
+    for (let p = 0; p < this.n; p++) counts[liq[p]]++;
+    return counts;
+  }
+
   jitterOffset(): number { return (this.rand() - 0.5) * this.jitter; }
+}
+
+/** Index into scene.liquids of liquid id `id` (the schema guarantees it exists; 0 otherwise). */
+export function liquidIndex(scene: Scene, id: string): number {
+  return Math.max(0, scene.liquids.findIndex((l) => l.id === id));
 }
 
 /**
@@ -516,7 +546,7 @@ export function emit(S: FlipState, frameNow: number): void {
       if (spoutOf[c] !== s + 1) continue; // cell shared with an earlier spout
       const a = sp.sampleStart[k], b = sp.sampleStart[k + 1];
       for (let m = a + cellCount[c]; m < b; m++) {
-        if (!S.add(sp.sx[m] + S.jitterOffset() * sub, sp.sy[m] + S.jitterOffset() * sub, sp.vx, sp.vy)) return;
+        if (!S.add(sp.sx[m] + S.jitterOffset() * sub, sp.sy[m] + S.jitterOffset() * sub, sp.vx, sp.vy, sp.liquid)) return;
       }
     }
   }
