@@ -63,3 +63,14 @@ describe('client and unshared shots', () => {
     expect(asArtist.body.versions).toEqual([]);
   });
 });
+
+describe('forwarded addresses', () => {
+  it('an X-Forwarded-For longer than 64 characters is a normal wrong sign-in (401), not a 500', async () => {
+    const res = await fetch(APP + '/api/auth/sign-in', {
+      method: 'POST',
+      headers: { origin: APP, 'content-type': 'application/json', 'x-forwarded-for': `10.1.2.3-${'x'.repeat(200)}` },
+      body: JSON.stringify({ email: 'nobody-here@test.example', password: 'wrong-password' }),
+    });
+    expect(res.status).toBe(401);
+  });
+});
