@@ -74,12 +74,34 @@ export function fromZod(error: ZodError): HttpError {
 
 const MAX_JSON_BYTES = 1_000_000;
 
-/** Reads the request body as JSON and parses it with the schema; throws HttpError on bad input. */
-export async function readJson<S extends ZodTypeAny>(request: Request, schema: S, maxBytes = MAX_JSON_BYTES): Promise<z.infer<S>> {
+/**
+ * Reads the request body as UTF-8 text, stopping with 413 as soon as more than `maxBytes` arrive — the same for a
+ * body with a Content-Length and a chunked one (the stream is cancelled, so the rest is never buffered).
+ */
+export async function readBodyText(request: Request, maxBytes: number): Promise<string> {
+  const tooLarge = () => new HttpError('payload_too_large', `Request body is larger than ${maxBytes} bytes`);
   const length = Number(request.headers.get('content-length') ?? '0');
-  if (length > maxBytes) throw new HttpError('payload_too_large', `Request body is larger than ${maxBytes} bytes`);
-  const text = await request.text();
-  if (text.length > maxBytes) throw new HttpError('payload_too_large', `Request body is larger than ${maxBytes} bytes`);
+  if (length > maxBytes) throw tooLarge();
+  if (!request.body) return '';
+  const reader = request.body.getReader();
+  const chunks: Uint8Array[] = [];
+  let size = 0;
+  for (;;) {
+    const { done, value } = await reader.read();
+    if (done) break;
+    size += value.byteLength;
+    if (size > maxBytes) {
+      await reader.cancel().catch(() => {});
+      throw tooLarge();
+    }
+    chunks.push(value);
+  }
+  return Buffer.concat(chunks).toString('utf8');
+}
+
+/** Reads the request body as JSON and parses it with the schema; throws HttpError on bad input (413 past `maxBytes`). */
+export async function readJson<S extends ZodTypeAny>(request: Request, schema: S, maxBytes = MAX_JSON_BYTES): Promise<z.infer<S>> {
+  const text = await readBodyText(request, maxBytes);
   let data: unknown;
   try {
     data = text === '' ? {} : JSON.parse(text);

@@ -34,6 +34,8 @@ export const studios = mysqlTable('studios', {
   id: id(),
   slug: varchar('slug', { length: 64 }).notNull().unique(),
   name: varchar('name', { length: 120 }).notNull(),
+  /** Largest bake cost estimate (see src/lib/scene/cost.ts) a version may have; null = the server default. */
+  bakeCostLimit: double('bake_cost_limit'),
   createdAt: createdAt(),
   updatedAt: updatedAt(),
 });
@@ -58,6 +60,8 @@ export const sessions = mysqlTable(
       .notNull()
       .references(() => users.id, { onDelete: 'cascade' }),
     expiresAt: datetime('expires_at', { mode: 'date' }).notNull(),
+    /** When the session began: a session ends after the absolute lifetime however often it slides. */
+    createdAt: datetime('created_at', { mode: 'date' }).notNull().default(sql`CURRENT_TIMESTAMP`),
   },
   (t) => [index('sessions_user_idx').on(t.userId)],
 );
@@ -89,6 +93,8 @@ export const invitations = mysqlTable(
       .references(() => studios.id, { onDelete: 'cascade' }),
     email: varchar('email', { length: 254 }).notNull(),
     role: mysqlEnum('role', ROLES).notNull(),
+    /** For a client invitation: the ids of the shows the client will see. */
+    showIds: json('show_ids').$type<number[]>(),
     tokenHash: varchar('token_hash', { length: 64 }).notNull().unique(),
     invitedBy: varchar('invited_by', { length: 40 }).references(() => users.id, { onDelete: 'set null' }),
     expiresAt: datetime('expires_at', { mode: 'date' }).notNull(),
@@ -125,6 +131,22 @@ export const signInAttempts = mysqlTable(
   (t) => [index('sign_in_attempts_email_idx').on(t.email, t.createdAt), index('sign_in_attempts_ip_idx').on(t.ip, t.createdAt)],
 );
 
+/**
+ * Throttle hits: one row per attempt (recorded before the attempt is judged), counted per bucket and key in the same
+ * transaction. Buckets: sign-in per account and per address, share-link password per link and per address, password
+ * reset per address and per e-mail. `key` is the SHA-256 of the value, so any length fits.
+ */
+export const throttleHits = mysqlTable(
+  'throttle_hits',
+  {
+    id: id(),
+    bucket: varchar('bucket', { length: 32 }).notNull(),
+    keyHash: varchar('key_hash', { length: 64 }).notNull(),
+    createdAt: createdAt(),
+  },
+  (t) => [index('throttle_hits_key_idx').on(t.bucket, t.keyHash, t.createdAt), index('throttle_hits_created_idx').on(t.createdAt)],
+);
+
 export const shows = mysqlTable(
   'shows',
   {
@@ -143,6 +165,25 @@ export const shows = mysqlTable(
   (t) => [uniqueIndex('shows_studio_code_uq').on(t.studioId, t.code), index('shows_studio_updated_idx').on(t.studioId, t.updatedAt)],
 );
 
+/** The shows a client membership may see (a client with none sees nothing). */
+export const clientShows = mysqlTable(
+  'client_shows',
+  {
+    id: id(),
+    studioId: ref('studio_id')
+      .notNull()
+      .references(() => studios.id, { onDelete: 'cascade' }),
+    userId: varchar('user_id', { length: 40 })
+      .notNull()
+      .references(() => users.id, { onDelete: 'cascade' }),
+    showId: ref('show_id')
+      .notNull()
+      .references(() => shows.id, { onDelete: 'cascade' }),
+    createdAt: createdAt(),
+  },
+  (t) => [uniqueIndex('client_shows_user_show_uq').on(t.userId, t.showId), index('client_shows_studio_idx').on(t.studioId, t.userId)],
+);
+
 export const assets = mysqlTable(
   'assets',
   {
@@ -159,6 +200,8 @@ export const assets = mysqlTable(
     versionId: ref('version_id'),
     shotId: ref('shot_id'),
     format: varchar('format', { length: 16 }),
+    /** SHA-256 (hex) of the stored object, recorded by whoever wrote it when known. */
+    sha256: varchar('sha256', { length: 64 }),
     meta: json('meta'),
     createdBy: varchar('created_by', { length: 40 }).references(() => users.id, { onDelete: 'set null' }),
     createdAt: createdAt(),

@@ -14,7 +14,8 @@ let dummyHash: Promise<string> | undefined;
 
 export const POST = endpoint(async ({ request, cookies, clientAddress }) => {
   const body = await readJson(request, Body);
-  const ip = clientAddress ?? 'unknown';
+  // The column holds 64 characters: a longer (forged) forwarded address must not turn into a 500.
+  const ip = (clientAddress ?? 'unknown').slice(0, 64);
   const wait = await signInWait(body.email, ip);
   if (wait > 0) {
     throw new HttpError('too_many_requests', `Too many failed sign-ins. Try again in ${Math.ceil(wait / 60)} minute(s).`, undefined, { retryAfterSeconds: wait }, { 'retry-after': String(wait) });

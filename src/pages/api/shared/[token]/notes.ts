@@ -5,8 +5,8 @@ import { addGuestNote, findShare, requireUnlocked } from '~/lib/server/share';
 import { guestNoteBody } from '~/lib/export/schemas';
 
 export const POST = endpoint(async ({ params, cookies, request }) => {
+  const body = await readJson(request, guestNoteBody);
   const opened = await findShare(params.token ?? '');
   requireUnlocked(opened, cookies);
-  const body = await readJson(request, guestNoteBody);
   return json({ note: await addGuestNote(opened, body) }, 201);
 });

@@ -5,8 +5,8 @@ import { findShare, unlockShare } from '~/lib/server/share';
 import { shareUnlockBody } from '~/lib/export/schemas';
 
 export const POST = endpoint(async ({ params, cookies, request }) => {
-  const opened = await findShare(params.token ?? '');
   const { password } = await readJson(request, shareUnlockBody);
+  const opened = await findShare(params.token ?? '');
   await unlockShare(opened, password, cookies, '/');
   return json({ unlocked: true });
 });

@@ -1,7 +1,7 @@
 // POST /api/shots/:shotId/versions {scene, comment?} → 201 {version}: saves the scene as the shot's next version (artist+).
-// GET → {versions} (newest first; a client sees only shared ones, without scenes).
+// GET → {versions} (newest first; a client sees only shared ones, without scenes; 404 when none).
 import { z } from 'zod';
-import { endpoint, json, idParam, readJson } from '~/lib/server/http';
+import { endpoint, json, idParam, readJson, HttpError } from '~/lib/server/http';
 import { createVersion, shotFor, validScene, versionsOfShot, versionView } from '~/lib/server/versions';
 
 const Body = z.object({
@@ -21,5 +21,7 @@ export const GET = endpoint(async ({ params, locals }) => {
   const { shot, access } = await shotFor(locals, idParam(params, 'shotId'), 'client');
   const rows = await versionsOfShot(shot.id);
   const visible = access.role === 'client' ? rows.filter((v) => v.sharedWithClient) : rows;
+  // A shot with nothing shared is not confirmed to a client (the same 404 as a shot that does not exist).
+  if (access.role === 'client' && visible.length === 0) throw new HttpError('not_found', 'No such shot');
   return json({ versions: visible.map((v) => versionView(v, false)) });
 });
