@@ -167,16 +167,16 @@ describe('blocking editor in Chromium', () => {
       await screenshot(page, 'editor-5b-preview-surface');
       expect(await page.getByTestId('preview-stats').textContent()).toMatch(/fps solved/);
 
-      // Save as version 1 with a comment, then bake it.
+      // Save as v001 with a comment, then bake it.
       await page.getByRole('button', { name: 'Save version…' }).click();
       await page.getByLabel('Comment').fill('Box drop timed to 1008');
       await page.getByRole('button', { name: 'Save version', exact: true }).click();
-      await page.getByRole('heading', { name: 'Saved as version 1' }).waitFor();
+      await page.getByRole('heading', { name: 'Saved as v001' }).waitFor();
       await screenshot(page, 'editor-6-saved');
       await page.getByRole('button', { name: 'Bake this version' }).click();
       await page.getByTestId('bake-status').waitFor();
       expect(await page.getByTestId('bake-status').textContent()).toMatch(/Queued|Baking|baked/);
-      const link = await page.getByRole('link', { name: 'Open version 1' }).getAttribute('href');
+      const link = await page.getByRole('link', { name: 'Open v001' }).getAttribute('href');
       expect(link).toMatch(new RegExp(`/studios/${studio.slug}/versions/\\d+$`));
       await screenshot(page, 'editor-7-bake-started');
 
@@ -189,7 +189,7 @@ describe('blocking editor in Chromium', () => {
       // Opening the editor again starts from that version, with no draft to offer.
       await page.goto(`/studios/${studio.slug}/shots/${shotId}/edit`);
       await page.getByTestId('editor-canvas').waitFor();
-      expect(await page.getByText('From version 1').count()).toBe(1);
+      expect(await page.getByText('From v001').count()).toBe(1);
       expect(await page.getByTestId('draft-offer').count()).toBe(0);
       expect(errors).toEqual([]);
     } finally {

@@ -19,6 +19,7 @@ import { Ruler } from './Ruler';
 import { SavePanel } from './SavePanel';
 import { HelpOverlay } from './HelpOverlay';
 import type { EditorBoot } from './types';
+import { versionLabel } from '~/lib/vocab';
 
 const TOOLS: { id: ToolId; label: string; key: string; what: string; icon: ReactElement }[] = [
   { id: 'select', label: 'Pick', key: '1', what: 'Select, move, resize, rotate', icon: <path d="M5 3l10 6-4.5 1.2L13 15l-2 1-2.4-4.8L5 14z" fill="currentColor" /> },
@@ -155,7 +156,7 @@ export default function Editor({ boot }: { boot: EditorBoot }) {
           <h1 className="text-2xl font-semibold tracking-tight">{boot.shot.code}</h1>
         </div>
         <p className="text-sm text-ink-muted">
-          {lastSaved ? `From version ${lastSaved.number}` : 'New scene'}
+          {lastSaved ? `From ${versionLabel(lastSaved.number)}` : 'New scene'}
           {dirty ? ' · unsaved changes' : ''}
         </p>
         <div className="ml-auto flex items-center gap-2">
@@ -230,7 +231,7 @@ export default function Editor({ boot }: { boot: EditorBoot }) {
             </div>
           </div>
 
-          <Ruler doc={snap.doc} frame={snap.frame} rate={boot.shot.frameRate} computedTo={pv.computedTo} onFrame={(f) => store.setFrame(f)} />
+          <Ruler doc={snap.doc} frame={snap.frame} shot={boot.shot} computedTo={pv.computedTo} onFrame={(f) => store.setFrame(f)} />
 
           <div className="flex flex-wrap items-center gap-2 border-t border-sand-line bg-sand/40 px-3 py-2 text-[0.8rem]" data-testid="preview-bar">
             <span className="font-semibold text-ink">Live preview</span>

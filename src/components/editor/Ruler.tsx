@@ -1,24 +1,22 @@
-// The frame ruler under the view: the scene's frame range in shot frames with SMPTE timecode, the current frame,
+// The frame ruler under the view: the scene's frame range in shot frames with the plate's source timecode, the current frame,
 // how far the live preview has computed, each spout's active frames and each prop's impact frame. Click or drag to scrub.
 import { useRef } from 'react';
 import type { EditorDoc } from '~/lib/editor/document';
-import { framesToTimecode } from '~/lib/timecode';
+import { sourceTimecodeLabel, type SourceTimecodeShot } from '~/lib/timecode';
 import { impactFrameOf, surfaceHeightAt } from '~/lib/editor/timing';
 import { shapeCentroid } from '~/lib/scene/shapes';
 
 interface Props {
   doc: EditorDoc;
   frame: number;
-  rate: string;
+  /** The shot's cut in, rate and source timecode at the cut in: every frame is shown with its source timecode. */
+  shot: SourceTimecodeShot;
   computedTo: number | null;
   onFrame(frame: number): void;
 }
 
-export function timecodeOf(frame: number, rate: string): string {
-  try { return framesToTimecode(Math.max(0, frame), rate); } catch { return '—'; }
-}
-
-export function Ruler({ doc, frame, rate, computedTo, onFrame }: Props) {
+export function Ruler({ doc, frame, shot, computedTo, onFrame }: Props) {
+  const timecodeOf = (f: number) => sourceTimecodeLabel(shot, f, '—');
   const ref = useRef<HTMLDivElement>(null);
   const { startFrame: a, endFrame: b } = doc.timing;
   const span = Math.max(1, b - a);
@@ -39,8 +37,8 @@ export function Ruler({ doc, frame, rate, computedTo, onFrame }: Props) {
   return (
     <div className="select-none px-3 pt-1 pb-2">
       <div className="flex items-baseline justify-between text-[0.75rem] tabular-nums text-ink-soft">
-        <span>Frame <strong className="text-ink" data-testid="current-frame">{frame}</strong> · <span data-testid="current-timecode">{timecodeOf(frame, rate)}</span></span>
-        <span className="text-ink-muted">{a}–{b} · {timecodeOf(a, rate)} – {timecodeOf(b, rate)}</span>
+        <span>Frame <strong className="text-ink" data-testid="current-frame">{frame}</strong> · <span data-testid="current-timecode">{timecodeOf(frame)}</span></span>
+        <span className="text-ink-muted">{a}–{b} · {timecodeOf(a)} – {timecodeOf(b)}</span>
       </div>
       <div
         ref={ref}
@@ -50,7 +48,7 @@ export function Ruler({ doc, frame, rate, computedTo, onFrame }: Props) {
         aria-valuemin={a}
         aria-valuemax={b}
         aria-valuenow={frame}
-        aria-valuetext={`frame ${frame}, ${timecodeOf(frame, rate)}`}
+        aria-valuetext={`frame ${frame}, ${timecodeOf(frame)}`}
         data-testid="frame-ruler"
         className="relative mt-1 h-10 cursor-pointer rounded-md border border-sand-line bg-white"
         onPointerDown={(e) => { (e.target as HTMLElement).setPointerCapture(e.pointerId); pick(e.clientX); }}

@@ -6,6 +6,7 @@ import type { EditorDoc } from '~/lib/editor/document';
 import { api, ApiError, messageOf } from '~/components/shared/api';
 import { Spinner } from '~/components/shared/form';
 import { fieldLabel } from '~/lib/scene/labels';
+import { versionLabel } from '~/lib/vocab';
 
 interface Saved { id: number; number: number; sceneHash: string }
 
@@ -53,7 +54,7 @@ export function SavePanel({ doc, shotId, studioSlug, onSaved, onClose }: { doc: 
   return (
     <div role="dialog" aria-modal="true" aria-labelledby="save-title" className="fixed inset-0 z-40 grid place-items-center bg-ink/40 p-4" onKeyDown={(e) => e.key === 'Escape' && onClose()}>
       <div className="card w-full max-w-md p-5">
-        <h2 id="save-title" className="text-lg font-semibold">{saved ? `Saved as version ${saved.number}` : 'Save as a new version'}</h2>
+        <h2 id="save-title" className="text-lg font-semibold">{saved ? `Saved as ${versionLabel(saved.number)}` : 'Save as a new version'}</h2>
         {!saved ? (
           <>
             <p className="mt-1 text-sm text-ink-soft">Each save is a new numbered version; earlier versions never change.</p>
@@ -76,7 +77,7 @@ export function SavePanel({ doc, shotId, studioSlug, onSaved, onClose }: { doc: 
             <p className="mt-1 text-sm text-ink-soft">Scene hash <code className="text-xs">{saved.sceneHash.slice(0, 12)}</code>. Bake it to review the full-resolution splash.</p>
             {bake && <p role="status" className="mt-3 rounded-lg bg-foam-50 px-3 py-2 text-sm text-foam-600" data-testid="bake-status">{bake}</p>}
             <div className="mt-5 flex flex-wrap justify-end gap-2">
-              <a className="btn-quiet" href={`/studios/${studioSlug}/versions/${saved.id}`}>Open version {saved.number}</a>
+              <a className="btn-quiet" href={`/studios/${studioSlug}/versions/${saved.id}`}>Open {versionLabel(saved.number)}</a>
               <button type="button" className="btn-quiet" onClick={onClose}>Keep blocking</button>
               <button type="button" className="btn-primary" disabled={busy || bake !== null} onClick={startBake}>{busy && <Spinner />}Bake this version</button>
             </div>

@@ -6,6 +6,8 @@ export interface EditorBoot {
   shot: {
     id: number; code: string; firstFrame: number; lastFrame: number; handles: number; frameRate: string;
     plateWidth: number; plateHeight: number; metresPerPixel: number | null;
+    /** Source timecode of the cut-in frame (null: 00:00:00:00). */
+    sourceTimecodeIn: string | null;
   };
   scene: EditorDoc;
   /** The version the scene came from (null: a new scene). */

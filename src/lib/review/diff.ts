@@ -4,7 +4,7 @@ import { shapeCentroid, type Shape } from '../scene/shapes';
 
 export const OBJECT_GROUPS = ['pours', 'spouts', 'walls', 'props', 'drains'] as const;
 export type ObjectGroup = (typeof OBJECT_GROUPS)[number];
-export type ChangeArea = 'tank' | 'timing' | 'physics' | ObjectGroup | 'document';
+export type ChangeArea = 'tank' | 'timing' | 'physics' | ObjectGroup;
 
 /**
  * One row of the change table.
@@ -148,9 +148,7 @@ export function diffScenes(a: unknown, b: unknown): SceneChange[] {
   const out: SceneChange[] = [];
   const A: Doc = isObj(a) ? a : {};
   const B: Doc = isObj(b) ? b : {};
-  if (!sameValue(A.version, B.version)) {
-    out.push({ area: 'document', kind: 'changed', path: 'version', before: A.version, after: B.version, summary: `document version ${fmt(A.version)} → ${fmt(B.version)}` });
-  }
+  // The document's format version is not a change anyone made (version 1 documents are read as version 2): not listed.
   for (const section of ['tank', 'timing', 'physics'] as const) sectionChanges(section, section, A[section], B[section], out);
   for (const group of OBJECT_GROUPS) objectChanges(group, A[group], B[group], out);
   return out;
