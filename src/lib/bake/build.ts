@@ -1,3 +1,4 @@
 // Identifies the solver build that baked a clip. Bump it when a solver change alters baked frames,
 // so stored clips are not reused for scenes that would now bake differently.
-export const SOLVER_BUILD = 'tidemark-flip/1';
+// 2: the drift correction's time scale no longer shrinks with CFL substeps (stages.ts, DRIFT_TIME).
+export const SOLVER_BUILD = 'tidemark-flip/2';

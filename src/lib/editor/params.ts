@@ -29,11 +29,11 @@ export const PARAMS: readonly ParamSpec[] = [
   { path: 'physics.pressureTolerance', label: 'Pressure tolerance', unit: 'relative', min: 0.0001, max: 0.5, step: 0.0001, help: 'How far the pressure solve must shrink its residual. Smaller keeps volume better and costs time.', advanced: true },
   { path: 'physics.pressureIterations', label: 'Pressure iterations (cap)', unit: '', min: 1, max: 10000, step: 1, integer: true, help: 'Most iterations a step may use to reach the tolerance.', advanced: true },
   { path: 'physics.overRelaxation', label: 'Over-relaxation', unit: '', min: 0.1, max: 1.99, step: 0.01, help: 'Gauss–Seidel only: step size of each sweep; 1.9 converges fastest on most tanks.', advanced: true },
-  { path: 'physics.driftCorrection', label: 'Drift correction', unit: '', min: 0, max: 10, step: 0.1, help: 'Pushes crowded particles apart so the liquid keeps its volume over long shots. 0 turns it off.' },
+  { path: 'physics.driftCorrection', label: 'Drift correction', unit: '', min: 0, max: 2, step: 0.1, help: 'Pushes crowded particles apart so the liquid keeps its volume over long shots. 0 turns it off.' },
   { path: 'physics.separationIterations', label: 'Separation passes', unit: '', min: 0, max: 20, step: 1, integer: true, help: 'Passes that keep particles from clumping. 2 is usually enough.', advanced: true },
   { path: 'physics.particleRadius', label: 'Particle radius', unit: '× cell', min: 0.05, max: 0.5, step: 0.01, help: 'Particle size as a fraction of the cell, used when separating particles.', advanced: true },
   { path: 'timing.substeps', label: 'Substeps per frame (min)', unit: '', min: 1, max: 200, step: 1, integer: true, help: 'Fewest solver steps per frame; more are added when the liquid moves fast (see CFL).' },
-  { path: 'physics.cfl', label: 'CFL limit', unit: 'cells/step', min: 0.1, max: 100, step: 0.1, help: 'Farthest a particle may travel in one step. Lower is steadier for fast impacts and slower to bake.', advanced: true },
+  { path: 'physics.cfl', label: 'CFL limit', unit: 'cells/step', min: 0.1, max: 10, step: 0.1, help: 'Farthest a particle may travel in one step. Lower is steadier for fast impacts and slower to bake.', advanced: true },
   { path: 'physics.seed', label: 'Seed', unit: '', min: 0, max: 4294967295, step: 1, integer: true, help: 'Drives the particle jitter at seeding. Same seed, same splash; change it for a variation.' },
 ];
 

@@ -30,7 +30,7 @@ export function referenceDamBreak(scale = 1, pressureSolver?: PressureSolverName
     timing: { fps: 120, startFrame: 0, endFrame: steps - 1, substeps: 1 },
     physics: {
       gravity: [0, -9.81], flipRatio: 0.9, pressureIterations: 50, overRelaxation: 1.9, separationIterations: 2,
-      driftCorrection: 1.0, particlesPerCell: 4, particleRadius: 0.3, cfl: 100, seed: 1,
+      driftCorrection: 1.0, particlesPerCell: 4, particleRadius: 0.3, cfl: 10, seed: 1,
       ...(pressureSolver ? { pressureSolver } : {}), ...(pressureTolerance ? { pressureTolerance } : {}),
     },
     pours: [{ id: 'column', shape: { type: 'rect', x: 0, y: 0, width: cols * 0.5 * h, height: rows * 0.5 * h } }],
