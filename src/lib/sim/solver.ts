@@ -9,6 +9,7 @@ import {
 } from './stages';
 import { projectGaussSeidel, projectPcgMic0, solveDriftPart, FLUID } from './pressure';
 import { liquidArea } from './area';
+import { freeSurface } from './surface';
 
 export type { SolverOptions } from './stages';
 export { WATER_DENSITY } from './stages';
@@ -143,6 +144,7 @@ export function createSolver(scene: Scene, options: SolverOptions = {}): Solver 
     emit(S, f0);
     particlesToGrid(S);
     densityAndDrift(S, dt);
+    freeSurface(S);
     lastResidual = project(dt);
     gridToParticles(S);
     time += dt;
