@@ -8,6 +8,14 @@
 //   Σ_{n non-solid} (q_c − q_n) = b_c,   b_c = target_c − D_c,   D_c = u_{i+1} − u_i + v_{j+1} − v_j (m/s),
 // with q = 0 in air cells (free surface, Dirichlet) and solid neighbours dropped (Neumann).
 // The velocity update is u_face −= q_right − q_left (and likewise for v).
+//
+// Free surface, ghost-fluid method (Gibou, Fedkiw, Cheng & Kang 2002; Enright, Nguyen, Gibou & Fedkiw 2003):
+// q = 0 is imposed where the surface actually crosses the line between a liquid cell and its air
+// neighbour, at the fraction θ of a cell from the liquid cell's centre (surface.ts). The ghost pressure in
+// the air cell is then q_g = q_c·(1 − 1/θ), so that face's term is (q_c − q_g) = q_c/θ: each face carries a
+// weight w_f (0 at a solid, 1 between liquid cells, 1/θ between liquid and air), the diagonal is
+// Σ_f w_f, the off-diagonals stay −1 between liquid cells (the matrix stays symmetric), and the velocity
+// update is u_f −= w_f·(q_right − q_left) with q = 0 in air. θ = 1 everywhere is the first-order scheme.
 
 export const FLUID = 0;
 export const AIR = 1;
@@ -21,6 +29,9 @@ export interface ProjectionGrid {
   gv: Float64Array;
   /** 1 for a non-solid cell, 0 for a solid one. */
   open: Float64Array;
+  /** Pressure weight of each cell's left face (faceU) and bottom face (faceV): 0, 1 or 1/θ (see above). */
+  faceU: Float64Array;
+  faceV: Float64Array;
   type: Uint8Array;
   /** Divergence target per cell (m/s), from drift correction; only fluid cells read. */
   target: Float64Array;
@@ -41,16 +52,16 @@ export interface ProjectionGrid {
 }
 
 
-/** Builds the fluid list, the diagonal (non-solid neighbour count) and b; returns ‖b‖₂. */
+/** Builds the fluid list, the diagonal (sum of the face weights) and b; returns ‖b‖₂. */
 export function assembleSystem(g: ProjectionGrid): number {
-  const { nx, ny, type, open, gu: u, gv: v, target, fluid, diag, res } = g;
+  const { nx, ny, type, faceU: wu, faceV: wv, gu: u, gv: v, target, fluid, diag, res } = g;
   let n = 0, bb = 0;
   for (let j = 1; j < ny - 1; j++) {
     let c = 1 + nx * j;
     for (let i = 1; i < nx - 1; i++, c++) {
       if (type[c] !== FLUID) continue;
       fluid[n++] = c;
-      diag[c] = open[c - 1] + open[c + 1] + open[c - nx] + open[c + nx];
+      diag[c] = wu[c] + wu[c + 1] + wv[c] + wv[c + nx];
       // b_c = target_c − D_c
       const b = target[c] - (u[c + 1] - u[c] + v[c + nx] - v[c]);
       res[c] = b;
@@ -76,11 +87,11 @@ export function divergenceResidual(g: ProjectionGrid): number {
 /**
  * Over-relaxed Gauss–Seidel on the velocities, cold start (q = 0), at most `maxSweeps` sweeps,
  * stopping early once the running residual of a sweep is below tolerance·‖b‖. Returns ‖b − A q‖₂/‖b‖₂.
- * Per fluid cell: corr = ω·(target − D_c)/Σ open_n; q_c += corr; each open face moves by corr outward.
+ * Per fluid cell: corr = ω·(target − D_c)/Σ w_f; q_c += corr; each face f moves by w_f·corr outward.
  */
 export function projectGaussSeidel(g: ProjectionGrid, maxSweeps: number, omega: number, tolerance: number): number {
   const bNorm = assembleSystem(g);
-  const { nx, gu: u, gv: v, open, target, fluid, fluidCount, q, diag } = g;
+  const { nx, gu: u, gv: v, faceU: wu, faceV: wv, target, fluid, fluidCount, q, diag } = g;
   for (let k = 0; k < fluidCount; k++) q[fluid[k]] = 0;
   g.lastIterations = 0;
   if (bNorm === 0) return 0;
@@ -96,10 +107,10 @@ export function projectGaussSeidel(g: ProjectionGrid, maxSweeps: number, omega: 
       running += r * r;
       const corr = (omega * r) / sum;
       q[c] += corr;
-      u[c] -= open[c - 1] * corr;
-      u[c + 1] += open[c + 1] * corr;
-      v[c] -= open[c - nx] * corr;
-      v[c + nx] += open[c + nx] * corr;
+      u[c] -= wu[c] * corr;
+      u[c + 1] += wu[c + 1] * corr;
+      v[c] -= wv[c] * corr;
+      v[c + nx] += wv[c + nx] * corr;
     }
     if (running <= stop2) { it++; break; }
   }
@@ -249,18 +260,18 @@ function pcgSolve(g: ProjectionGrid, x: Float64Array, bNorm: number, maxIteratio
 }
 
 /**
- * u_face −= q_right − q_left on every open face next to a fluid cell (q = 0 in air); faces touching a
- * solid keep the solid's velocity. Each face is visited once: a fluid cell updates its left and bottom
- * faces, and its right and top faces only when the neighbour there is open but not fluid.
+ * u_f −= w_f·(q_right − q_left) on every face next to a fluid cell (q = 0 in air; w_f = 0 at solids, whose
+ * faces keep the solid's velocity). Each face is visited once: a fluid cell updates its left and bottom
+ * faces, and its right and top faces only when the neighbour there is not fluid.
  */
 export function applyPressureGradient(g: ProjectionGrid): void {
-  const { nx, gu: u, gv: v, open, type, fluid, fluidCount, q } = g;
+  const { nx, gu: u, gv: v, faceU: wu, faceV: wv, type, fluid, fluidCount, q } = g;
   for (let k = 0; k < fluidCount; k++) {
     const c = fluid[k];
     const qc = q[c];
-    if (open[c - 1] !== 0) u[c] -= qc - q[c - 1];
-    if (open[c - nx] !== 0) v[c] -= qc - q[c - nx];
-    if (open[c + 1] !== 0 && type[c + 1] !== FLUID) u[c + 1] += qc;
-    if (open[c + nx] !== 0 && type[c + nx] !== FLUID) v[c + nx] += qc;
+    u[c] -= wu[c] * (qc - q[c - 1]);
+    v[c] -= wv[c] * (qc - q[c - nx]);
+    if (type[c + 1] !== FLUID) u[c + 1] += wu[c + 1] * qc;
+    if (type[c + nx] !== FLUID) v[c + nx] += wv[c + nx] * qc;
   }
 }

@@ -10,6 +10,7 @@ import {
 import { projectGaussSeidel, projectPcgMic0, solveDriftPart, FLUID } from './pressure';
 import { liquidArea } from './area';
 import { createRigidBodies, type PropState } from './rigid';
+import { freeSurface } from './surface';
 
 export type { SolverOptions } from './stages';
 export type { PropState } from './rigid';
@@ -154,6 +155,7 @@ export function createSolver(scene: Scene, options: SolverOptions = {}): Solver 
     emit(S, f0);
     particlesToGrid(S);
     densityAndDrift(S, dt);
+    freeSurface(S);
     lastResidual = project(dt);
     if (hasFree) rigid.measureForces();
     gridToParticles(S);

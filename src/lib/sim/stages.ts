@@ -77,6 +77,8 @@ export class FlipState implements ProjectionGrid {
   readonly prevU: Float64Array; readonly prevV: Float64Array;
   readonly dens: Float64Array;
   readonly open: Float64Array;
+  /** Free surface (surface.ts): signed distance at cell centres (m) and the projection's face weights. */
+  readonly phi: Float64Array; readonly faceU: Float64Array; readonly faceV: Float64Array;
   readonly type: Uint8Array;
   readonly solid: Uint8Array; readonly staticSolid: Uint8Array;
   readonly solidU: Float64Array; readonly solidV: Float64Array;
@@ -121,6 +123,7 @@ export class FlipState implements ProjectionGrid {
     const f64 = () => new Float64Array(nc);
     this.gu = f64(); this.gv = f64(); this.wu = f64(); this.wv = f64(); this.prevU = f64(); this.prevV = f64();
     this.dens = f64(); this.open = f64(); this.solidU = f64(); this.solidV = f64(); this.target = f64();
+    this.phi = f64(); this.faceU = f64(); this.faceV = f64();
     this.q = f64(); this.res = f64(); this.zv = f64(); this.dir = f64(); this.adir = f64(); this.precon = f64(); this.diag = f64();
     this.type = new Uint8Array(nc); this.solid = new Uint8Array(nc); this.staticSolid = new Uint8Array(nc);
     this.nearSolid = new Uint8Array(nc); this.staticNearSolid = new Uint8Array(nc); this.drainCell = new Uint8Array(nc);
