@@ -5,6 +5,7 @@
 // (centroid in tank metres, angle in degrees, velocities in m/s and deg/s).
 // Usage: npx tsx src/cli/sim.ts --scene <scene.json> --out <frames.jsonl> [--frames N]
 // N = number of lines written (default: the whole frame range). Exit code 2 + one line on a bad scene.
+import { once } from 'node:events';
 import { readFileSync, createWriteStream } from 'node:fs';
 import { parseScene, formatSceneErrors } from '../lib/scene/schema';
 import { frameCount, frameToTime } from '../lib/scene/time';
@@ -45,7 +46,14 @@ async function main(): Promise<void> {
   if (!Number.isInteger(total) || total < 1) fail(`--frames must be a whole number ≥ 1 (got ${framesArg})`);
   const sim = createSolver(scene);
   const out = createWriteStream(outPath);
-  const write = (s: string) => new Promise<void>((res, rej) => (out.write(s) ? res() : out.once('drain', res), out.once('error', rej)));
+  // One error listener for the whole bake (a listener per line piled up: MaxListenersExceededWarning on long bakes);
+  // a write waits only when the stream's buffer is full, and a stream error fails the bake at the next line.
+  let streamError: Error | null = null;
+  out.on('error', (e) => { streamError = e; });
+  const write = async (s: string) => {
+    if (streamError) throw streamError;
+    if (!out.write(s)) await once(out, 'drain');
+  };
   await write(frameLine(sim, sim.stats().props));
   for (let f = 1; f < total; f++) {
     const st = sim.stepFrame();

@@ -28,6 +28,17 @@ describe('sim CLI', () => {
     expect(lines[2].v.some((v: number) => v < 0)).toBe(true); // falling
   });
 
+  it('bakes many frames without piling up stream listeners (no MaxListenersExceededWarning)', () => {
+    const dir = mkdtempSync(join(tmpdir(), 'tidemark-sim-'));
+    const scene = join(dir, 'long.json');
+    writeFileSync(scene, JSON.stringify({ version: 1, tank: { width: 0.5, height: 0.25, cellSize: 0.05 }, timing: { fps: 24, startFrame: 1, endFrame: 30 },
+      pours: [{ id: 'p', shape: { type: 'rect', x: 0, y: 0, width: 0.5, height: 0.1 } }] }));
+    const r = run(['--scene', scene, '--out', join(dir, 'frames.jsonl')]);
+    expect(r.status).toBe(0);
+    expect(readFileSync(join(dir, 'frames.jsonl'), 'utf8').trim().split('\n')).toHaveLength(30);
+    expect(r.stderr).not.toMatch(/MaxListenersExceededWarning/);
+  });
+
   it('rejects a bad scene with a non-zero exit and one line naming the field', () => {
     const dir = mkdtempSync(join(tmpdir(), 'tidemark-sim-'));
     const bad = join(dir, 'bad.json');

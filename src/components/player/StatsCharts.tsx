@@ -4,6 +4,7 @@ import { useEffect, useMemo, useRef } from 'react';
 import uPlot from 'uplot';
 import 'uplot/dist/uPlot.min.css';
 import type { BakeStats } from './types';
+import { areaChange } from '~/lib/review/bake-summary';
 
 interface Series {
   key: 'liquidArea' | 'maxSpeed' | 'cfl' | 'pressureResidual' | 'stepMs';
@@ -29,15 +30,8 @@ interface Props {
   onSeek: (frame: number) => void;
 }
 
-/** Change of liquid area from the first measured frame to the last, as a fraction (null when unmeasured). */
-export function areaChange(stats: BakeStats): number | null {
-  const areas = stats.frames.map((f) => f.liquidArea).filter((a): a is number => typeof a === 'number' && Number.isFinite(a) && a > 0);
-  if (areas.length < 2) return null;
-  return areas[areas.length - 1] / areas[0] - 1;
-}
-
 export default function StatsCharts({ stats, frame, onSeek }: Props) {
-  const change = areaChange(stats);
+  const change = areaChange(stats.frames);
   return (
     <section aria-labelledby="stats-heading" className="card p-4" data-testid="bake-stats">
       <div className="flex items-baseline justify-between gap-2">
@@ -48,7 +42,7 @@ export default function StatsCharts({ stats, frame, onSeek }: Props) {
       </div>
       {change !== null && (
         <p className={`mt-1 text-xs ${Math.abs(change) > 0.1 ? 'font-medium text-coral-700' : 'text-ink-muted'}`}>
-          Liquid area {change >= 0 ? '+' : '−'}
+          Liquid area per particle {change >= 0 ? '+' : '−'}
           {Math.abs(change * 100).toFixed(1)} % from first to last frame{Math.abs(change) > 0.1 ? ': check for lost volume' : ''}
         </p>
       )}
