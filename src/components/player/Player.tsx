@@ -202,7 +202,8 @@ export default function Player({ studioId, version, shot, plate, clip, onFrame, 
   }, []);
   const clearInOut = useCallback(() => setInOut(null), []);
 
-  // Keys: ←/→ one frame (Shift: ten), Space play/pause, Home/End to in/out, I/O set in/out, X clear, L loop.
+  // Keys: ←/→ one frame (Shift: ten), Space play/pause, Home/End to in/out, I/O set in/out, X clear. Loop stays on its
+  // button: J/K/L are shuttle keys in editors' habits (common practice, no source), so L must not toggle a loop.
   useEffect(() => {
     const onKey = (e: KeyboardEvent) => {
       if (e.defaultPrevented || e.altKey || e.ctrlKey || e.metaKey) return;
@@ -238,10 +239,6 @@ export default function Player({ studioId, version, shot, plate, clip, onFrame, 
         case 'x':
         case 'X':
           clearInOut();
-          break;
-        case 'l':
-        case 'L':
-          setLoop((v) => !v);
           break;
         default:
           return;
@@ -362,7 +359,7 @@ export default function Player({ studioId, version, shot, plate, clip, onFrame, 
             </span>
           </div>
           <p className="text-xs text-ink-muted">
-            Keys: ←/→ one frame (Shift: ten) · Space play/pause · I/O set in/out · X clear range · Home/End in/out · L loop
+            Keys: ←/→ one frame (Shift: ten) · Space play/pause · I/O set in/out · X clear range · Home/End in/out
           </p>
           {plateNote && <FormMessage tone="info">{plateNote}</FormMessage>}
         </div>

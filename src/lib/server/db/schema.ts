@@ -165,7 +165,10 @@ export const shows = mysqlTable(
   (t) => [uniqueIndex('shows_studio_code_uq').on(t.studioId, t.code), index('shows_studio_updated_idx').on(t.studioId, t.updatedAt)],
 );
 
-/** The shows a client membership may see (a client with none sees nothing). */
+/**
+ * The shows a client membership may see. Filled by migration 0003 (every client: all its studio's shows); no code
+ * reads it yet — client visibility is still decided per studio until the access policy uses it.
+ */
 export const clientShows = mysqlTable(
   'client_shows',
   {
