@@ -5,7 +5,7 @@
 import { describe, expect, it } from 'vitest';
 import { parseScene, type Scene } from '../../src/lib/scene';
 import { createSolver, referenceDamBreak, type FrameStats } from '../../src/lib/sim';
-import { bakeHealth, driverSpeed, SPEED_FACTOR, SUBSTEP_FACTOR } from '../../src/lib/sim/health';
+import { bakeHealth, driverSpeed, healthOf, SPEED_FACTOR, SUBSTEP_FACTOR } from '../../src/lib/sim/health';
 
 function bakeFew(scene: Scene, frames: number): FrameStats[] {
   const s = createSolver(scene, referenceDamBreak().options);
@@ -80,5 +80,13 @@ describe('bake health', () => {
     if (!r.ok) throw new Error(JSON.stringify(r.errors));
     // keyed prop: 0.5 m over 2 frames at 120 fps = 30 m/s, faster than the 12 m/s spout and the ≈ 4.4 m/s fall
     expect(driverSpeed(r.scene)).toBeCloseTo(30, 9);
+  });
+
+  it('the verdict reads back from a clip meta; a meta stored before verdicts reads as none', () => {
+    const h = bakeHealth(scene, frames.map((f, i) => (i >= 6 ? { ...f, count: 0 } : f)));
+    expect(healthOf(JSON.parse(JSON.stringify({ solverBuild: 'x', health: h })))).toEqual(h);
+    expect(healthOf({ solverBuild: 'x', frames: 10 })).toBeNull();
+    expect(healthOf({ health: { healthy: 'yes' } })).toBeNull();
+    expect(healthOf(null)).toBeNull();
   });
 });

@@ -1,11 +1,13 @@
 // A bake's health verdict, from its per-frame stats: did liquid go missing, did particles move faster than
 // anything in the scene can push them, did the step count run away, did a number stop being finite.
 // The bounds below are limits of this solver (what a bake that works stays within), not physics values.
+import { z } from 'zod';
 import type { Scene } from '../scene/schema';
 import { shapeBounds, shapeCentroid, type Shape } from '../scene/shapes';
 import type { FrameStats } from './solver';
 
-export type HealthCode = 'liquid-lost' | 'speed-runaway' | 'substeps-runaway' | 'speed-not-finite';
+export const HEALTH_CODES = ['liquid-lost', 'speed-runaway', 'substeps-runaway', 'speed-not-finite'] as const;
+export type HealthCode = (typeof HEALTH_CODES)[number];
 
 export interface HealthFinding {
   code: HealthCode;
@@ -123,4 +125,15 @@ export function bakeHealth(scene: Scene, frames: readonly FrameStats[]): BakeHea
   }
 
   return { healthy: findings.length === 0, findings };
+}
+
+const healthSchema = z.object({
+  healthy: z.boolean(),
+  findings: z.array(z.object({ code: z.enum(HEALTH_CODES), words: z.string(), value: z.number(), bound: z.number() })),
+});
+
+/** The verdict stored in a clip's meta, or null for a bake stored before verdicts existed (or unreadable). */
+export function healthOf(meta: unknown): BakeHealth | null {
+  const r = healthSchema.safeParse((meta as { health?: unknown } | null | undefined)?.health);
+  return r.success ? r.data : null;
 }

@@ -3,6 +3,7 @@
 import { endpoint, json, idParam, HttpError } from '~/lib/server/http';
 import { clipOf, versionFor } from '~/lib/server/versions';
 import { presignGet } from '~/lib/server/storage';
+import { healthOf } from '~/lib/sim/health';
 
 export const GET = endpoint(async ({ params, locals }) => {
   const { version } = await versionFor(locals, idParam(params, 'versionId'), 'client');
@@ -13,6 +14,7 @@ export const GET = endpoint(async ({ params, locals }) => {
     clipUrl: await presignGet(clip.storageKey, 900),
     statsUrl: typeof meta.statsKey === 'string' ? await presignGet(meta.statsKey, 900) : null,
     bytes: clip.byteSize,
+    health: healthOf(meta),
     meta,
     expiresInSeconds: 900,
   });
