@@ -73,6 +73,22 @@ describe('bake health on the version page', () => {
       await note.waitFor({ timeout: 30_000 });
       expect(await note.textContent()).toContain('Liquid lost: 100 % of the particles left the tank');
       await screenshot(page, 'bake-health-unhealthy');
+
+      // the gate: without a reason the server refuses, naming the field; the panel then asks for one
+      const refused = await artist.post(`/api/versions/${versionId}/review/submit`, {});
+      expect(refused.status).toBe(400);
+      expect(refused.body.error.fields.overrideReason).toBeTruthy();
+      await page.getByRole('button', { name: 'Submit for review' }).click();
+      const reason = page.getByTestId('override-reason');
+      await reason.waitFor({ timeout: 15_000 });
+      await reason.fill('The loss is the spray leaving the frame; judge the splash');
+      await screenshot(page, 'bake-health-override');
+      await page.getByRole('button', { name: 'Submit anyway' }).click();
+      await page.getByTestId('review-panel-state').and(page.locator('[data-state="submitted"]')).waitFor({ timeout: 15_000 });
+      const review = await artist.get(`/api/versions/${versionId}/review`);
+      const last = review.body.events[review.body.events.length - 1];
+      expect(last.toState).toBe('submitted');
+      expect(last.comment).toContain('Submitted although the bake went wrong: The loss is the spray leaving the frame');
     } finally {
       await b.close();
     }
