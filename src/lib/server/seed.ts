@@ -9,6 +9,7 @@ import { putObject } from './storage';
 import { rooftopPoolPlate, harbourWallPlate } from './demo-plates';
 import { makeStillThumbnail } from './thumbnails';
 import { parseScene, sceneHash } from '../scene';
+import { LIQUID_PRESETS } from '../scene/liquids';
 import { enqueueBake } from '../bake/queue';
 
 export const DEMO_STUDIO = { slug: 'saltmarsh', name: 'Saltmarsh Pictures' };
@@ -41,7 +42,7 @@ const DEMO_SHOWS = [
     shots: [
       { code: 'LHK_0100', source: '11:04:10:00', description: 'Wide: first wave rolls in under the pier', first: 1001, last: 1072, status: 'blocking' as const },
       { code: 'LHK_0200', source: '11:06:33:12', description: 'Wave slaps the wall, spray over the singer', first: 1001, last: 1060, status: 'blocking' as const },
-      { code: 'LHK_0300', source: '11:09:01:00', description: 'Runoff pours down the steps', first: 1001, last: 1120, status: 'blocking' as const },
+      { code: 'LHK_0300', source: '11:09:01:00', description: 'Red paint runs down the harbour steps', first: 1001, last: 1120, status: 'blocking' as const },
     ],
   },
 ];
@@ -96,6 +97,32 @@ export function demoScene(code: string, fps: number, first: number, last: number
           { id: 'harbour', shape: { type: 'rect', x: 1.2, y: 0, width: 1.6, height: 0.35 }, velocity: [0, 0] },
         ],
         walls: [{ id: 'harbour-wall', shape: { type: 'rect', x: 2.8, y: 0, width: 0.4, height: 1.2 } }],
+      },
+    };
+  }
+  if (code === 'LHK_0300') {
+    // Red paint (the thick-paint preset) spills off the top step and runs down the harbour steps into the water.
+    const paint = LIQUID_PRESETS.find((l) => l.key === 'thick-paint')!;
+    return {
+      tankWidth: 3.2,
+      scene: {
+        version: 2,
+        liquids: [
+          { id: 'water', name: 'Harbour water', colour: '#3A8FB7', viscosity: 1e-6 },
+          { id: 'paint', name: 'Red paint', colour: paint.colour, viscosity: paint.viscosity },
+        ],
+        tank: { width: 3.2, height: 1.8, cellSize: 0.025, sides: { left: true, right: true, bottom: true, top: false } },
+        timing,
+        physics: { seed: 7 },
+        pours: [{ id: 'harbour', liquid: 'water', shape: { type: 'rect', x: 1.6, y: 0, width: 1.6, height: 0.2 }, velocity: [0, 0] }],
+        spouts: [
+          { id: 'paint-spill', liquid: 'paint', shape: { type: 'circle', x: 0.3, y: 1.2, radius: 0.06 }, velocity: [0.8, -0.3], startFrame: first, endFrame: first + 36 },
+        ],
+        walls: [
+          { id: 'step-1', shape: { type: 'rect', x: 0, y: 0, width: 0.8, height: 0.9 } },
+          { id: 'step-2', shape: { type: 'rect', x: 0.8, y: 0, width: 0.4, height: 0.6 } },
+          { id: 'step-3', shape: { type: 'rect', x: 1.2, y: 0, width: 0.4, height: 0.3 } },
+        ],
       },
     };
   }
