@@ -6,6 +6,7 @@ import { db } from '../server/db';
 import { assets, bakeJobs, versions } from '../server/db/schema';
 import { audit } from '../server/audit';
 import { HttpError } from '../server/http';
+import { bakeCostLimitOf, requireBakeWithinLimit, validScene } from '../server/versions';
 import { SOLVER_BUILD } from './build';
 
 export interface QueueSettings {
@@ -42,6 +43,7 @@ export interface ClaimedJob {
  */
 export async function enqueueBake(versionId: number, studioId: number, actorId: string) {
   const settings = queueSettings();
+  const costLimit = await bakeCostLimitOf(studioId);
   const result = await db().transaction(async (tx) => {
     const [v] = await tx
       .select()
@@ -69,8 +71,10 @@ export async function enqueueBake(versionId: number, studioId: number, actorId: 
         .where(eq(versions.id, versionId));
       return { kind: 'reused' as const, jobId: null };
     }
-    const scene = v.scene as { timing?: { startFrame?: number; endFrame?: number } };
-    const framesTotal = (scene.timing?.endFrame ?? 0) - (scene.timing?.startFrame ?? 0) + 1;
+    // Versions saved before the cost limit existed (or a studio limit lowered since) are checked again here.
+    const scene = validScene(v.scene);
+    requireBakeWithinLimit(scene, costLimit);
+    const framesTotal = scene.timing.endFrame - scene.timing.startFrame + 1;
     const [res] = await tx.insert(bakeJobs).values({
       studioId,
       versionId,

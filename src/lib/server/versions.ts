@@ -2,12 +2,13 @@
 import { eq, sql, desc } from 'drizzle-orm';
 import type { APIContext } from 'astro';
 import { db } from './db';
-import { shots, versions, assets } from './db/schema';
+import { shots, versions, assets, studios } from './db/schema';
 import { HttpError } from './http';
 import { requireRole, type StudioAccess } from './authz';
 import { audit } from './audit';
 import { supersedeOlderVersions } from './review';
 import { parseScene, sceneHash, type Scene } from '../scene';
+import { checkBakeCost, DEFAULT_BAKE_COST_LIMIT } from '../scene/cost';
 import type { Role } from '../vocab';
 
 type Locals = APIContext['locals'];
@@ -41,8 +42,26 @@ export function validScene(doc: unknown): Scene {
   throw new HttpError('validation_failed', names.length === 1 ? `${names[0]}: ${fields[names[0]]}` : `The scene has ${names.length} problems: ${names.slice(0, 5).join(', ')}`, fields);
 }
 
-/** Saves a scene as the shot's next version (numbers never reused; existing versions never changed). */
+/** The studio's bake cost limit in work units (studios.bake_cost_limit; null = DEFAULT_BAKE_COST_LIMIT). */
+export async function bakeCostLimitOf(studioId: number): Promise<number> {
+  const [row] = await db().select({ limit: studios.bakeCostLimit }).from(studios).where(eq(studios.id, studioId));
+  return row?.limit ?? DEFAULT_BAKE_COST_LIMIT;
+}
+
+/** Throws 400 naming `scene.<field>` when the scene's bake cost estimate is over `limit` (see bakeCostLimitOf). */
+export function requireBakeWithinLimit(scene: Scene, limit: number): void {
+  const err = checkBakeCost(scene, limit);
+  if (!err) return;
+  const field = `scene.${err.field}`;
+  throw new HttpError('validation_failed', `${field}: ${err.message}`, { [field]: err.message });
+}
+
+/**
+ * Saves a scene as the shot's next version (numbers never reused; existing versions never changed).
+ * Refuses (400) a scene whose bake would cost more than the studio's limit.
+ */
 export async function createVersion(shot: typeof shots.$inferSelect, authorId: string, scene: Scene, comment: string | null) {
+  requireBakeWithinLimit(scene, await bakeCostLimitOf(shot.studioId));
   const hash = sceneHash(scene);
   const created = await db().transaction(async (tx) => {
     // Lock the shot row so two saves at once get consecutive numbers.
