@@ -4,10 +4,13 @@ import { describe, it, expect, beforeAll, afterAll } from 'vitest';
 import { makeStudio, type TestStudio } from '../support/app';
 import { tinyScene } from '../support/scenes';
 import { makeShot } from './endpoints';
-import { closeDb } from '../../src/lib/server/db';
+import { eq } from 'drizzle-orm';
+import { closeDb, db } from '../../src/lib/server/db';
+import { studios } from '../../src/lib/server/db/schema';
 import { ClipReader } from '../../src/lib/clip/decode';
 import { positionErrorBound } from '../../src/lib/clip/format';
 import { parseScene } from '../../src/lib/scene';
+import { bakeCost } from '../../src/lib/scene/cost';
 import { createSolver } from '../../src/lib/sim';
 import { bakeHealth } from '../../src/lib/sim/health';
 
@@ -111,5 +114,48 @@ describe('bake through the app', () => {
     const res = await artist.get(`/api/versions/${saved.body.version.id}/clip`);
     expect(res.status).toBe(409);
     expect(res.body.error.message).toMatch(/not baked/);
+  });
+});
+
+describe('bake cost limit', () => {
+  it('refuses to save a scene of 10⁷ frames with 400 naming scene.timing.endFrame and the limit, and saves nothing', async () => {
+    const artist = studio.members.artist.client;
+    const shotId = await makeShot(studio);
+    const res = await artist.post(`/api/shots/${shotId}/versions`, { scene: tinyScene(10_000_000) });
+    expect(res.status).toBe(400);
+    expect(res.body.error.code).toBe('validation_failed');
+    expect(Object.keys(res.body.error.fields)).toEqual(['scene.timing.endFrame']);
+    expect(res.body.error.message).toMatch(/the limit is 1\.0 × 10¹¹/);
+    const list = await artist.get(`/api/shots/${shotId}/versions`);
+    expect(list.body.versions).toHaveLength(0);
+  });
+
+  it("uses the studio's own limit on save and on enqueue (a version saved under a higher limit is refused at enqueue)", async () => {
+    const own = await makeStudio();
+    const artist = own.members.artist.client;
+    const shotId = await makeShot(own);
+    const scene = tinyScene(10);
+    const parsed = parseScene(scene);
+    if (!parsed.ok) throw new Error('tiny scene invalid');
+    const cost = bakeCost(parsed.scene).total;
+    const saved = await artist.post(`/api/shots/${shotId}/versions`, { scene });
+    expect(saved.status).toBe(201);
+    await db().update(studios).set({ bakeCostLimit: cost / 2 }).where(eq(studios.id, own.id));
+    try {
+      const again = await artist.post(`/api/shots/${shotId}/versions`, { scene });
+      expect(again.status).toBe(400);
+      expect(Object.keys(again.body.error.fields)).toHaveLength(1);
+      expect(Object.keys(again.body.error.fields)[0]).toMatch(/^scene\.(timing\.endFrame|tank\.cellSize|timing\.substeps|physics\.pressureIterations)$/);
+      const bake = await artist.post(`/api/versions/${saved.body.version.id}/bake`, {});
+      expect(bake.status).toBe(400);
+      expect(Object.keys(bake.body.error.fields)).toEqual(Object.keys(again.body.error.fields));
+      const state = await artist.get(`/api/versions/${saved.body.version.id}/bake`);
+      expect(state.body.bakeState).not.toBe('queued');
+      expect(state.body.bake).toBeNull();
+    } finally {
+      await db().update(studios).set({ bakeCostLimit: null }).where(eq(studios.id, own.id));
+    }
+    const list = await artist.get(`/api/shots/${shotId}/versions`);
+    expect(list.body.versions).toHaveLength(1);
   });
 });
