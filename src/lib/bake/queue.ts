@@ -6,7 +6,8 @@ import { db } from '../server/db';
 import { assets, bakeJobs, versions } from '../server/db/schema';
 import { audit } from '../server/audit';
 import { HttpError } from '../server/http';
-import { bakeCostLimitOf, requireBakeWithinLimit, validScene } from '../server/versions';
+import { bakeCostLimitOf, requireBakeWithinLimit } from '../server/versions';
+import { parseScene } from '../scene/schema';
 import { SOLVER_BUILD } from './build';
 
 export interface QueueSettings {
@@ -71,10 +72,12 @@ export async function enqueueBake(versionId: number, studioId: number, actorId: 
         .where(eq(versions.id, versionId));
       return { kind: 'reused' as const, jobId: null };
     }
-    // Versions saved before the cost limit existed (or a studio limit lowered since) are checked again here.
-    const scene = validScene(v.scene);
-    requireBakeWithinLimit(scene, costLimit);
-    const framesTotal = scene.timing.endFrame - scene.timing.startFrame + 1;
+    // Versions saved before the cost limit existed (or under a studio limit lowered since) are checked again here.
+    // A stored scene that no longer parses is left to the worker, which fails the job with the validation message.
+    const parsed = parseScene(v.scene);
+    if (parsed.ok) requireBakeWithinLimit(parsed.scene, costLimit);
+    const scene = v.scene as { timing?: { startFrame?: number; endFrame?: number } };
+    const framesTotal = (scene.timing?.endFrame ?? 0) - (scene.timing?.startFrame ?? 0) + 1;
     const [res] = await tx.insert(bakeJobs).values({
       studioId,
       versionId,
