@@ -3,8 +3,7 @@
 // Work units: one unit is one grid cell visited by one pressure iteration in one substep, or one particle
 // moved in one substep. The estimate is an upper bound on configured work (CFL may add substeps; a
 // tolerance may stop the pressure solve early), not a prediction of wall time.
-import { shapeArea } from './shapes';
-import { spoutEmissionEstimate, tankCells, type Scene } from './schema';
+import { estimateParticles, tankCells, type Scene } from './schema';
 
 /** The scene fields the estimate depends on, in the dotted form error responses use. */
 export const COST_FIELDS = ['timing.endFrame', 'tank.cellSize', 'timing.substeps', 'physics.pressureIterations'] as const;
@@ -44,15 +43,6 @@ export interface BakeCost {
   dominant: CostField;
 }
 
-/** Upper estimate of particles: pours' area × particlesPerCell / cellSize², plus every spout's emission. */
-function particleEstimate(scene: Scene): number {
-  const h = scene.tank.cellSize, ppc = scene.physics.particlesPerCell;
-  let n = 0;
-  for (const p of scene.pours) n += (shapeArea(p.shape) * ppc) / (h * h);
-  for (const s of scene.spouts) n += spoutEmissionEstimate(s, scene.timing.fps, h, ppc);
-  return n;
-}
-
 /** Estimated work of baking `scene` (a parsed scene, defaults filled in). */
 export function bakeCost(scene: Scene): BakeCost {
   const { nx, ny } = tankCells(scene.tank);
@@ -60,7 +50,8 @@ export function bakeCost(scene: Scene): BakeCost {
   const frames = Math.max(0, scene.timing.endFrame - scene.timing.startFrame + 1);
   const substeps = scene.timing.substeps;
   const iters = scene.physics.pressureIterations;
-  const particleCount = particleEstimate(scene);
+  // pours' area × particlesPerCell / cellSize² plus every spout's emission (spoutEmissionEstimate)
+  const particleCount = estimateParticles(scene);
   const pressure = cells * frames * substeps * iters;
   const particles = particleCount * frames * substeps;
   const factors: [CostField, number][] = [
