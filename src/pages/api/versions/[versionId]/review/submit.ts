@@ -1,13 +1,14 @@
 // POST /api/versions/:versionId/review/submit {comment?} → {version, event}: draft → submitted (artist+, baked only).
 // 409 {error:{code:'conflict', currentState}} when the version is not a draft or not baked.
 import { z } from 'zod';
+import { versionAccess } from '~/lib/server/access';
 import { endpoint, json, idParam, readJson } from '~/lib/server/http';
-import { reviewVersionFor, transitionVersion } from '~/lib/server/review';
+import { transitionVersion } from '~/lib/server/review';
 
 const Body = z.object({ comment: z.string({ invalid_type_error: 'must be text' }).trim().max(2000, 'is too long (2000 characters at most)').optional() }).strict();
 
 export const POST = endpoint(async ({ params, locals, request }) => {
-  const { version, access } = await reviewVersionFor(locals, idParam(params, 'versionId'), 'artist');
+  const { version, access } = await versionAccess(locals, idParam(params, 'versionId'), 'artist');
   const body = await readJson(request, Body);
   return json(await transitionVersion(access, version.id, 'submit', body.comment || null));
 });
