@@ -6,7 +6,7 @@ import { describe, it, expect, beforeAll, afterAll } from 'vitest';
 import { randomBytes } from 'node:crypto';
 import { readdirSync, statSync } from 'node:fs';
 import path from 'node:path';
-import { Client, grantClientShow, makeStudio, makeUser, type TestStudio } from '../support/app';
+import { Client, grantClientShow, linkIn, makeStudio, makeUser, membershipId, unique, waitForMail, type TestStudio } from '../support/app';
 import { ENDPOINTS } from './endpoints';
 import { db, closeDb } from '../../src/lib/server/db';
 import { memberships, notes, shots, shows, users, versions } from '../../src/lib/server/db/schema';
@@ -215,8 +215,35 @@ describe('client visibility: two brands in one studio', () => {
     const routes = [...new Set([...ENDPOINTS.filter((e) => e.method === 'GET').map((e) => e.route), ...pageRoutes()])];
     const paths = routes.flatMap(mixed);
     expect(paths.length).toBeGreaterThan(3);
-    for (const who of [studio.members.owner.client, brands[0].client]) {
-      for (const p of paths) expect((await who.get(p)).status, p).toBe(404);
-    }
+    // The owner may call every route: only the other studio's id stops it.
+    for (const p of paths) expect((await studio.members.owner.client.get(p)).status, p).toBe(404);
+    // A client is refused routes above its role before any id is looked at (403 confirms nothing); the rest are 404.
+    for (const p of paths) expect([403, 404], p).toContain((await brands[0].client.get(p)).status);
+  });
+
+  it('an invited client sees the shows its invitation named; the owner changes them on the membership', async () => {
+    const owner = studio.members.owner.client;
+    const email = `${unique('brand')}@test.example`;
+    const bad = await owner.post(`/api/studios/${studio.id}/invitations`, { email, role: 'client', showIds: [otherShowId] });
+    expect(bad.status).toBe(400);
+    expect(bad.body.error.fields).toHaveProperty('showIds');
+    const made = await owner.post(`/api/studios/${studio.id}/invitations`, { email, role: 'client', showIds: [brands[0].showId] });
+    expect(made.status, JSON.stringify(made.body)).toBe(201);
+    const token = linkIn(await waitForMail(email)).split('/').pop()!;
+    const accepted = await new Client().post(`/api/invitations/${token}/accept`, { name: 'Brand Person', password: 'a-long-enough-pw' });
+    expect(accepted.status, JSON.stringify(accepted.body)).toBe(200);
+    const c = await new Client().signIn(email, 'a-long-enough-pw');
+    const seen = async () => ((await c.get(`/api/studios/${studio.id}/shows`)).body.items as { id: number }[]).map((s) => s.id);
+    expect(await seen()).toEqual([brands[0].showId]);
+    const [u] = await db().select({ id: users.id }).from(users).where(eq(users.email, email));
+    const memberId = await membershipId(studio.id, u.id);
+    expect((await studio.members.supervisor.client.patch(`/api/studios/${studio.id}/members/${memberId}`, { showIds: [brands[1].showId] })).status).toBe(403);
+    const moved = await owner.patch(`/api/studios/${studio.id}/members/${memberId}`, { showIds: [brands[1].showId] });
+    expect(moved.status, JSON.stringify(moved.body)).toBe(200);
+    expect(await seen()).toEqual([brands[1].showId]);
+    expect((await c.get(`/api/versions/${brands[0].sharedVersionId}`)).status).toBe(404);
+    // Only a client membership has shows.
+    const artistMember = await membershipId(studio.id, studio.members.artist.id);
+    expect((await owner.patch(`/api/studios/${studio.id}/members/${artistMember}`, { showIds: [] })).status).toBe(404);
   });
 });

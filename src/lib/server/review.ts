@@ -468,7 +468,8 @@ export async function inboxFor(access: StudioAccess) {
       shotId: r.shotId,
       shotCode: r.shotCode,
       showCode: r.showCode,
-      author: { id: r.authorId, name: r.authorName ?? 'A former member' },
+      // A client is not told who in the studio made the version.
+      author: role === 'client' ? { id: null, name: 'The studio' } : { id: r.authorId, name: r.authorName ?? 'A former member' },
       updatedAt: r.updatedAt.toISOString(),
       lastEvent: e ? { comment: role === 'client' ? null : e.comment, actorName: e.actorName, at: e.createdAt.toISOString() } : null,
     };
