@@ -15,6 +15,12 @@ export const RESET_HOURS = 1;
 
 /** Lists a studio's members for the members table. */
 export async function listMembers(studioId: number) {
+  const [rows, scopes] = await Promise.all([memberRows(studioId), db().select({ userId: clientShows.userId, showId: clientShows.showId }).from(clientShows).where(eq(clientShows.studioId, studioId))]);
+  // A client member carries the shows it may see; the studio's own people see every show.
+  return rows.map((m) => ({ ...m, showIds: m.role === 'client' ? scopes.filter((c) => c.userId === m.userId).map((c) => c.showId).sort((a, b) => a - b) : null }));
+}
+
+function memberRows(studioId: number) {
   return db()
     .select({
       id: memberships.id,
