@@ -65,6 +65,8 @@ export async function makeVersion(s: TestStudio, opts: { baked?: boolean; shared
       bakeState: opts.baked ? 'baked' : 'none',
       clipAssetId,
       sharedWithClient: opts.shared ?? opts.baked ?? false,
+      // A client sees shared versions past draft only (access.ts), so a shared fixture is submitted.
+      reviewState: (opts.shared ?? opts.baked ?? false) ? 'submitted' : 'draft',
     });
   return { shotId, versionId: Number(v.insertId) };
 }
@@ -158,6 +160,8 @@ export async function libraryShot(s: TestStudio, showId?: number): Promise<numbe
   const show = showId ?? (await libraryShow(s));
   const [res] = await db().insert(tables.shots).values({ studioId: s.id, showId: show, code: unique('S'), firstFrame: 1001, lastFrame: 1050 });
   const shotId = Number(res.insertId);
+  // In a new shared show the shot itself has a shared version: a client sees a shot only through one (access.ts).
+  if (showId === undefined) await db().insert(tables.versions).values({ studioId: s.id, shotId, number: 1, scene: {}, sceneHash: 'matrix', sharedWithClient: true, reviewState: 'submitted' });
   made.set(s.id, { ...made.get(s.id), shotId });
   return shotId;
 }
