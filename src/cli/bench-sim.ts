@@ -15,6 +15,8 @@ interface RunFigures {
   particles: number; steps: number; wall_s: number; cpu_s: number; psteps_per_s: number;
   residual_median: number; residual_max: number; iterations_mean: number;
   front: Record<string, number>;
+  /** Wall time per solver stage summed over the run, ms (FrameStats.stageMs). */
+  stage_ms: Record<string, number>;
 }
 
 function arg(name: string): string | undefined {
@@ -36,6 +38,7 @@ function runDamBreak(label: string, scale: number, solver: PressureSolverName, t
   const front: Record<string, number> = {};
   const residuals: number[] = [];
   let iterations = 0;
+  const stageMs: Record<string, number> = {};
   const particles = sim.count;
   const c0 = process.cpuUsage();
   const t0 = performance.now();
@@ -43,6 +46,7 @@ function runDamBreak(label: string, scale: number, solver: PressureSolverName, t
     const st = sim.stepFrame();
     residuals.push(st.pressureResidual);
     iterations += st.pressureIterations;
+    for (const [name, ms] of Object.entries(st.stageMs)) stageMs[name] = (stageMs[name] ?? 0) + ms;
     const t = frontSteps.get(s);
     if (t !== undefined) {
       let m = -Infinity;
@@ -56,7 +60,7 @@ function runDamBreak(label: string, scale: number, solver: PressureSolverName, t
   return {
     label, scale, solver, tolerance, particles, steps: setup.steps, wall_s: wall, cpu_s: (cpu.user + cpu.system) / 1e6,
     psteps_per_s: (particles * setup.steps) / wall, residual_median: median(residuals), residual_max: Math.max(...residuals),
-    iterations_mean: iterations / setup.steps, front,
+    iterations_mean: iterations / setup.steps, front, stage_ms: stageMs,
   };
 }
 
@@ -67,6 +71,9 @@ function printRun(r: RunFigures): void {
       `wall_s=${r.wall_s.toFixed(3)} cpu_s=${r.cpu_s.toFixed(3)} psteps_per_s=${r.psteps_per_s.toExponential(3)} ` +
       `residual_median=${r.residual_median.toExponential(2)} residual_max=${r.residual_max.toExponential(2)} iters_mean=${r.iterations_mean.toFixed(1)} ${f}`,
   );
+  const total = Object.values(r.stage_ms).reduce((a, b) => a + b, 0);
+  const shares = Object.entries(r.stage_ms).map(([name, ms]) => `${name} ${((100 * ms) / total).toFixed(0)}%`).join(', ');
+  console.log(`${''.padEnd(22)} stages: ${shares}`);
 }
 
 interface NativeFigures { psteps_per_s: number; wall_s: number; cpu_s: number; particles: number; line: string }

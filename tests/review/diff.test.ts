@@ -100,7 +100,7 @@ describe('diffScenes', () => {
   it('copes with documents that are not scenes (empty objects, missing groups)', () => {
     expect(diffScenes({}, {})).toEqual([]);
     const rows = diffScenes({}, base());
-    expect(rows.filter((r) => r.kind === 'added').map((r) => r.objectId)).toEqual(['pool', 'jet', 'lip', 'paddle']);
+    expect(rows.filter((r) => r.kind === 'added').map((r) => r.objectId)).toEqual(['water', 'pool', 'jet', 'lip', 'paddle']) // the scene reads with its default liquid;
     expect(diffScenes(null, undefined)).toEqual([]);
   });
 });
@@ -113,5 +113,29 @@ describe('translationBetween', () => {
     expect(translationBetween(a, moved)).toEqual([2, 3]);
     expect(translationBetween(a, turned)).toBeNull();
     expect(translationBetween({ type: 'circle', x: 0, y: 0, radius: 1 }, { type: 'rect', x: 0, y: 0, width: 1, height: 1 })).toBeNull();
+  });
+});
+
+describe('diffScenes across document formats', () => {
+  it('a version 1 document and its version 2 reading differ in nothing', () => {
+    const v1 = base();
+    const v2 = {
+      ...structuredClone(base()), version: 2,
+      liquids: [{ id: 'water', name: 'Water', colour: '#3A8FB7', viscosity: 1e-6 }],
+    };
+    // v2 spells out what v1 leaves to defaults (the liquid, motion 'keyed', the pour's liquid): no row
+    const spelledOut = structuredClone(v2) as Record<string, unknown> & typeof v2;
+    (spelledOut.props[0] as Record<string, unknown>).motion = 'keyed';
+    (spelledOut.pours[0] as Record<string, unknown>).liquid = 'water';
+    expect(diffScenes(v1, spelledOut)).toEqual([]);
+  });
+
+  it('lists a liquid whose viscosity changed', () => {
+    const a = { ...structuredClone(base()), version: 2, liquids: [{ id: 'water', name: 'Water', colour: '#3A8FB7', viscosity: 1e-6 }] };
+    const b = structuredClone(a);
+    b.liquids[0].viscosity = 0.01;
+    const rows = diffScenes(a, b);
+    expect(rows).toHaveLength(1);
+    expect(rows[0]).toMatchObject({ area: 'liquids', kind: 'changed', path: 'liquids[water].viscosity', before: 1e-6, after: 0.01 });
   });
 });

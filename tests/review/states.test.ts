@@ -71,6 +71,21 @@ describe('review transitions', () => {
   });
 });
 
+describe('an unhealthy bake at the submit gate', () => {
+  const submit = { actor: 'artist' as const, action: 'submit' as const, from: 'draft' as const, bakeState: 'baked' };
+  it('refuses a bake whose verdict has findings unless the artist gives a reason, naming the field', () => {
+    const r = decideTransition({ ...submit, bakeHealthy: false });
+    expect(r).toMatchObject({ ok: false, code: 'validation_failed', field: 'overrideReason' });
+    expect(decideTransition({ ...submit, bakeHealthy: false, overrideReason: '  ' }).ok).toBe(false);
+    expect(decideTransition({ ...submit, bakeHealthy: false, overrideReason: 'spray is wanted' })).toEqual({ ok: true, to: 'submitted' });
+  });
+  it('lets healthy bakes and bakes stored before verdicts existed through without a reason', () => {
+    expect(decideTransition({ ...submit, bakeHealthy: true }).ok).toBe(true);
+    expect(decideTransition({ ...submit, bakeHealthy: null }).ok).toBe(true);
+    expect(decideTransition(submit).ok).toBe(true);
+  });
+});
+
 describe('the shot status follows its versions', () => {
   it('submitted → in review, approved → approved, returned → blocking, superseded → blocking', () => {
     expect(shotStatusAfter('submitted', 'blocking')).toBe('in review');

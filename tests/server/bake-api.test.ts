@@ -9,6 +9,7 @@ import { ClipReader } from '../../src/lib/clip/decode';
 import { positionErrorBound } from '../../src/lib/clip/format';
 import { parseScene } from '../../src/lib/scene';
 import { createSolver } from '../../src/lib/sim';
+import { bakeHealth } from '../../src/lib/sim/health';
 
 let studio: TestStudio;
 beforeAll(async () => {
@@ -77,6 +78,10 @@ describe('bake through the app', () => {
     const stats = await (await fetch(clipInfo.body.statsUrl)).json();
     expect(stats.frames).toHaveLength(12);
     expect(stats.frames[11].frame).toBe(1012);
+    // The health verdict is stored with the stats and in the clip meta, and is the verdict of the stored frames.
+    expect(stats.health).toEqual(bakeHealth(parsed.scene, stats.frames));
+    expect(stats.health.healthy).toBe(true);
+    expect(clipInfo.body.health).toEqual(stats.health);
 
     // The version's scene is frozen; an identical scene in another version reuses the clip without baking.
     const again = await artist.post(`/api/shots/${shotId}/versions`, { scene: doc, comment: 'same again' });

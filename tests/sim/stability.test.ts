@@ -5,7 +5,8 @@
 import { readFileSync } from 'node:fs';
 import { describe, expect, it } from 'vitest';
 import { parseScene } from '../../src/lib/scene';
-import { createSolver } from '../../src/lib/sim';
+import { createSolver, type FrameStats } from '../../src/lib/sim';
+import { bakeHealth } from '../../src/lib/sim/health';
 
 function bake(doc: unknown) {
   const r = parseScene(doc);
@@ -13,20 +14,22 @@ function bake(doc: unknown) {
   const s = createSolver(r.scene);
   const start = s.count;
   let peak = 0, maxCount = start;
+  const frames: FrameStats[] = [];
   while (s.frame < r.scene.timing.endFrame) {
     const st = s.stepFrame();
+    frames.push(st);
     peak = Math.max(peak, st.maxSpeed);
     maxCount = Math.max(maxCount, st.count);
   }
   let above = 0;
   for (let p = 0; p < s.count; p++) if (s.y[p] > r.scene.tank.height) above++;
-  return { scene: r.scene, solver: s, peak, start, maxCount, above };
+  return { scene: r.scene, solver: s, peak, start, maxCount, above, health: bakeHealth(r.scene, frames) };
 }
 
 describe('stable bakes', () => {
   it('the box crash bakes to its last frame with bounded speeds and its liquid kept', () => {
     const doc = JSON.parse(readFileSync(new URL('../fixtures/scenes/box-crash.json', import.meta.url), 'utf8'));
-    const { scene, solver, peak, start, above } = bake(doc);
+    const { scene, solver, peak, start, above, health } = bake(doc);
     // impact speed: the keys' fastest frame-to-frame drop (Newton's v = g·t from the timing helper, ≈ 13 m/s)
     const keys = scene.props[0].keys;
     let impact = 0;
@@ -37,6 +40,8 @@ describe('stable bakes', () => {
     // liquid kept: particles still in the tank (none removed, fewer than 5 % above the open top)
     expect(solver.count).toBeGreaterThanOrEqual(0.95 * start);
     expect(above).toBeLessThanOrEqual(0.05 * solver.count);
+    // and the solver's own verdict agrees (src/lib/sim/health.ts)
+    expect(health.findings).toEqual([]);
   }, 120_000);
 
   const spoutScene = (flipRatio: number, driftCorrection: number, cfl: number, substeps: number) => ({
@@ -55,7 +60,8 @@ describe('stable bakes', () => {
     [0, 2, 10, 1],
     [1, 0, 10, 1],
   ])('a 12 m/s spout into a pool at flip ratio %s, drift correction %s, CFL %s, %s substeps stays bounded', (flip, drift, cfl, substeps) => {
-    const { solver, peak, maxCount, above } = bake(spoutScene(flip, drift, cfl, substeps));
+    const { solver, peak, maxCount, above, health } = bake(spoutScene(flip, drift, cfl, substeps));
+    expect(health.findings).toEqual([]);
     expect(solver.frame).toBe(1048);
     expect(peak).toBeLessThan(5 * 12);
     // closed tank, no drain: every particle emitted stays in the tank (5 % allowance as above)

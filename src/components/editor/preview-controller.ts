@@ -2,9 +2,10 @@
 // frame rate as they arrive, and measures how fast the worker computes them. Views subscribe like to the editor store.
 import type { EditorDoc } from '~/lib/editor/document';
 import { previewScene, type PreviewMessage, type PreviewRequest } from '~/lib/editor/preview';
-import type { FrameStats } from '~/lib/sim/solver';
+import type { FrameStats, PropState } from '~/lib/sim/solver';
 
-export interface PreviewFrame { frame: number; count: number; x: Float32Array; y: Float32Array; speed: Float32Array; stats: FrameStats }
+/** One streamed frame: particles, stats, and every prop's solved pose (free props are drawn there). */
+export interface PreviewFrame { frame: number; count: number; x: Float32Array; y: Float32Array; speed: Float32Array; stats: FrameStats; props: PropState[] }
 
 export interface PreviewSnapshot {
   status: 'off' | 'starting' | 'running' | 'paused' | 'done' | 'error';
@@ -107,7 +108,7 @@ export class PreviewController {
     if (m.type === 'started') { this.set({ status: this.snapshot.playing ? 'running' : 'paused', cells: m.cells }); return; }
     if (m.type === 'error') { this.set({ status: 'error', playing: false, message: m.message }); return; }
     if (m.type === 'done') { this.set({ status: 'done' }); return; }
-    this.frames.set(m.frame, { frame: m.frame, count: m.count, x: m.x, y: m.y, speed: m.speed, stats: m.stats });
+    this.frames.set(m.frame, { frame: m.frame, count: m.count, x: m.x, y: m.y, speed: m.speed, stats: m.stats, props: m.props });
     const now = performance.now();
     this.arrivals.push(now);
     while (this.arrivals.length > 2 && now - this.arrivals[0] > 1500) this.arrivals.shift();

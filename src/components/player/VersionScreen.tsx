@@ -5,6 +5,7 @@ import { QueryClient, QueryClientProvider, useQuery, useQueryClient } from '@tan
 import { api, ApiError } from '../shared/api';
 import { signInUrl } from '../shared/paths';
 import BakePanel from './BakePanel';
+import BakeHealthNote from './BakeHealthNote';
 import Player from './Player';
 import ReviewPanel from '../review/ReviewPanel';
 import NoteTicks from '../review/NoteTicks';
@@ -167,6 +168,7 @@ function Version({ studioId, studioSlug, version, shot, plate, clip, canBake, ro
       {bakeState === 'baked' &&
         (clipInfo ? (
           <div className="space-y-2">
+            <BakeHealthNote health={clipInfo.health} />
             <Player studioId={studioId} version={version} shot={shot} plate={plate} clip={clipInfo} onFrame={setCurrentFrame} seekTo={seekTo} />
             <NoteTicks markers={markers} start={version.startFrame} end={version.endFrame} currentFrame={currentFrame} onSeek={(f) => setSeekTo({ frame: f })} />
           </div>

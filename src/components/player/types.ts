@@ -1,5 +1,6 @@
 // Shapes the version page hands to its island, and the answers of the bake and clip endpoints.
 import type { FrameStats } from '~/lib/sim';
+import type { BakeHealth } from '~/lib/sim/health';
 
 export type BakeState = 'none' | 'queued' | 'baking' | 'baked' | 'failed' | 'cancelled';
 
@@ -44,6 +45,8 @@ export interface ClipInfo {
   clipUrl: string;
   statsUrl: string | null;
   bytes?: number | null;
+  /** The bake's health verdict (absent for bakes stored before verdicts existed). */
+  health?: BakeHealth | null;
 }
 
 export interface BakeProgress {

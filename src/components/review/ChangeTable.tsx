@@ -7,6 +7,7 @@ const AREA_WORDS: Record<string, string> = {
   tank: 'Tank',
   timing: 'Timing',
   physics: 'Physics',
+  liquids: 'Liquids',
   pours: 'Pours',
   spouts: 'Spouts',
   walls: 'Walls',

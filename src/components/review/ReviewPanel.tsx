@@ -101,16 +101,24 @@ function LoadingCard({ label }: { label: string }) {
 function ReviewStatus(p: ReviewPanelProps & { answer: ReviewAnswer; onChanged: () => void }) {
   const { version, actions, events, canShare } = p.answer;
   const [comment, setComment] = useState('');
+  // set when the server refused a submit because the bake's verdict has findings: the artist may give a reason
+  const [needsReason, setNeedsReason] = useState(false);
+  const [reason, setReason] = useState('');
   const [message, setMessage] = useState<{ tone: 'error' | 'success'; text: string } | null>(null);
   const act = useMutation({
     mutationFn: (a: { kind: 'submit' } | { kind: 'decide'; decision: 'approved' | 'returned' } | { kind: 'share'; shared: boolean }) =>
       a.kind === 'submit'
-        ? api(`/api/versions/${p.versionId}/review/submit`, { method: 'POST', body: comment.trim() ? { comment: comment.trim() } : {} })
+        ? api(`/api/versions/${p.versionId}/review/submit`, {
+            method: 'POST',
+            body: { ...(comment.trim() ? { comment: comment.trim() } : {}), ...(needsReason && reason.trim() ? { overrideReason: reason.trim() } : {}) },
+          })
         : a.kind === 'decide'
           ? api(`/api/versions/${p.versionId}/review/decide`, { method: 'POST', body: { decision: a.decision, ...(comment.trim() ? { comment: comment.trim() } : {}) } })
           : api(`/api/versions/${p.versionId}/share`, { method: 'POST', body: { shared: a.shared } }),
     onSuccess: (_data, a) => {
       setComment('');
+      setNeedsReason(false);
+      setReason('');
       setMessage({
         tone: 'success',
         text:
@@ -127,6 +135,11 @@ function ReviewStatus(p: ReviewPanelProps & { answer: ReviewAnswer; onChanged: (
       p.onChanged();
     },
     onError: (err) => {
+      if (err instanceof ApiError && err.fields.overrideReason) {
+        setNeedsReason(true);
+        setMessage({ tone: 'error', text: 'This bake went wrong (its findings are shown above the player). Bake again, or say below why it should be reviewed as it is.' });
+        return;
+      }
       // A 409 means someone else acted first: the refreshed panel shows what they decided.
       const conflict = err instanceof ApiError && err.status === 409;
       setMessage({ tone: 'error', text: messageOf(err) + (conflict ? ' The panel now shows the current state.' : '') });
@@ -168,10 +181,24 @@ function ReviewStatus(p: ReviewPanelProps & { answer: ReviewAnswer; onChanged: (
             onChange={(e) => setComment(e.target.value)}
             placeholder={canSubmit ? 'What changed since the last version' : 'What should change, or a word of thanks'}
           />
+          {canSubmit && needsReason && (
+            <>
+              <label htmlFor={`review-reason-${p.versionId}`} className="field-label">Why submit this bake as it is</label>
+              <textarea
+                id={`review-reason-${p.versionId}`}
+                data-testid="override-reason"
+                className="field-input min-h-16"
+                value={reason}
+                maxLength={500}
+                onChange={(e) => setReason(e.target.value)}
+                placeholder="For example: the lost liquid is the spray we want; the supervisor knows"
+              />
+            </>
+          )}
           <div className="flex flex-wrap gap-2">
             {canSubmit && (
-              <button type="button" className="btn-primary" disabled={busy} onClick={() => act.mutate({ kind: 'submit' })}>
-                {busy && <Spinner />}Submit for review
+              <button type="button" className="btn-primary" disabled={busy || (needsReason && reason.trim().length < 3)} onClick={() => act.mutate({ kind: 'submit' })}>
+                {busy && <Spinner />}{needsReason ? 'Submit anyway' : 'Submit for review'}
               </button>
             )}
             {actions.includes('approve') && (

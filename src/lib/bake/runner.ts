@@ -5,6 +5,7 @@ import { putObject } from '../server/storage';
 import { acknowledgeCancel, claimNext, completeJob, failAttempt, queueSettings, releaseJob, renewLease, type ClaimedJob } from './queue';
 import { bakeScene, sceneFromDocument, SceneError } from './bake';
 import { SOLVER_BUILD } from './build';
+import { bakeHealth } from '../sim/health';
 
 export interface RunnerOptions {
   workerId?: string;
@@ -56,7 +57,9 @@ export async function runJob(job: ClaimedJob, workerId: string, log: (s: string)
     const lease = await renewLease(job.jobId, workerId, result.framesTotal - 1);
     if (lease === 'lost') throw new LostLease();
     const keys = clipKeys(job.studioId, job.sceneHash, job.jobId);
-    const statsJson = new TextEncoder().encode(JSON.stringify({ solverBuild: SOLVER_BUILD, frames: result.stats }));
+    // the health verdict goes with the stats (for the player) and into the clip meta (for the server)
+    const health = bakeHealth(scene, result.stats);
+    const statsJson = new TextEncoder().encode(JSON.stringify({ solverBuild: SOLVER_BUILD, health, frames: result.stats }));
     await putObject(keys.stats, statsJson, 'application/json');
     await putObject(keys.clip, result.clip, 'application/x-tidemark-clip');
     const particleFrames = result.stats.reduce((a, s) => a + s.count, 0);
@@ -72,6 +75,7 @@ export async function runJob(job: ClaimedJob, workerId: string, log: (s: string)
           frames: result.framesTotal,
           particleCapacity: result.particleCapacity,
           bytesPerParticleFrame: particleFrames ? result.clip.length / particleFrames : 0,
+          health,
         },
       },
       { key: keys.stats, bytes: statsJson.length },

@@ -2,8 +2,9 @@
 // hit tests and handles for the select tool; snapping to the grid or the cells. Pure functions.
 import type { ShapeDoc } from '../scene/schema';
 import { shapeBounds, shapeCentroid, pointInShape, shapeSignedDistance, type Bounds } from '../scene/shapes';
-import { toDrawn, toWorld } from '../scene/keys';
+import { placementOf, toDrawn, toWorld, type Pose } from '../scene/keys';
 import { propPlacementAt, type PropLike } from '../scene/pose';
+import type { PropState } from '../sim/rigid';
 import { type EditorDoc, type ItemRef, type AnyItem, allItems } from './document';
 
 export type Vec = [number, number];
@@ -116,9 +117,31 @@ export function shapeOutline(shape: ShapeDoc, segments = 64): Vec[] {
   }
 }
 
-/** A prop's outline where its keys put it at `frame` (world metres). */
-export function propOutlineAt(item: PropLike, frame: number): Vec[] {
-  const place = propPlacementAt(item, frame);
+/**
+ * The pose a solved prop state stands for: the solver reports the centroid in tank metres and the angle in
+ * degrees; the pose is the offset of that centroid from the drawn shape's centroid, and the same angle.
+ */
+export function poseOfState(shape: PropLike['shape'], state: Pick<PropState, 'x' | 'y' | 'angle'>): Pose {
+  const [cx, cy] = shapeCentroid(shape);
+  return { dx: state.x - cx, dy: state.y - cy, angle: state.angle };
+}
+
+/**
+ * Where the view shows a prop: a free prop at the solver's pose when the live preview has solved this frame
+ * (`solved`: the frame's prop states, by id); otherwise, and for every keyed prop, where its keys put it.
+ */
+export function shownPropPose(item: PropLike & { id: string }, solved: readonly PropState[] | null): Pose | null {
+  if (item.motion !== 'free' || !solved) return null;
+  const s = solved.find((p) => p.id === item.id);
+  return s ? poseOfState(item.shape, s) : null;
+}
+
+/**
+ * A prop's outline at `frame` (world metres): where its keys put it, or at `pose` when given (a free prop's
+ * solved pose, see shownPropPose).
+ */
+export function propOutlineAt(item: PropLike, frame: number, pose?: Pose | null): Vec[] {
+  const place = pose ? placementOf(item.shape, pose) : propPlacementAt(item, frame);
   const out: Vec[] = [];
   const tmp = [0, 0];
   for (const p of shapeOutline(item.shape)) { toWorld(place, p[0], p[1], tmp); out.push([tmp[0], tmp[1]]); }

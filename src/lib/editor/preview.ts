@@ -1,7 +1,7 @@
 // The live preview's pure side: the preview scene (the same scene on a coarser grid the artist picks) and the
 // messages between the editor and its Web Worker.
 import type { EditorDoc } from './document';
-import type { FrameStats } from '../sim/solver';
+import type { FrameStats, PropState } from '../sim/solver';
 
 /** Preview resolutions: the bake's cell size times this factor. */
 export const PREVIEW_FACTORS = [1, 2, 3, 4] as const;
@@ -31,6 +31,8 @@ export type PreviewMessage =
       /** Positions (m) and speeds (m/s), length `count`. */
       x: Float32Array; y: Float32Array; speed: Float32Array;
       stats: FrameStats;
+      /** Every prop's pose and velocity at this frame (centroid in tank m, angle in degrees), keyed or free. */
+      props: PropState[];
     }
   | { type: 'done'; run: number; frame: number }
   | { type: 'error'; run: number; message: string };

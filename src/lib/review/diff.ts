@@ -1,8 +1,9 @@
 // What changed between two scene documents, for the compare screen: one row per change, pure and deterministic.
 // Objects (pours, spouts, walls, props, drains) are matched by id; tank, timing and physics are compared field by field.
 import { shapeCentroid, type Shape } from '../scene/shapes';
+import { parseScene } from '../scene/schema';
 
-export const OBJECT_GROUPS = ['pours', 'spouts', 'walls', 'props', 'drains'] as const;
+export const OBJECT_GROUPS = ['liquids', 'pours', 'spouts', 'walls', 'props', 'drains'] as const;
 export type ObjectGroup = (typeof OBJECT_GROUPS)[number];
 export type ChangeArea = 'tank' | 'timing' | 'physics' | ObjectGroup;
 
@@ -146,12 +147,21 @@ function objectChanges(group: ObjectGroup, a: unknown, b: unknown, out: SceneCha
  */
 export function diffScenes(a: unknown, b: unknown): SceneChange[] {
   const out: SceneChange[] = [];
-  const A: Doc = isObj(a) ? a : {};
-  const B: Doc = isObj(b) ? b : {};
-  // The document's format version is not a change anyone made (version 1 documents are read as version 2): not listed.
+  // Both sides are read as the solver reads them (a version 1 document migrates to version 2, every default
+  // filled in), so a default that only one format spells out is not listed as a change; a document that does
+  // not parse is compared as stored.
+  const A: Doc = normalised(a);
+  const B: Doc = normalised(b);
+  // The document's format version is not a change anyone made: not listed.
   for (const section of ['tank', 'timing', 'physics'] as const) sectionChanges(section, section, A[section], B[section], out);
   for (const group of OBJECT_GROUPS) objectChanges(group, A[group], B[group], out);
   return out;
+}
+
+function normalised(doc: unknown): Doc {
+  const r = parseScene(doc);
+  if (r.ok) return r.scene as unknown as Doc;
+  return isObj(doc) ? doc : {};
 }
 
 /** Counts rows per kind, for a one-line summary above the table. */

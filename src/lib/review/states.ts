@@ -17,6 +17,10 @@ export interface TransitionRequest {
   /** The version's bake state (only a baked version can be submitted). */
   bakeState: string;
   comment?: string | null;
+  /** The bake's health verdict (src/lib/sim/health.ts): false when it has findings; null/undefined when unknown. */
+  bakeHealthy?: boolean | null;
+  /** Why the artist submits a bake whose verdict has findings (needed then, 3–500 characters). */
+  overrideReason?: string | null;
 }
 
 export type TransitionRefusal = {
@@ -69,6 +73,12 @@ export function decideTransition(req: TransitionRequest): TransitionResult {
   }
   if (req.action === 'submit' && req.bakeState !== 'baked') {
     return { ok: false, code: 'conflict', message: 'Bake this version before submitting it: reviewers watch the baked frames' };
+  }
+  if (req.action === 'submit' && req.bakeHealthy === false && (req.overrideReason ?? '').trim().length < 3) {
+    return {
+      ok: false, code: 'validation_failed', field: 'overrideReason',
+      message: 'overrideReason: this bake went wrong (see the findings above the player); re-bake it, or say why it should be reviewed as it is',
+    };
   }
   if (req.action === 'return' && !(req.comment ?? '').trim()) {
     return { ok: false, code: 'validation_failed', message: 'comment: say what should change when returning a version', field: 'comment' };

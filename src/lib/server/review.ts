@@ -5,11 +5,12 @@ import type { APIContext } from 'astro';
 import { and, asc, desc, eq, gt, inArray, isNull, lt, ne, or, sql, type SQL } from 'drizzle-orm';
 import { alias } from 'drizzle-orm/mysql-core';
 import { db, type Db } from './db';
-import { auditLog, noteReads, notes, reviewEvents, shots, shows, users, versions } from './db/schema';
+import { assets, auditLog, noteReads, notes, reviewEvents, shots, shows, users, versions } from './db/schema';
 import { HttpError } from './http';
 import { requireRole, type StudioAccess } from './authz';
 import { asSeenBy, clientVersionIds, loadVersion } from './access';
 import { decideTransition, shotStatusAfter, type ReviewAction } from '../review/states';
+import { healthOf } from '../sim/health';
 import { diffScenes, countChanges } from '../review/diff';
 import type { NoteCreate, NoteView, NotePoint } from '../review/notes';
 import type { ReviewState, Role } from '../vocab';
@@ -58,13 +59,25 @@ async function followShotStatus(tx: Tx, shotId: number, to: ReviewState) {
  * Two supervisors deciding at once: the second waits for the lock, sees the new state and gets 409 with currentState.
  * E-mails go out after the commit.
  */
-export async function transitionVersion(access: StudioAccess, versionId: number, action: Exclude<ReviewAction, 'supersede'>, comment: string | null) {
+export async function transitionVersion(
+  access: StudioAccess, versionId: number, action: Exclude<ReviewAction, 'supersede'>, comment: string | null, overrideReason: string | null = null,
+) {
   const result = await db().transaction(async (tx) => {
     const [peek] = await tx.select({ shotId: versions.shotId }).from(versions).where(and(eq(versions.id, versionId), eq(versions.studioId, access.studioId)));
     if (!peek) throw new HttpError('not_found', 'No such version');
     await tx.select({ id: shots.id }).from(shots).where(eq(shots.id, peek.shotId)).for('update');
     const [v] = await tx.select().from(versions).where(eq(versions.id, versionId)).for('update');
-    const decision = decideTransition({ actor: access.role, action, from: v.reviewState, bakeState: v.bakeState, comment });
+    // the bake's health verdict, stored in its clip's meta by the bake runner (null for bakes made before it existed)
+    let bakeHealthy: boolean | null = null;
+    if (action === 'submit' && v.clipAssetId !== null) {
+      const [clip] = await tx.select({ meta: assets.meta }).from(assets).where(eq(assets.id, v.clipAssetId));
+      bakeHealthy = healthOf(clip?.meta)?.healthy ?? null;
+    }
+    const decision = decideTransition({ actor: access.role, action, from: v.reviewState, bakeState: v.bakeState, comment, bakeHealthy, overrideReason });
+    // an override is part of the record the supervisor reads: the event's comment carries it
+    if (decision.ok && bakeHealthy === false && overrideReason) {
+      comment = [comment, `Submitted although the bake went wrong: ${overrideReason.trim()}`].filter(Boolean).join('\n\n');
+    }
     if (!decision.ok) {
       if (decision.code === 'conflict') throw new HttpError('conflict', decision.message, undefined, { currentState: v.reviewState });
       throw new HttpError(decision.code, decision.message, decision.field ? { [decision.field]: decision.message.replace(/^\w+: /, '') } : undefined);

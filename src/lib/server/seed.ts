@@ -9,6 +9,7 @@ import { putObject } from './storage';
 import { rooftopPoolPlate, harbourWallPlate } from './demo-plates';
 import { makeStillThumbnail } from './thumbnails';
 import { parseScene, sceneHash } from '../scene';
+import { LIQUID_PRESETS } from '../scene/liquids';
 import { enqueueBake } from '../bake/queue';
 
 export const DEMO_STUDIO = { slug: 'saltmarsh', name: 'Saltmarsh Pictures' };
@@ -29,7 +30,7 @@ const DEMO_SHOWS = [
     frameRate: '25',
     shots: [
       { code: 'CNB_010', source: '03:12:40:00', description: 'Can tumbles off the diving board', first: 1001, last: 1048, status: 'blocking' as const },
-      { code: 'CNB_020', source: '03:14:02:10', description: 'Impact: the can hits the pool surface', first: 1001, last: 1036, status: 'blocking' as const },
+      { code: 'CNB_020', source: '03:14:02:10', description: 'Impact: the can hits the pool, plunges, bobs up and floats', first: 1001, last: 1084, status: 'blocking' as const },
       { code: 'CNB_030', source: '03:20:18:05', description: 'Splash crown catches the sunset, slow motion', first: 1001, last: 1096, status: 'on hold' as const },
     ],
   },
@@ -41,34 +42,43 @@ const DEMO_SHOWS = [
     shots: [
       { code: 'LHK_0100', source: '11:04:10:00', description: 'Wide: first wave rolls in under the pier', first: 1001, last: 1072, status: 'blocking' as const },
       { code: 'LHK_0200', source: '11:06:33:12', description: 'Wave slaps the wall, spray over the singer', first: 1001, last: 1060, status: 'blocking' as const },
-      { code: 'LHK_0300', source: '11:09:01:00', description: 'Runoff pours down the steps', first: 1001, last: 1120, status: 'blocking' as const },
+      { code: 'LHK_0300', source: '11:09:01:00', description: 'Red paint runs down the harbour steps', first: 1001, last: 1120, status: 'blocking' as const },
     ],
   },
 ];
 
 /** Blocking scenes of the demo shots (fictional). Tanks match the plates: the tank spans the plate's width. */
-function demoScene(code: string, fps: number, first: number, last: number): { scene: unknown; tankWidth: number } | null {
+export function demoScene(code: string, fps: number, first: number, last: number): { scene: unknown; tankWidth: number } | null {
   const timing = { fps, startFrame: first, endFrame: last, substeps: 4 };
   if (code.startsWith('CNB_0')) {
-    // A soda can (about 66 mm × 122 mm) falls from above the rooftop pool and lands in it.
+    // A soda can (about 66 mm × 122 mm) falls from above the rooftop pool and lands in it. In the hero shot
+    // (CNB_020) the can is free (an empty can, 400 kg/m³, lighter than water): let go with a small push and a
+    // spin, it falls, splashes, plunges, bobs back up past the surface and floats. The other shots puppet it with keys.
+    const hero = code === 'CNB_020';
+    // The hero can starts 5 cm above the water: dropped from higher, the free can (slowed by the solver's
+    // added-mass stabilisation, src/lib/sim/rigid.ts) reaches the pool floor and stays there.
+    const canBottom = hero ? 0.5 : 0.74;
+    const can = { type: 'polygon', points: [[0.767, canBottom], [0.833, canBottom], [0.833, canBottom + 0.122], [0.767, canBottom + 0.122]] };
     return {
       tankWidth: 1.6,
       scene: {
-        version: 1,
+        version: 2,
         tank: { width: 1.6, height: 0.9, cellSize: 0.0125, sides: { left: true, right: true, bottom: true, top: false } },
         timing,
         physics: { seed: 11 },
         pours: [{ id: 'pool', shape: { type: 'rect', x: 0, y: 0, width: 1.6, height: 0.45 }, velocity: [0, 0] }],
         props: [
-          {
-            id: 'can',
-            shape: { type: 'polygon', points: [[0.767, 0.74], [0.833, 0.74], [0.833, 0.862], [0.767, 0.862]] },
-            keys: [
-              { frame: first, dx: 0, dy: 0, angle: 0 },
-              { frame: first + 8, dx: 0.02, dy: -0.3, angle: 20 },
-              { frame: first + 16, dx: 0.04, dy: -0.55, angle: 35 },
-            ],
-          },
+          hero
+            ? { id: 'can', shape: can, motion: 'free', density: 400, velocity: [0.15, 0], spin: 40 }
+            : {
+                id: 'can',
+                shape: can,
+                keys: [
+                  { frame: first, dx: 0, dy: 0, angle: 0 },
+                  { frame: first + 8, dx: 0.02, dy: -0.3, angle: 20 },
+                  { frame: first + 16, dx: 0.04, dy: -0.55, angle: 35 },
+                ],
+              },
         ],
       },
     };
@@ -87,6 +97,32 @@ function demoScene(code: string, fps: number, first: number, last: number): { sc
           { id: 'harbour', shape: { type: 'rect', x: 1.2, y: 0, width: 1.6, height: 0.35 }, velocity: [0, 0] },
         ],
         walls: [{ id: 'harbour-wall', shape: { type: 'rect', x: 2.8, y: 0, width: 0.4, height: 1.2 } }],
+      },
+    };
+  }
+  if (code === 'LHK_0300') {
+    // Red paint (the thick-paint preset) spills off the top step and runs down the harbour steps into the water.
+    const paint = LIQUID_PRESETS.find((l) => l.key === 'thick-paint')!;
+    return {
+      tankWidth: 3.2,
+      scene: {
+        version: 2,
+        liquids: [
+          { id: 'water', name: 'Harbour water', colour: '#3A8FB7', viscosity: 1e-6 },
+          { id: 'paint', name: 'Red paint', colour: paint.colour, viscosity: paint.viscosity },
+        ],
+        tank: { width: 3.2, height: 1.8, cellSize: 0.025, sides: { left: true, right: true, bottom: true, top: false } },
+        timing,
+        physics: { seed: 7 },
+        pours: [{ id: 'harbour', liquid: 'water', shape: { type: 'rect', x: 1.6, y: 0, width: 1.6, height: 0.2 }, velocity: [0, 0] }],
+        spouts: [
+          { id: 'paint-spill', liquid: 'paint', shape: { type: 'circle', x: 0.3, y: 1.2, radius: 0.06 }, velocity: [0.8, -0.3], startFrame: first, endFrame: first + 36 },
+        ],
+        walls: [
+          { id: 'step-1', shape: { type: 'rect', x: 0, y: 0, width: 0.8, height: 0.9 } },
+          { id: 'step-2', shape: { type: 'rect', x: 0.8, y: 0, width: 0.4, height: 0.6 } },
+          { id: 'step-3', shape: { type: 'rect', x: 1.2, y: 0, width: 0.4, height: 0.3 } },
+        ],
       },
     };
   }

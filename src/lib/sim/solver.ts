@@ -11,6 +11,7 @@ import { projectGaussSeidel, projectPcgMic0, solveDriftPart, FLUID } from './pre
 import { liquidArea } from './area';
 import { createRigidBodies, type PropState } from './rigid';
 import { freeSurface } from './surface';
+import { validateAfter } from './validate';
 
 export type { SolverOptions } from './stages';
 export type { PropState } from './rigid';
@@ -43,6 +44,14 @@ export interface FrameStats {
   substeps: number;
   /** Wall time of the frame in milliseconds (not deterministic; everything else is). */
   stepMs: number;
+  /** Wall time of each stage of the step over the frame's substeps, ms, by stage name (not deterministic). */
+  stageMs: Record<string, number>;
+}
+
+/** One named stage of the substep (see createSolver's stage list). */
+interface Stage {
+  name: string;
+  run(dt: number, f0: number, f1: number): void;
 }
 
 export interface PressureOptions {
@@ -113,6 +122,7 @@ export interface Solver {
 /** Creates a solver for a parsed scene (see parseScene); the state is allocated here, once. */
 export function createSolver(scene: Scene, options: SolverOptions = {}): Solver {
   const S = new FlipState(scene, options);
+  const validating = options.validate ?? (typeof process !== 'undefined' && process.env?.TIDEMARK_VALIDATE === '1');
   const { timing, physics } = scene;
   const frameDt = 1 / timing.fps;
   const solverName = physics.pressureSolver;
@@ -143,25 +153,45 @@ export function createSolver(scene: Scene, options: SolverOptions = {}): Solver 
       : projectPcgMic0(S, physics.pressureIterations, physics.pressureTolerance);
   }
 
-  /** One substep: the method's stages in order. */
+  /**
+   * One substep is this list, run in order. Each stage reads the substep's time step dt and the shot
+   * frames f0 → f1 it spans; its wall time adds to the frame's stageMs under its name. Stages that do
+   * nothing for a scene (free props, solids that never move) are left out of its list.
+   */
+  const stages: Stage[] = [
+    ...(hasFree ? [{ name: 'free props', run: (dt: number, f0: number) => rigid.advance(dt, f0) }] : []),
+    { name: 'solids', run: (dt, f0, f1) => placeSolids(S, f0, f1, dt) },
+    { name: 'gravity and advection', run: (dt) => integrate(S, dt) },
+    { name: 'spatial hash', run: () => S.sortByHashCell() },
+    { name: 'separation', run: () => separate(S, physics.separationIterations) },
+    { name: 'collision', run: () => collide(S) },
+    { name: 'emission', run: (_dt, f0) => emit(S, f0) },
+    { name: 'particles to grid', run: () => particlesToGrid(S) },
+    { name: 'density and drift', run: (dt) => densityAndDrift(S, dt) },
+    { name: 'free surface', run: () => freeSurface(S) },
+    { name: 'pressure', run: (dt) => { lastResidual = project(dt); } },
+    ...(hasFree ? [{ name: 'prop forces', run: () => rigid.measureForces() }] : []),
+    { name: 'grid to particles', run: () => gridToParticles(S) },
+  ];
+  const stageMs = new Float64Array(stages.length);
+
   function step(dt: number): number {
     const f0 = timing.startFrame + time * timing.fps, f1 = timing.startFrame + (time + dt) * timing.fps;
-    if (hasFree) rigid.advance(dt, f0);
-    placeSolids(S, f0, f1, dt);
-    integrate(S, dt);
-    S.sortByHashCell();
-    separate(S, physics.separationIterations);
-    collide(S);
-    emit(S, f0);
-    particlesToGrid(S);
-    densityAndDrift(S, dt);
-    freeSurface(S);
-    lastResidual = project(dt);
-    if (hasFree) rigid.measureForces();
-    gridToParticles(S);
+    for (let k = 0; k < stages.length; k++) {
+      const t0 = performance.now();
+      stages[k].run(dt, f0, f1);
+      stageMs[k] += performance.now() - t0;
+      if (validating) validateAfter(S, stages[k].name, physics, lastResidual);
+    }
     time += dt;
     steps++;
     return lastResidual;
+  }
+
+  function takeStageMs(): Record<string, number> {
+    const out: Record<string, number> = {};
+    for (let k = 0; k < stages.length; k++) { out[stages[k].name] = stageMs[k]; stageMs[k] = 0; }
+    return out;
   }
 
   function propSpeed(): number {
@@ -194,7 +224,7 @@ export function createSolver(scene: Scene, options: SolverOptions = {}): Solver 
     time = tEnd;
     return {
       frame, time, count: S.n, liquidCounts: S.liquidCounts(), props: rigid.states(), liquidArea: liquidArea(S), maxSpeed: S.maxSpeed, cfl,
-      pressureResidual: res, pressureIterations: iters, substeps, stepMs: performance.now() - t0,
+      pressureResidual: res, pressureIterations: iters, substeps, stepMs: performance.now() - t0, stageMs: takeStageMs(),
     };
   }
 
@@ -207,7 +237,7 @@ export function createSolver(scene: Scene, options: SolverOptions = {}): Solver 
     const rest = S.restDensity > 0 ? S.restDensity : estimateRestDensity(S);
     return {
       frame, time, count: S.n, liquidCounts: S.liquidCounts(), props: rigid.states(), liquidArea: liquidArea(S, rest), maxSpeed: Math.sqrt(max2), cfl: 0,
-      pressureResidual: 0, pressureIterations: 0, substeps: 0, stepMs: 0,
+      pressureResidual: 0, pressureIterations: 0, substeps: 0, stepMs: 0, stageMs: {},
     };
   }
 

@@ -19,6 +19,11 @@ export interface SolverOptions {
   seedingJitter?: number;
   /** Spatial-hash cell size as a multiple of the contact distance 2r (must be > 1). Default 1.1. */
   hashCellFactor?: number;
+  /**
+   * Check the state after every stage (validate.ts) and throw at the first broken invariant. Slow; for
+   * debugging. Default: on when the environment variable TIDEMARK_VALIDATE is 1.
+   */
+  validate?: boolean;
 }
 
 export interface PropRuntime {

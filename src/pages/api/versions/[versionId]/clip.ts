@@ -4,6 +4,7 @@ import { endpoint, json, idParam, HttpError } from '~/lib/server/http';
 import { versionAccess } from '~/lib/server/access';
 import { clipOf } from '~/lib/server/versions';
 import { presignGet } from '~/lib/server/storage';
+import { healthOf } from '~/lib/sim/health';
 
 export const GET = endpoint(async ({ params, locals }) => {
   const { version, access } = await versionAccess(locals, idParam(params, 'versionId'), 'client');
@@ -15,6 +16,7 @@ export const GET = endpoint(async ({ params, locals }) => {
     // Solver statistics are the studio's: a client gets the clip only.
     statsUrl: access.role !== 'client' && typeof meta.statsKey === 'string' ? await presignGet(meta.statsKey, 900) : null,
     bytes: clip.byteSize,
+    health: healthOf(meta),
     meta,
     expiresInSeconds: 900,
   });

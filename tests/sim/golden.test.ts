@@ -1,0 +1,51 @@
+// The solver's results are tied to its build id (src/lib/bake/build.ts): a stored clip is reused only when
+// the build that baked it is the current one. This test bakes a short scene that runs every stage (two
+// liquids, a spout, a drain, a wall, a keyed and a free prop) and compares the frames' checksum with the one
+// recorded for the current build. When a solver change alters baked frames, this fails until the build id is
+// bumped and the new checksum recorded beside it — the bump is what makes old clips bake again.
+// The checksums are our own recordings (no outside source): this is a regression lock, not a physics check.
+import { describe, it, expect } from 'vitest';
+import { readFileSync } from 'node:fs';
+import { bakeChecksum } from '../../src/lib/sim/bake';
+import { createSolver } from '../../src/lib/sim/solver';
+import { SOLVER_BUILD } from '../../src/lib/bake/build';
+import { sceneFrom } from './helpers/scenes';
+
+/** Checksum of GOLDEN_FRAMES frames of goldenScene(), per solver build id. */
+const GOLDEN: Record<string, string> = {
+  'tidemark-flip/2': '854f375527d78d52d24757401cc1cc6cda09919ecc3640be1bb251938bc20b08',
+};
+const GOLDEN_FRAMES = 8;
+
+function goldenScene() {
+  const doc = JSON.parse(readFileSync(new URL('../fixtures/scenes/harbour-splash.json', import.meta.url), 'utf8'));
+  doc.version = 2;
+  doc.tank.cellSize = 1 / 32;
+  doc.liquids = [
+    { id: 'water', name: 'Water', colour: '#3A8FB7', viscosity: 1e-6 },
+    { id: 'paint', name: 'Paint', colour: '#C8341E', viscosity: 1e-6 },
+  ];
+  doc.spouts[0].liquid = 'paint';
+  doc.props.push({ id: 'float', shape: { type: 'rect', x: 0.2, y: 0.85, width: 0.1, height: 0.06 }, motion: 'free', density: 500 });
+  return sceneFrom(doc);
+}
+
+describe('golden bake', () => {
+  it(`frames match the checksum recorded for solver build ${SOLVER_BUILD}`, () => {
+    const sum = bakeChecksum(goldenScene(), GOLDEN_FRAMES);
+    expect(GOLDEN[SOLVER_BUILD], `no checksum recorded for ${SOLVER_BUILD}; this build bakes ${sum}`).toBeDefined();
+    expect(sum, 'the solver now bakes different frames: bump SOLVER_BUILD (src/lib/bake/build.ts) and record the new checksum').toBe(GOLDEN[SOLVER_BUILD]);
+  });
+
+  it('the golden scene exercises every stage, and the debug checks pass after each', () => {
+    const sim = createSolver(goldenScene(), { validate: true });
+    let st = sim.stepFrame();
+    for (let f = 1; f < GOLDEN_FRAMES; f++) st = sim.stepFrame();
+    expect(Object.keys(st.stageMs)).toEqual([
+      'free props', 'solids', 'gravity and advection', 'spatial hash', 'separation', 'collision', 'emission',
+      'particles to grid', 'density and drift', 'free surface', 'pressure', 'prop forces', 'grid to particles',
+    ]);
+    for (const ms of Object.values(st.stageMs)) expect(ms).toBeGreaterThanOrEqual(0);
+    expect(st.liquidCounts[1]).toBeGreaterThan(0); // the spout's paint is in the tank
+  });
+});
