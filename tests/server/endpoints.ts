@@ -2,7 +2,7 @@
 // when a file under src/pages/api exports a method that is missing here: add new endpoints as you build them.
 import type { Role } from '../../src/lib/vocab';
 import type { TestStudio } from '../support/app';
-import { makeUser, membershipId, unique } from '../support/app';
+import { grantClientShow, makeUser, membershipId, unique } from '../support/app';
 import { db } from '../../src/lib/server/db';
 import { assets, invitations, memberships, shots, shows, versions } from '../../src/lib/server/db/schema';
 import { sceneHash, parseScene } from '../../src/lib/scene';
@@ -37,6 +37,7 @@ async function openInvitation(s: TestStudio) {
 /** Makes a show and a shot in the studio directly in the database. */
 export async function makeShot(s: TestStudio) {
   const [show] = await db().insert(shows).values({ studioId: s.id, code: unique('SH').slice(0, 30), name: 'Test show' });
+  await grantClientShow(s, Number(show.insertId));
   const [shot] = await db()
     .insert(shots)
     .values({ studioId: s.id, showId: Number(show.insertId), code: unique('SHOT'), firstFrame: 1001, lastFrame: 1010 });
@@ -64,6 +65,8 @@ export async function makeVersion(s: TestStudio, opts: { baked?: boolean; shared
       bakeState: opts.baked ? 'baked' : 'none',
       clipAssetId,
       sharedWithClient: opts.shared ?? opts.baked ?? false,
+      // A client sees shared versions past draft only (access.ts), so a shared fixture is submitted.
+      reviewState: (opts.shared ?? opts.baked ?? false) ? 'submitted' : 'draft',
     });
   return { shotId, versionId: Number(v.insertId) };
 }
@@ -143,6 +146,7 @@ const made = new Map<number, { showId?: number; shotId?: number }>();
 export async function libraryShow(s: TestStudio, shared = true): Promise<number> {
   const [res] = await db().insert(tables.shows).values({ studioId: s.id, code: unique('SH').slice(0, 32), name: 'Matrix show', frameRate: '24' });
   const showId = Number(res.insertId);
+  await grantClientShow(s, showId);
   if (shared) {
     const shotId = await libraryShot(s, showId);
     await db().insert(tables.versions).values({ studioId: s.id, shotId, number: 1, scene: {}, sceneHash: 'matrix', sharedWithClient: true, reviewState: 'submitted' });
@@ -156,6 +160,8 @@ export async function libraryShot(s: TestStudio, showId?: number): Promise<numbe
   const show = showId ?? (await libraryShow(s));
   const [res] = await db().insert(tables.shots).values({ studioId: s.id, showId: show, code: unique('S'), firstFrame: 1001, lastFrame: 1050 });
   const shotId = Number(res.insertId);
+  // In a new shared show the shot itself has a shared version: a client sees a shot only through one (access.ts).
+  if (showId === undefined) await db().insert(tables.versions).values({ studioId: s.id, shotId, number: 1, scene: {}, sceneHash: 'matrix', sharedWithClient: true, reviewState: 'submitted' });
   made.set(s.id, { ...made.get(s.id), shotId });
   return shotId;
 }

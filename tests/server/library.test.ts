@@ -2,7 +2,7 @@
 // inline and bulk changes, imports from EDL and CSV (errors by line, re-import), client visibility, studio isolation.
 import { describe, it, expect, beforeAll, afterAll } from 'vitest';
 import { and, eq, sql } from 'drizzle-orm';
-import { makeStudio, unique, type TestStudio } from '../support/app';
+import { grantClientShow, makeStudio, unique, type TestStudio } from '../support/app';
 import { db, closeDb } from '../../src/lib/server/db';
 import { auditLog, shots, shows, versions } from '../../src/lib/server/db/schema';
 
@@ -20,6 +20,7 @@ const supervisor = () => studio.members.supervisor.client;
 async function newShow(fields: Record<string, unknown> = {}) {
   const res = await supervisor().post(`${api()}/shows`, { code: unique('S').slice(0, 14), name: 'A show', frameRate: '24', ...fields });
   expect(res.status, JSON.stringify(res.body)).toBe(201);
+  await grantClientShow(studio, res.body.show.id);
   return res.body.show as { id: number; code: string; frameRate: string };
 }
 

@@ -3,7 +3,7 @@
 // and the thumbnail the server makes from a PNG or JPEG plate (320 px wide, aspect kept, area-averaged).
 import { describe, it, expect, beforeAll, afterAll } from 'vitest';
 import { eq, sql } from 'drizzle-orm';
-import { makeStudio, unique, type TestStudio } from '../support/app';
+import { grantClientShow, makeStudio, unique, type TestStudio } from '../support/app';
 import { makePng } from './endpoints';
 import { db, closeDb } from '../../src/lib/server/db';
 import { assets, shots, shows, versions } from '../../src/lib/server/db/schema';
@@ -18,6 +18,7 @@ beforeAll(async () => {
   studio = await makeStudio();
   const [res] = await db().insert(shows).values({ studioId: studio.id, code: unique('P').slice(0, 12), name: 'Plates', frameRate: '24' });
   showId = Number(res.insertId);
+  await grantClientShow(studio, showId);
 });
 afterAll(closeDb);
 

@@ -2,7 +2,7 @@
 import { eq } from 'drizzle-orm';
 import { randomBytes } from 'node:crypto';
 import { db } from '../../src/lib/server/db';
-import { memberships, studios, users } from '../../src/lib/server/db/schema';
+import { clientShows, memberships, studios, users } from '../../src/lib/server/db/schema';
 import { hashPassword } from '../../src/lib/server/password';
 import { newUserId } from '../../src/lib/server/tokens';
 import type { Role } from '../../src/lib/vocab';
@@ -92,6 +92,11 @@ export async function makeStudio(): Promise<TestStudio> {
     members[role] = { ...u, role, client };
   }
   return { id, slug, members };
+}
+
+/** Names the show in the studio's test client membership (a client sees only the shows its membership names). */
+export async function grantClientShow(s: TestStudio, showId: number, userId = s.members.client.id) {
+  await db().insert(clientShows).values({ studioId: s.id, userId, showId }).onDuplicateKeyUpdate({ set: { showId } });
 }
 
 export async function membershipId(studioId: number, userId: string): Promise<number> {

@@ -4,6 +4,7 @@ import { useMutation, useQueryClient } from '@tanstack/react-query';
 import { api, messageOf } from '../shared/api';
 import { Spinner } from '../shared/form';
 import { fullDate, relativeTime } from './time';
+import ClientShows from './ClientShows';
 import { keys, ROLE_ORDER, type Member, type MembersAnswer, type Notice, type RoleName } from './types';
 
 interface Props {
@@ -92,6 +93,7 @@ export default function MembersTable({ studioId, data, onNotice }: Props) {
                 <td className="px-4 py-3 max-sm:col-start-1 max-sm:p-0 sm:px-5">
                   <span className="font-medium text-ink">{member.name}</span>
                   {isYou && <span className="ml-2 rounded-full bg-sand-deep px-2 py-0.5 text-xs text-ink-soft">you</span>}
+                  {member.role === 'client' && member.showIds && <ClientShows studioId={studioId} member={member} canEdit={isOwner} onNotice={onNotice} />}
                 </td>
                 <td className="px-4 py-3 text-ink-soft max-sm:col-start-1 max-sm:truncate max-sm:p-0">{member.email}</td>
                 <td className="px-4 py-3 max-sm:col-start-2 max-sm:row-span-2 max-sm:row-start-1 max-sm:justify-self-end max-sm:p-0">

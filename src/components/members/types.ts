@@ -9,6 +9,8 @@ export interface Member {
   role: RoleName;
   lastActiveAt: string | null;
   joinedAt: string;
+  /** A client's shows (ids); null for the studio's own people. */
+  showIds: number[] | null;
 }
 
 export interface MembersAnswer {

@@ -7,6 +7,7 @@ import { assets, auditLog, memberships, shots, shows, users, versions } from './
 import { HttpError } from './http';
 import type { StudioAccess } from './authz';
 import { audit } from './audit';
+import { asSeenBy, clientShotIds, clientVersionIds, clientVisibleShowIds } from './access';
 import { presignGet } from './storage';
 import type { ShotStatus } from '../vocab';
 import type { ImportBody, ShotCreate, ShotListQuery, ShotPatch, ShowCreate, ShowListQuery, ShowPatch } from '../library/schemas';
@@ -29,13 +30,6 @@ function likeContains(text: string): string {
 const isClient = (access: StudioAccess) => access.role === 'client';
 
 /** Ids of the studio's shows that have at least one version shared with clients (a subquery). */
-function sharedShowIds(studioId: number) {
-  return db()
-    .selectDistinct({ id: shots.showId })
-    .from(versions)
-    .innerJoin(shots, eq(shots.id, versions.shotId))
-    .where(and(eq(versions.studioId, studioId), eq(versions.sharedWithClient, true)));
-}
 
 function paging(page: number, pageSize: number) {
   return { limit: pageSize, offset: (page - 1) * pageSize };
@@ -65,7 +59,7 @@ export async function listShows(access: StudioAccess, query: ShowListQuery) {
   if (query.archived === 'false') where.push(isNull(shows.archivedAt));
   if (query.archived === 'true') where.push(isNotNull(shows.archivedAt));
   if (query.q) where.push(or(sql`${shows.code} like ${likeContains(query.q)}`, sql`${shows.name} like ${likeContains(query.q)}`)!);
-  if (isClient(access)) where.push(inArray(shows.id, sharedShowIds(access.studioId)));
+  if (isClient(access)) where.push(inArray(shows.id, clientVisibleShowIds(access)));
   const dir = query.order === 'desc' ? desc : asc;
   const sortColumn = { code: shows.code, name: shows.name, updated: shows.updatedAt, shots: shotCountSql }[query.sort];
   const { limit, offset } = paging(query.page, query.pageSize);
@@ -88,7 +82,7 @@ export async function listShows(access: StudioAccess, query: ShowListQuery) {
 /** Returns the show (404 when missing, in another studio, or hidden from a client). */
 export async function getShowRow(access: StudioAccess, showId: number) {
   const where: SQL[] = [eq(shows.id, showId), eq(shows.studioId, access.studioId)];
-  if (isClient(access)) where.push(inArray(shows.id, sharedShowIds(access.studioId)));
+  if (isClient(access)) where.push(inArray(shows.id, clientVisibleShowIds(access)));
   const [row] = await db().select(showColumns).from(shows).where(and(...where));
   if (!row) throw new HttpError('not_found', 'No such show');
   return row;
@@ -243,7 +237,7 @@ export async function listShots(access: StudioAccess, query: ShotListQuery) {
   if (query.assignee === 'none') where.push(isNull(shots.assigneeId));
   else if (query.assignee) where.push(eq(shots.assigneeId, query.assignee));
   if (query.q) where.push(or(sql`${shots.code} like ${likeContains(query.q)}`, sql`${shots.description} like ${likeContains(query.q)}`)!);
-  if (isClient(access)) where.push(inArray(shots.showId, sharedShowIds(access.studioId)));
+  if (isClient(access)) where.push(inArray(shots.id, clientShotIds(access)));
   const dir = query.order === 'desc' ? desc : asc;
   const order: SQL[] = {
     code: [dir(shots.code)],
@@ -266,13 +260,13 @@ export async function listShots(access: StudioAccess, query: ShotListQuery) {
       .innerJoin(shows, eq(shows.id, shots.showId))
       .where(and(...where)),
   ]);
-  return { items: await withThumbnailUrls(access.studioId, items), total, page: query.page, pageSize: query.pageSize };
+  return { items: (await withThumbnailUrls(access.studioId, items)).map((r) => asSeenBy(access, r)), total, page: query.page, pageSize: query.pageSize };
 }
 
 /** Returns the shot row (404 when missing, in another studio, or in a show hidden from a client). */
 export async function getShotRow(access: StudioAccess, shotId: number) {
   const where: SQL[] = [eq(shots.id, shotId), eq(shots.studioId, access.studioId)];
-  if (isClient(access)) where.push(inArray(shots.showId, sharedShowIds(access.studioId)));
+  if (isClient(access)) where.push(inArray(shots.id, clientShotIds(access)));
   const [row] = await shotsQuery().where(and(...where));
   if (!row) throw new HttpError('not_found', 'No such shot');
   return row;
@@ -282,7 +276,7 @@ export async function getShotRow(access: StudioAccess, shotId: number) {
 export async function getShot(access: StudioAccess, shotId: number) {
   const shot = await getShotRow(access, shotId);
   const versionWhere: SQL[] = [eq(versions.shotId, shotId), eq(versions.studioId, access.studioId)];
-  if (isClient(access)) versionWhere.push(eq(versions.sharedWithClient, true), ne(versions.reviewState, 'draft'));
+  if (isClient(access)) versionWhere.push(inArray(versions.id, clientVersionIds(access)));
   const [versionRows, plateRows] = await Promise.all([
     db()
       .select({
@@ -310,10 +304,10 @@ export async function getShot(access: StudioAccess, shotId: number) {
   ]);
   const [withUrl] = await withThumbnailUrls(access.studioId, [shot]);
   return {
-    ...withUrl,
+    ...asSeenBy(access, withUrl),
     plate: plateRows.find((a) => a.id === shot.plateAssetId) ?? null,
     thumbnail: plateRows.find((a) => a.id === shot.thumbnailAssetId) ?? null,
-    versions: versionRows,
+    versions: versionRows.map((v) => asSeenBy(access, v)),
   };
 }
 

@@ -1,7 +1,7 @@
 // Studio members, invitations and password resets.
-import { and, eq, gt, isNull, sql, desc } from 'drizzle-orm';
+import { and, eq, gt, inArray, isNull, sql, desc } from 'drizzle-orm';
 import { db } from './db';
-import { invitations, memberships, passwordResets, studios, users, type Role } from './db/schema';
+import { clientShows, invitations, memberships, passwordResets, shows, studios, users, type Role } from './db/schema';
 import { HttpError } from './http';
 import { hashToken, newToken, newUserId } from './tokens';
 import { hashPassword } from './password';
@@ -15,6 +15,12 @@ export const RESET_HOURS = 1;
 
 /** Lists a studio's members for the members table. */
 export async function listMembers(studioId: number) {
+  const [rows, scopes] = await Promise.all([memberRows(studioId), db().select({ userId: clientShows.userId, showId: clientShows.showId }).from(clientShows).where(eq(clientShows.studioId, studioId))]);
+  // A client member carries the shows it may see; the studio's own people see every show.
+  return rows.map((m) => ({ ...m, showIds: m.role === 'client' ? scopes.filter((c) => c.userId === m.userId).map((c) => c.showId).sort((a, b) => a - b) : null }));
+}
+
+function memberRows(studioId: number) {
   return db()
     .select({
       id: memberships.id,
@@ -69,8 +75,37 @@ export async function changeMember(studioId: number, memberId: number, actorId: 
   });
 }
 
+/** The given show ids, checked to be shows of the studio (400 naming showIds otherwise). */
+async function studioShowIds(studioId: number, showIds: number[]): Promise<number[]> {
+  const ids = [...new Set(showIds)];
+  if (ids.length === 0) return [];
+  const found = await db().select({ id: shows.id }).from(shows).where(and(eq(shows.studioId, studioId), inArray(shows.id, ids)));
+  if (found.length !== ids.length) throw new HttpError('validation_failed', 'showIds: names a show that is not in this studio', { showIds: 'names a show that is not in this studio' });
+  return ids.sort((a, b) => a - b);
+}
+
+/** The shows a client member may see. */
+export async function clientShowsOf(studioId: number, userId: string): Promise<number[]> {
+  const rows = await db().select({ id: clientShows.showId }).from(clientShows).where(and(eq(clientShows.studioId, studioId), eq(clientShows.userId, userId)));
+  return rows.map((r) => r.id).sort((a, b) => a - b);
+}
+
+/** Replaces the shows a client member may see (owner or supervisor). 404 unless the member is a client here. */
+export async function setClientShows(studioId: number, memberId: number, actorId: string, showIds: number[]) {
+  const ids = await studioShowIds(studioId, showIds);
+  return db().transaction(async (tx) => {
+    const [m] = await tx.select({ userId: memberships.userId, role: memberships.role }).from(memberships).where(and(eq(memberships.id, memberId), eq(memberships.studioId, studioId))).for('update');
+    if (!m || m.role !== 'client') throw new HttpError('not_found', 'No such client member');
+    await tx.delete(clientShows).where(and(eq(clientShows.studioId, studioId), eq(clientShows.userId, m.userId)));
+    if (ids.length) await tx.insert(clientShows).values(ids.map((showId) => ({ studioId, userId: m.userId, showId })));
+    await audit({ studioId, actorId, action: 'member.shows', targetType: 'user', targetId: m.userId, detail: { showIds: ids } });
+    return { id: memberId, showIds: ids };
+  });
+}
+
 /** Creates an invitation and e-mails its single-use link. Returns the invitation row (never the token). */
-export async function invite(studioId: number, actorId: string, email: string, role: Role) {
+export async function invite(studioId: number, actorId: string, email: string, role: Role, showIds: number[] = []) {
+  const scoped = role === 'client' ? await studioShowIds(studioId, showIds) : null;
   const [studio] = await db().select().from(studios).where(eq(studios.id, studioId));
   const [already] = await db()
     .select({ id: memberships.id })
@@ -81,7 +116,7 @@ export async function invite(studioId: number, actorId: string, email: string, r
   const [inviter] = await db().select({ name: users.name }).from(users).where(eq(users.id, actorId));
   const token = newToken();
   const expiresAt = new Date(Date.now() + INVITATION_HOURS * 3600_000);
-  const [res] = await db().insert(invitations).values({ studioId, email, role, tokenHash: hashToken(token), invitedBy: actorId, expiresAt });
+  const [res] = await db().insert(invitations).values({ studioId, email, role, tokenHash: hashToken(token), invitedBy: actorId, expiresAt, showIds: scoped });
   const url = `${config.appUrl}/invite/${token}`;
   await sendMail({
     to: email,
@@ -92,8 +127,8 @@ export async function invite(studioId: number, actorId: string, email: string, r
     ],
     action: { label: 'Join the studio', url },
   });
-  await audit({ studioId, actorId, action: 'invitation.create', targetType: 'invitation', targetId: res.insertId, detail: { email, role } });
-  return { id: Number(res.insertId), email, role, expiresAt };
+  await audit({ studioId, actorId, action: 'invitation.create', targetType: 'invitation', targetId: res.insertId, detail: { email, role, showIds: scoped } });
+  return { id: Number(res.insertId), email, role, showIds: scoped, expiresAt };
 }
 
 export async function listInvitations(studioId: number) {
@@ -102,6 +137,7 @@ export async function listInvitations(studioId: number) {
       id: invitations.id,
       email: invitations.email,
       role: invitations.role,
+      showIds: invitations.showIds,
       expiresAt: invitations.expiresAt,
       acceptedAt: invitations.acceptedAt,
       revokedAt: invitations.revokedAt,
@@ -132,6 +168,7 @@ export async function openInvitation(token: string) {
       studioSlug: studios.slug,
       email: invitations.email,
       role: invitations.role,
+      showIds: invitations.showIds,
       expiresAt: invitations.expiresAt,
       acceptedAt: invitations.acceptedAt,
       revokedAt: invitations.revokedAt,
@@ -182,6 +219,11 @@ export async function acceptInvitation(token: string, signedInUserId: string | n
       .insert(memberships)
       .values({ studioId: inv.studioId, userId: uid, role: inv.role })
       .onDuplicateKeyUpdate({ set: { role: sql`${memberships.role}` } });
+    // A client membership sees the shows its invitation named, and no others.
+    if (inv.role === 'client' && inv.showIds?.length) {
+      const live = await tx.select({ id: shows.id }).from(shows).where(and(eq(shows.studioId, inv.studioId), inArray(shows.id, inv.showIds)));
+      if (live.length) await tx.insert(clientShows).values(live.map((s) => ({ studioId: inv.studioId, userId: uid, showId: s.id }))).onDuplicateKeyUpdate({ set: { showId: sql`${clientShows.showId}` } });
+    }
     return uid;
   });
   await audit({ studioId: inv.studioId, actorId: userId, action: 'invitation.accept', targetType: 'invitation', targetId: inv.id });

@@ -6,6 +6,8 @@ import { db } from './db';
 import { memberships, notes, reviewEvents, shots, shows, studios, users, versions } from './db/schema';
 import { sendMail } from './mail';
 import { config } from './config';
+import { clientVersionIds } from './access';
+import type { StudioAccess } from './authz';
 import type { Role } from '../vocab';
 import { reviewStateWord, versionLabel } from '../vocab';
 
@@ -162,7 +164,7 @@ export async function sendDigests(opts: { now?: Date; hours?: number; dryRun?: b
             eq(reviewEvents.studioId, m.studioId),
             gte(reviewEvents.createdAt, since),
             ne(reviewEvents.toState, 'superseded'),
-            ...(client ? [eq(versions.sharedWithClient, true), ne(versions.reviewState, 'draft')] : []),
+            ...(client ? [inArray(versions.id, clientVersionIds({ studioId: m.studioId, userId: m.userId, role: m.role } as StudioAccess))] : []),
           ),
         )
         .orderBy(asc(reviewEvents.id))

@@ -8,6 +8,7 @@ import { db, type Db } from './db';
 import { assets, auditLog, noteReads, notes, reviewEvents, shots, shows, users, versions } from './db/schema';
 import { HttpError } from './http';
 import { requireRole, type StudioAccess } from './authz';
+import { asSeenBy, clientVersionIds, loadVersion } from './access';
 import { decideTransition, shotStatusAfter, type ReviewAction } from '../review/states';
 import { healthOf } from '../sim/health';
 import { diffScenes, countChanges } from '../review/diff';
@@ -21,22 +22,6 @@ type VersionRow = typeof versions.$inferSelect;
 type ShotRow = typeof shots.$inferSelect;
 
 const isClient = (access: StudioAccess) => access.role === 'client';
-
-/** True when a client may see this version: shared with clients and past draft. */
-export const clientMaySee = (v: Pick<VersionRow, 'sharedWithClient' | 'reviewState'>) => v.sharedWithClient && v.reviewState !== 'draft';
-
-/**
- * Loads a version with its shot for the signed-in user with at least `role`: 401 signed out, 404 when missing, in
- * another studio or hidden from a client, 403 when the role is too low.
- */
-export async function reviewVersionFor(locals: Locals, versionId: number, role: Role) {
-  if (!locals.user) throw new HttpError('unauthenticated', 'Please sign in');
-  const [row] = await db().select({ version: versions, shot: shots }).from(versions).innerJoin(shots, eq(shots.id, versions.shotId)).where(eq(versions.id, versionId));
-  if (!row) throw new HttpError('not_found', 'No such version');
-  const access = await requireRole(locals, row.version.studioId, role);
-  if (isClient(access) && !clientMaySee(row.version)) throw new HttpError('not_found', 'No such version');
-  return { version: row.version, shot: row.shot, access };
-}
 
 /** The review-facing view of a version (no scene). */
 export function reviewVersionView(v: VersionRow) {
@@ -265,7 +250,7 @@ export async function listNotes(access: StudioAccess, versionId: number) {
  */
 export async function carriedNotes(access: StudioAccess, v: VersionRow) {
   const verWhere: SQL[] = [eq(versions.shotId, v.shotId), lt(versions.number, v.number), eq(versions.studioId, access.studioId)];
-  if (isClient(access)) verWhere.push(eq(versions.sharedWithClient, true), ne(versions.reviewState, 'draft'));
+  if (isClient(access)) verWhere.push(inArray(versions.id, clientVersionIds(access)));
   const earlier = await db().select({ id: versions.id }).from(versions).where(and(...verWhere));
   if (earlier.length === 0) return [];
   const where: SQL[] = [inArray(notes.versionId, earlier.map((e) => e.id))];
@@ -335,7 +320,10 @@ export async function noteFor(locals: Locals, noteId: number, role: Role) {
     .where(eq(notes.id, noteId));
   if (!n) throw new HttpError('not_found', 'No such note');
   const access = await requireRole(locals, n.studioId, role);
-  if (isClient(access) && (n.internal || !clientMaySee(n.version))) throw new HttpError('not_found', 'No such note');
+  if (isClient(access) && n.internal) throw new HttpError('not_found', 'No such note');
+  if (isClient(access)) await loadVersion(access, n.version.id).catch(() => {
+    throw new HttpError('not_found', 'No such note');
+  });
   return { note: n, access };
 }
 
@@ -433,7 +421,7 @@ export async function inboxCounts(studioId: number, userId: string, role: Role):
   const count = sql<number>`count(*)`.mapWith(Number);
   const reviewWhere =
     role === 'client'
-      ? and(eq(versions.studioId, studioId), eq(versions.reviewState, 'submitted'), eq(versions.sharedWithClient, true))
+      ? and(eq(versions.studioId, studioId), eq(versions.reviewState, 'submitted'), inArray(versions.id, clientVersionIds({ studioId, userId, role } as StudioAccess)))
       : role === 'artist'
         ? undefined
         : and(eq(versions.studioId, studioId), eq(versions.reviewState, 'submitted'));
@@ -459,7 +447,7 @@ export async function inboxFor(access: StudioAccess) {
   const counts = await inboxCounts(studioId, userId, role);
   const reviewWhere: SQL | null =
     role === 'client'
-      ? and(eq(versions.studioId, studioId), eq(versions.reviewState, 'submitted'), eq(versions.sharedWithClient, true))!
+      ? and(eq(versions.studioId, studioId), eq(versions.reviewState, 'submitted'), inArray(versions.id, clientVersionIds(access)))!
       : role === 'artist'
         ? null
         : and(eq(versions.studioId, studioId), eq(versions.reviewState, 'submitted'))!;
@@ -493,7 +481,8 @@ export async function inboxFor(access: StudioAccess) {
       shotId: r.shotId,
       shotCode: r.shotCode,
       showCode: r.showCode,
-      author: { id: r.authorId, name: r.authorName ?? 'A former member' },
+      // A client is not told who in the studio made the version.
+      author: role === 'client' ? { id: null, name: 'The studio' } : { id: r.authorId, name: r.authorName ?? 'A former member' },
       updatedAt: r.updatedAt.toISOString(),
       lastEvent: e ? { comment: role === 'client' ? null : e.comment, actorName: e.actorName, at: e.createdAt.toISOString() } : null,
     };
@@ -511,8 +500,7 @@ export async function inboxFor(access: StudioAccess) {
 /** Two versions of the same shot with their scenes and the change table from `a` to `b`. */
 export async function compareVersions(locals: Locals, studioId: number, aId: number, bId: number) {
   const access = await requireRole(locals, studioId, 'client');
-  const [a, b] = await Promise.all([reviewVersionFor(locals, aId, 'client'), reviewVersionFor(locals, bId, 'client')]);
-  if (a.version.studioId !== access.studioId || b.version.studioId !== access.studioId) throw new HttpError('not_found', 'No such version');
+  const [a, b] = await Promise.all([loadVersion(access, aId), loadVersion(access, bId)]);
   if (a.version.shotId !== b.version.shotId) throw fieldError('b', 'must be a version of the same shot as a');
   const shot = a.shot;
   const [show] = await db().select({ code: shows.code, name: shows.name }).from(shows).where(eq(shows.id, shot.showId));
@@ -529,8 +517,8 @@ export async function compareVersions(locals: Locals, studioId: number, aId: num
       metresPerPixel: shot.metresPerPixel,
       plateAssetId: shot.plateAssetId,
     },
-    a: { ...reviewVersionView(a.version), scene: a.version.scene, plateAssetId: a.version.plateAssetId },
-    b: { ...reviewVersionView(b.version), scene: b.version.scene, plateAssetId: b.version.plateAssetId },
+    a: { ...asSeenBy(access, reviewVersionView(a.version)), scene: a.version.scene, plateAssetId: a.version.plateAssetId },
+    b: { ...asSeenBy(access, reviewVersionView(b.version)), scene: b.version.scene, plateAssetId: b.version.plateAssetId },
     changes,
     counts: countChanges(changes),
   };

@@ -2,7 +2,7 @@
 // Idempotent: running it again leaves existing rows as they are.
 import { and, eq } from 'drizzle-orm';
 import { db } from './db';
-import { assets, memberships, shots, shows, studios, users, versions, type Role } from './db/schema';
+import { assets, clientShows, memberships, shots, shows, studios, users, versions, type Role } from './db/schema';
 import { hashPassword } from './password';
 import { newUserId } from './tokens';
 import { putObject } from './storage';
@@ -265,6 +265,9 @@ export async function seedDemo(): Promise<number> {
         .onDuplicateKeyUpdate({ set: { code: shot.code } });
     }
   }
+  // The demo client is from the soda brand: its membership names that brand's show only.
+  const [cnb] = await d.select({ id: shows.id }).from(shows).where(and(eq(shows.studioId, studio.id), eq(shows.code, 'CNB')));
+  if (cnb) await d.insert(clientShows).values({ studioId: studio.id, userId: userIds.client, showId: cnb.id }).onDuplicateKeyUpdate({ set: { showId: cnb.id } });
   await seedVersions(studio.id, userIds.artist);
   return studio.id;
 }

@@ -1,36 +1,13 @@
 // Versions of a shot: each save is a new, numbered, immutable version holding its scene document.
-import { eq, sql, desc } from 'drizzle-orm';
-import type { APIContext } from 'astro';
+import { and, eq, inArray, sql, desc, type SQL } from 'drizzle-orm';
 import { db } from './db';
 import { shots, versions, assets, studios } from './db/schema';
 import { HttpError } from './http';
-import { requireRole, type StudioAccess } from './authz';
+import { clientVersionIds, isClient, type Access } from './access';
 import { audit } from './audit';
 import { supersedeOlderVersions } from './review';
 import { parseScene, sceneHash, type Scene } from '../scene';
 import { checkBakeCost, DEFAULT_BAKE_COST_LIMIT } from '../scene/cost';
-import type { Role } from '../vocab';
-
-type Locals = APIContext['locals'];
-
-/** Loads a version the signed-in user may see with at least `role` (a client only sees shared versions). */
-export async function versionFor(locals: Locals, versionId: number, role: Role) {
-  if (!locals.user) throw new HttpError('unauthenticated', 'Please sign in');
-  const [v] = await db().select().from(versions).where(eq(versions.id, versionId));
-  if (!v) throw new HttpError('not_found', 'No such version');
-  const access = await requireRole(locals, v.studioId, role);
-  if (access.role === 'client' && !v.sharedWithClient) throw new HttpError('not_found', 'No such version');
-  return { version: v, access };
-}
-
-/** Loads a shot of a studio the user belongs to (404 otherwise). */
-export async function shotFor(locals: Locals, shotId: number, role: Role): Promise<{ shot: typeof shots.$inferSelect; access: StudioAccess }> {
-  if (!locals.user) throw new HttpError('unauthenticated', 'Please sign in');
-  const [shot] = await db().select().from(shots).where(eq(shots.id, shotId));
-  if (!shot) throw new HttpError('not_found', 'No such shot');
-  const access = await requireRole(locals, shot.studioId, role);
-  return { shot, access };
-}
 
 /** Validates a scene document; throws 400 naming each bad field as `scene.<path>`. */
 export function validScene(doc: unknown): Scene {
@@ -113,7 +90,10 @@ export async function clipOf(v: typeof versions.$inferSelect) {
   return a ?? null;
 }
 
-export async function versionsOfShot(shotId: number) {
-  return db().select().from(versions).where(eq(versions.shotId, shotId)).orderBy(desc(versions.number));
+/** The shot's versions newest first, as `access` may see them (a client: only those the access policy shows it). */
+export async function versionsOfShot(access: Access, shotId: number) {
+  const where: SQL[] = [eq(versions.shotId, shotId), eq(versions.studioId, access.studioId)];
+  if (isClient(access)) where.push(inArray(versions.id, clientVersionIds(access)));
+  return db().select().from(versions).where(and(...where)).orderBy(desc(versions.number));
 }
 

@@ -166,8 +166,8 @@ export const shows = mysqlTable(
 );
 
 /**
- * The shows a client membership may see. Filled by migration 0003 (every client: all its studio's shows); no code
- * reads it yet — client visibility is still decided per studio until the access policy uses it.
+ * The shows a client membership may see (src/lib/server/access.ts reads it). Migration 0003 backfilled every existing
+ * client with all its studio's shows; new clients get the shows their invitation names, owners edit them after.
  */
 export const clientShows = mysqlTable(
   'client_shows',

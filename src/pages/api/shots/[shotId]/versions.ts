@@ -1,8 +1,9 @@
 // POST /api/shots/:shotId/versions {scene, comment?} → 201 {version}: saves the scene as the shot's next version (artist+).
 // GET → {versions} (newest first; a client sees only shared ones, without scenes; 404 when none).
 import { z } from 'zod';
+import { asSeenBy, shotAccess } from '~/lib/server/access';
 import { endpoint, json, idParam, readJson, HttpError } from '~/lib/server/http';
-import { createVersion, shotFor, validScene, versionsOfShot, versionView } from '~/lib/server/versions';
+import { createVersion, validScene, versionsOfShot, versionView } from '~/lib/server/versions';
 
 const Body = z.object({
   scene: z.unknown().refine((s) => s !== undefined, 'is required'),
@@ -10,7 +11,7 @@ const Body = z.object({
 });
 
 export const POST = endpoint(async ({ params, locals, request }) => {
-  const { shot, access } = await shotFor(locals, idParam(params, 'shotId'), 'artist');
+  const { shot, access } = await shotAccess(locals, idParam(params, 'shotId'), 'artist');
   const body = await readJson(request, Body, 5_000_000);
   const scene = validScene(body.scene);
   const version = await createVersion(shot, access.userId, scene, body.comment || null);
@@ -18,10 +19,9 @@ export const POST = endpoint(async ({ params, locals, request }) => {
 });
 
 export const GET = endpoint(async ({ params, locals }) => {
-  const { shot, access } = await shotFor(locals, idParam(params, 'shotId'), 'client');
-  const rows = await versionsOfShot(shot.id);
-  const visible = access.role === 'client' ? rows.filter((v) => v.sharedWithClient) : rows;
+  const { shot, access } = await shotAccess(locals, idParam(params, 'shotId'), 'client');
+  const visible = await versionsOfShot(access, shot.id);
   // A shot with nothing shared is not confirmed to a client (the same 404 as a shot that does not exist).
   if (access.role === 'client' && visible.length === 0) throw new HttpError('not_found', 'No such shot');
-  return json({ versions: visible.map((v) => versionView(v, false)) });
+  return json({ versions: visible.map((v) => asSeenBy(access, versionView(v, false))) });
 });

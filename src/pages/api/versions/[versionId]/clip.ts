@@ -1,18 +1,20 @@
 // GET /api/versions/:versionId/clip → {clipUrl, statsUrl, bytes, meta}: short-lived presigned URLs for the player
 // (the clip is read with HTTP Range requests). 409 until the version is baked.
 import { endpoint, json, idParam, HttpError } from '~/lib/server/http';
-import { clipOf, versionFor } from '~/lib/server/versions';
+import { versionAccess } from '~/lib/server/access';
+import { clipOf } from '~/lib/server/versions';
 import { presignGet } from '~/lib/server/storage';
 import { healthOf } from '~/lib/sim/health';
 
 export const GET = endpoint(async ({ params, locals }) => {
-  const { version } = await versionFor(locals, idParam(params, 'versionId'), 'client');
+  const { version, access } = await versionAccess(locals, idParam(params, 'versionId'), 'client');
   const clip = version.bakeState === 'baked' ? await clipOf(version) : null;
   if (!clip) throw new HttpError('conflict', 'This version is not baked yet', undefined, { bakeState: version.bakeState });
   const meta = (clip.meta ?? {}) as Record<string, unknown>;
   return json({
     clipUrl: await presignGet(clip.storageKey, 900),
-    statsUrl: typeof meta.statsKey === 'string' ? await presignGet(meta.statsKey, 900) : null,
+    // Solver statistics are the studio's: a client gets the clip only.
+    statsUrl: access.role !== 'client' && typeof meta.statsKey === 'string' ? await presignGet(meta.statsKey, 900) : null,
     bytes: clip.byteSize,
     health: healthOf(meta),
     meta,

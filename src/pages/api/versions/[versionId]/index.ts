@@ -1,8 +1,9 @@
 // GET /api/versions/:versionId → {version} with its scene (a client sees only versions shared with clients).
 import { endpoint, json, idParam } from '~/lib/server/http';
-import { versionFor, versionView } from '~/lib/server/versions';
+import { asSeenBy, versionAccess } from '~/lib/server/access';
+import { versionView } from '~/lib/server/versions';
 
 export const GET = endpoint(async ({ params, locals }) => {
-  const { version } = await versionFor(locals, idParam(params, 'versionId'), 'client');
-  return json({ version: versionView(version) });
+  const { version, access } = await versionAccess(locals, idParam(params, 'versionId'), 'client');
+  return json({ version: asSeenBy(access, versionView(version)) });
 });

@@ -1,4 +1,4 @@
-// GET /api/studios/:studioId/invitations and POST {email, role}: owners invite people by e-mail.
+// GET /api/studios/:studioId/invitations and POST {email, role, showIds? (a client's shows)}: owners invite people by e-mail.
 import { z } from 'zod';
 import { endpoint, json, idParam, readJson } from '~/lib/server/http';
 import { requireRole } from '~/lib/server/authz';
@@ -12,6 +12,6 @@ export const GET = endpoint(async ({ params, locals }) => {
 
 export const POST = endpoint(async ({ params, locals, request }) => {
   const access = await requireRole(locals, idParam(params, 'studioId'), 'owner');
-  const body = await readJson(request, z.object({ email, role }));
-  return json({ invitation: await invite(access.studioId, access.userId, body.email, body.role) }, 201);
+  const body = await readJson(request, z.object({ email, role, showIds: z.array(z.number().int().positive()).max(1000, 'names too many shows').optional() }));
+  return json({ invitation: await invite(access.studioId, access.userId, body.email, body.role, body.showIds) }, 201);
 });

@@ -1,9 +1,9 @@
 // POST /api/versions/:versionId/bake/cancel → {state:'cancelled'|'cancelling'} (artist+); 409 when nothing is baking.
 import { endpoint, json, idParam } from '~/lib/server/http';
-import { versionFor } from '~/lib/server/versions';
+import { versionAccess } from '~/lib/server/access';
 import { cancelBake } from '~/lib/bake/queue';
 
 export const POST = endpoint(async ({ params, locals }) => {
-  const { version, access } = await versionFor(locals, idParam(params, 'versionId'), 'artist');
+  const { version, access } = await versionAccess(locals, idParam(params, 'versionId'), 'artist');
   return json({ state: await cancelBake(version.id, access.studioId, access.userId) });
 });

@@ -2,8 +2,9 @@
 // (supervisor or owner; a return needs a comment). Two decisions at once: one wins, the other gets
 // 409 {error:{code:'conflict', message, currentState}}.
 import { z } from 'zod';
+import { versionAccess } from '~/lib/server/access';
 import { endpoint, json, idParam, readJson } from '~/lib/server/http';
-import { reviewVersionFor, transitionVersion } from '~/lib/server/review';
+import { transitionVersion } from '~/lib/server/review';
 
 const Body = z
   .object({
@@ -13,7 +14,7 @@ const Body = z
   .strict();
 
 export const POST = endpoint(async ({ params, locals, request }) => {
-  const { version, access } = await reviewVersionFor(locals, idParam(params, 'versionId'), 'supervisor');
+  const { version, access } = await versionAccess(locals, idParam(params, 'versionId'), 'supervisor');
   const body = await readJson(request, Body);
   return json(await transitionVersion(access, version.id, body.decision === 'approved' ? 'approve' : 'return', body.comment || null));
 });

@@ -1,13 +1,14 @@
 // GET /api/versions/:versionId/review → {version, events, actions}: the version's review state, its review events
 // (oldest first; a client sees no comments) and the review actions the caller may take now (any member who may see it).
 import { endpoint, json, idParam } from '~/lib/server/http';
-import { reviewHistory, reviewVersionFor, reviewVersionView } from '~/lib/server/review';
+import { asSeenBy, versionAccess } from '~/lib/server/access';
+import { reviewHistory, reviewVersionView } from '~/lib/server/review';
 import { availableActions } from '~/lib/review/states';
 
 export const GET = endpoint(async ({ params, locals }) => {
-  const { version, access } = await reviewVersionFor(locals, idParam(params, 'versionId'), 'client');
+  const { version, access } = await versionAccess(locals, idParam(params, 'versionId'), 'client');
   return json({
-    version: reviewVersionView(version),
+    version: asSeenBy(access, reviewVersionView(version)),
     events: await reviewHistory(access, version.id),
     actions: availableActions(access.role, version.reviewState, version.bakeState),
     canShare: access.role === 'supervisor' || access.role === 'owner',

@@ -2,8 +2,9 @@
 // 409 {error:{code:'conflict', currentState}} when the version is not a draft or not baked; 400 naming overrideReason
 // when the bake's health verdict has findings and no reason to submit it anyway was given.
 import { z } from 'zod';
+import { versionAccess } from '~/lib/server/access';
 import { endpoint, json, idParam, readJson } from '~/lib/server/http';
-import { reviewVersionFor, transitionVersion } from '~/lib/server/review';
+import { transitionVersion } from '~/lib/server/review';
 
 const Body = z
   .object({
@@ -14,7 +15,7 @@ const Body = z
   .strict();
 
 export const POST = endpoint(async ({ params, locals, request }) => {
-  const { version, access } = await reviewVersionFor(locals, idParam(params, 'versionId'), 'artist');
+  const { version, access } = await versionAccess(locals, idParam(params, 'versionId'), 'artist');
   const body = await readJson(request, Body);
   return json(await transitionVersion(access, version.id, 'submit', body.comment || null, body.overrideReason ?? null));
 });

@@ -1,10 +1,10 @@
 // POST /api/versions/:versionId/exports/:assetId/complete → {export}: checks the uploaded object (its size against the
 // declared one, its type by magic bytes) and lists it; 409 before the upload, 422 (file removed) when it is wrong (artist).
 import { endpoint, json, idParam } from '~/lib/server/http';
-import { versionFor } from '~/lib/server/versions';
+import { versionAccess } from '~/lib/server/access';
 import { completeExport } from '~/lib/server/exports';
 
 export const POST = endpoint(async ({ params, locals }) => {
-  const { version, access } = await versionFor(locals, idParam(params, 'versionId'), 'artist');
+  const { version, access } = await versionAccess(locals, idParam(params, 'versionId'), 'artist');
   return json({ export: await completeExport(access, version, idParam(params, 'assetId')) });
 });

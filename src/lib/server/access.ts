@@ -1,0 +1,143 @@
+// The one access policy. An access object (studio, user, role) comes from the signed-in membership; domain code takes
+// it, never Astro's locals. The client-visibility rule lives here and nowhere else:
+//   a client sees exactly the versions shared with clients (past draft) of live shots in the shows its membership
+//   names (client_shows); a shot or show is visible to a client only through such a version. Anything else: 404.
+import type { APIContext, AstroGlobal } from 'astro';
+import { and, eq, inArray, isNull, ne, type SQL } from 'drizzle-orm';
+import { db } from './db';
+import { clientShows, shots, shows, versions } from './db/schema';
+import { HttpError } from './http';
+import { requireRole, type StudioAccess } from './authz';
+import type { Role } from '../vocab';
+
+export type Access = StudioAccess;
+type Locals = APIContext['locals'] | AstroGlobal['locals'];
+type VersionRow = typeof versions.$inferSelect;
+type ShotRow = typeof shots.$inferSelect;
+type ShowRow = typeof shows.$inferSelect;
+
+export const isClient = (access: Access) => access.role === 'client';
+
+/** The show ids a client membership names (a subquery). */
+export function clientShowIds(access: Access) {
+  return db()
+    .select({ id: clientShows.showId })
+    .from(clientShows)
+    .where(and(eq(clientShows.userId, access.userId), eq(clientShows.studioId, access.studioId)));
+}
+
+/** Conditions on a `versions ⨝ shots` row for a client to see the version. */
+export function clientVersionWhere(access: Access): SQL[] {
+  return [
+    eq(versions.studioId, access.studioId),
+    eq(versions.sharedWithClient, true),
+    ne(versions.reviewState, 'draft'),
+    isNull(shots.archivedAt),
+    inArray(shots.showId, clientShowIds(access)),
+  ];
+}
+
+/** Ids of the versions a client may see. */
+export function clientVersionIds(access: Access) {
+  return db()
+    .select({ id: versions.id })
+    .from(versions)
+    .innerJoin(shots, eq(shots.id, versions.shotId))
+    .where(and(...clientVersionWhere(access)));
+}
+
+/** Ids of the shots a client may see (those with at least one version it may see). */
+export function clientShotIds(access: Access) {
+  return db()
+    .selectDistinct({ id: shots.id })
+    .from(versions)
+    .innerJoin(shots, eq(shots.id, versions.shotId))
+    .where(and(...clientVersionWhere(access)));
+}
+
+/** Ids of the shows a client may see (those with at least one version it may see). */
+export function clientVisibleShowIds(access: Access) {
+  return db()
+    .selectDistinct({ id: shots.showId })
+    .from(versions)
+    .innerJoin(shots, eq(shots.id, versions.shotId))
+    .where(and(...clientVersionWhere(access)));
+}
+
+/** The version and its shot, or 404 (missing, another studio, or hidden from a client). */
+export async function loadVersion(access: Access, versionId: number): Promise<{ version: VersionRow; shot: ShotRow }> {
+  const where: SQL[] = [eq(versions.id, versionId), eq(versions.studioId, access.studioId)];
+  if (isClient(access)) where.push(...clientVersionWhere(access));
+  const [row] = await db().select({ version: versions, shot: shots }).from(versions).innerJoin(shots, eq(shots.id, versions.shotId)).where(and(...where));
+  if (!row) throw new HttpError('not_found', 'No such version');
+  return row;
+}
+
+/** The shot, or 404 (missing, another studio, or hidden from a client). */
+export async function loadShot(access: Access, shotId: number): Promise<ShotRow> {
+  const where: SQL[] = [eq(shots.id, shotId), eq(shots.studioId, access.studioId)];
+  if (isClient(access)) where.push(inArray(shots.id, clientShotIds(access)));
+  const [row] = await db().select().from(shots).where(and(...where));
+  if (!row) throw new HttpError('not_found', 'No such shot');
+  return row;
+}
+
+/** The show, or 404 (missing, another studio, or hidden from a client). */
+export async function loadShow(access: Access, showId: number): Promise<ShowRow> {
+  const where: SQL[] = [eq(shows.id, showId), eq(shows.studioId, access.studioId)];
+  if (isClient(access)) where.push(inArray(shows.id, clientVisibleShowIds(access)));
+  const [row] = await db().select().from(shows).where(and(...where));
+  if (!row) throw new HttpError('not_found', 'No such show');
+  return row;
+}
+
+// ── From a route id to an access object (the only place that reads locals) ───────────────────────────────────────
+
+/** The access of the signed-in user to the studio owning `studioId`; 401 / 404 / 403 as in requireRole. */
+export function accessFor(locals: Locals, studio: number | string, role: Role): Promise<Access> {
+  return requireRole(locals, studio, role);
+}
+
+async function studioOf(table: typeof versions | typeof shots, id: number) {
+  const [row] = await db().select({ studioId: table.studioId }).from(table).where(eq(table.id, id));
+  if (!row) throw new HttpError('not_found', table === versions ? 'No such version' : 'No such shot');
+  return row.studioId;
+}
+
+/** Access for a route that names only a version id, plus the version (and shot) under the rule. */
+export async function versionAccess(locals: Locals, versionId: number, role: Role) {
+  if (!locals.user) throw new HttpError('unauthenticated', 'Please sign in');
+  const access = await accessFor(locals, await studioOf(versions, versionId), role);
+  return { access, ...(await loadVersion(access, versionId)) };
+}
+
+/** Access for a route that names only a shot id, plus the shot under the rule. */
+export async function shotAccess(locals: Locals, shotId: number, role: Role) {
+  if (!locals.user) throw new HttpError('unauthenticated', 'Please sign in');
+  const access = await accessFor(locals, await studioOf(shots, shotId), role);
+  return { access, shot: await loadShot(access, shotId) };
+}
+
+// ── What a client is shown of a row it may see ──────────────────────────────────────────────────────────────────
+// A client gets the fields needed to play and discuss a shared version (code, frame range, timecodes, rate, plate
+// for playback); studio-internal fields are blanked, keeping the answer's shape the same for every role.
+
+const hiddenFromClients: Record<string, string | null> = {
+  description: '',
+  assigneeId: null,
+  assigneeName: null,
+  dueDate: null,
+  reel: null,
+  clipName: null,
+  comment: null,
+  authorId: null,
+  authorName: null,
+};
+
+/** The row as `access` may see it: unchanged for the studio, internal fields blanked for a client. */
+export function asSeenBy<T extends object>(access: Access, row: T): T {
+  if (!isClient(access)) return row;
+  const out = { ...row } as Record<string, unknown>;
+  for (const key of Object.keys(hiddenFromClients)) if (key in out) out[key] = hiddenFromClients[key];
+  return out as T;
+}
