@@ -11,8 +11,8 @@ export const TURNOVER_APPROVAL_WORDS: Record<TurnoverApproval, string> = {
 };
 
 export const turnoverQuery = z.object({
-  approval: z.enum(TURNOVER_APPROVALS, { message: `must be one of ${TURNOVER_APPROVALS.join(', ')}` }).default('internal'),
-  format: z.enum(['json', 'zip'], { message: 'must be json or zip' }).default('json'),
+  approval: z.enum(TURNOVER_APPROVALS, { errorMap: () => ({ message: `must be one of ${TURNOVER_APPROVALS.join(', ')}` }) }).default('internal'),
+  format: z.enum(['json', 'zip'], { errorMap: () => ({ message: 'must be json or zip' }) }).default('json'),
 });
 
 export interface TurnoverItem {
