@@ -6,8 +6,8 @@ import { eq } from 'drizzle-orm';
 import { unzipSync, strFromU8 } from 'fflate';
 import { APP, makeStudio, unique, type TestStudio } from '../support/app';
 import { db, closeDb } from '../../src/lib/server/db';
-import { assets, shots, versions } from '../../src/lib/server/db/schema';
-import { putObject } from '../../src/lib/server/storage';
+import { shots } from '../../src/lib/server/db/schema';
+import { QUAY_CUT as CUT, fakeMp4, addVersion as addVersionTo, addMp4 as addMp4To } from '../support/turnover';
 import { timecodeToFrames } from '../../src/lib/timecode';
 
 let studio: TestStudio;
@@ -18,21 +18,6 @@ afterAll(closeDb);
 
 const api = () => `/api/studios/${studio.id}`;
 const supervisor = () => studio.members.supervisor.client;
-
-// Three events of a 24 fps cut (CMX 3600 layout, from memory); record out is exclusive.
-const CUT = [
-  'TITLE: QUAY CUT',
-  'FCM: NON-DROP FRAME',
-  '001  RL01     V     C        11:00:10:00 11:00:12:00 01:00:00:00 01:00:02:00',
-  '* FROM CLIP NAME: QY_0100',
-  '002  RL02     V     C        12:00:00:00 12:00:03:12 01:00:02:00 01:00:05:12',
-  '* FROM CLIP NAME: QY_0200',
-  '003  RL03     V     C        13:00:00:00 13:00:01:00 01:00:05:12 01:00:06:12',
-  '* FROM CLIP NAME: QY_0300',
-].join('\n');
-
-/** Bytes that pass as an MP4 (an ISO BMFF 'ftyp' box, ISO/IEC 14496-12) and are unique to the test. */
-const fakeMp4 = (tag: string) => new Uint8Array([0, 0, 0, 16, ...new TextEncoder().encode('ftypisom'), 0, 0, 2, 0, ...new TextEncoder().encode(tag)]);
 
 async function newShow() {
   const res = await supervisor().post(`${api()}/shows`, { code: unique('TO').slice(0, 14), name: 'Quay', frameRate: '24' });
@@ -46,28 +31,8 @@ async function importCut(showId: number, text: string) {
   return db().select().from(shots).where(eq(shots.showId, showId)).orderBy(shots.recordIn);
 }
 
-async function addVersion(shotId: number, number: number, reviewState: 'approved' | 'submitted') {
-  const [v] = await db().insert(versions).values({ studioId: studio.id, shotId, number, scene: {}, sceneHash: unique('h'), reviewState, bakeState: 'baked' });
-  return Number(v.insertId);
-}
-
-async function addMp4(versionId: number, shotId: number, fileName: string, bytes: Uint8Array) {
-  const storageKey = `studios/${studio.id}/versions/${versionId}/exports/${unique('t')}.mp4`;
-  await putObject(storageKey, bytes, 'video/mp4');
-  await db().insert(assets).values({
-    studioId: studio.id,
-    kind: 'export',
-    storageKey,
-    contentType: 'video/mp4',
-    byteSize: bytes.length,
-    width: 64,
-    height: 36,
-    versionId,
-    shotId,
-    format: 'mp4',
-    meta: { state: 'ready', fileName, declaredSize: bytes.length, options: {} },
-  });
-}
+const addVersion = (shotId: number, number: number, state: 'approved' | 'submitted') => addVersionTo(studio, shotId, number, state);
+const addMp4 = (versionId: number, shotId: number, fileName: string, bytes: Uint8Array) => addMp4To(studio, versionId, shotId, fileName, bytes);
 
 async function download(path: string) {
   const cookie = [...supervisor().cookies].map(([k, v]) => `${k}=${v}`).join('; ');
