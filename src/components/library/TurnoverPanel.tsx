@@ -10,7 +10,7 @@ interface Props {
   initial: TurnoverPlan;
 }
 
-const mb = (bytes: number) => `${(bytes / (1024 * 1024)).toFixed(1)} MB`;
+const mb = (bytes: number) => (bytes < 1024 * 1024 ? `${Math.max(1, Math.round(bytes / 1024))} kB` : `${(bytes / (1024 * 1024)).toFixed(1)} MB`);
 
 export default function TurnoverPanel({ studioId, showId, initial }: Props) {
   const [approval, setApproval] = useState<TurnoverApproval>(initial.approval);
