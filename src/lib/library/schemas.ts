@@ -1,7 +1,7 @@
 // The shot library's input rules: show and shot forms, table query parameters, imports, plates and scale.
 // Browser-safe (zod and plain modules only): the same schemas validate forms in the browser and requests on the server.
 import { z } from 'zod';
-import { SHOT_STATUSES, type ShotStatus } from '../vocab';
+import { HANDLE_CONVENTIONS, SHOT_STATUSES, type ShotStatus } from '../vocab';
 import { FRAME_RATES } from '../timecode';
 
 const req = { required_error: 'is required', invalid_type_error: 'must be text' };
@@ -263,3 +263,11 @@ export const scaleBody = z.object({
 export function isShotStatus(value: unknown): value is ShotStatus {
   return typeof value === 'string' && (SHOT_STATUSES as readonly string[]).includes(value);
 }
+
+// ── Studio settings ──────────────────────────────────────────────────────────────────────────────────────────────
+
+export const studioSettingsPatch = z
+  .object({
+    handleConvention: z.enum(HANDLE_CONVENTIONS, { errorMap: () => ({ message: `must be one of ${HANDLE_CONVENTIONS.join(', ')}` }) }),
+  })
+  .strict();
