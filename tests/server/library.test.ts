@@ -542,3 +542,18 @@ describe('handle convention (studio setting, owner only)', () => {
     ]);
   });
 });
+
+describe("plate's first frame", () => {
+  it('is kept on create and edit (null = the plate starts at the cut in); a bad value → 400 naming plateFirstFrame', async () => {
+    const show = await newShow();
+    const shot = await newShot(show.id, { firstFrame: 1009, lastFrame: 1056, handles: 8, plateFirstFrame: 1001 });
+    const [row] = await db().select().from(shots).where(eq(shots.id, shot.id));
+    expect(row.plateFirstFrame).toBe(1001);
+    const cleared = await supervisor().patch(`${api()}/shots/${shot.id}`, { plateFirstFrame: null });
+    expect(cleared.status, JSON.stringify(cleared.body)).toBe(200);
+    expect((await db().select().from(shots).where(eq(shots.id, shot.id)))[0].plateFirstFrame).toBeNull();
+    const bad = await supervisor().patch(`${api()}/shots/${shot.id}`, { plateFirstFrame: 10.5 });
+    expect(bad.status).toBe(400);
+    expect(bad.body.error.fields).toHaveProperty('plateFirstFrame');
+  });
+});

@@ -28,7 +28,7 @@ export default function HandleConventionSetting({ studioId, canEdit, initial }: 
       <legend className="sr-only">Handle convention</legend>
       <h2 className="text-lg font-semibold">Handle convention</h2>
       <p className="mt-1 max-w-2xl text-sm text-ink-soft">
-        Where a shot's first frame number (1001 unless the import says otherwise) falls. With 8 head handles, the first choice puts the cut in at 1009; the
+        Where a shot's first frame number (1001 by default) falls. With 8 head handles, the first choice puts the cut in at 1009; the
         second puts it at 1001, with handles 993–1000.
       </p>
       <div className="mt-4 space-y-2">

@@ -78,6 +78,8 @@ const shotFields = {
   dueDate: dueDate.nullable(),
   status: shotStatus,
   sourceTimecodeIn: timecodeLabel.nullable(),
+  /** Shot frame number of the plate's first frame (a plate delivered with handles starts before the cut in); null = the cut in. */
+  plateFirstFrame: frame.nullable(),
 };
 
 const lastNotBeforeFirst = (v: { firstFrame?: number; lastFrame?: number }) =>
@@ -101,6 +103,7 @@ export const shotCreate = z
     status: shotStatus.default('blocking'),
     /** Source timecode at the cut in; 00:00:00:00 when not given. */
     sourceTimecodeIn: shotFields.sourceTimecodeIn.optional(),
+    plateFirstFrame: shotFields.plateFirstFrame.optional(),
   })
   .refine(lastNotBeforeFirst, { message: 'must not be before the first frame', path: ['lastFrame'] });
 export type ShotCreate = z.infer<typeof shotCreate>;
@@ -121,6 +124,7 @@ export const shotPatch = z
     dueDate: shotFields.dueDate,
     status: shotFields.status,
     sourceTimecodeIn: shotFields.sourceTimecodeIn,
+    plateFirstFrame: shotFields.plateFirstFrame,
   })
   .partial()
   .strict('unknown field')

@@ -194,6 +194,7 @@ const shotColumns = {
   thumbnailAssetId: shots.thumbnailAssetId,
   metresPerPixel: shots.metresPerPixel,
   sourceTimecodeIn: shots.sourceTimecodeIn,
+  plateFirstFrame: shots.plateFirstFrame,
   recordIn: shots.recordIn,
   recordOut: shots.recordOut,
   reel: shots.reel,
@@ -366,6 +367,7 @@ export async function createShot(access: StudioAccess, body: ShotCreate) {
         dueDate: body.dueDate ?? null,
         status: body.status,
         sourceTimecodeIn: checkSourceTimecode(body.sourceTimecodeIn ?? null, body.frameRate ?? showRate(show)),
+        plateFirstFrame: body.plateFirstFrame ?? null,
       });
     id = Number(res.insertId);
   } catch (e) {
