@@ -24,6 +24,14 @@ export const REVIEW_STATE_WORDS: Record<ReviewState, string> = {
 /** The words for a review state id ('' → the id itself when unknown). */
 export const reviewStateWord = (state: string) => REVIEW_STATE_WORDS[state as ReviewState] ?? state;
 
+/** Where a shot's first frame number falls: the first head-handle frame (common practice, no source) or the cut in. */
+export const HANDLE_CONVENTIONS = ['head-handle', 'cut-in'] as const;
+export type HandleConvention = (typeof HANDLE_CONVENTIONS)[number];
+export const HANDLE_CONVENTION_WORDS: Record<HandleConvention, string> = {
+  'head-handle': 'The first frame number is the first head-handle frame',
+  'cut-in': 'The first frame number is the cut in',
+};
+
 export const BAKE_STATES = ['none', 'queued', 'baking', 'baked', 'failed', 'cancelled'] as const;
 export const JOB_STATES = ['queued', 'running', 'done', 'failed', 'cancelled'] as const;
 export const ASSET_KINDS = ['plate', 'thumbnail', 'clip', 'stats', 'export'] as const;

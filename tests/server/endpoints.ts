@@ -248,6 +248,14 @@ ENDPOINTS.push(
     path: async (s) => `${lib(s)}/shows/${await libraryShow(s, false)}/import/confirm`,
     body: () => ({ format: 'csv', text: 'code,first,last\nM_010,1001,1010\n' }),
   },
+  { method: 'GET', route: '/api/studios/[studioId]/settings', access: 'client', path: (s) => `${lib(s)}/settings` },
+  { method: 'PATCH', route: '/api/studios/[studioId]/settings', access: 'owner', path: (s) => `${lib(s)}/settings`, body: () => ({ handleConvention: 'head-handle' }) },
+  {
+    method: 'GET',
+    route: '/api/studios/[studioId]/shows/[showId]/turnover',
+    access: 'supervisor',
+    path: async (s) => `${lib(s)}/shows/${await libraryShow(s)}/turnover?approval=internal`,
+  },
   { method: 'GET', route: '/api/studios/[studioId]/shots', access: 'client', path: (s) => `${lib(s)}/shots?sort=status` },
   {
     method: 'POST',

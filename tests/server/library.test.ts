@@ -500,3 +500,61 @@ describe('client visibility and studio isolation', () => {
     expect(await countShots(shared.id)).toBe(1);
   });
 });
+
+describe('handle convention (studio setting, owner only)', () => {
+  // Two 24 fps cuts (CMX 3600 layout, from memory): 48 and 30 frames, record out exclusive.
+  const EDL = [
+    'FCM: NON-DROP FRAME',
+    '001  RL01     V     C        01:00:10:00 01:00:12:00 01:00:00:00 01:00:02:00',
+    '* FROM CLIP NAME: HC_010',
+    '002  RL02     V     C        02:00:00:00 02:00:01:06 01:00:02:00 01:00:03:06',
+    '* FROM CLIP NAME: HC_020',
+  ].join('\n');
+
+  it('the same EDL imports as cut 1009–… ("1001 is the first head-handle frame") or 1001–… ("1001 is the cut in"); source in kept', async () => {
+    const s = await makeStudio();
+    const sup = s.members.supervisor.client;
+    const owner = s.members.owner.client;
+    const importInto = async () => {
+      const show = await sup.post(`${api(s)}/shows`, { code: unique('HC').slice(0, 14), name: 'Handles', frameRate: '24' });
+      const res = await sup.post(`${api(s)}/shows/${show.body.show.id}/import/confirm`, { format: 'edl', text: EDL, options: { codeFrom: 'clip', handles: 8 } });
+      expect(res.status, JSON.stringify(res.body)).toBe(200);
+      const rows = await db().select().from(shots).where(eq(shots.showId, show.body.show.id)).orderBy(shots.code);
+      return rows.map((r) => [r.code, r.firstFrame, r.lastFrame, r.handles, r.sourceTimecodeIn]);
+    };
+    expect((await owner.get(`${api(s)}/settings`)).body.settings).toEqual({ handleConvention: 'head-handle' });
+    // Default: 1001 on the first head-handle frame (common practice (no source)), so the cut in is 1001 + 8.
+    expect(await importInto()).toEqual([
+      ['HC_010', 1009, 1056, 8, '01:00:10:00'],
+      ['HC_020', 1009, 1038, 8, '02:00:00:00'],
+    ]);
+
+    const refused = await sup.patch(`${api(s)}/settings`, { handleConvention: 'cut-in' });
+    expect(refused.status).toBe(403);
+    const bad = await owner.patch(`${api(s)}/settings`, { handleConvention: 'middle' });
+    expect(bad.status).toBe(400);
+    expect(bad.body.error.fields).toHaveProperty('handleConvention');
+    const set = await owner.patch(`${api(s)}/settings`, { handleConvention: 'cut-in' });
+    expect(set.status, JSON.stringify(set.body)).toBe(200);
+    // The cut in is 1001; durations (48, 30 frames) and the source in at the cut in are the same.
+    expect(await importInto()).toEqual([
+      ['HC_010', 1001, 1048, 8, '01:00:10:00'],
+      ['HC_020', 1001, 1030, 8, '02:00:00:00'],
+    ]);
+  });
+});
+
+describe("plate's first frame", () => {
+  it('is kept on create and edit (null = the plate starts at the cut in); a bad value → 400 naming plateFirstFrame', async () => {
+    const show = await newShow();
+    const shot = await newShot(show.id, { firstFrame: 1009, lastFrame: 1056, handles: 8, plateFirstFrame: 1001 });
+    const [row] = await db().select().from(shots).where(eq(shots.id, shot.id));
+    expect(row.plateFirstFrame).toBe(1001);
+    const cleared = await supervisor().patch(`${api()}/shots/${shot.id}`, { plateFirstFrame: null });
+    expect(cleared.status, JSON.stringify(cleared.body)).toBe(200);
+    expect((await db().select().from(shots).where(eq(shots.id, shot.id)))[0].plateFirstFrame).toBeNull();
+    const bad = await supervisor().patch(`${api()}/shots/${shot.id}`, { plateFirstFrame: 10.5 });
+    expect(bad.status).toBe(400);
+    expect(bad.body.error.fields).toHaveProperty('plateFirstFrame');
+  });
+});

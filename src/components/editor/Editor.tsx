@@ -225,7 +225,7 @@ export default function Editor({ boot }: { boot: EditorBoot }) {
           </div>
 
           <div className="relative min-h-0 flex-1">
-            <Viewport store={store} preview={preview} plate={plate} plateFirstFrame={boot.shot.firstFrame} look={look} showPreview={showPreview} viewRef={viewRef} onCursor={onCursor} />
+            <Viewport store={store} preview={preview} plate={plate} plateFirstFrame={boot.shot.plateFirstFrame ?? boot.shot.firstFrame} look={look} showPreview={showPreview} viewRef={viewRef} onCursor={onCursor} />
             <div className="pointer-events-none absolute right-2 bottom-2 rounded bg-ink/70 px-2 py-0.5 text-[0.7rem] text-sand tabular-nums">
               {cursor ? `x ${cursor[0].toFixed(3)} m · y ${cursor[1].toFixed(3)} m` : 'Wheel zooms · Space-drag pans'}
             </div>

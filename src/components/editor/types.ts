@@ -8,6 +8,8 @@ export interface EditorBoot {
     plateWidth: number; plateHeight: number; metresPerPixel: number | null;
     /** Source timecode of the cut-in frame (null: 00:00:00:00). */
     sourceTimecodeIn: string | null;
+    /** Shot frame number of the plate's first frame (null: the cut in). */
+    plateFirstFrame: number | null;
   };
   scene: EditorDoc;
   /** The version the scene came from (null: a new scene). */

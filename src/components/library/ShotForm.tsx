@@ -15,7 +15,7 @@ import type { Person, ShotDetail, ShotRow } from './types';
 
 type Input = z.input<typeof shotCreate>;
 type Output = z.output<typeof shotCreate>;
-const FIELDS = ['code', 'description', 'firstFrame', 'lastFrame', 'handles', 'frameRate', 'plateWidth', 'plateHeight', 'pixelAspect', 'assigneeId', 'dueDate', 'status', 'sourceTimecodeIn'] as const;
+const FIELDS = ['code', 'description', 'firstFrame', 'lastFrame', 'handles', 'frameRate', 'plateWidth', 'plateHeight', 'pixelAspect', 'assigneeId', 'dueDate', 'status', 'sourceTimecodeIn', 'plateFirstFrame'] as const;
 
 interface Props {
   studioId: number;
@@ -48,6 +48,7 @@ export default function ShotForm({ studioId, showId, showRate, shot, people, onS
       status: shot?.status ?? 'blocking',
       // 00:00:00:00 at the show's rate (00:00:00;00 when it counts drop frame) for a new shot.
       sourceTimecodeIn: shot?.sourceTimecodeIn ?? framesToTimecode(0, shot?.frameRate ?? showRate),
+      plateFirstFrame: shot?.plateFirstFrame ?? null,
     },
   });
   const { errors, isSubmitting } = form.formState;
@@ -122,6 +123,14 @@ export default function ShotForm({ studioId, showId, showRate, shot, people, onS
       <fieldset className="rounded-lg border border-sand-line p-4">
         <legend className="px-1 text-sm font-semibold">Plate</legend>
         <div className="grid gap-4 sm:grid-cols-4">
+          <InputField
+            label="Plate's first frame"
+            type="number"
+            inputMode="numeric"
+            registration={form.register('plateFirstFrame', { setValueAs: (v: unknown) => (v === '' || v === null || v === undefined ? null : toNumber(v)) })}
+            error={errors.plateFirstFrame?.message}
+            hint="blank: the plate starts at the cut in; with handles, e.g. cut in − head handles"
+          />
           <InputField label="Width" type="number" inputMode="numeric" registration={form.register('plateWidth', num)} error={errors.plateWidth?.message} hint="pixels" />
           <InputField label="Height" type="number" inputMode="numeric" registration={form.register('plateHeight', num)} error={errors.plateHeight?.message} hint="pixels" />
           <InputField label="Pixel aspect" type="number" step="0.01" inputMode="decimal" registration={form.register('pixelAspect', num)} error={errors.pixelAspect?.message} hint="1 for square" />

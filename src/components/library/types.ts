@@ -38,6 +38,8 @@ export interface ShotRow {
   frameRate: string;
   /** Source timecode of the cut-in frame; from an edit also record in/out (out exclusive), reel and clip name. */
   sourceTimecodeIn: string | null;
+  /** Shot frame number of the plate's first frame (null: the cut in). */
+  plateFirstFrame: number | null;
   recordIn: string | null;
   recordOut: string | null;
   reel: string | null;

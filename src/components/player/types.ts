@@ -29,6 +29,8 @@ export interface ShotInfo {
   frameRate: string;
   /** Source timecode of the cut-in frame (null reads as 00:00:00:00): every frame is shown with its source timecode. */
   sourceTimecodeIn: string | null;
+  /** Shot frame number of the plate's first frame (null: the cut in); a video plate seeks by this offset. */
+  plateFirstFrame: number | null;
   metresPerPixel: number | null;
 }
 

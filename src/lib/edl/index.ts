@@ -29,3 +29,4 @@ export function previewText(format: 'edl' | 'csv', text: string, rate: FrameRate
   const plan = planFromCsv(parseShotCsv(text, rate), options);
   return { title: null, ...previewImport(existing, plan.shots, plan.errors) };
 }
+export { writeCmx3600, reelToken, EdlWriteError, type EdlWriteEvent } from './write';

@@ -3,6 +3,7 @@
 import { CODE_PATTERN } from '../library/schemas';
 import { isPictureEvent, type EdlLineError, type ParsedEdl } from './cmx3600';
 import type { ParsedCsv } from './csv';
+import type { HandleConvention } from '../vocab';
 
 export interface PlanOptions {
   codeFrom: 'clip' | 'pattern';
@@ -10,8 +11,13 @@ export interface PlanOptions {
   pattern?: string;
   /** Handles in frames, added before the cut in and after the cut out. */
   handles: number;
-  /** Frame number of the first frame with handles (1001, common practice). The cut starts at startFrame + handles. */
+  /** The studio's first frame number (1001, common practice (no source)). */
   startFrame: number;
+  /**
+   * Where startFrame falls: 'head-handle' (the default) puts it on the first head-handle frame, so the cut in is
+   * startFrame + handles; 'cut-in' puts it on the cut in, with the head handles before it.
+   */
+  convention?: HandleConvention;
 }
 
 export interface PlannedShot {
@@ -78,7 +84,7 @@ export function fillPattern(pattern: string, values: { n: number; event?: string
 
 function rangeFromRecord(inFrame: number, outFrame: number, options: PlanOptions, handles: number) {
   // Record out is exclusive in an edit list: the cut holds out − in frames.
-  const firstFrame = options.startFrame + handles;
+  const firstFrame = options.convention === 'cut-in' ? options.startFrame : options.startFrame + handles;
   return { firstFrame, lastFrame: firstFrame + (outFrame - inFrame) - 1 };
 }
 

@@ -1,7 +1,7 @@
 // The shot library's input rules: show and shot forms, table query parameters, imports, plates and scale.
 // Browser-safe (zod and plain modules only): the same schemas validate forms in the browser and requests on the server.
 import { z } from 'zod';
-import { SHOT_STATUSES, type ShotStatus } from '../vocab';
+import { HANDLE_CONVENTIONS, SHOT_STATUSES, type ShotStatus } from '../vocab';
 import { FRAME_RATES } from '../timecode';
 
 const req = { required_error: 'is required', invalid_type_error: 'must be text' };
@@ -78,6 +78,8 @@ const shotFields = {
   dueDate: dueDate.nullable(),
   status: shotStatus,
   sourceTimecodeIn: timecodeLabel.nullable(),
+  /** Shot frame number of the plate's first frame (a plate delivered with handles starts before the cut in); null = the cut in. */
+  plateFirstFrame: frame.nullable(),
 };
 
 const lastNotBeforeFirst = (v: { firstFrame?: number; lastFrame?: number }) =>
@@ -101,6 +103,7 @@ export const shotCreate = z
     status: shotStatus.default('blocking'),
     /** Source timecode at the cut in; 00:00:00:00 when not given. */
     sourceTimecodeIn: shotFields.sourceTimecodeIn.optional(),
+    plateFirstFrame: shotFields.plateFirstFrame.optional(),
   })
   .refine(lastNotBeforeFirst, { message: 'must not be before the first frame', path: ['lastFrame'] });
 export type ShotCreate = z.infer<typeof shotCreate>;
@@ -121,6 +124,7 @@ export const shotPatch = z
     dueDate: shotFields.dueDate,
     status: shotFields.status,
     sourceTimecodeIn: shotFields.sourceTimecodeIn,
+    plateFirstFrame: shotFields.plateFirstFrame,
   })
   .partial()
   .strict('unknown field')
@@ -263,3 +267,11 @@ export const scaleBody = z.object({
 export function isShotStatus(value: unknown): value is ShotStatus {
   return typeof value === 'string' && (SHOT_STATUSES as readonly string[]).includes(value);
 }
+
+// ── Studio settings ──────────────────────────────────────────────────────────────────────────────────────────────
+
+export const studioSettingsPatch = z
+  .object({
+    handleConvention: z.enum(HANDLE_CONVENTIONS, { errorMap: () => ({ message: `must be one of ${HANDLE_CONVENTIONS.join(', ')}` }) }),
+  })
+  .strict();

@@ -3,13 +3,13 @@
 // shows that have at least one version shared with clients, and only the shared versions.
 import { and, asc, desc, eq, inArray, isNotNull, isNull, ne, or, sql, type SQL } from 'drizzle-orm';
 import { db } from './db';
-import { assets, auditLog, memberships, shots, shows, users, versions } from './db/schema';
+import { assets, auditLog, memberships, shots, shows, studios, users, versions } from './db/schema';
 import { HttpError } from './http';
 import type { StudioAccess } from './authz';
 import { audit } from './audit';
 import { asSeenBy, clientShotIds, clientVersionIds, clientVisibleShowIds } from './access';
 import { presignGet } from './storage';
-import type { ShotStatus } from '../vocab';
+import type { HandleConvention, ShotStatus } from '../vocab';
 import type { ImportBody, ShotCreate, ShotListQuery, ShotPatch, ShowCreate, ShowListQuery, ShowPatch } from '../library/schemas';
 import { previewText, type ImportPreview, type ShotSource } from '../edl';
 import { framesToTimecode, isFrameRate, timecodeToFrames, TimecodeError, type FrameRate } from '../timecode';
@@ -188,6 +188,7 @@ const shotColumns = {
   thumbnailAssetId: shots.thumbnailAssetId,
   metresPerPixel: shots.metresPerPixel,
   sourceTimecodeIn: shots.sourceTimecodeIn,
+  plateFirstFrame: shots.plateFirstFrame,
   recordIn: shots.recordIn,
   recordOut: shots.recordOut,
   reel: shots.reel,
@@ -360,6 +361,7 @@ export async function createShot(access: StudioAccess, body: ShotCreate) {
         dueDate: body.dueDate ?? null,
         status: body.status,
         sourceTimecodeIn: checkSourceTimecode(body.sourceTimecodeIn ?? null, body.frameRate ?? showRate(show)),
+        plateFirstFrame: body.plateFirstFrame ?? null,
       });
     id = Number(res.insertId);
   } catch (e) {
@@ -503,6 +505,20 @@ function sourceColumns(source: ShotSource | undefined) {
   };
 }
 
+/** The studio's handle convention (owner setting): where its first frame number falls. */
+export async function handleConventionOf(studioId: number): Promise<HandleConvention> {
+  const [row] = await db().select({ c: studios.handleConvention }).from(studios).where(eq(studios.id, studioId));
+  return row?.c ?? 'head-handle';
+}
+
+/** Sets the studio's handle convention (owner only); shots already made keep their frame numbers. */
+export async function setHandleConvention(access: StudioAccess, convention: HandleConvention) {
+  if (access.role !== 'owner') throw new HttpError('forbidden', 'Only the studio owner can change the handle convention');
+  await db().update(studios).set({ handleConvention: convention }).where(eq(studios.id, access.studioId));
+  await audit({ studioId: access.studioId, actorId: access.userId, action: 'studio.handle_convention', targetType: 'studio', targetId: access.studioId, detail: { convention } });
+  return { handleConvention: convention };
+}
+
 /** Previews an import into a show; writes nothing. Existing shots (archived ones too) are matched by code. */
 export async function previewShowImport(access: StudioAccess, showId: number, body: ImportBody) {
   const show = await getShowRow(access, showId);
@@ -510,7 +526,7 @@ export async function previewShowImport(access: StudioAccess, showId: number, bo
     .select({ id: shots.id, code: shots.code, firstFrame: shots.firstFrame, lastFrame: shots.lastFrame, handles: shots.handles })
     .from(shots)
     .where(and(eq(shots.showId, showId), eq(shots.studioId, access.studioId)));
-  const preview = previewText(body.format, body.text, showRate(show), existing, body.options);
+  const preview = previewText(body.format, body.text, showRate(show), existing, { ...body.options, convention: await handleConventionOf(access.studioId) });
   return { frameRate: show.frameRate, ...preview, summary: summary(preview) };
 }
 
@@ -533,7 +549,7 @@ export async function confirmShowImport(access: StudioAccess, showId: number, bo
       .from(shots)
       .where(and(eq(shots.showId, showId), eq(shots.studioId, access.studioId)))
       .for('update');
-    const preview = previewText(body.format, body.text, showRate(show), existing, body.options);
+    const preview = previewText(body.format, body.text, showRate(show), existing, { ...body.options, convention: await handleConventionOf(access.studioId) });
     if (preview.errors.length && !body.skipErrors) {
       throw new HttpError(
         'unprocessable',

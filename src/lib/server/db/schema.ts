@@ -27,8 +27,8 @@ const updatedAt = () =>
     .default(sql`CURRENT_TIMESTAMP(3)`)
     .$onUpdate(() => new Date());
 
-export { ROLES, SHOT_STATUSES, REVIEW_STATES, BAKE_STATES, JOB_STATES, ASSET_KINDS, type Role } from '../../vocab';
-import { ROLES, SHOT_STATUSES, REVIEW_STATES, BAKE_STATES, JOB_STATES, ASSET_KINDS } from '../../vocab';
+export { ROLES, SHOT_STATUSES, REVIEW_STATES, BAKE_STATES, JOB_STATES, ASSET_KINDS, HANDLE_CONVENTIONS, type Role } from '../../vocab';
+import { ROLES, SHOT_STATUSES, REVIEW_STATES, BAKE_STATES, JOB_STATES, ASSET_KINDS, HANDLE_CONVENTIONS } from '../../vocab';
 
 export const studios = mysqlTable('studios', {
   id: id(),
@@ -36,6 +36,8 @@ export const studios = mysqlTable('studios', {
   name: varchar('name', { length: 120 }).notNull(),
   /** Largest bake cost estimate (see src/lib/scene/cost.ts) a version may have; null = the server default. */
   bakeCostLimit: double('bake_cost_limit'),
+  /** Where the first frame number (1001 by default) falls: on the first head-handle frame, or on the cut in. */
+  handleConvention: mysqlEnum('handle_convention', HANDLE_CONVENTIONS).notNull().default('head-handle'),
   createdAt: createdAt(),
   updatedAt: updatedAt(),
 });
@@ -242,6 +244,8 @@ export const shots = mysqlTable(
     plateAssetId: ref('plate_asset_id').references(() => assets.id, { onDelete: 'set null' }),
     thumbnailAssetId: ref('thumbnail_asset_id').references(() => assets.id, { onDelete: 'set null' }),
     metresPerPixel: double('metres_per_pixel'),
+    /** Shot frame number of the plate's first frame (a plate delivered with handles starts before the cut in); null = the cut in. */
+    plateFirstFrame: int('plate_first_frame'),
     /** Source (plate) timecode of the cut-in frame; null reads as 00:00:00:00. */
     sourceTimecodeIn: varchar('source_timecode_in', { length: 11 }),
     /** Where the shot sits in the cut, when it came from an edit: record in/out (out exclusive), reel, clip name. */

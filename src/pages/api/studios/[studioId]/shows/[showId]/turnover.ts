@@ -1,0 +1,23 @@
+// GET /api/studios/:studioId/shows/:showId/turnover?approval=internal[&format=zip] → what a turnover to editorial
+// contains (JSON), or the ZIP itself: CMX 3600 EDL + the approved versions' MP4 exports + contents.txt (supervisor).
+import { endpoint, json, idParam, readQuery } from '~/lib/server/http';
+import { requireRole } from '~/lib/server/authz';
+import { turnoverPlan, turnoverZip } from '~/lib/server/turnover';
+import { turnoverQuery } from '~/lib/library/turnover';
+
+export const GET = endpoint(async ({ params, locals, url }) => {
+  const access = await requireRole(locals, idParam(params, 'studioId'), 'supervisor');
+  const showId = idParam(params, 'showId');
+  const query = readQuery(url, turnoverQuery);
+  if (query.format === 'json') return json({ turnover: await turnoverPlan(access, showId, query.approval) });
+  const zip = await turnoverZip(access, showId, query.approval);
+  return new Response(new Uint8Array(zip.bytes), {
+    status: 200,
+    headers: {
+      'content-type': 'application/zip',
+      'content-length': String(zip.bytes.length),
+      'content-disposition': `attachment; filename="${zip.fileName}"`,
+      'cache-control': 'no-store',
+    },
+  });
+});
