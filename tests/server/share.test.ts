@@ -39,7 +39,8 @@ describe('share links', () => {
     const open = await anon.get(`/api/shared/${token}`);
     expect(open.status).toBe(200);
     const s = open.body.share;
-    expect(s).toMatchObject({ version: 'v001', studio: `Studio ${studio.slug}`, reviewState: 'draft', media: { kind: 'version' } });
+    // makeVersion's baked fixture is shared and submitted (a client never sees a draft; access.ts)
+    expect(s).toMatchObject({ version: 'v001', studio: `Studio ${studio.slug}`, reviewState: 'submitted', media: { kind: 'version' } });
     expect(s.caution).toMatch(/licensed special-effects coordinator/);
     // Nothing else of the studio: no ids, no e-mails, no notes.
     const text = JSON.stringify(open.body);
