@@ -1,16 +1,11 @@
 // One handle convention per studio: the same edit list gives the cut range by where the first frame number falls.
+import { readFileSync } from 'node:fs';
 import { describe, it, expect } from 'vitest';
 import { parseCmx3600, parseShotCsv, planFromCsv, planFromEdl } from '../../src/lib/edl';
 import { sourceTimecodeAt } from '../../src/lib/timecode';
 
 // Two 24 fps cuts (CMX 3600 layout, from memory); record out is exclusive, so they hold 48 and 30 frames.
-const EDL = [
-  'FCM: NON-DROP FRAME',
-  '001  RL01     V     C        01:00:10:00 01:00:12:00 01:00:00:00 01:00:02:00',
-  '* FROM CLIP NAME: HC_010',
-  '002  RL02     V     C        02:00:00:00 02:00:01:06 01:00:02:00 01:00:03:06',
-  '* FROM CLIP NAME: HC_020',
-].join('\n');
+const EDL = readFileSync(new URL('../fixtures/edl/two-cuts-24.edl', import.meta.url), 'utf8').trimEnd();
 
 const plan = (convention: 'head-handle' | 'cut-in') => planFromEdl(parseCmx3600(EDL, '24'), { codeFrom: 'clip', handles: 8, startFrame: 1001, convention });
 

@@ -1,5 +1,6 @@
 // The shot library API against the real app: shows and shots tables (sort, filter, search, pagination), edits,
 // inline and bulk changes, imports from EDL and CSV (errors by line, re-import), client visibility, studio isolation.
+import { readFileSync } from 'node:fs';
 import { describe, it, expect, beforeAll, afterAll } from 'vitest';
 import { and, eq, sql } from 'drizzle-orm';
 import { grantClientShow, makeStudio, unique, type TestStudio } from '../support/app';
@@ -503,13 +504,7 @@ describe('client visibility and studio isolation', () => {
 
 describe('handle convention (studio setting, owner only)', () => {
   // Two 24 fps cuts (CMX 3600 layout, from memory): 48 and 30 frames, record out exclusive.
-  const EDL = [
-    'FCM: NON-DROP FRAME',
-    '001  RL01     V     C        01:00:10:00 01:00:12:00 01:00:00:00 01:00:02:00',
-    '* FROM CLIP NAME: HC_010',
-    '002  RL02     V     C        02:00:00:00 02:00:01:06 01:00:02:00 01:00:03:06',
-    '* FROM CLIP NAME: HC_020',
-  ].join('\n');
+  const EDL = readFileSync(new URL('../fixtures/edl/two-cuts-24.edl', import.meta.url), 'utf8').trimEnd();
 
   it('the same EDL imports as cut 1009–… ("1001 is the first head-handle frame") or 1001–… ("1001 is the cut in"); source in kept', async () => {
     const s = await makeStudio();
