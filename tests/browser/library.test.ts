@@ -7,7 +7,7 @@ import { mkdtempSync, writeFileSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import path from 'node:path';
 import { eq } from 'drizzle-orm';
-import { openBrowser, screenshot as fullScreenshot, signInAs } from '../support/browser';
+import { openBrowser, screenshot as fullScreenshot, signInAs, waitForIslands } from '../support/browser';
 import type { Page } from 'playwright-core';
 import { APP, makeStudio, type TestStudio } from '../support/app';
 import { closeDb, db } from '../../src/lib/server/db';
@@ -74,6 +74,7 @@ describe('shot library in Chromium', () => {
       await page.waitForURL((url) => !url.pathname.startsWith('/sign-in'));
       await page.goto(`/studios/${studio.slug}/`);
       await page.getByTestId('library').waitFor();
+      await waitForIslands(page);
 
       // A new show.
       await page.getByRole('button', { name: 'New show', exact: true }).click();

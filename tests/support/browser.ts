@@ -43,6 +43,13 @@ export async function screenshot(page: Page, name: string) {
   await page.screenshot({ path: path.join(SHOTS_DIR, `${name}.png`), fullPage: true });
 }
 
+/** Waits until every island on the page has hydrated (Astro drops an island's `ssr` attribute then), so a click
+ *  lands on a live control rather than on server-rendered markup that ignores it. Islands loaded `client:visible`
+ *  stay unhydrated until scrolled into view: on such pages wait for the one island you need instead. */
+export async function waitForIslands(page: Page, timeout = 60_000) {
+  await page.waitForFunction(() => document.querySelectorAll('astro-island[ssr]').length === 0, undefined, { timeout });
+}
+
 export async function signInAs(page: Page, email: string, password: string) {
   await page.goto('/sign-in');
   // Under CPU load the form's island can still be hydrating; a click before that submits nothing, and the
