@@ -47,7 +47,7 @@ export interface ViscosityGrid {
  */
 export const VISCOSITY_NEGLIGIBLE = 1e-3;
 /** CG stops when ‖r‖₂ ≤ VISCOSITY_TOLERANCE · ‖V u*‖₂ (momentum residual relative to the momentum diffused). */
-export const VISCOSITY_TOLERANCE = 1e-5;
+export const VISCOSITY_TOLERANCE = 1e-3;
 /** CG iteration cap per step. */
 export const VISCOSITY_MAX_ITERATIONS = 1000;
 
@@ -82,6 +82,7 @@ export function createViscousStep(S: ViscosityGrid, scene: Scene): ViscousStep {
   const vol = f64(), nuC = f64(), wSum = f64(), sC = f64(), sN = f64();
   const massU = f64(), massV = f64(), diagU = f64(), diagV = f64();
   const rU = f64(), rV = f64(), zU = f64(), zV = f64(), pU = f64(), pV = f64(), qU = f64(), qV = f64();
+  const txx = f64(), tyy = f64(), tn = f64();
   const unkU = new Uint8Array(nc), unkV = new Uint8Array(nc);
   const cellList = new Int32Array(nc), nodeList = new Int32Array(nc), uList = new Int32Array(nc), vList = new Int32Array(nc);
   let nCells = 0, nNodes = 0, nU = 0, nV = 0;
@@ -128,6 +129,7 @@ export function createViscousStep(S: ViscosityGrid, scene: Scene): ViscousStep {
     }
     nCells = 0; nNodes = 0; nU = 0; nV = 0;
     unkU.fill(0); unkV.fill(0); massU.fill(0); massV.fill(0); sC.fill(0); sN.fill(0);
+    txx.fill(0); tyy.fill(0); tn.fill(0); pU.fill(0); pV.fill(0);
     for (let j = 1; j < ny; j++) {
       for (let i = 1, c = 1 + nx * j; i < nx; i++, c++) {
         // u face between c−1 and c; v face between c−nx and c
@@ -168,27 +170,25 @@ export function createViscousStep(S: ViscosityGrid, scene: Scene): ViscousStep {
   }
 
   /**
-   * outU, outV ← K·(xu, xv) on every face a stress point touches (callers read unknown faces only):
-   *   centre c: D_xx = (u_{c+1} − u_c)/h, D_yy = (v_{c+nx} − v_c)/h, ∂/∂u of dt·ν·V·D² = s·ΔU/h²;
-   *   node c: 2·D_xy = (u_c − u_{c−nx} + v_c − v_{c−1})/h, ∂/∂u of dt·ν·V·2·D_xy² = ½·s·e/h².
+   * Stress of (xu, xv) at every stress point, pre-multiplied by its weight:
+   *   centre c: txx = s·(u_{c+1} − u_c)/h², tyy = s·(v_{c+nx} − v_c)/h²   (∂/∂u of dt·ν·V·D_xx² = s·ΔU/h²),
+   *   node c:   tn = ½·s·(u_c − u_{c−nx} + v_c − v_{c−1})/h²              (2·D_xy = that sum over h).
+   * (K·x) on a face then gathers its two centres and two nodes (see kx below). Points off the lists stay 0.
    */
-  function applyK(xu: Float64Array, xv: Float64Array, outU: Float64Array, outV: Float64Array): void {
-    for (let k = 0; k < nCells; k++) { const c = cellList[k]; outU[c] = 0; outU[c + 1] = 0; outV[c] = 0; outV[c + nx] = 0; }
-    for (let k = 0; k < nNodes; k++) { const c = nodeList[k]; outU[c] = 0; outU[c - nx] = 0; outV[c] = 0; outV[c - 1] = 0; }
+  function stress(xu: Float64Array, xv: Float64Array): void {
     const invH2 = S.invH * S.invH;
     for (let k = 0; k < nCells; k++) {
       const c = cellList[k], s = sC[c] * invH2;
-      const dxx = s * (xu[c + 1] - xu[c]), dyy = s * (xv[c + nx] - xv[c]);
-      outU[c + 1] += dxx; outU[c] -= dxx;
-      outV[c + nx] += dyy; outV[c] -= dyy;
+      txx[c] = s * (xu[c + 1] - xu[c]); tyy[c] = s * (xv[c + nx] - xv[c]);
     }
     for (let k = 0; k < nNodes; k++) {
       const c = nodeList[k];
-      const e = 0.5 * sN[c] * invH2 * (xu[c] - xu[c - nx] + xv[c] - xv[c - 1]);
-      outU[c] += e; outU[c - nx] -= e;
-      outV[c] += e; outV[c - 1] -= e;
+      tn[c] = 0.5 * sN[c] * invH2 * (xu[c] - xu[c - nx] + xv[c] - xv[c - 1]);
     }
   }
+  // (K·x) on u face c (between cells c−1, c; between nodes c, c+nx) and on v face c (cells c−nx, c; nodes c, c+1)
+  const kxU = (c: number) => txx[c - 1] - txx[c] + tn[c] - tn[c + nx];
+  const kxV = (c: number) => tyy[c - nx] - tyy[c] + tn[c] - tn[c + 1];
 
   function run(dt: number): void {
     assemble(dt);
@@ -196,30 +196,28 @@ export function createViscousStep(S: ViscosityGrid, scene: Scene): ViscousStep {
     lastIterations = 0; lastResidual = 0;
     if (nU + nV === 0) return;
     // residual of the guess u = u*: V u* − (V u* + K u*) = −K u* (known faces enter K at their fixed values)
-    applyK(gu, gv, qU, qV);
+    stress(gu, gv);
     let bb = 0, rz = 0, rr = 0;
-    pU.fill(0); pV.fill(0);
     for (let k = 0; k < nU; k++) {
       const c = uList[k], m = massU[c] * gu[c];
       bb += m * m;
-      const r = -qU[c]; rU[c] = r; rr += r * r;
-      const z = r / diagU[c]; zU[c] = z; pU[c] = z; rz += r * z;
+      const r = -kxU(c); rU[c] = r; rr += r * r;
+      const z = r / diagU[c]; pU[c] = z; rz += r * z;
     }
     for (let k = 0; k < nV; k++) {
       const c = vList[k], m = massV[c] * gv[c];
       bb += m * m;
-      const r = -qV[c]; rV[c] = r; rr += r * r;
-      const z = r / diagV[c]; zV[c] = z; pV[c] = z; rz += r * z;
+      const r = -kxV(c); rV[c] = r; rr += r * r;
+      const z = r / diagV[c]; pV[c] = z; rz += r * z;
     }
     const stop2 = VISCOSITY_TOLERANCE * VISCOSITY_TOLERANCE * bb;
-    const bNorm = Math.sqrt(bb);
     let it = 0;
     while (rr > stop2 && it < VISCOSITY_MAX_ITERATIONS) {
       // q = A p = V p + K p (p is zero on known faces)
-      applyK(pU, pV, qU, qV);
+      stress(pU, pV);
       let pq = 0;
-      for (let k = 0; k < nU; k++) { const c = uList[k]; qU[c] += massU[c] * pU[c]; pq += pU[c] * qU[c]; }
-      for (let k = 0; k < nV; k++) { const c = vList[k]; qV[c] += massV[c] * pV[c]; pq += pV[c] * qV[c]; }
+      for (let k = 0; k < nU; k++) { const c = uList[k], q = massU[c] * pU[c] + kxU(c); qU[c] = q; pq += pU[c] * q; }
+      for (let k = 0; k < nV; k++) { const c = vList[k], q = massV[c] * pV[c] + kxV(c); qV[c] = q; pq += pV[c] * q; }
       if (!(pq > 0)) break;
       const alpha = rz / pq;
       let rz1 = 0;
@@ -243,7 +241,7 @@ export function createViscousStep(S: ViscosityGrid, scene: Scene): ViscousStep {
       it++;
     }
     lastIterations = it;
-    lastResidual = bNorm > 0 ? Math.sqrt(rr) / bNorm : 0;
+    lastResidual = bb > 0 ? Math.sqrt(rr / bb) : 0;
   }
 
   return {
