@@ -4,7 +4,7 @@
 // Grid: MAC, nx × ny cells including a one-cell border; cell (i, j) covers x ∈ [(i−1)h, i·h],
 // y ∈ [(j−1)h, j·h]; u[c] lives on its left face, v[c] on its bottom face, c = i + nx·j.
 import type { Scene, ShapeDoc } from '../scene/schema';
-import { tankCells, spoutEmissionEstimate, SCENE_LIMITS } from '../scene/schema';
+import { tankCells, cellFit, spoutEmissionEstimate, SCENE_LIMITS } from '../scene/schema';
 import { shapeSignedDistance, pointInShape, shapeBounds, shapeCentroid } from '../scene/shapes';
 import { type Key, type Pose } from '../scene/keys';
 import { propPoseInto, type PropLike } from '../scene/pose';
@@ -56,7 +56,13 @@ export class FlipState implements ProjectionGrid {
   // constants
   readonly h: number; readonly invH: number;
   readonly nx: number; readonly ny: number; readonly nc: number;
+  /**
+   * Extent of the liquid's room, m: particles stay in [0, width] × [0, height] (closed sides clamp, open sides
+   * remove beyond). The tank's own size when it is a whole number of cells; otherwise see the constructor.
+   */
   readonly width: number; readonly height: number;
+  /** A closed right side (top side) whose last grid column (row) is only partly inside the tank: made solid. */
+  private readonly partialRight: boolean; private readonly partialTop: boolean;
   readonly radius: number; readonly ppc: number;
   readonly gx: number; readonly gy: number;
   readonly flipRatio: number; readonly drift: number;
@@ -115,7 +121,16 @@ export class FlipState implements ProjectionGrid {
     this.h = tank.cellSize; this.invH = 1 / this.h;
     const cells = tankCells(tank);
     this.nx = cells.nx + 2; this.ny = cells.ny + 2; this.nc = this.nx * this.ny;
-    this.width = cells.nx * this.h; this.height = cells.ny * this.h;
+    // A tank that is not a whole number of cells (0.6 m at 1/256 m): the grid covers it (tankCells rounds up)
+    // and the last column (row), partly beyond the tank's edge, is solid on a closed side, so the wall the
+    // pressure, density and particles all see is the last whole cell's face, less than one cell inside the
+    // drawn edge (like every wall, which is rasterised by cell centres). On an open side that cell stays open
+    // and particles leave at the drawn edge. Whole-cell tanks are unchanged.
+    const fitX = cellFit(tank.width, this.h), fitY = cellFit(tank.height, this.h);
+    this.partialRight = tank.sides.right && fitX.whole < fitX.cover;
+    this.partialTop = tank.sides.top && fitY.whole < fitY.cover;
+    this.width = fitX.whole === fitX.cover ? cells.nx * this.h : this.partialRight ? fitX.whole * this.h : tank.width;
+    this.height = fitY.whole === fitY.cover ? cells.ny * this.h : this.partialTop ? fitY.whole * this.h : tank.height;
     this.radius = physics.particleRadius * this.h;
     this.ppc = physics.particlesPerCell;
     this.gx = physics.gravity[0]; this.gy = physics.gravity[1];
@@ -189,6 +204,7 @@ export class FlipState implements ProjectionGrid {
         if (i === nx - 1 && sides.right) s = 1;
         if (j === 0 && sides.bottom) s = 1;
         if (j === ny - 1 && sides.top) s = 1;
+        if ((i === nx - 2 && this.partialRight) || (j === ny - 2 && this.partialTop)) s = 1;
         const cx = (i - 0.5) * h, cy = (j - 0.5) * h;
         for (const w of this.walls) if (pointInShape(w, cx, cy)) s = 1;
         staticSolid[c] = s;
@@ -258,6 +274,7 @@ export class FlipState implements ProjectionGrid {
         for (let b = 0; b < k; b++) {
           for (let a = 0; a < k; a++) {
             const px = i * h + (a + 0.5) * sub, py = j * h + (b + 0.5) * sub;
+            if (px > this.width || py > this.height) continue; // in a partial cell beyond the liquid's room
             let which = -1;
             for (let s = 0; s < scene.pours.length; s++) {
               const bb = bounds[s];
@@ -294,6 +311,7 @@ export class FlipState implements ProjectionGrid {
         const before = sx.length;
         for (let bb = 0; bb < k; bb++) for (let a = 0; a < k; a++) {
           const px = i * h + (a + 0.5) * sub, py = j * h + (bb + 0.5) * sub;
+          if (px > this.width || py > this.height) continue; // in a partial cell beyond the liquid's room
           if (pointInShape(s.shape, px, py) && !this.walls.some((w) => pointInShape(w, px, py))) { sx.push(px); sy.push(py); }
         }
         if (sx.length > before) { cells.push(i + 1 + this.nx * (j + 1)); starts.push(before); }
