@@ -10,6 +10,7 @@ import { type Key, type Pose } from '../scene/keys';
 import { propPoseInto, type PropLike } from '../scene/pose';
 import { mulberry32 } from './prng';
 import { FLUID, AIR, SOLID, type ProjectionGrid } from './pressure';
+import { Bilinear, U_FACES, V_FACES, CENTRES } from './kernel';
 
 /** Density of water, kg/m³ (handbook value at about 20 °C is 998; 1000 is the customary round value). */
 export const WATER_DENSITY = 1000;
@@ -115,12 +116,15 @@ export class FlipState implements ProjectionGrid {
   private readonly jitter: number;
   private readonly pose: Pose = { dx: 0, dy: 0, angle: 0 };
   readonly normal = new Float64Array(2);
+  /** The bilinear kernel of every particle ↔ grid transfer (kernel.ts). */
+  readonly kernel: Bilinear;
 
   constructor(scene: Scene, opts: SolverOptions = {}) {
     const { tank, physics } = scene;
     this.h = tank.cellSize; this.invH = 1 / this.h;
     const cells = tankCells(tank);
     this.nx = cells.nx + 2; this.ny = cells.ny + 2; this.nc = this.nx * this.ny;
+    this.kernel = new Bilinear(this.nx, this.ny, this.invH);
     // A tank that is not a whole number of cells (0.6 m at 1/256 m): the grid covers it (tankCells rounds up)
     // and the last column (row), partly beyond the tank's edge, is solid on a closed side, so the wall the
     // pressure, density and particles all see is the last whole cell's face, less than one cell inside the
@@ -584,7 +588,7 @@ export function emit(S: FlipState, frameNow: number): void {
  * Faces touching a solid cell take the solid's velocity. A copy is kept for the FLIP update.
  */
 export function particlesToGrid(S: FlipState): void {
-  const { n, nx, ny, nc, invH, type, solid, gu, gv, wu, wv, prevU, prevV, open, solidU, solidV } = S;
+  const { n, nx, ny, nc, type, solid, gu, gv, wu, wv, prevU, prevV, open, solidU, solidV, kernel: K } = S;
   const x = S.x, y = S.y, u = S.u, v = S.v;
   for (let c = 0; c < nc; c++) {
     const s = solid[c];
@@ -592,34 +596,11 @@ export function particlesToGrid(S: FlipState): void {
     open[c] = s !== 0 ? 0 : 1;
   }
   gu.fill(0); gv.fill(0); wu.fill(0); wv.fill(0);
-  const xMax = nx - 1, yMax = ny - 1, iMax = nx - 2, jMax = ny - 2;
   for (let p = 0; p < n; p++) {
-    // grid coordinates in cells: X = x/h + 1, clamped to the inner grid [1, n − 1]
-    let X = x[p] * invH + 1, Y = y[p] * invH + 1;
-    X = X < 1 ? 1 : X > xMax ? xMax : X;
-    Y = Y < 1 ? 1 : Y > yMax ? yMax : Y;
-    const cell = (X | 0) + nx * (Y | 0);
+    const cell = K.at(x[p], y[p]);
     if (type[cell] === AIR) type[cell] = FLUID;
-    // u nodes at (i, j + ½): fx = X, fy = Y − ½
-    let i0 = X | 0; if (i0 > iMax) i0 = iMax;
-    let fy = Y - 0.5, j0 = fy | 0; if (j0 > jMax) j0 = jMax;
-    let tx = X - i0, ty = fy - j0;
-    let n0 = i0 + nx * j0;
-    const up = u[p];
-    let w = (1 - tx) * (1 - ty); gu[n0] += up * w; wu[n0] += w;
-    w = tx * (1 - ty); gu[n0 + 1] += up * w; wu[n0 + 1] += w;
-    w = tx * ty; gu[n0 + nx + 1] += up * w; wu[n0 + nx + 1] += w;
-    w = (1 - tx) * ty; gu[n0 + nx] += up * w; wu[n0 + nx] += w;
-    // v nodes at (i + ½, j): fx = X − ½, fy = Y
-    const fx = X - 0.5; i0 = fx | 0; if (i0 > iMax) i0 = iMax;
-    j0 = Y | 0; if (j0 > jMax) j0 = jMax;
-    tx = fx - i0; ty = Y - j0;
-    n0 = i0 + nx * j0;
-    const vp = v[p];
-    w = (1 - tx) * (1 - ty); gv[n0] += vp * w; wv[n0] += w;
-    w = tx * (1 - ty); gv[n0 + 1] += vp * w; wv[n0 + 1] += w;
-    w = tx * ty; gv[n0 + nx + 1] += vp * w; wv[n0 + nx + 1] += w;
-    w = (1 - tx) * ty; gv[n0 + nx] += vp * w; wv[n0 + nx] += w;
+    K.nodes(U_FACES[0], U_FACES[1]); K.splat(gu, wu, u[p]);
+    K.nodes(V_FACES[0], V_FACES[1]); K.splat(gv, wv, v[p]);
   }
   for (let j = 0; j < ny; j++) {
     for (let i = 0, c = nx * j; i < nx; i++, c++) {
@@ -648,23 +629,12 @@ export function densityAndDrift(S: FlipState, dt: number): void {
 
 /** ρ_c = Σ_p w_pc at cell centres (bilinear weights; particles per cell) into S.dens. */
 export function depositDensity(S: FlipState): void {
-  const { n, nx, ny, invH, dens } = S;
+  const { n, dens, kernel: K } = S;
   const x = S.x, y = S.y;
   dens.fill(0);
-  const xMax = nx - 1, yMax = ny - 1, iMax = nx - 2, jMax = ny - 2;
   for (let p = 0; p < n; p++) {
-    let X = x[p] * invH + 1, Y = y[p] * invH + 1;
-    X = X < 1 ? 1 : X > xMax ? xMax : X;
-    Y = Y < 1 ? 1 : Y > yMax ? yMax : Y;
-    // centre nodes at (i + ½, j + ½)
-    const fx = X - 0.5, fy = Y - 0.5;
-    let i0 = fx | 0; if (i0 > iMax) i0 = iMax;
-    let j0 = fy | 0; if (j0 > jMax) j0 = jMax;
-    const tx = fx - i0, ty = fy - j0, n0 = i0 + nx * j0;
-    dens[n0] += (1 - tx) * (1 - ty);
-    dens[n0 + 1] += tx * (1 - ty);
-    dens[n0 + nx + 1] += tx * ty;
-    dens[n0 + nx] += (1 - tx) * ty;
+    K.at(x[p], y[p]);
+    K.nodes(CENTRES[0], CENTRES[1]); K.splatWeight(dens);
   }
   foldSolidDensity(S);
 }
@@ -713,15 +683,11 @@ function foldSolidDensity(S: FlipState): void {
 
 /** Cell types from the current particles: solid, fluid (a particle inside) or air; what particlesToGrid marks. */
 export function classifyCells(S: FlipState): void {
-  const { n, nx, nc, invH, type, solid } = S;
+  const { n, nc, type, solid, kernel: K } = S;
   const x = S.x, y = S.y;
   for (let c = 0; c < nc; c++) type[c] = solid[c] !== 0 ? SOLID : AIR;
-  const xMax = nx - 1, yMax = S.ny - 1;
   for (let p = 0; p < n; p++) {
-    let X = x[p] * invH + 1, Y = y[p] * invH + 1;
-    X = X < 1 ? 1 : X > xMax ? xMax : X;
-    Y = Y < 1 ? 1 : Y > yMax ? yMax : Y;
-    const cell = (X | 0) + nx * (Y | 0);
+    const cell = K.at(x[p], y[p]);
     if (type[cell] === AIR) type[cell] = FLUID;
   }
 }
@@ -784,7 +750,7 @@ export function driftTarget(S: FlipState, dt: number): void {
  * undefined and never used). Also records the maximum particle speed (m/s).
  */
 export function gridToParticles(S: FlipState): void {
-  const { n, nx, ny, invH, type, gu, gv, wu, wv, prevU, prevV, flipRatio } = S;
+  const { n, nx, ny, type, gu, gv, wu, wv, prevU, prevV, flipRatio, kernel: K } = S;
   const x = S.x, y = S.y, u = S.u, v = S.v;
   // per face: wu = 1 if usable, gu = u·wu, prevU = (u − u_old)·wu
   for (let j = 0; j < ny; j++) {
@@ -797,40 +763,25 @@ export function gridToParticles(S: FlipState): void {
     }
   }
   const pic = 1 - flipRatio;
-  const xMax = nx - 1, yMax = ny - 1, iMax = nx - 2, jMax = ny - 2;
   let max2 = 0;
   for (let p = 0; p < n; p++) {
-    let X = x[p] * invH + 1, Y = y[p] * invH + 1;
-    X = X < 1 ? 1 : X > xMax ? xMax : X;
-    Y = Y < 1 ? 1 : Y > yMax ? yMax : Y;
-    // u
-    let i0 = X | 0; if (i0 > iMax) i0 = iMax;
-    let fy = Y - 0.5, j0 = fy | 0; if (j0 > jMax) j0 = jMax;
-    let tx = X - i0, ty = fy - j0, n0 = i0 + nx * j0;
-    let w0 = (1 - tx) * (1 - ty), w1 = tx * (1 - ty), w2 = tx * ty, w3 = (1 - tx) * ty;
-    let n1 = n0 + 1, n2 = n0 + nx + 1, n3 = n0 + nx;
-    let ws = w0 * wu[n0] + w1 * wu[n1] + w2 * wu[n2] + w3 * wu[n3];
+    K.at(x[p], y[p]);
+    // u: weights restricted to usable faces (wu = 0 or 1)
+    K.nodes(U_FACES[0], U_FACES[1]);
+    let ws = K.gather(wu);
     let up = u[p];
     if (ws > 0) {
       const inv = 1 / ws;
-      const vPic = (w0 * gu[n0] + w1 * gu[n1] + w2 * gu[n2] + w3 * gu[n3]) * inv;
-      const dv = (w0 * prevU[n0] + w1 * prevU[n1] + w2 * prevU[n2] + w3 * prevU[n3]) * inv;
-      up = pic * vPic + flipRatio * (up + dv);
+      up = pic * (K.gather(gu) * inv) + flipRatio * (up + K.gather(prevU) * inv);
       u[p] = up;
     }
     // v
-    const fx = X - 0.5; i0 = fx | 0; if (i0 > iMax) i0 = iMax;
-    j0 = Y | 0; if (j0 > jMax) j0 = jMax;
-    tx = fx - i0; ty = Y - j0; n0 = i0 + nx * j0;
-    w0 = (1 - tx) * (1 - ty); w1 = tx * (1 - ty); w2 = tx * ty; w3 = (1 - tx) * ty;
-    n1 = n0 + 1; n2 = n0 + nx + 1; n3 = n0 + nx;
-    ws = w0 * wv[n0] + w1 * wv[n1] + w2 * wv[n2] + w3 * wv[n3];
+    K.nodes(V_FACES[0], V_FACES[1]);
+    ws = K.gather(wv);
     let vp = v[p];
     if (ws > 0) {
       const inv = 1 / ws;
-      const vPic = (w0 * gv[n0] + w1 * gv[n1] + w2 * gv[n2] + w3 * gv[n3]) * inv;
-      const dv = (w0 * prevV[n0] + w1 * prevV[n1] + w2 * prevV[n2] + w3 * prevV[n3]) * inv;
-      vp = pic * vPic + flipRatio * (vp + dv);
+      vp = pic * (K.gather(gv) * inv) + flipRatio * (vp + K.gather(prevV) * inv);
       v[p] = vp;
     }
     const s2 = up * up + vp * vp;

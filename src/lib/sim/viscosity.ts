@@ -22,6 +22,7 @@
 // to couple to). Faces touching a solid are known (their solid velocity); every other face with V_f > 0 is
 // an unknown.
 import type { Scene } from '../scene/schema';
+import { CENTRES, type Bilinear } from './kernel';
 
 /** The solver state the viscous step reads and writes (FlipState implements it). */
 export interface ViscosityGrid {
@@ -38,6 +39,8 @@ export interface ViscosityGrid {
   x: Float32Array; y: Float32Array;
   /** Liquid index of each particle (into scene.liquids). */
   liquid: Uint8Array;
+  /** The transfers' bilinear kernel (kernel.ts). */
+  kernel: Bilinear;
 }
 
 /**
@@ -92,20 +95,10 @@ export function createViscousStep(S: ViscosityGrid, scene: Scene): ViscousStep {
   function depositViscosity(): void {
     if (uniform) { nuC.fill(nus[0]); return; }
     nuC.fill(0); wSum.fill(0);
-    const { n, x, y, liquid, invH } = S;
-    const xMax = nx - 1, yMax = ny - 1, iMax = nx - 2, jMax = ny - 2;
+    const { n, x, y, liquid, kernel: K } = S;
     for (let p = 0; p < n; p++) {
-      let X = x[p] * invH + 1, Y = y[p] * invH + 1;
-      X = X < 1 ? 1 : X > xMax ? xMax : X;
-      Y = Y < 1 ? 1 : Y > yMax ? yMax : Y;
-      const fx = X - 0.5, fy = Y - 0.5;
-      let i0 = fx | 0; if (i0 > iMax) i0 = iMax;
-      let j0 = fy | 0; if (j0 > jMax) j0 = jMax;
-      const tx = fx - i0, ty = fy - j0, n0 = i0 + nx * j0, nu = nus[liquid[p]];
-      let w = (1 - tx) * (1 - ty); nuC[n0] += w * nu; wSum[n0] += w;
-      w = tx * (1 - ty); nuC[n0 + 1] += w * nu; wSum[n0 + 1] += w;
-      w = tx * ty; nuC[n0 + nx + 1] += w * nu; wSum[n0 + nx + 1] += w;
-      w = (1 - tx) * ty; nuC[n0 + nx] += w * nu; wSum[n0 + nx] += w;
+      K.at(x[p], y[p]);
+      K.nodes(CENTRES[0], CENTRES[1]); K.splat(nuC, wSum, nus[liquid[p]]);
     }
     // a cell with density only from the solid mirror (no deposit of its own) takes the most viscous liquid
     for (let c = 0; c < nc; c++) nuC[c] = wSum[c] > 0 ? nuC[c] / wSum[c] : nuMax;
