@@ -83,7 +83,7 @@ export function createViscousStep(S: ViscosityGrid, scene: Scene): ViscousStep {
   const uniform = nus.every((v) => v === nus[0]);
   const f64 = () => new Float64Array(nc);
   const vol = f64(), nuC = f64(), wSum = f64(), sC = f64(), sN = f64();
-  const massU = f64(), massV = f64(), diagU = f64(), diagV = f64();
+  const massU = f64(), massV = f64(), invDiagU = f64(), invDiagV = f64();
   const rU = f64(), rV = f64(), zU = f64(), zV = f64(), pU = f64(), pV = f64(), qU = f64(), qV = f64();
   const txx = f64(), tyy = f64(), tn = f64();
   const unkU = new Uint8Array(nc), unkV = new Uint8Array(nc);
@@ -108,7 +108,7 @@ export function createViscousStep(S: ViscosityGrid, scene: Scene): ViscousStep {
   const usableU = (c: number) => unkU[c] !== 0 || (c % nx > 0 && (S.solid[c] !== 0 || S.solid[c - 1] !== 0));
   const usableV = (c: number) => unkV[c] !== 0 || (c >= nx && (S.solid[c] !== 0 || S.solid[c - nx] !== 0));
 
-  /** Liquid fractions, stress weights s = 2·dt·ν·V, face masses, unknown masks and the Jacobi diagonal. */
+  /** Liquid fractions, stress weights s = 2·dt·ν·V, face masses, unknown masks and the inverse Jacobi diagonal. */
   function assemble(dt: number): void {
     const { solid, dens } = S;
     const inv = S.restDensity > 0 ? 1 / S.restDensity : 0;
@@ -154,11 +154,11 @@ export function createViscousStep(S: ViscosityGrid, scene: Scene): ViscousStep {
     const invH2 = S.invH * S.invH;
     for (let k = 0; k < nU; k++) {
       const c = uList[k];
-      diagU[c] = massU[c] + (sC[c] + sC[c - 1]) * invH2 + 0.5 * (sN[c] + (c + nx < nc ? sN[c + nx] : 0)) * invH2;
+      invDiagU[c] = 1 / (massU[c] + (sC[c] + sC[c - 1]) * invH2 + 0.5 * (sN[c] + (c + nx < nc ? sN[c + nx] : 0)) * invH2);
     }
     for (let k = 0; k < nV; k++) {
       const c = vList[k];
-      diagV[c] = massV[c] + (sC[c] + sC[c - nx]) * invH2 + 0.5 * (sN[c] + sN[c + 1]) * invH2;
+      invDiagV[c] = 1 / (massV[c] + (sC[c] + sC[c - nx]) * invH2 + 0.5 * (sN[c] + sN[c + 1]) * invH2);
     }
   }
 
@@ -195,13 +195,13 @@ export function createViscousStep(S: ViscosityGrid, scene: Scene): ViscousStep {
       const c = uList[k], m = massU[c] * gu[c];
       bb += m * m;
       const r = -kxU(c); rU[c] = r; rr += r * r;
-      const z = r / diagU[c]; pU[c] = z; rz += r * z;
+      const z = r * invDiagU[c]; pU[c] = z; rz += r * z;
     }
     for (let k = 0; k < nV; k++) {
       const c = vList[k], m = massV[c] * gv[c];
       bb += m * m;
       const r = -kxV(c); rV[c] = r; rr += r * r;
-      const z = r / diagV[c]; pV[c] = z; rz += r * z;
+      const z = r * invDiagV[c]; pV[c] = z; rz += r * z;
     }
     const stop2 = VISCOSITY_TOLERANCE * VISCOSITY_TOLERANCE * bb;
     let it = 0;
@@ -209,8 +209,16 @@ export function createViscousStep(S: ViscosityGrid, scene: Scene): ViscousStep {
       // q = A p = V p + K p (p is zero on known faces)
       stress(pU, pV);
       let pq = 0;
-      for (let k = 0; k < nU; k++) { const c = uList[k], q = massU[c] * pU[c] + kxU(c); qU[c] = q; pq += pU[c] * q; }
-      for (let k = 0; k < nV; k++) { const c = vList[k], q = massV[c] * pV[c] + kxV(c); qV[c] = q; pq += pV[c] * q; }
+      for (let k = 0; k < nU; k++) {
+        const c = uList[k], pc = pU[c];
+        const q = massU[c] * pc + (txx[c - 1] - txx[c] + tn[c] - tn[c + nx]); // V·p + (K·p) on u face c
+        qU[c] = q; pq += pc * q;
+      }
+      for (let k = 0; k < nV; k++) {
+        const c = vList[k], pc = pV[c];
+        const q = massV[c] * pc + (tyy[c - nx] - tyy[c] + tn[c] - tn[c + 1]); // V·p + (K·p) on v face c
+        qV[c] = q; pq += pc * q;
+      }
       if (!(pq > 0)) break;
       const alpha = rz / pq;
       let rz1 = 0;
@@ -219,13 +227,13 @@ export function createViscousStep(S: ViscosityGrid, scene: Scene): ViscousStep {
         const c = uList[k];
         gu[c] += alpha * pU[c];
         const r = rU[c] - alpha * qU[c]; rU[c] = r; rr += r * r;
-        const z = r / diagU[c]; zU[c] = z; rz1 += r * z;
+        const z = r * invDiagU[c]; zU[c] = z; rz1 += r * z;
       }
       for (let k = 0; k < nV; k++) {
         const c = vList[k];
         gv[c] += alpha * pV[c];
         const r = rV[c] - alpha * qV[c]; rV[c] = r; rr += r * r;
-        const z = r / diagV[c]; zV[c] = z; rz1 += r * z;
+        const z = r * invDiagV[c]; zV[c] = z; rz1 += r * z;
       }
       const beta = rz1 / rz;
       rz = rz1;
