@@ -44,7 +44,7 @@ beforeAll(async () => {
   const [show] = await db().insert(shows).values({ studioId: studio.id, code: 'LT', name: 'Low Tide', frameRate: '24' });
   const [shot] = await db()
     .insert(shots)
-    .values({ studioId: studio.id, showId: Number(show.insertId), code: unique('LT_010').slice(0, 20), firstFrame: FIRST, lastFrame: LAST, handles: 4, frameRate: '24', sourceTimecodeIn: '01:00:10:00', plateWidth: PLATE.width, plateHeight: PLATE.height });
+    .values({ studioId: studio.id, showId: Number(show.insertId), code: unique('LT_010').slice(0, 20), firstFrame: FIRST, lastFrame: LAST, headHandles: 4, tailHandles: 4, frameRate: '24', sourceTimecodeIn: '01:00:10:00', plateWidth: PLATE.width, plateHeight: PLATE.height });
   const shotId = Number(shot.insertId);
   const sup = studio.members.supervisor;
   const saved = await sup.client.post(`/api/shots/${shotId}/versions`, { scene: tinyScene(LAST - FIRST + 1, 7), comment: 'for export' });

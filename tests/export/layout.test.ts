@@ -67,10 +67,12 @@ describe('gif.js trailing bytes', () => {
 });
 
 describe('frame range and size', () => {
-  const shot = { firstFrame: 1001, lastFrame: 1048, handles: 8 };
-  it('resolves the cut range, handles, and in/out', () => {
+  const shot = { firstFrame: 1001, lastFrame: 1048, headHandles: 8, tailHandles: 12 };
+  it('resolves the cut range, head and tail handles, and in/out', () => {
     expect(resolveRange({ kind: 'shot' }, shot)).toEqual({ first: 1001, last: 1048 });
-    expect(resolveRange({ kind: 'handles' }, shot)).toEqual({ first: 993, last: 1056 });
+    expect(resolveRange({ kind: 'handles' }, shot)).toEqual({ first: 993, last: 1060 });
+    // A tail never stored apart (null) counts as many frames as the head.
+    expect(resolveRange({ kind: 'handles' }, { ...shot, tailHandles: null })).toEqual({ first: 993, last: 1056 });
     expect(resolveRange({ kind: 'custom', first: 1010, last: 1020 }, shot)).toEqual({ first: 1010, last: 1020 });
     expect(() => resolveRange({ kind: 'custom', first: 1020, last: 1010 }, shot)).toThrow(/before/);
   });

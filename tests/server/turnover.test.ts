@@ -26,7 +26,7 @@ async function newShow() {
 }
 
 async function importCut(showId: number, text: string) {
-  const res = await supervisor().post(`${api()}/shows/${showId}/import/confirm`, { format: 'edl', text, options: { codeFrom: 'clip', handles: 8 } });
+  const res = await supervisor().post(`${api()}/shows/${showId}/import/confirm`, { format: 'edl', text, options: { codeFrom: 'clip', headHandles: 8, tailHandles: 8 } });
   expect(res.status, JSON.stringify(res.body)).toBe(200);
   return db().select().from(shots).where(eq(shots.showId, showId)).orderBy(shots.recordIn);
 }

@@ -84,7 +84,7 @@ export default function Player({ studioId, version, shot, plate, clip, onFrame, 
       const platePromise: Promise<PlateFrameSource | null> = plate
         ? (async () => {
             const url = plate.url ?? (await api<{ url: string }>(`/api/studios/${studioId}/plates/${plate.assetId}`)).url;
-            return openPlate({ url, contentType: plate.contentType, firstFrame: shot.plateFirstFrame ?? shot.firstFrame, fps });
+            return openPlate({ url, contentType: plate.contentType, shot, fps });
           })().catch((err) => {
             setPlateNote(`The plate could not be shown (${messageOf(err)}); the splash is drawn on its own.`);
             return null;

@@ -13,6 +13,7 @@ import type { Role } from '~/lib/vocab';
 import type { NoteMarker } from '~/lib/review/notes';
 import { rateText, sourceTimecodeLabel } from '~/lib/timecode';
 import type { BakeProgress, BakeState, ClipInfo, PlateInfo, ShotInfo, VersionInfo } from './types';
+import { CutRange } from '../library/CutRange';
 import { versionLabel } from '~/lib/vocab';
 
 interface Props {
@@ -145,10 +146,10 @@ function Version({ studioId, studioSlug, version, shot, plate, clip, canBake, ro
           <dd className="font-mono text-xs leading-5 tabular-nums">
             {sourceTimecodeLabel(shot, version.startFrame, '—')} – {sourceTimecodeLabel(shot, version.endFrame, '—')}
           </dd>
-          <dt className="text-ink-muted">Shot</dt>
-          <dd className="tabular-nums">
-            {shot.firstFrame}–{shot.lastFrame}
-            {shot.handles ? <span className="text-ink-muted"> + {shot.handles} handles</span> : null} · {rateText(shot.frameRate)}
+          <dt className="text-ink-muted">Cut in – cut out</dt>
+          <dd>
+            <CutRange shot={shot} testId="shot-cut-range" />
+            <span className="text-xs text-ink-muted">{rateText(shot.frameRate)}</span>
           </dd>
         </dl>
       </header>

@@ -2,6 +2,7 @@
 // size, with which GIF delays, and where every slate and burn-in text sits (what it says included).
 import { rateInfo, rateText, sourceTimecodeAt } from '../timecode';
 import { versionLabel } from '../vocab';
+import { rangeWithHandles, type StoredHandles } from '../library/handles';
 
 export const EXPORT_FORMATS = ['gif', 'mp4', 'zip'] as const;
 export type ExportFormat = (typeof EXPORT_FORMATS)[number];
@@ -15,16 +16,13 @@ export const CAUTION =
 
 export type RangeChoice =
   | { kind: 'shot' } // the shot's cut range
-  | { kind: 'handles' } // the cut range plus handles on both ends
+  | { kind: 'handles' } // the cut range with its head and tail handles
   | { kind: 'custom'; first: number; last: number };
 
 export type SizeChoice = { kind: 'full' } | { kind: 'half' } | { kind: 'width'; width: number };
 
-export interface ShotRange {
-  firstFrame: number;
-  lastFrame: number;
-  handles: number;
-}
+/** The shot's cut in and cut out with its head and tail handles (a tail never stored apart equals the head). */
+export type ShotRange = StoredHandles & { firstFrame: number; lastFrame: number };
 
 /** Returns the inclusive shot frames to export for a range choice; throws RangeError for an empty or reversed range. */
 export function resolveRange(choice: RangeChoice, shot: ShotRange): { first: number; last: number } {
@@ -32,7 +30,7 @@ export function resolveRange(choice: RangeChoice, shot: ShotRange): { first: num
     choice.kind === 'shot'
       ? { first: shot.firstFrame, last: shot.lastFrame }
       : choice.kind === 'handles'
-        ? { first: shot.firstFrame - shot.handles, last: shot.lastFrame + shot.handles }
+        ? rangeWithHandles(shot)
         : { first: Math.round(choice.first), last: Math.round(choice.last) };
   if (!Number.isFinite(r.first) || !Number.isFinite(r.last) || r.last < r.first) throw new RangeError('The out frame must not be before the in frame');
   if (r.first < 0) throw new RangeError('Frames before 0 have no timecode');
