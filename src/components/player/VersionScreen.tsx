@@ -171,7 +171,7 @@ function Version({ studioId, studioSlug, version, shot, plate, clip, canBake, ro
           <div className="space-y-2">
             <BakeHealthNote health={clipInfo.health} />
             <Player studioId={studioId} version={version} shot={shot} plate={plate} clip={clipInfo} onFrame={setCurrentFrame} seekTo={seekTo} />
-            <NoteTicks markers={markers} start={version.startFrame} end={version.endFrame} currentFrame={currentFrame} onSeek={(f) => setSeekTo({ frame: f })} />
+            <NoteTicks markers={markers} start={version.startFrame} end={version.endFrame} currentFrame={currentFrame} onSeek={(f) => setSeekTo({ frame: f })} tcShot={shot} />
           </div>
         ) : (
           <section className="card p-6 text-sm text-ink-muted" data-testid="player-loading">
@@ -188,6 +188,7 @@ function Version({ studioId, studioSlug, version, shot, plate, clip, canBake, ro
         frameRange={{ start: version.startFrame, end: version.endFrame }}
         onMarkers={setMarkers}
         compareWithVersionId={previousVersionId ?? null}
+        tcShot={shot}
       />
     </div>
   );

@@ -10,7 +10,7 @@ import { audit } from './audit';
 import { getObject } from './storage';
 import { getShowRow } from './library';
 import { writeCmx3600 } from '../edl';
-import { isTimecode, timecodeToFrames, type FrameRate } from '../timecode';
+import { isTimecode, rateText, timecodeToFrames, type FrameRate } from '../timecode';
 import { versionLabel } from '../vocab';
 import { TURNOVER_APPROVAL_WORDS, type TurnoverApproval, type TurnoverItem, type TurnoverMissing, type TurnoverPlan } from '../library/turnover';
 
@@ -145,7 +145,7 @@ export function turnoverEdl(p: TurnoverPlan): string {
 /** The contents list written into the ZIP beside the EDL. */
 export function turnoverContents(p: TurnoverPlan): string {
   const lines = [
-    `Turnover of show ${p.show.code} (${p.show.name}) at ${p.show.frameRate} fps timecode`,
+    `Turnover of show ${p.show.code} (${p.show.name}), timecode at ${rateText(p.show.frameRate)}`,
     `Versions: ${TURNOVER_APPROVAL_WORDS[p.approval]}`,
     '',
     `${p.edlFileName}  CMX 3600 edit list, one event per shot at its original record timecode; clip names are the MP4 files below`,
