@@ -64,6 +64,9 @@ describe('turnover to editorial', () => {
     const res = await download(`${api()}/shows/${show.id}/turnover?approval=internal&format=zip`);
     expect(res.status).toBe(200);
     expect(res.headers.get('content-type')).toBe('application/zip');
+    // Streamed as it is written: no length up front, sent in chunks.
+    expect(res.headers.get('content-length')).toBeNull();
+    expect(res.headers.get('transfer-encoding')).toBe('chunked');
     expect(res.headers.get('content-disposition')).toContain(`${show.code}_turnover.zip`);
     const files = unzipSync(new Uint8Array(await res.arrayBuffer()));
     const edlName = `${show.code}_turnover.edl`;
