@@ -76,8 +76,11 @@ export function ffmpegRate(rateId: string): string {
   return Number.isInteger(r.fps) ? String(r.fps) : `${r.nominal * 1000}/1001`;
 }
 
-/** The ffmpeg arguments: the PNG sequence at the shot's rate → H.264 yuv420p at the same rate, fast start. */
-export function mp4Args(rate: string): string[] {
+/**
+ * The ffmpeg arguments: the PNG sequence at the shot's rate → H.264 yuv420p at the same rate, fast start; with a start
+ * timecode, the MP4 carries it as its timecode track (QuickTime 'tmcd', which editing tools read to line the file up).
+ */
+export function mp4Args(rate: string, startTimecode?: string): string[] {
   // prettier-ignore
   return [
     '-framerate', rate,
@@ -87,9 +90,19 @@ export function mp4Args(rate: string): string[] {
     '-crf', '20',
     '-pix_fmt', 'yuv420p',
     '-r', rate,
+    ...(startTimecode ? ['-timecode', startTimecode] : []),
     '-movflags', '+faststart',
     'out.mp4',
   ];
+}
+
+/**
+ * The source timecode of an MP4's first picture, for its timecode track: the first frame's source timecode, or the
+ * frame before it when a slate leads (the slate holds the frame before the first, so every later picture's track
+ * timecode equals the source timecode burnt into it).
+ */
+export function mp4StartTimecode(labels: ExportLabels, first: number, slate: boolean): string {
+  return exportTimecode(labels, slate ? first - 1 : first);
 }
 
 /** What a slate and the burn-ins say. */
