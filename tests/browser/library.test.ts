@@ -136,7 +136,7 @@ describe('shot library in Chromium', () => {
       const table = page.getByTestId('shots-table');
       await table.locator('tbody tr[data-row]').nth(2).waitFor();
       // BW_0030 (1009–1080, 72 frames) cuts in at source 12:00:00:00 (the dissolve's incoming side).
-      expect(await table.textContent()).toContain('12:00:00:00 – 12:00:02:23');
+      expect(await table.getByTestId('cut-range-BW_0030-source').textContent()).toBe('1009 · 12:00:00:00 – 1080 · 12:00:02:23');
       await page.getByLabel('Status of BW_0020').selectOption('in review');
       await expect.poll(async () => (await db().select().from(shots).where(eq(shots.code, 'BW_0020')))[0]?.status).toBe('in review');
       // Filter by status: the URL keeps the filter.
@@ -172,7 +172,7 @@ describe('shot library in Chromium', () => {
       const shotDialog = page.getByRole('dialog');
       await shotDialog.getByLabel('Code', { exact: true }).fill('BW_0010');
       // The studio's convention (the first frame number is the first head-handle frame) puts the cut in at 1001 + 8.
-      expect(await shotDialog.getByLabel('Cut in').inputValue()).toBe('1009');
+      expect(await shotDialog.getByLabel('Cut in', { exact: true }).inputValue()).toBe('1009');
       expect([await shotDialog.getByLabel('Head handles').inputValue(), await shotDialog.getByLabel('Tail handles').inputValue()]).toEqual(['8', '8']);
       await shotDialog.getByLabel('Cut out').fill('1100');
       await shotDialog.getByRole('button', { name: 'Create shot' }).click();

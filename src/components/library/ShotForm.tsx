@@ -102,17 +102,17 @@ export default function ShotForm({ studioId, showId, showRate, shot, convention 
 
       <fieldset className="rounded-lg border border-sand-line p-4">
         <legend className="px-1 text-sm font-semibold">Cut and handles</legend>
-        <div className="grid gap-4 sm:grid-cols-6">
-          <InputField label="Cut in" type="number" inputMode="numeric" registration={form.register('firstFrame', num)} error={errors.firstFrame?.message} hint={tc(first)} />
-          <InputField label="Cut out" type="number" inputMode="numeric" registration={form.register('lastFrame', num)} error={errors.lastFrame?.message} hint={tc(last)} />
-          <InputField label="Head handles" type="number" inputMode="numeric" registration={form.register('headHandles', num)} error={errors.headHandles?.message} hint="frames before the cut in" />
-          <InputField label="Tail handles" type="number" inputMode="numeric" registration={form.register('tailHandles', num)} error={errors.tailHandles?.message} hint="frames after the cut out" />
+        <div className="grid gap-4 sm:grid-cols-3">
+          <InputField label="Cut in" type="number" inputMode="numeric" registration={form.register('firstFrame', num)} error={errors.firstFrame?.message} hint={tc(first) && `source ${tc(first)}`} />
+          <InputField label="Cut out" type="number" inputMode="numeric" registration={form.register('lastFrame', num)} error={errors.lastFrame?.message} hint={tc(last) && `source ${tc(last)}`} />
           <InputField
             label="Source timecode at cut in"
             registration={form.register('sourceTimecodeIn', { setValueAs: blankToNull })}
             error={errors.sourceTimecodeIn?.message}
             hint="the plate's own timecode, e.g. 01:00:10:00"
           />
+          <InputField label="Head handles" type="number" inputMode="numeric" registration={form.register('headHandles', num)} error={errors.headHandles?.message} hint="frames before the cut in" />
+          <InputField label="Tail handles" type="number" inputMode="numeric" registration={form.register('tailHandles', num)} error={errors.tailHandles?.message} hint="frames after the cut out" />
           <SelectField label="Frame rate" registration={form.register('frameRate')} error={errors.frameRate?.message}>
             {FRAME_RATES.map((r) => (
               <option key={r} value={r}>
