@@ -21,7 +21,7 @@ describe('turnover on the show page', () => {
     const sup = studio.members.supervisor;
     const made = await sup.client.post(`/api/studios/${studio.id}/shows`, { code: unique('BT').slice(0, 14), name: 'Quay', frameRate: '24' });
     const show = made.body.show as { id: number; code: string };
-    const imported = await sup.client.post(`/api/studios/${studio.id}/shows/${show.id}/import/confirm`, { format: 'edl', text: QUAY_CUT, options: { codeFrom: 'clip', handles: 8 } });
+    const imported = await sup.client.post(`/api/studios/${studio.id}/shows/${show.id}/import/confirm`, { format: 'edl', text: QUAY_CUT, options: { codeFrom: 'clip', headHandles: 8, tailHandles: 8 } });
     expect(imported.status, JSON.stringify(imported.body)).toBe(200);
     const [a, b] = await db().select().from(shots).where(eq(shots.showId, show.id)).orderBy(shots.recordIn);
     const a1 = await addVersion(studio, a.id, 1, 'approved');

@@ -13,8 +13,9 @@ import { AssigneeSelect, StatusSelect } from './inline';
 import PlatePanel from './PlatePanel';
 import { ShotThumbnail } from './thumbnail';
 import ShotForm from './ShotForm';
-import { dueLabel, rangeLength } from './format';
-import { rateText, sourceTimecodeLabel } from '~/lib/timecode';
+import { dueLabel } from './format';
+import { CutRange } from './CutRange';
+import { rateText } from '~/lib/timecode';
 import { can, keys, type ActivityEntry, type Person, type ShotDetail, type Viewer } from './types';
 import { versionLabel } from '~/lib/vocab';
 
@@ -163,16 +164,8 @@ function Shot({ viewer, shot: initialShot, showName }: Props) {
             (shot.assigneeName ?? '—')
           )}
         </Fact>
-        <Fact label="Frame range" wide>
-          <span className="font-medium tabular-nums" data-testid="frame-range">
-            {shot.firstFrame}–{shot.lastFrame}
-          </span>{' '}
-          <span className="text-ink-muted">
-            · {rangeLength(shot.firstFrame, shot.lastFrame)} frames{shot.handles ? ` + ${shot.handles} handles each side` : ''}
-          </span>
-          <span className="block text-xs text-ink-muted tabular-nums" data-testid="source-range" title={`Source timecode at ${rateText(shot.frameRate)}`}>
-            {shot.firstFrame} · {sourceTimecodeLabel(shot, shot.firstFrame)} – {shot.lastFrame} · {sourceTimecodeLabel(shot, shot.lastFrame)} source
-          </span>
+        <Fact label="Cut in – cut out · handles" wide>
+          <CutRange shot={shot} testId="frame-range" />
         </Fact>
         {shot.recordIn && shot.recordOut && (
           <Fact label="In the cut" wide>
@@ -205,6 +198,7 @@ function Shot({ viewer, shot: initialShot, showName }: Props) {
           showId={shot.showId}
           showRate={shot.frameRate}
           shot={shot}
+          convention={viewer.handleConvention}
           people={peopleList}
           onCancel={() => setEditing(false)}
           onSaved={(saved) => {

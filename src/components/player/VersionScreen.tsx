@@ -13,6 +13,7 @@ import type { Role } from '~/lib/vocab';
 import type { NoteMarker } from '~/lib/review/notes';
 import { rateText, sourceTimecodeLabel } from '~/lib/timecode';
 import type { BakeProgress, BakeState, ClipInfo, PlateInfo, ShotInfo, VersionInfo } from './types';
+import { CutRange } from '../library/CutRange';
 import { versionLabel } from '~/lib/vocab';
 
 interface Props {
@@ -145,10 +146,10 @@ function Version({ studioId, studioSlug, version, shot, plate, clip, canBake, ro
           <dd className="font-mono text-xs leading-5 tabular-nums">
             {sourceTimecodeLabel(shot, version.startFrame, '—')} – {sourceTimecodeLabel(shot, version.endFrame, '—')}
           </dd>
-          <dt className="text-ink-muted">Shot</dt>
-          <dd className="tabular-nums">
-            {shot.firstFrame}–{shot.lastFrame}
-            {shot.handles ? <span className="text-ink-muted"> + {shot.handles} handles</span> : null} · {rateText(shot.frameRate)}
+          <dt className="text-ink-muted">Cut in – cut out</dt>
+          <dd>
+            <CutRange shot={shot} testId="shot-cut-range" />
+            <span className="text-xs text-ink-muted">{rateText(shot.frameRate)}</span>
           </dd>
         </dl>
       </header>
@@ -170,7 +171,7 @@ function Version({ studioId, studioSlug, version, shot, plate, clip, canBake, ro
           <div className="space-y-2">
             <BakeHealthNote health={clipInfo.health} />
             <Player studioId={studioId} version={version} shot={shot} plate={plate} clip={clipInfo} onFrame={setCurrentFrame} seekTo={seekTo} />
-            <NoteTicks markers={markers} start={version.startFrame} end={version.endFrame} currentFrame={currentFrame} onSeek={(f) => setSeekTo({ frame: f })} />
+            <NoteTicks markers={markers} start={version.startFrame} end={version.endFrame} currentFrame={currentFrame} onSeek={(f) => setSeekTo({ frame: f })} tcShot={shot} />
           </div>
         ) : (
           <section className="card p-6 text-sm text-ink-muted" data-testid="player-loading">
@@ -187,6 +188,7 @@ function Version({ studioId, studioSlug, version, shot, plate, clip, canBake, ro
         frameRange={{ start: version.startFrame, end: version.endFrame }}
         onMarkers={setMarkers}
         compareWithVersionId={previousVersionId ?? null}
+        tcShot={shot}
       />
     </div>
   );

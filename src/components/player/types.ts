@@ -24,7 +24,9 @@ export interface ShotInfo {
   description: string | null;
   firstFrame: number;
   lastFrame: number;
-  handles: number;
+  /** Frames before the cut in and after the cut out. */
+  headHandles: number;
+  tailHandles: number;
   /** Frame rate id, e.g. '25' or '29.97df'. */
   frameRate: string;
   /** Source timecode of the cut-in frame (null reads as 00:00:00:00): every frame is shown with its source timecode. */

@@ -9,6 +9,7 @@ import { markersOf, threadsOf, type NoteMarker, type NotePoint } from '~/lib/rev
 import type { Role } from '~/lib/vocab';
 import { STATE_TONE, STATE_WORDS, type NotesAnswer, type NoteView, type ReviewAnswer } from './types';
 import { versionLabel } from '~/lib/vocab';
+import { frameWithTimecode, sourceTimecodeLabel, type SourceTimecodeShot } from '~/lib/timecode';
 
 /** A mark drawn on the image for the next note: a point or a rough stroke, in plate-normalised 0..1 coordinates. */
 export type NoteMark = { point: NotePoint; stroke?: undefined } | { stroke: NotePoint[]; point?: undefined };
@@ -33,7 +34,12 @@ export interface ReviewPanelProps {
   onStateChange?: (state: string) => void;
   /** Where the compare link points (the previous version of the shot), when there is one. */
   compareWithVersionId?: number | null;
+  /** The shot's cut in, rate and source timecode at the cut in: a note's frame is shown with its source timecode. */
+  tcShot?: SourceTimecodeShot;
 }
+
+/** A note's frame as shown: its number with its source timecode when the shot is known. */
+const noteFrame = (p: Pick<ReviewPanelProps, 'tcShot'>, frame: number) => (p.tcShot ? frameWithTimecode(p.tcShot, frame) : String(frame));
 
 export default function ReviewPanel(props: ReviewPanelProps) {
   const [client] = useState(
@@ -278,6 +284,7 @@ function NoteComposer(p: ReviewPanelProps & { onCreated: () => void }) {
       <form onSubmit={submit} className="space-y-2">
         <label htmlFor={`note-body-${p.versionId}`} className="field-label">
           Note on frame <span className="tabular-nums" data-testid="composer-frame">{p.currentFrame}</span>
+          {p.tcShot && <span className="tabular-nums text-ink-muted"> · {sourceTimecodeLabel(p.tcShot, p.currentFrame)}</span>}
         </label>
         <textarea
           id={`note-body-${p.versionId}`}
@@ -366,8 +373,8 @@ function Thread(p: ReviewPanelProps & { note: NoteView; replies: NoteView[]; onC
       data-note-id={p.note.id}
     >
       <div className="flex items-start justify-between gap-2">
-        <button type="button" className="rounded-md bg-ink px-2 py-0.5 font-mono text-xs text-white tabular-nums hover:bg-harbour-700" onClick={() => p.onSeek(p.note.frame)} aria-label={`Go to frame ${p.note.frame}`}>
-          {p.note.frame}
+        <button type="button" className="rounded-md bg-ink px-2 py-0.5 font-mono text-xs text-white tabular-nums hover:bg-harbour-700" onClick={() => p.onSeek(p.note.frame)} aria-label={`Go to frame ${noteFrame(p, p.note.frame)}`}>
+          {noteFrame(p, p.note.frame)}
         </button>
         <span className="flex flex-wrap justify-end gap-1 text-xs">
           {p.note.internal && <span className="rounded-full bg-sand-deep px-2 py-0.5 text-ink-soft">studio only</span>}
@@ -434,10 +441,10 @@ function CarriedNotes(p: ReviewPanelProps & { notes: NoteView[] }) {
               {note.versionNumber !== undefined ? versionLabel(note.versionNumber) : ''} ·{' '}
               {inRange(note.frame) ? (
                 <button type="button" className="link" onClick={() => p.onSeek(note.frame)}>
-                  frame {note.frame}
+                  frame {noteFrame(p, note.frame)}
                 </button>
               ) : (
-                <>frame {note.frame}</>
+                <>frame {noteFrame(p, note.frame)}</>
               )}{' '}
               · {note.author.name}
             </p>

@@ -52,7 +52,7 @@ export interface InboxAnswer {
 }
 
 export interface CompareAnswer {
-  shot: { id: number; code: string; showCode: string | null; firstFrame: number; lastFrame: number; plateWidth: number; plateHeight: number; metresPerPixel: number | null; plateAssetId: number | null };
+  shot: { id: number; code: string; showCode: string | null; firstFrame: number; lastFrame: number; plateFirstFrame: number | null; plateWidth: number; plateHeight: number; metresPerPixel: number | null; plateAssetId: number | null };
   a: ReviewVersion & { scene: unknown; plateAssetId: number | null };
   b: ReviewVersion & { scene: unknown; plateAssetId: number | null };
   changes: SceneChange[];

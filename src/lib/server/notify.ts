@@ -10,6 +10,7 @@ import { clientVersionIds } from './access';
 import type { StudioAccess } from './authz';
 import type { Role } from '../vocab';
 import { reviewStateWord, versionLabel } from '../vocab';
+import { frameWithTimecode } from '../timecode';
 
 /** The version page, optionally opened at a frame. */
 export function versionUrl(studioSlug: string, versionId: number, frame?: number): string {
@@ -34,6 +35,10 @@ export async function versionContext(versionId: number) {
       studioId: versions.studioId,
       authorId: versions.authorId,
       shotCode: shots.code,
+      // The shot's cut in, rate and source timecode at the cut in: a note's frame is written with its source timecode.
+      firstFrame: shots.firstFrame,
+      frameRate: shots.frameRate,
+      sourceTimecodeIn: shots.sourceTimecodeIn,
       showCode: shows.code,
       studioSlug: studios.slug,
       studioName: studios.name,
@@ -112,7 +117,7 @@ export async function notifyDecision(versionId: number, actorId: string, comment
     ...(open.length
       ? [
           `${open.length === 1 ? 'One note is' : `${open.length} notes are`} pinned to frames of this version. Each link opens the version at that frame:`,
-          ...open.map((n) => `Frame ${n.frame} — ${n.authorName ?? 'a reviewer'}: ${short(n.body)}\n${versionUrl(c.studioSlug, versionId, n.frame)}`),
+          ...open.map((n) => `Frame ${frameWithTimecode(c, n.frame)} — ${n.authorName ?? 'a reviewer'}: ${short(n.body)}\n${versionUrl(c.studioSlug, versionId, n.frame)}`),
         ]
       : []),
     approved ? 'The shot is marked approved.' : 'Save a new version of the shot when you have made the changes, bake it and submit it again.',
@@ -121,7 +126,7 @@ export async function notifyDecision(versionId: number, actorId: string, comment
     to: c.authorEmail,
     subject: approved ? `Approved: ${label(c)}` : `Back for changes: ${label(c)}`,
     paragraphs,
-    action: { label: open.length ? `Open frame ${open[0].frame}` : `Open ${c.shotCode} ${versionLabel(c.number)}`, url: versionUrl(c.studioSlug, versionId, open[0]?.frame) },
+    action: { label: open.length ? `Open frame ${frameWithTimecode(c, open[0].frame)}` : `Open ${c.shotCode} ${versionLabel(c.number)}`, url: versionUrl(c.studioSlug, versionId, open[0]?.frame) },
   });
   return true;
 }

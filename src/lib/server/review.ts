@@ -512,6 +512,7 @@ export async function compareVersions(locals: Locals, studioId: number, aId: num
       showCode: show?.code ?? null,
       firstFrame: shot.firstFrame,
       lastFrame: shot.lastFrame,
+      plateFirstFrame: shot.plateFirstFrame,
       plateWidth: shot.plateWidth,
       plateHeight: shot.plateHeight,
       metresPerPixel: shot.metresPerPixel,

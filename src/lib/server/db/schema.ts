@@ -233,7 +233,10 @@ export const shots = mysqlTable(
     description: text('description'),
     firstFrame: int('first_frame').notNull().default(1001),
     lastFrame: int('last_frame').notNull(),
-    handles: int('handles').notNull().default(8),
+    /** Head handles in frames, before the cut in (the column keeps its first name, from when one count served both ends). */
+    headHandles: int('handles').notNull().default(8),
+    /** Tail handles in frames, after the cut out; null (shots made before the two were stored apart) = as many as the head. */
+    tailHandles: int('tail_handles'),
     frameRate: varchar('frame_rate', { length: 12 }).notNull().default('24'),
     plateWidth: int('plate_width').notNull().default(1920),
     plateHeight: int('plate_height').notNull().default(1080),
