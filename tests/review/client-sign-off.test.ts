@@ -2,6 +2,7 @@
 // repeated or late request answers. The expected table is written out by hand, not derived from the code.
 import { describe, it, expect } from 'vitest';
 import { availableClientSteps, decideClientStep, decideTransition, type ClientActor, type ClientStep } from '../../src/lib/review/states';
+import { askSignOffBody, clientDecisionBody, guestDecisionBody } from '../../src/lib/review/client-signoff';
 import { CLIENT_STATES, REVIEW_STATES, ROLES, type ClientState } from '../../src/lib/vocab';
 
 const ACTORS: ClientActor[] = [...ROLES, 'guest'];
@@ -64,5 +65,24 @@ describe('client sign-off steps', () => {
 
   it('leaves the review state machine as it was: no client may approve internally', () => {
     expect(decideTransition({ actor: 'client', action: 'approve', from: 'submitted', bakeState: 'baked' })).toMatchObject({ ok: false, code: 'forbidden' });
+  });
+});
+
+describe('client sign-off bodies', () => {
+  const fieldsOf = (r: { success: boolean; error?: { issues: { path: (string | number)[]; message: string }[] } }) =>
+    Object.fromEntries((r.error?.issues ?? []).map((i) => [i.path.join('.'), i.message]));
+
+  it('takes the two decisions, with an optional comment', () => {
+    expect(clientDecisionBody.parse({ decision: 'sign-off' })).toEqual({ decision: 'sign-off' });
+    expect(clientDecisionBody.parse({ decision: 'ask-changes', comment: '  lower the crown ' })).toEqual({ decision: 'ask-changes', comment: 'lower the crown' });
+  });
+
+  it('names the field it refuses', () => {
+    expect(fieldsOf(clientDecisionBody.safeParse({}))).toEqual({ decision: 'is required' });
+    expect(fieldsOf(clientDecisionBody.safeParse({ decision: 'approve' }))).toEqual({ decision: "must be 'sign-off' or 'ask-changes'" });
+    expect(fieldsOf(clientDecisionBody.safeParse({ decision: 'sign-off', comment: 'x'.repeat(2001) }))).toHaveProperty('comment');
+    expect(fieldsOf(guestDecisionBody.safeParse({ decision: 'sign-off', name: '  ' }))).toEqual({ name: 'is required' });
+    expect(fieldsOf(askSignOffBody.safeParse({ message: 3 }))).toEqual({ message: 'must be text' });
+    expect(clientDecisionBody.safeParse({ decision: 'sign-off', extra: 1 }).success).toBe(false);
   });
 });

@@ -121,7 +121,7 @@ export type ClientStep = 'send' | 'sign-off' | 'ask-changes';
 export const CLIENT_STEPS: readonly ClientStep[] = ['send', 'sign-off', 'ask-changes'];
 /** The client's two decisions (the API's `decision` values). */
 export type ClientDecision = Exclude<ClientStep, 'send'>;
-export const CLIENT_DECISIONS: readonly ClientDecision[] = ['sign-off', 'ask-changes'];
+export const CLIENT_DECISIONS = ['sign-off', 'ask-changes'] as const satisfies readonly ClientDecision[];
 
 /** Who asks: a studio role, or 'guest' for someone holding a share link. */
 export type ClientActor = Role | 'guest';
