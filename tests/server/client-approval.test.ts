@@ -68,6 +68,11 @@ describe('client sign-off', () => {
     // asking again while waiting changes nothing
     expect((await ask(versionId)).body).toMatchObject({ unchanged: true, version: { clientState: 'waiting' } });
 
+    // the client's inbox lists it as waiting for their sign-off
+    const clientInbox = await client().get(`/api/studios/${studio.id}/inbox`);
+    expect(clientInbox.body.client.map((i: any) => [i.versionId, i.clientState])).toContainEqual([versionId, 'waiting']);
+    expect(clientInbox.body.counts.client).toBeGreaterThanOrEqual(1);
+
     const review = await client().get(`/api/versions/${versionId}/review`);
     expect(review.body.clientSteps).toEqual(['sign-off', 'ask-changes']);
     expect(review.body.version.clientState).toBe('waiting');
@@ -92,6 +97,10 @@ describe('client sign-off', () => {
     for (const who of [studio.members.supervisor, studio.members.owner]) {
       await waitForMail(who.email, (m) => m.subject.startsWith('Client signed off') && m.text.includes(`/versions/${versionId}`));
     }
+    // the supervisor's inbox lists the decision; it no longer waits in the client's
+    const supInbox = await sup().get(`/api/studios/${studio.id}/inbox`);
+    expect(supInbox.body.client.find((i: any) => i.versionId === versionId)).toMatchObject({ clientState: 'signed off', clientDecidedByName: studio.members.client.name });
+    expect((await client().get(`/api/studios/${studio.id}/inbox`)).body.client.map((i: any) => i.versionId)).not.toContain(versionId);
     // the studio sees both states on the version
     const seen = await sup().get(`/api/versions/${versionId}/review`);
     expect(seen.body.version).toMatchObject({ reviewState: 'approved', clientState: 'signed off' });
