@@ -73,6 +73,7 @@ describe('client sign-off in Chromium', () => {
       await signOff.getByText('Name is required').waitFor();
       expect((await db().select().from(versions).where(eq(versions.id, versionId)))[0].clientState).toBe('waiting');
       await signOff.getByTestId('client-decision-name').fill('Ines Varga');
+      await screenshot(g, 'client-sign-off-share-page-waiting');
       await signOff.getByTestId('client-sign-off').click();
       await signOff.getByTestId('share-sign-off-done').waitFor();
       await expect.poll(() => signOff.getByTestId('share-client-state').getAttribute('data-state')).toBe('signed off');
@@ -87,6 +88,8 @@ describe('client sign-off in Chromium', () => {
       await expect.poll(() => s.getByTestId('review-panel-client-state').getAttribute('data-state'), { timeout: 10_000 }).toBe('signed off');
       expect(await s.getByTestId('review-state').textContent()).toBe('Approved by us');
       expect(await s.getByTestId('header-client-state').textContent()).toBe('Client signed off');
+      expect(await s.getByTestId('ask-client').count()).toBe(0); // a signed-off decision is not asked for again
+      await s.getByTestId('player-loading').waitFor({ state: 'detached', timeout: 30_000 }).catch(() => undefined);
       await screenshot(s, 'client-signed-off-version-page');
       await s.goto(`/studios/${studio.slug}/shots/${shotId}`);
       const row = s.getByTestId('versions').locator('li').first();

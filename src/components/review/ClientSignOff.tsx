@@ -21,6 +21,16 @@ export function ClientStateBadge({ state, testId = 'client-state' }: { state: Cl
   );
 }
 
+/** A card's heading with the client state badge at its right. */
+export function ClientSignOffHeading({ title, state, testId, titleClass }: { title: string; state: ClientState; testId: string; titleClass: string }) {
+  return (
+    <div className="flex items-center justify-between gap-3">
+      <h2 className={titleClass}>{title}</h2>
+      <ClientStateBadge state={state} testId={testId} />
+    </div>
+  );
+}
+
 export interface ClientSide {
   clientState: ClientState;
   clientDecidedAt: string | null;

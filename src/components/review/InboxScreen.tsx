@@ -116,38 +116,42 @@ function Section({ title, count, testId, children }: { title: string; count: num
   );
 }
 
-function Row({ item, href }: { item: InboxItem; href: string }) {
+/** One version in a section: its code as a link, what the section says of it, and a state badge on the right. */
+function VersionCard({ item, href, testId, badge, children }: { item: InboxItem; href: string; testId: string; badge: React.ReactNode; children: React.ReactNode }) {
   return (
-    <li className="card flex flex-wrap items-start justify-between gap-3 p-4" data-testid="inbox-version" data-version-id={item.versionId}>
+    <li className="card flex flex-wrap items-start justify-between gap-3 p-4" data-testid={testId} data-version-id={item.versionId}>
       <div className="min-w-0">
         <a className="font-semibold hover:underline" href={href}>
           {item.showCode} · {item.shotCode} {versionLabel(item.number)}
         </a>
-        <p className="text-sm text-ink-soft">
-          By {item.author.name} · {when(item.updatedAt)}
-        </p>
-        {item.lastEvent?.comment && (
-          <p className="mt-1 text-sm">
-            “{item.lastEvent.comment}”{item.lastEvent.actorName ? <span className="text-ink-muted"> — {item.lastEvent.actorName}</span> : null}
-          </p>
-        )}
+        {children}
       </div>
-      <span className={`rounded-full px-2.5 py-0.5 text-xs font-medium ${STATE_TONE[item.reviewState] ?? ''}`}>{STATE_WORDS[item.reviewState] ?? item.reviewState}</span>
+      {badge}
     </li>
+  );
+}
+
+function Row({ item, href }: { item: InboxItem; href: string }) {
+  const badge = <span className={`rounded-full px-2.5 py-0.5 text-xs font-medium ${STATE_TONE[item.reviewState] ?? ''}`}>{STATE_WORDS[item.reviewState] ?? item.reviewState}</span>;
+  return (
+    <VersionCard item={item} href={href} testId="inbox-version" badge={badge}>
+      <p className="text-sm text-ink-soft">
+        By {item.author.name} · {when(item.updatedAt)}
+      </p>
+      {item.lastEvent?.comment && (
+        <p className="mt-1 text-sm">
+          “{item.lastEvent.comment}”{item.lastEvent.actorName ? <span className="text-ink-muted"> — {item.lastEvent.actorName}</span> : null}
+        </p>
+      )}
+    </VersionCard>
   );
 }
 
 function ClientRow({ item, href }: { item: InboxItem; href: string }) {
   return (
-    <li className="card flex flex-wrap items-start justify-between gap-3 p-4" data-testid="inbox-client-version" data-version-id={item.versionId}>
-      <div className="min-w-0">
-        <a className="font-semibold hover:underline" href={href}>
-          {item.showCode} · {item.shotCode} {versionLabel(item.number)}
-        </a>
-        <ClientDecisionLine side={item} />
-      </div>
-      <ClientStateBadge state={item.clientState} testId="inbox-client-state" />
-    </li>
+    <VersionCard item={item} href={href} testId="inbox-client-version" badge={<ClientStateBadge state={item.clientState} testId="inbox-client-state" />}>
+      <ClientDecisionLine side={item} />
+    </VersionCard>
   );
 }
 

@@ -9,7 +9,7 @@ import { markersOf, threadsOf, type NoteMarker, type NotePoint } from '~/lib/rev
 import type { Role } from '~/lib/vocab';
 import { STATE_TONE, STATE_WORDS, type NotesAnswer, type NoteView, type ReviewAnswer } from './types';
 import { versionLabel, type ClientState } from '~/lib/vocab';
-import { ClientDecisionForm, ClientDecisionLine, ClientStateBadge, type DecisionInput } from './ClientSignOff';
+import { ClientDecisionForm, ClientDecisionLine, ClientSignOffHeading, type DecisionInput } from './ClientSignOff';
 
 /** A mark drawn on the image for the next note: a point or a rough stroke, in plate-normalised 0..1 coordinates. */
 export type NoteMark = { point: NotePoint; stroke?: undefined } | { stroke: NotePoint[]; point?: undefined };
@@ -279,14 +279,12 @@ function ClientSignOffCard(p: ReviewPanelProps & { answer: ReviewAnswer; onChang
       return { message: messageOf(err), fields: err instanceof ApiError ? err.fields : {} };
     }
   };
-  const canAsk = clientSteps.includes('send');
+  // once signed off, asking again is possible through the API but not offered: the decision stands
+  const canAsk = clientSteps.includes('send') && version.clientState !== 'signed off';
   const canDecide = clientSteps.includes('sign-off');
   return (
     <section className="card p-4" data-testid="client-sign-off-card">
-      <div className="flex items-center justify-between gap-3">
-        <h2 className="text-sm font-semibold tracking-wide text-ink-soft uppercase">Client sign-off</h2>
-        <ClientStateBadge state={version.clientState} testId="review-panel-client-state" />
-      </div>
+      <ClientSignOffHeading title="Client sign-off" state={version.clientState} testId="review-panel-client-state" titleClass="text-sm font-semibold tracking-wide text-ink-soft uppercase" />
       <ClientDecisionLine side={version} />
       {staff(p.role) && version.reviewState !== 'approved' && version.clientState === 'not sent' && (
         <p className="mt-2 text-sm text-ink-muted">Once the version is approved by us, a supervisor can ask the client to sign it off.</p>

@@ -1,7 +1,7 @@
 // The share page's sign-off card: when the studio asked for the client's sign-off, the viewer (a guest holding the
 // link) signs off or asks for changes under their name; afterwards the card shows the decision in our words.
 import { useState } from 'react';
-import { ClientDecisionForm, ClientDecisionLine, ClientStateBadge, type ClientSide, type DecisionInput } from '../review/ClientSignOff';
+import { ClientDecisionForm, ClientDecisionLine, ClientSignOffHeading, type ClientSide, type DecisionInput } from '../review/ClientSignOff';
 import type { ClientStep } from '~/lib/review/states';
 
 interface Props {
@@ -34,10 +34,7 @@ export default function ShareSignOff({ token, initial }: Props) {
   if (side.clientState === 'not sent') return null;
   return (
     <section className="card p-5 text-sm" data-testid="share-sign-off">
-      <div className="flex items-center justify-between gap-3">
-        <h2 className="text-base font-semibold">Your sign-off</h2>
-        <ClientStateBadge state={side.clientState} testId="share-client-state" />
-      </div>
+      <ClientSignOffHeading title="Your sign-off" state={side.clientState} testId="share-client-state" titleClass="text-base font-semibold" />
       {open ? (
         <>
           <p className="mt-2 text-ink-soft">The studio approved this version and asks whether it works for you. Sign off, or say what should change.</p>
