@@ -68,12 +68,13 @@ describe('client sign-off in Chromium', () => {
       await g.goto(new URL(link.body.url).pathname);
       const signOff = await hydrated(g, 'share-sign-off');
       expect(await signOff.getByTestId('share-client-state').textContent()).toBe('Waiting for client');
+      await screenshot(g, 'client-sign-off-share-page-waiting');
       // a decision without a name is refused, naming the field, and nothing is stored
       await signOff.getByTestId('client-sign-off').click();
       await signOff.getByText('Name is required').waitFor();
+      expect(await signOff.getByRole('alert').count()).toBe(0); // the field's message only, not twice
       expect((await db().select().from(versions).where(eq(versions.id, versionId)))[0].clientState).toBe('waiting');
       await signOff.getByTestId('client-decision-name').fill('Ines Varga');
-      await screenshot(g, 'client-sign-off-share-page-waiting');
       await signOff.getByTestId('client-sign-off').click();
       await signOff.getByTestId('share-sign-off-done').waitFor();
       await expect.poll(() => signOff.getByTestId('share-client-state').getAttribute('data-state')).toBe('signed off');

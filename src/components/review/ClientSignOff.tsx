@@ -72,7 +72,7 @@ export function ClientDecisionForm(props: {
   const [busy, setBusy] = useState<ClientDecision | null>(null);
   const [error, setError] = useState<{ message: string; fields: Record<string, string> } | null>(null);
   const send = async (decision: ClientDecision) => {
-    if (decision === 'ask-changes' && !comment.trim()) return setError({ message: 'Say what should change first.', fields: { comment: 'say what should change' } });
+    if (decision === 'ask-changes' && !comment.trim()) return setError({ message: 'Say what should change first.', fields: { comment: 'say what should change first' } });
     setBusy(decision);
     setError(null);
     const failed = await props.onDecide({ decision, comment: comment.trim(), name: name.trim() });
@@ -100,7 +100,12 @@ export function ClientDecisionForm(props: {
         aria-invalid={!!error?.fields.comment || undefined}
         data-testid="client-decision-comment"
       />
-      {error && <p className="field-error" role="alert">{error.message}</p>}
+      {error?.fields.comment && <span className="field-error">Comment: {error.fields.comment}</span>}
+      {error && !error.fields.name && !error.fields.comment && (
+        <p className="field-error" role="alert">
+          {error.message}
+        </p>
+      )}
       <div className="flex flex-wrap gap-2">
         <button type="button" className="btn-primary" disabled={busy !== null} onClick={() => send('sign-off')} data-testid="client-sign-off">
           {busy === 'sign-off' && <Spinner />}Sign off
