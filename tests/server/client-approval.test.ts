@@ -101,6 +101,13 @@ describe('client sign-off', () => {
     const supInbox = await sup().get(`/api/studios/${studio.id}/inbox`);
     expect(supInbox.body.client.find((i: any) => i.versionId === versionId)).toMatchObject({ clientState: 'signed off', clientDecidedByName: studio.members.client.name });
     expect((await client().get(`/api/studios/${studio.id}/inbox`)).body.client.map((i: any) => i.versionId)).not.toContain(versionId);
+    // the daily digest of a supervisor who opted in names the decision
+    expect((await sup().patch('/api/me/preferences', { dailyDigest: true })).status).toBe(200);
+    const { sendDigests } = await import('../../src/lib/server/notify');
+    const digest = await sendDigests({ hours: 1 });
+    expect(digest.sent.map((d) => d.email)).toContain(studio.members.supervisor.email);
+    const day = await waitForMail(studio.members.supervisor.email, (m) => m.subject.includes('review day') && m.text.includes(`/versions/${versionId}`));
+    expect(day.text).toMatch(/Client signed off/);
     // the studio sees both states on the version
     const seen = await sup().get(`/api/versions/${versionId}/review`);
     expect(seen.body.version).toMatchObject({ reviewState: 'approved', clientState: 'signed off' });

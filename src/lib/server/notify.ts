@@ -247,10 +247,26 @@ export async function sendDigests(opts: { now?: Date; hours?: number; dryRun?: b
             .from(notes)
             .innerJoin(versions, eq(versions.id, notes.versionId))
             .where(and(eq(notes.studioId, m.studioId), eq(versions.authorId, m.userId), ne(notes.authorId, m.userId), gte(notes.createdAt, since)));
-      if (!events.length && !waiting.length && !newNotes.length) continue;
+      // the client's sign-off: a client reads what was sent to them; the studio reads the client's decisions
+      const signOff = await db()
+        .select({ versionId: versions.id, number: versions.number, shotCode: shots.code, showCode: shows.code, clientState: versions.clientState, by: versions.clientDeciderName })
+        .from(versions)
+        .innerJoin(shots, eq(shots.id, versions.shotId))
+        .innerJoin(shows, eq(shows.id, shots.showId))
+        .where(
+          client
+            ? and(eq(versions.clientState, 'waiting'), gte(versions.clientSentAt, since), inArray(versions.id, clientVersionIds({ studioId: m.studioId, userId: m.userId, role: m.role } as StudioAccess)))
+            : and(eq(versions.studioId, m.studioId), inArray(versions.clientState, ['signed off', 'changes asked']), gte(versions.clientDecidedAt, since)),
+        )
+        .orderBy(asc(versions.id))
+        .limit(100);
+      if (!events.length && !waiting.length && !newNotes.length && !signOff.length) continue;
       paragraphs.push(`In ${m.studioName}:`);
       for (const e of events) {
         paragraphs.push(`• ${e.showCode} / ${e.shotCode} ${versionLabel(e.number)} — ${reviewStateWord(e.toState)}${e.actorName ? ` (${e.actorName})` : ''} — ${versionUrl(m.slug, e.versionId)}`);
+      }
+      for (const v of signOff) {
+        paragraphs.push(`• ${v.showCode} / ${v.shotCode} ${versionLabel(v.number)} — ${clientStateWord(v.clientState)}${v.by ? ` (${v.by})` : ''} — ${versionUrl(m.slug, v.versionId)}`);
       }
       if (waiting.length) paragraphs.push(`• ${waiting.length === 1 ? 'One version waits' : `${waiting.length} versions wait`} for your decision.`);
       if (newNotes.length) {
