@@ -4,7 +4,7 @@ import { CLIENT_DECISIONS } from './states';
 
 const comment = z.string({ invalid_type_error: 'must be text' }).trim().max(2000, 'is too long (2000 characters at most)');
 const decision = z.enum(CLIENT_DECISIONS, {
-  errorMap: (issue, ctx) => ({ message: ctx.data === undefined ? 'is required' : "must be 'sign-off' or 'ask-changes'" }),
+  errorMap: (_issue, ctx) => ({ message: ctx.data === undefined ? 'is required' : "must be 'sign-off' or 'ask-changes'" }),
 });
 
 /** POST /api/versions/:id/client-review: a supervisor asks the client to sign off (an optional word for them). */
