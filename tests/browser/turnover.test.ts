@@ -8,7 +8,7 @@ import { openBrowser, screenshot, signInAs } from '../support/browser';
 import { makeStudio, unique, type TestStudio } from '../support/app';
 import { QUAY_CUT, fakeMp4, addMp4, addVersion } from '../support/turnover';
 import { closeDb, db } from '../../src/lib/server/db';
-import { shots } from '../../src/lib/server/db/schema';
+import { shots, versions } from '../../src/lib/server/db/schema';
 
 let studio: TestStudio;
 beforeAll(async () => {
@@ -48,6 +48,17 @@ describe('turnover on the show page', () => {
       expect(Object.keys(files).sort()).toEqual([`${a.code}_v001.mp4`, `${show.code}_turnover.edl`, 'contents.txt'].sort());
       expect(files[`${a.code}_v001.mp4`]).toEqual(mp4);
       expect(strFromU8(files[`${show.code}_turnover.edl`])).toContain(`* FROM CLIP NAME: ${a.code}_v001.mp4`);
+
+      // Only what the client signed off: nothing yet, then a's version once the client signed it off.
+      await panel.getByLabel('Versions to include').selectOption('client');
+      await expect.poll(() => page.getByTestId('turnover-contents').innerText()).toContain('nothing yet');
+      await db().update(versions).set({ clientState: 'signed off' }).where(eq(versions.id, a1));
+      await page.reload();
+      await page.getByTestId('turnover').scrollIntoViewIfNeeded();
+      await page.locator('astro-island:not([ssr]) [data-testid="turnover"]').waitFor({ timeout: 30_000 });
+      await page.getByTestId('turnover').getByLabel('Versions to include').selectOption('client');
+      await expect.poll(() => page.getByTestId('turnover-contents').innerText()).toContain(`${a.code}_v001.mp4`);
+      await screenshot(page, 'turnover-panel-client-signed-off');
     } finally {
       await close();
     }

@@ -60,3 +60,19 @@ export async function signInAs(page: Page, email: string, password: string) {
   await page.locator('input[name="password"]').fill(password);
   await page.getByRole('button', { name: 'Sign in' }).click();
 }
+
+/** The test S3 stand-in's CORS rules name the dev origins, not this run's random app port: answer for it here. */
+export async function answerCors(context: BrowserContext) {
+  const appOrigin = new URL(APP).origin;
+  await context.route(
+    (url) => url.origin !== appOrigin,
+    async (route) => {
+      const cors = { 'access-control-allow-origin': appOrigin, 'access-control-expose-headers': 'Content-Range, Content-Length, ETag' };
+      if (route.request().method() === 'OPTIONS') {
+        return route.fulfill({ status: 204, headers: { ...cors, 'access-control-allow-methods': 'GET, HEAD', 'access-control-allow-headers': '*' } });
+      }
+      const response = await route.fetch();
+      return route.fulfill({ response, headers: { ...response.headers(), ...cors } });
+    },
+  );
+}

@@ -9,6 +9,7 @@ import { fullDate, relativeTime } from '../members/time';
 import { LibraryQueries } from './query';
 import { Dialog } from './fields';
 import { StatusBadge, StateWord } from './status';
+import { ClientStateBadge } from '../review/ClientSignOff';
 import { AssigneeSelect, StatusSelect } from './inline';
 import PlatePanel from './PlatePanel';
 import { ShotThumbnail } from './thumbnail';
@@ -252,6 +253,7 @@ function Versions({ shot, studioSlug, canBlock }: { shot: ShotDetail; studioSlug
                 <span className="flex flex-wrap gap-x-3">
                   <StateWord kind="bake" state={v.bakeState} />
                   <StateWord kind="review" state={v.reviewState} />
+                  {v.clientState !== 'not sent' && <ClientStateBadge state={v.clientState} testId="version-client-state" />}
                   {v.plateAssetId !== shot.plateAssetId && v.plateAssetId && <span className="text-xs text-ink-muted">earlier plate</span>}
                 </span>
               </a>

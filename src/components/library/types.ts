@@ -1,5 +1,5 @@
 // Shapes of the shot library's API answers as the browser sees them (dates arrive as ISO strings).
-import type { HandleConvention, ShotStatus } from '~/lib/vocab';
+import type { ClientState, HandleConvention, ShotStatus } from '~/lib/vocab';
 
 export type RoleName = 'owner' | 'supervisor' | 'artist' | 'client';
 
@@ -83,6 +83,8 @@ export interface VersionRow {
   bakeState: string;
   reviewState: string;
   sharedWithClient: boolean;
+  /** The client's sign-off, apart from the review state. */
+  clientState: ClientState;
   plateAssetId: number | null;
   clipAssetId: number | null;
 }

@@ -14,7 +14,8 @@ import type { NoteMarker } from '~/lib/review/notes';
 import { rateText, sourceTimecodeLabel } from '~/lib/timecode';
 import type { BakeProgress, BakeState, ClipInfo, PlateInfo, ShotInfo, VersionInfo } from './types';
 import { CutRange } from '../library/CutRange';
-import { versionLabel } from '~/lib/vocab';
+import { reviewStateWord, versionLabel, type ClientState } from '~/lib/vocab';
+import { ClientStateBadge } from '../review/ClientSignOff';
 
 interface Props {
   studioId: number;
@@ -80,6 +81,9 @@ function Version({ studioId, studioSlug, version, shot, plate, clip, canBake, ro
     return Number.isInteger(f) && f >= version.startFrame && f <= version.endFrame ? { frame: f } : null;
   });
   const [markers, setMarkers] = useState<NoteMarker[]>([]);
+  // both states follow the review panel's answers: the studio's review and the client's sign-off
+  const [reviewState, setReviewState] = useState(version.reviewState);
+  const [clientState, setClientState] = useState<ClientState>(version.clientState);
   const queryClient = useQueryClient();
   const progressKey = ['version', version.id, 'bake'];
   const progress = useQuery({
@@ -128,7 +132,8 @@ function Version({ studioId, studioSlug, version, shot, plate, clip, canBake, ro
             <span>
               {shot.code} <span className="text-ink-muted">{versionLabel(version.number)}</span>
             </span>
-            <Chip value={version.reviewState} label={version.reviewState} testId="review-state" />
+            <Chip value={reviewState} label={reviewStateWord(reviewState)} testId="review-state" />
+            <ClientStateBadge state={clientState} testId="header-client-state" />
             <Chip value={bakeState} label={BAKE_LABEL[bakeState]} testId="bake-state" />
           </h1>
           <p className="mt-2 text-sm text-ink-soft">
@@ -187,6 +192,8 @@ function Version({ studioId, studioSlug, version, shot, plate, clip, canBake, ro
         onSeek={(f) => setSeekTo({ frame: f })}
         frameRange={{ start: version.startFrame, end: version.endFrame }}
         onMarkers={setMarkers}
+        onStateChange={setReviewState}
+        onClientStateChange={setClientState}
         compareWithVersionId={previousVersionId ?? null}
         tcShot={shot}
       />

@@ -1,6 +1,7 @@
 // Shapes the version page hands to its island, and the answers of the bake and clip endpoints.
 import type { FrameStats } from '~/lib/sim';
 import type { BakeHealth } from '~/lib/sim/health';
+import type { ClientState } from '~/lib/vocab';
 
 export type BakeState = 'none' | 'queued' | 'baking' | 'baked' | 'failed' | 'cancelled';
 
@@ -10,6 +11,8 @@ export interface VersionInfo {
   authorName: string | null;
   comment: string | null;
   reviewState: string;
+  /** The client's sign-off, apart from the review state (src/lib/vocab.ts CLIENT_STATES). */
+  clientState: ClientState;
   bakeState: BakeState;
   createdAt: string;
   /** The scene's frame range (what a bake produces). */

@@ -1,5 +1,5 @@
 // The review side panel of a version: its review state with the actions the viewer may take (submit, approve, send
-// back, share with clients), the notes pinned to frames (threads, replies, resolve), the composer for a note at the
+// back, share with clients), the client's sign-off (asked for by a supervisor, decided by the client), the notes pinned to frames (threads, replies, resolve), the composer for a note at the
 // player's current frame, and the still-open notes of earlier versions. Mounted by the version page beside the player.
 import { useEffect, useMemo, useState, type FormEvent } from 'react';
 import { QueryClient, QueryClientProvider, useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
@@ -8,8 +8,9 @@ import { FormMessage, Spinner } from '../shared/form';
 import { markersOf, threadsOf, type NoteMarker, type NotePoint } from '~/lib/review/notes';
 import type { Role } from '~/lib/vocab';
 import { STATE_TONE, STATE_WORDS, type NotesAnswer, type NoteView, type ReviewAnswer } from './types';
-import { versionLabel } from '~/lib/vocab';
+import { versionLabel, type ClientState } from '~/lib/vocab';
 import { frameWithTimecode, sourceTimecodeLabel, type SourceTimecodeShot } from '~/lib/timecode';
+import { ClientDecisionForm, ClientDecisionLine, ClientSignOffHeading, type DecisionInput } from './ClientSignOff';
 
 /** A mark drawn on the image for the next note: a point or a rough stroke, in plate-normalised 0..1 coordinates. */
 export type NoteMark = { point: NotePoint; stroke?: undefined } | { stroke: NotePoint[]; point?: undefined };
@@ -32,6 +33,8 @@ export interface ReviewPanelProps {
   onMarkers?: (markers: NoteMarker[]) => void;
   /** Told when the review state changes (for the page header). */
   onStateChange?: (state: string) => void;
+  /** Told when the client's sign-off state changes (for the page header). */
+  onClientStateChange?: (state: ClientState) => void;
   /** Where the compare link points (the previous version of the shot), when there is one. */
   compareWithVersionId?: number | null;
   /** The shot's cut in, rate and source timecode at the cut in: a note's frame is shown with its source timecode. */
@@ -70,12 +73,16 @@ function Panel(p: ReviewPanelProps) {
   };
 
   const markers = useMemo(() => markersOf(notes.data?.notes ?? []), [notes.data]);
-  const { onMarkers, onStateChange } = p;
+  const { onMarkers, onStateChange, onClientStateChange } = p;
   useEffect(() => onMarkers?.(markers), [markers, onMarkers]);
   const state = review.data?.version.reviewState;
   useEffect(() => {
     if (state) onStateChange?.(state);
   }, [state, onStateChange]);
+  const clientState = review.data?.version.clientState;
+  useEffect(() => {
+    if (clientState) onClientStateChange?.(clientState);
+  }, [clientState, onClientStateChange]);
 
   const failure = review.error ?? notes.error;
   if (failure instanceof ApiError && failure.status === 401) {
@@ -87,6 +94,7 @@ function Panel(p: ReviewPanelProps) {
     <aside className="space-y-5" aria-label="Review" data-testid="review-panel">
       {failure && <FormMessage>{messageOf(failure)}</FormMessage>}
       {review.data ? <ReviewStatus {...p} answer={review.data} onChanged={refresh} /> : !failure && <LoadingCard label="Loading the review…" />}
+      {review.data && <ClientSignOffCard {...p} answer={review.data} onChanged={refresh} />}
       <NoteComposer {...p} onCreated={refresh} />
       {notes.data ? <NoteList {...p} notes={notes.data.notes} onChanged={refresh} /> : !failure && <LoadingCard label="Loading notes…" />}
       {notes.data?.carried && notes.data.carried.length > 0 && <CarriedNotes {...p} notes={notes.data.carried} />}
@@ -242,6 +250,68 @@ function ReviewStatus(p: ReviewPanelProps & { answer: ReviewAnswer; onChanged: (
       {message && (
         <div className="mt-3">
           <FormMessage tone={message.tone}>{message.text}</FormMessage>
+        </div>
+      )}
+    </section>
+  );
+}
+
+// ── The client's sign-off ────────────────────────────────────────────────────────────────────────────────────────
+
+function ClientSignOffCard(p: ReviewPanelProps & { answer: ReviewAnswer; onChanged: () => void }) {
+  const { version, clientSteps } = p.answer;
+  const [message, setMessage] = useState('');
+  const [note, setNote] = useState<{ tone: 'error' | 'success'; text: string } | null>(null);
+  const ask = useMutation({
+    mutationFn: () => api(`/api/versions/${p.versionId}/client-review`, { method: 'POST', body: message.trim() ? { message: message.trim() } : {} }),
+    onSuccess: () => {
+      setMessage('');
+      setNote({ tone: 'success', text: 'Sent. The show’s clients see this version and have been asked by e-mail; a share link opens it for sign-off too.' });
+      p.onChanged();
+    },
+    onError: (err) => {
+      setNote({ tone: 'error', text: messageOf(err) });
+      p.onChanged();
+    },
+  });
+  const decide = async (input: DecisionInput) => {
+    try {
+      await api(`/api/versions/${p.versionId}/client-review/decide`, { method: 'POST', body: { decision: input.decision, ...(input.comment ? { comment: input.comment } : {}) } });
+      setNote({ tone: 'success', text: input.decision === 'sign-off' ? 'Thank you: you signed off this version. The studio has been told.' : 'Sent: the studio has your request for changes.' });
+      p.onChanged();
+      return null;
+    } catch (err) {
+      p.onChanged();
+      return { message: messageOf(err), fields: err instanceof ApiError ? err.fields : {} };
+    }
+  };
+  // once signed off, asking again is possible through the API but not offered: the decision stands
+  const canAsk = clientSteps.includes('send') && version.clientState !== 'signed off';
+  const canDecide = clientSteps.includes('sign-off');
+  return (
+    <section className="card p-4" data-testid="client-sign-off-card">
+      <ClientSignOffHeading title="Client sign-off" state={version.clientState} testId="review-panel-client-state" titleClass="text-sm font-semibold tracking-wide text-ink-soft uppercase" />
+      <ClientDecisionLine side={version} />
+      {staff(p.role) && version.reviewState !== 'approved' && version.clientState === 'not sent' && (
+        <p className="mt-2 text-sm text-ink-muted">Once the version is approved by us, a supervisor can ask the client to sign it off.</p>
+      )}
+      {!staff(p.role) && version.clientState === 'not sent' && <p className="mt-2 text-sm text-ink-muted">The studio has not asked for your sign-off on this version yet.</p>}
+      {canAsk && (
+        <form className="mt-3 space-y-2" onSubmit={(e) => e.preventDefault()}>
+          <label htmlFor={`client-message-${p.versionId}`} className="field-label">
+            A word for the client (optional)
+          </label>
+          <textarea id={`client-message-${p.versionId}`} className="field-input min-h-16" value={message} maxLength={2000} onChange={(e) => setMessage(e.target.value)} />
+          <button type="button" className="btn-primary" disabled={ask.isPending} onClick={() => ask.mutate()} data-testid="ask-client">
+            {ask.isPending && <Spinner />}
+            {version.clientState === 'not sent' ? 'Ask the client to sign off' : 'Ask the client again'}
+          </button>
+        </form>
+      )}
+      {canDecide && <ClientDecisionForm idPrefix={`version-${p.versionId}`} askName={false} onDecide={decide} />}
+      {note && (
+        <div className="mt-3">
+          <FormMessage tone={note.tone}>{note.text}</FormMessage>
         </div>
       )}
     </section>

@@ -295,6 +295,7 @@ export async function getShot(access: StudioAccess, shotId: number) {
         bakeState: versions.bakeState,
         reviewState: versions.reviewState,
         sharedWithClient: versions.sharedWithClient,
+        clientState: versions.clientState,
         plateAssetId: versions.plateAssetId,
         clipAssetId: versions.clipAssetId,
       })

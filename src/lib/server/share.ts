@@ -19,6 +19,8 @@ import { exportFileNameOf, readyExportOf } from './exports';
 import { clipOf } from './versions';
 import { CAUTION } from '../export/layout';
 import { versionLabel } from '../vocab';
+import { availableClientSteps } from '../review/states';
+import { clientSignOffView } from './client-signoff';
 import type { ShareCreateBody } from '../export/schemas';
 import { rangeWithHandles } from '../library/handles';
 
@@ -279,6 +281,9 @@ export async function publicShareInfo(opened: OpenedShare) {
     versionNumber: version.number,
     artist: row.artist ?? null,
     reviewState: version.reviewState,
+    // the client's sign-off through this link, and the decisions a guest may take now
+    ...clientSignOffView(version),
+    clientSteps: availableClientSteps('guest', version.reviewState, version.clientState),
     frameRate: row.shot.frameRate,
     sourceTimecodeIn: row.shot.sourceTimecodeIn,
     shotRange: { first: row.shot.firstFrame, last: row.shot.lastFrame },

@@ -1,7 +1,7 @@
 // Turnover to editorial: the approved version of each shot of a show, at its original record timecode, as a CMX 3600
 // EDL whose clip names are the MP4 exports' file names, zipped with those MP4s and a contents list.
 import { strToU8 } from 'fflate';
-import { and, desc, eq, inArray, isNull } from 'drizzle-orm';
+import { and, desc, eq, inArray, isNull, type SQL } from 'drizzle-orm';
 import { db } from './db';
 import { assets, shots, versions } from './db/schema';
 import { HttpError } from './http';
@@ -15,9 +15,10 @@ import { isTimecode, rateText, timecodeToFrames, type FrameRate } from '../timec
 import { versionLabel } from '../vocab';
 import { TURNOVER_APPROVAL_WORDS, type TurnoverApproval, type TurnoverItem, type TurnoverMissing, type TurnoverPlan } from '../library/turnover';
 
-/** The version filter of each approval option (a client sign-off option adds its own condition here). */
-const approvalFilter: Record<TurnoverApproval, ReturnType<typeof eq>> = {
+/** The version filter of each approval option: approved by us, or also signed off by the client (still current). */
+const approvalFilter: Record<TurnoverApproval, SQL> = {
   internal: eq(versions.reviewState, 'approved'),
+  client: and(eq(versions.reviewState, 'approved'), eq(versions.clientState, 'signed off'))!,
 };
 
 const safeName = (s: string) => s.replace(/[^A-Za-z0-9._-]+/g, '_');

@@ -1,5 +1,6 @@
-// GET /api/studios/:studioId/shows/:showId/turnover?approval=internal[&format=zip] → what a turnover to editorial
-// contains (JSON), or the ZIP itself, streamed: CMX 3600 EDL + the approved versions' MP4 exports + contents.txt (supervisor).
+// GET /api/studios/:studioId/shows/:showId/turnover?approval=internal|client[&format=zip] → what a turnover to
+// editorial contains (JSON), or the ZIP itself, streamed: CMX 3600 EDL + the MP4 exports of the versions approved by us
+// (internal) or signed off by the client (client) + contents.txt (supervisor).
 import { endpoint, json, idParam, readQuery } from '~/lib/server/http';
 import { requireRole } from '~/lib/server/authz';
 import { turnoverPlan, turnoverZip } from '~/lib/server/turnover';
