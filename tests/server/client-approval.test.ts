@@ -192,7 +192,7 @@ describe('turnover of the versions the client signed off', () => {
     const show = await sup().post(`${api}/shows`, { code: unique('CA').slice(0, 14), name: 'Quay', frameRate: '24' });
     expect(show.status, JSON.stringify(show.body)).toBe(201);
     const showId = show.body.show.id as number;
-    const imported = await sup().post(`${api}/shows/${showId}/import/confirm`, { format: 'edl', text: QUAY_CUT, options: { codeFrom: 'clip', handles: 8 } });
+    const imported = await sup().post(`${api}/shows/${showId}/import/confirm`, { format: 'edl', text: QUAY_CUT, options: { codeFrom: 'clip', headHandles: 8 } });
     expect(imported.status, JSON.stringify(imported.body)).toBe(200);
     const [a, b] = await db().select().from(shots).where(eq(shots.showId, showId)).orderBy(shots.recordIn);
     const ids: number[] = [];
