@@ -2,6 +2,7 @@
 import { parseScene, formatSceneErrors, type Scene } from '../scene';
 import { createSolver, type FrameStats } from '../sim';
 import { ClipWriter } from '../clip/encode';
+import { clipLookOf } from '../clip/look';
 import { SOLVER_BUILD } from './build';
 
 export interface BakeHooks {
@@ -40,14 +41,16 @@ export async function bakeScene(scene: Scene, sceneHash: string, hooks: BakeHook
     particleCapacity: sim.capacity,
     solverBuild: SOLVER_BUILD,
     sceneHash,
+    look: clipLookOf(scene),
   });
   const stats: FrameStats[] = [];
-  writer.addFrame(sim.count, sim.x, sim.y, sim.u, sim.v);
-  stats.push(sim.stats());
+  const first = sim.stats();
+  writer.addFrame(sim.count, sim.x, sim.y, sim.u, sim.v, { liquid: sim.liquid, props: first.props });
+  stats.push(first);
   if ((await hooks.onFrame?.(1, framesTotal)) === 'stop') return null;
   for (let done = 1; done < framesTotal; done++) {
     const s = sim.stepFrame();
-    writer.addFrame(sim.count, sim.x, sim.y, sim.u, sim.v);
+    writer.addFrame(sim.count, sim.x, sim.y, sim.u, sim.v, { liquid: sim.liquid, props: s.props });
     stats.push(s);
     if ((await hooks.onFrame?.(done + 1, framesTotal)) === 'stop') return null;
   }

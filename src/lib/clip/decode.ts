@@ -1,6 +1,6 @@
 // Reads a clip a chunk at a time: open() fetches the header and index, frameAt() fetches and inflates one chunk.
 import { inflateSync } from 'fflate';
-import { CLIP_MAGIC, INDEX_ENTRY_BYTES, type ClipFrame, type ClipHeader, type ClipIndexEntry } from './format';
+import { CLIP_FORMAT_VERSIONS, CLIP_MAGIC, INDEX_ENTRY_BYTES, type ClipFrame, type ClipHeader, type ClipIndexEntry, type PropPose } from './format';
 
 /** Fetches bytes [start, endInclusive] of the clip (an HTTP Range request in the browser, a slice in tests). */
 export type RangeFetcher = (start: number, endInclusive: number) => Promise<Uint8Array>;
@@ -15,7 +15,7 @@ export function parseHead(bytes: Uint8Array): { header: ClipHeader; index: ClipI
   const headerLength = dv.getUint32(8, true);
   if (bytes.length < 12 + headerLength) return { needBytes: 12 + headerLength };
   const header = JSON.parse(new TextDecoder().decode(bytes.subarray(12, 12 + headerLength))) as ClipHeader;
-  if (header.format !== 'tidemark-clip' || header.formatVersion !== 1) throw new Error(`unsupported clip format ${header.formatVersion}`);
+  if (header.format !== 'tidemark-clip' || !(CLIP_FORMAT_VERSIONS as readonly number[]).includes(header.formatVersion)) throw new Error(`unsupported clip format ${header.formatVersion}`);
   const indexStart = 12 + headerLength;
   const indexEnd = indexStart + header.chunkCount * INDEX_ENTRY_BYTES;
   if (bytes.length < indexEnd) return { needBytes: indexEnd };
@@ -50,6 +50,9 @@ export function decodeFrame(header: ClipHeader, chunk: Uint8Array, k: number, fr
   const xPlane = p + countBytes;
   const yPlane = xPlane + n;
   const sPlane = yPlane + n;
+  const lPlane = sPlane + n;
+  const hasLiquids = header.formatVersion >= 2 && (header.look?.liquids.length ?? 1) > 1;
+  const liquid = new Uint8Array(n);
   const speedScale = maxSpeed / 255;
   let i = 0;
   let s = 0;
@@ -74,7 +77,20 @@ export function decodeFrame(header: ClipHeader, chunk: Uint8Array, k: number, fr
     }
   }
   if (i !== n) throw new Error(`clip frame ${frame} is damaged (${i} of ${n} particles)`);
-  return { frame, count: n, x, y, speed, maxSpeed };
+  const props: PropPose[] = [];
+  if (header.formatVersion >= 2) {
+    if (hasLiquids) {
+      let l = 0;
+      for (let k = 0; k < n; k++) liquid[k] = l = (l + chunk[lPlane + k]) & 0xff;
+    }
+    const posStep = header.propPositionStep!;
+    const angleStep = header.propAngleStep!;
+    let q = lPlane + (hasLiquids ? n : 0);
+    for (let k = 0; k < (header.look?.props.length ?? 0); k++, q += 12) {
+      props.push({ x: dv.getInt32(q, true) * posStep, y: dv.getInt32(q + 4, true) * posStep, angle: dv.getInt32(q + 8, true) * angleStep });
+    }
+  }
+  return { frame, count: n, x, y, speed, maxSpeed, liquid, props };
 }
 
 /** Random access to a clip's frames; keeps the last few inflated chunks. */

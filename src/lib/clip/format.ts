@@ -15,14 +15,44 @@
 //   y offsets  — the same for y
 //   speeds     — per particle: round(speed / max speed × 255), stored as the difference from the previous particle's
 //
+// Version 2 adds, after the speeds plane of every frame:
+//   liquids    — only when the header's `look.liquids` has more than one entry: per particle, in bin order, its liquid
+//                (index into look.liquids) as one byte, stored as the difference from the previous particle's
+//   prop poses — per prop of `look.props`, in that order: i32 x, i32 y (centroid, tank m, in steps of
+//                propPositionStep), i32 angle (deg counter-clockwise, in steps of propAngleStep)
+// and to the header `look` (what the player needs to draw the frame: liquid colours, walls, props' drawn shapes and
+// fill colours, the wall style) plus the two pose steps. A particle keeps its liquid for life (the solver's ids follow
+// particles), but a frame stores positions in bin order without ids, so the liquid travels with each position: in
+// bin order neighbours share a liquid and the plane deflates to almost nothing (one liquid: no plane at all).
+// Version 1 clips (no liquids, no poses, no look) still decode: every particle is of liquid 0 and there are no props.
+//
 // Positions are binned on a square grid of side `binSize` (the tank's longer side / binsAcross) and stored as the
 // offset inside the bin: the position error is at most binSize / 2^offsetBits / 2. Particles are stored in bin order,
 // so a frame carries positions, not identities (the player needs none), and neighbours sit next to each other,
 // which is what makes the planes compress.
 
+import type { Shape } from '../scene/shapes';
+import type { WallStyle } from '../scene/schema';
+
 export const CLIP_MAGIC = 'TDMKCLIP';
-export const CLIP_FORMAT_VERSION = 1;
+export const CLIP_FORMAT_VERSION = 2;
+/** Versions this reader decodes. */
+export const CLIP_FORMAT_VERSIONS = [1, 2] as const;
 export const INDEX_ENTRY_BYTES = 20;
+/** Default prop pose steps of version 2: 10 µm and 0.001°, so a pose comes back within 5 µm and 0.0005°. */
+export const PROP_POSITION_STEP = 1e-5;
+export const PROP_ANGLE_STEP = 1e-3;
+
+
+/** What a frame needs to be drawn beside its particles (version 2 header). */
+export interface ClipLook {
+  /** The scene's liquids in order: a particle's liquid indexes this list. Colours are #RRGGBB. */
+  liquids: { id: string; colour: string }[];
+  walls: { id: string; shape: Shape }[];
+  wallStyle: WallStyle;
+  /** Props in the scene's order, each in its drawn pose, with its drawn centroid (m) and fill colour (#RRGGBB). */
+  props: { id: string; shape: Shape; centroid: [number, number]; colour: string }[];
+}
 
 export interface ClipHeader {
   format: 'tidemark-clip';
@@ -48,6 +78,10 @@ export interface ClipHeader {
   binSize: number;
   framesPerChunk: number;
   chunkCount: number;
+  /** Version 2: drawing facts, and the steps (m, deg) of the stored prop poses. */
+  look?: ClipLook;
+  propPositionStep?: number;
+  propAngleStep?: number;
 }
 
 export interface ClipIndexEntry {
@@ -57,7 +91,14 @@ export interface ClipIndexEntry {
   frameCount: number;
 }
 
-/** One decoded frame: positions in metres (tank coordinates), speeds in m/s. */
+/** A prop's pose in a frame: where its drawn centroid is (tank m) and its angle (deg, counter-clockwise). */
+export interface PropPose {
+  x: number;
+  y: number;
+  angle: number;
+}
+
+/** One decoded frame: positions in metres (tank coordinates), speeds in m/s, liquids, and the props' poses. */
 export interface ClipFrame {
   frame: number;
   count: number;
@@ -65,9 +106,19 @@ export interface ClipFrame {
   y: Float32Array;
   speed: Float32Array;
   maxSpeed: number;
+  /** Liquid of each particle (index into the header's look.liquids; all 0 in a version 1 clip). */
+  liquid: Uint8Array;
+  /** One pose per prop of look.props (empty in a version 1 clip). */
+  props: PropPose[];
 }
 
 /** Largest position error, in metres, of a clip with this header (half a quantization step). */
 export function positionErrorBound(h: Pick<ClipHeader, 'binSize' | 'offsetBits'>): number {
   return h.binSize / (1 << h.offsetBits) / 2;
+}
+
+/** Largest prop pose error of a version 2 clip: metres and degrees (half a step), or null for version 1. */
+export function propPoseErrorBound(h: Pick<ClipHeader, 'propPositionStep' | 'propAngleStep'>): { position: number; angle: number } | null {
+  if (!h.propPositionStep || !h.propAngleStep) return null;
+  return { position: h.propPositionStep / 2, angle: h.propAngleStep / 2 };
 }

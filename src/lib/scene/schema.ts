@@ -112,11 +112,23 @@ export const PROP_DENSITY_RANGE = { min: 1, max: 20000 } as const;
 /** The liquid a scene has when it declares none (and every version 1 scene). */
 export const DEFAULT_LIQUID = { id: 'water', name: 'Water', colour: '#3A8FB7', viscosity: 1e-6 } as const;
 
+const colour = z.string({ invalid_type_error: 'must be a colour #RRGGBB' }).regex(/^#[0-9A-Fa-f]{6}$/, 'must be a colour #RRGGBB');
+
+/** Fill colour of a prop that names none: a warm amber that stands out from blue liquid and most plates. */
+export const DEFAULT_PROP_COLOUR = '#E3A83C';
+/** How walls are drawn over the plate: an outline, filled, or not at all (the plate already shows them). */
+export const WALL_STYLES = ['outline', 'fill', 'hidden'] as const;
+export type WallStyle = (typeof WALL_STYLES)[number];
+/** How the scene is drawn (never changes the bake): `walls` defaults to 'outline'. */
+const lookSchema = z
+  .object({ walls: z.enum(WALL_STYLES, { errorMap: () => ({ message: "must be 'outline', 'fill' or 'hidden'" }) }).default('outline') })
+  .strict();
+
 const liquidSchema = z
   .object({
     id,
     name: z.string().min(1, 'must not be empty').max(80, 'must be at most 80 characters'),
-    colour: z.string().regex(/^#[0-9A-Fa-f]{6}$/, 'must be a colour #RRGGBB'),
+    colour,
     viscosity: finite
       .min(VISCOSITY_RANGE.min, `must be between ${VISCOSITY_RANGE.min} and ${VISCOSITY_RANGE.max} m²/s`)
       .max(VISCOSITY_RANGE.max, `must be between ${VISCOSITY_RANGE.min} and ${VISCOSITY_RANGE.max} m²/s`),
@@ -143,6 +155,8 @@ export type PropMotion = (typeof PROP_MOTIONS)[number];
 const propSchema = z
   .object({
     id, shape: shapeSchema,
+    /** Fill colour the player and exports draw the prop in (default DEFAULT_PROP_COLOUR). */
+    colour: colour.optional(),
     motion: z.enum(PROP_MOTIONS, { errorMap: () => ({ message: "must be 'keyed' or 'free'" }) }).default('keyed'),
     keys: z.array(keySchema).max(10000, 'at most 10000 keys').default([]),
     density: finite
@@ -189,6 +203,7 @@ const sceneObject = z
     walls: z.array(wallSchema).default([]),
     props: z.array(propSchema).default([]),
     drains: z.array(drainSchema).default([]),
+    look: lookSchema.optional(),
   })
   .strict();
 
