@@ -41,7 +41,7 @@ export default function Editor({ boot }: { boot: EditorBoot }) {
   const pv = useSyncExternalStore(preview.subscribe, preview.getSnapshot, preview.getSnapshot);
   const viewRef = useRef<ViewControls | null>(null);
   const [panel, setPanel] = useState<'inspector' | 'params'>('inspector');
-  const [look, setLook] = useState<RenderLook>('speed');
+  const [look, setLook] = useState<RenderLook>('surface');
   const [showPreview, setShowPreview] = useState(true);
   const [help, setHelp] = useState(false);
   const [saving, setSaving] = useState(false);

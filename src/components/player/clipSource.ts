@@ -28,6 +28,7 @@ export async function openClip(versionId: number, initial: ClipInfo | null): Pro
     endFrame: h.endFrame,
     tankWidth: h.tankWidth,
     tankHeight: h.tankHeight,
+    look: h.look,
     frameAt: (f) => reader.frameAt(f),
     prefetch(frame) {
       const k = reader.chunkOf(Math.max(h.startFrame, Math.min(h.endFrame, frame)));

@@ -9,6 +9,7 @@ import type { LookOptions, ParticleFrame, RenderLook } from '~/lib/render/looks'
 import { GpuLooks } from './gpuLooks';
 import { layoutView, type ViewLayout } from '~/lib/render/view';
 import type { PlateFrameSource, PlateImage } from '~/lib/plate';
+import type { ClipLook } from '~/lib/clip/format';
 
 /** Where the engine gets frames: a clip reader, or synthetic frames in the benchmark. */
 export interface FrameSource {
@@ -17,6 +18,8 @@ export interface FrameSource {
   /** Tank size in metres. */
   tankWidth: number;
   tankHeight: number;
+  /** Liquid colours, walls and props to draw (a version 2 clip's header; absent: the liquid alone). */
+  look?: ClipLook;
   frameAt(frame: number): Promise<ParticleFrame>;
   /** Starts fetching the bytes of the frames around `frame` (optional). */
   prefetch?(frame: number): void;
@@ -214,7 +217,7 @@ export class PlayerEngine {
   private drawParticles(frame: number, f: ParticleFrame) {
     const t0 = performance.now();
     const { tankWidth, tankHeight } = this.o.frames;
-    this.looks.draw(this.look, f, this.layout.toView, { tank: { width: tankWidth, height: tankHeight }, ...this.lookOptions });
+    this.looks.draw(this.look, f, this.layout.toView, { tank: { width: tankWidth, height: tankHeight }, scene: this.o.frames.look, ...this.lookOptions });
     const t1 = performance.now();
     this.app.render();
     const t2 = performance.now();

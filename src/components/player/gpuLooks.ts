@@ -1,23 +1,27 @@
 // The player's render looks, drawn without a full-size RGBA upload a frame (8 MB at 1920×1080, which software WebGL,
 // SwiftShader, can't keep up with). The CPU prepares small per-frame inputs with the shared LookRenderer
 // (src/lib/render/looks.ts). "surface" (pixi.js 8, WebGL): the density field ρ/ρ₀ as a small 16-bit texture (two
-// bytes a cell, about 60k cells), sampled bilinearly by a quad over the liquid whose fragment shader draws fill, depth
-// and edge line exactly as the CPU look does. "speed", and the surface's spray droplets: dots painted on the CPU into
+// bytes a cell, about 60k cells) and the liquid colour and depth shade per cell (an RGBA8 texture of the same grid),
+// sampled bilinearly by a quad over the liquid whose fragment shader draws fill, depth shading and lit edge exactly as
+// the CPU look does. Walls and props: a pixi Graphics of a few polygons (src/lib/render/solids.ts outlines). "speed", and the surface's spray droplets: dots painted on the CPU into
 // a 2D canvas over the WebGL one, at the view's size up to ~0.64 megapixels and at half size above (1920×1080 →
 // 960×540, scaled up by the browser's compositor with image-rendering: pixelated); 50k GL points cost SwiftShader
 // 30–55 ms a frame, this a few ms. (At half size dots land on even pixels: the one difference from the CPU look.)
-import { Buffer, BufferImageSource, BufferUsage, Container, Geometry, GlProgram, Mesh, Shader, UniformGroup } from 'pixi.js';
+import { Buffer, BufferImageSource, BufferUsage, Container, Geometry, GlProgram, Graphics, Mesh, Shader, UniformGroup } from 'pixi.js';
 import { rampColour } from '~/lib/render/image';
 import {
   LookRenderer,
   SPEED_DOT_ALPHA,
   SPEED_RAMP,
   SPRAY_ALPHA,
-  SURFACE_COLOURS,
+  SURFACE_SHADING,
+  lifted,
+  liquidColours,
   type LookOptions,
   type ParticleFrame,
   type RenderLook,
 } from '~/lib/render/looks';
+import { solidOutlines } from '~/lib/render/solids';
 import type { TankToView } from '~/lib/render/view';
 
 /** The density ratio ρ/ρ₀ that maps to the top of the 16-bit texture (the deep colour is reached near r ≈ 2.9). */
@@ -47,12 +51,11 @@ void main() {
 const SURFACE_FRAGMENT = /* glsl */ `
 in vec2 vPos;       // pixel centre, view px
 uniform sampler2D uDensity;
+uniform sampler2D uTint;
 uniform vec2 uTexSize;
+uniform vec2 uTintSize;
 uniform float uCellPx;
 uniform float uRange;
-uniform vec3 uFill;
-uniform vec3 uDeep;
-uniform vec3 uEdge;
 out vec4 finalColor;
 void main() {
   // Grid coordinate of the pixel centre (cell k centred on pixel (k − 1 + ½)·cellPx; one guard cell), then the
@@ -64,16 +67,20 @@ void main() {
   if (dist < -1.5) discard;
   float cover = clamp(dist + 0.5, 0.0, 1.0);
   float edge = clamp(1.5 - abs(dist), 0.0, 1.0);
-  float depth = clamp(dist / (6.0 * uCellPx), 0.0, 1.0);
-  float fillA = cover * (0.58 + 0.22 * depth);
+  // Liquid colour and depth shade s of the cell grid (SURFACE_SHADING in src/lib/render/looks.ts).
+  vec4 tint = texture(uTint, (g + 0.5) / uTintSize);
+  vec3 base = tint.rgb;
+  float s = tint.a;
+  float fillA = cover * (${SURFACE_SHADING.COVER_ALPHA.toFixed(4)} + ${SURFACE_SHADING.DEEP_ALPHA.toFixed(4)} * s);
   float we = edge * 0.95;
   float wf = fillA * (1.0 - we);
   float a = we + wf;
   if (a <= 0.002) discard;
-  finalColor = vec4(we * uEdge + wf * mix(uFill, uDeep, depth), a);
+  vec3 fill = (base + (1.0 - base) * ${SURFACE_SHADING.LIFT.toFixed(4)} * (1.0 - s)) * (1.0 - ${SURFACE_SHADING.DARKEN.toFixed(4)} * s);
+  vec3 edgeColour = base + (1.0 - base) * ${SURFACE_SHADING.EDGE_LIFT.toFixed(4)};
+  finalColor = vec4(we * edgeColour + wf * fill, a);
 }`;
 
-const rgb01 = (c: readonly [number, number, number]) => new Float32Array([c[0] / 255, c[1] / 255, c[2] / 255]);
 
 /** Draws one look of a particle frame: a pixi container (the surface) and a canvas over it (dots), view-sized. */
 export class GpuLooks {
@@ -90,11 +97,9 @@ export class GpuLooks {
   // Surface: a quad over the view, and the density texture (rebuilt when the grid's size changes).
   private readonly surfaceUniforms = new UniformGroup({
     uTexSize: { value: new Float32Array([1, 1]), type: 'vec2<f32>' },
+    uTintSize: { value: new Float32Array([1, 1]), type: 'vec2<f32>' },
     uCellPx: { value: 1, type: 'f32' },
     uRange: { value: DENSITY_RANGE, type: 'f32' },
-    uFill: { value: rgb01(SURFACE_COLOURS.fill), type: 'vec3<f32>' },
-    uDeep: { value: rgb01(SURFACE_COLOURS.deep), type: 'vec3<f32>' },
-    uEdge: { value: rgb01(SURFACE_COLOURS.edge), type: 'vec3<f32>' },
   });
   private readonly surfaceShader: Shader;
   private readonly quad: Float32Array;
@@ -103,6 +108,11 @@ export class GpuLooks {
   private densityBytes = new Uint8Array(0);
   private densitySource: BufferImageSource | null = null;
   private densityKey = '';
+  private tintSource: BufferImageSource | null = null;
+  private tintBytes = new Uint8Array(0);
+  private sprayWhich = new Int32Array(0);
+  /** Walls and props, over the liquid. */
+  private readonly solids = new Graphics();
 
   constructor(
     readonly width: number,
@@ -127,20 +137,36 @@ export class GpuLooks {
     });
     this.surfaceShader = new Shader({
       glProgram: GlProgram.from({ vertex: SURFACE_VERTEX, fragment: SURFACE_FRAGMENT, name: 'tidemark-liquid-surface' }),
-      resources: { surfaceUniforms: this.surfaceUniforms, uDensity: this.ensureDensityTexture(2, 2) },
+      resources: { surfaceUniforms: this.surfaceUniforms, uDensity: this.ensureDensityTexture(2, 2), uTint: this.ensureTintTexture(new Uint8Array(4), 1, 1) },
     });
     this.surface = new Mesh({ geometry: surfaceGeometry, shader: this.surfaceShader });
     this.surface.visible = false;
     this.container.addChild(this.surface);
+    this.container.addChild(this.solids);
   }
 
   /** Prepares the look's GPU inputs for a frame (the next pixi render draws it). */
   draw(look: RenderLook, frame: ParticleFrame, toView: TankToView, options: LookOptions = {}) {
     this.surface.visible = false;
     this.dotCanvasEl.style.display = 'none';
+    this.drawSolids(frame, toView, options);
     if (frame.count === 0) return;
     if (look === 'speed') this.prepareSpeed(frame, toView, options);
     else this.prepareSurface(frame, toView, options);
+  }
+
+  /** Walls and props of the clip's look at the frame's poses, as the CPU look draws them (solids.ts). */
+  private drawSolids(frame: ParticleFrame, toView: TankToView, options: LookOptions) {
+    const g = this.solids;
+    g.clear();
+    if (!options.scene) return;
+    for (const s of solidOutlines(options.scene, frame.props, toView)) {
+      const pts = Array.from(s.points);
+      const colour = (c: readonly number[]) => (Math.round(c[0]) << 16) | (Math.round(c[1]) << 8) | Math.round(c[2]);
+      g.poly(pts, true);
+      if (s.fill) g.fill({ color: colour(s.fill), alpha: s.fill[3] });
+      g.stroke({ width: s.lineWidth, color: colour(s.line), alpha: s.line[3], alignment: 0.5 });
+    }
   }
 
   /**
@@ -226,9 +252,27 @@ export class GpuLooks {
     return this.densitySource;
   }
 
+  /** The per-cell colour and shade texture (RGBA8, gw × gh), rebuilt when the grid's size changes. */
+  private ensureTintTexture(bytes: Uint8Array, width: number, height: number): BufferImageSource {
+    const src = this.tintSource;
+    if (src && src.width === width && src.height === height) return src;
+    this.tintBytes = new Uint8Array(width * height * 4);
+    this.tintBytes.set(bytes.subarray(0, this.tintBytes.length));
+    this.tintSource = new BufferImageSource({
+      resource: this.tintBytes, width, height, format: 'rgba8unorm', alphaMode: 'no-premultiply-alpha',
+      scaleMode: 'linear', addressMode: 'clamp-to-edge', autoGenerateMipmaps: false,
+    });
+    if (this.surfaceShader) this.surfaceShader.resources.uTint = this.tintSource;
+    src?.destroy();
+    return this.tintSource;
+  }
+
   private prepareSurface(frame: ParticleFrame, t: TankToView, options: LookOptions) {
     const field = this.cpu.densityField(frame, t, options);
     const { gw, gh, ratio, cellPx } = field;
+    const tint = this.ensureTintTexture(field.tint, gw, gh);
+    this.tintBytes.set(field.tint.subarray(0, this.tintBytes.length));
+    tint.update();
     // Rows of whole 4-byte words (WebGL's default unpack alignment): an even number of two-byte texels.
     const texWidth = gw + (gw & 1);
     const source = this.ensureDensityTexture(texWidth, gh);
@@ -268,19 +312,31 @@ export class GpuLooks {
     const u = this.surfaceUniforms.uniforms;
     (u.uTexSize as Float32Array)[0] = texWidth;
     (u.uTexSize as Float32Array)[1] = gh;
+    (u.uTintSize as Float32Array)[0] = gw;
+    (u.uTintSize as Float32Array)[1] = gh;
     u.uCellPx = cellPx;
     this.surfaceUniforms.update();
     this.surface.visible = iMax >= 0;
 
-    // Spray droplets, in the edge colour, on the dot canvas too (as GL points they cost SwiftShader several ms).
-    if (this.sprayXY.length < 2 * frame.count) this.sprayXY = new Int32Array(2 * frame.count);
-    const n = this.cpu.sprayDroplets(frame, t, this.sprayXY);
+    // Spray droplets, in their liquid's edge colour, on the dot canvas too (as GL points they cost SwiftShader several ms).
+    if (this.sprayXY.length < 2 * frame.count) {
+      this.sprayXY = new Int32Array(2 * frame.count);
+      this.sprayWhich = new Int32Array(frame.count);
+    }
+    const n = this.cpu.sprayDroplets(frame, t, this.sprayXY, this.sprayWhich);
     const texel = this.texelPx;
     const words = this.dotCanvas(texel);
     const side = Math.max(1, Math.round(LookRenderer.sprayDot(cellPx) / texel));
-    const [er, eg, eb] = SURFACE_COLOURS.edge;
-    const spray = ((Math.round(SPRAY_ALPHA * 255) << 24) | (eb << 16) | (eg << 8) | er) >>> 0;
-    for (let k = 0; k < n; k++) this.paintDot(words, Math.floor(this.sprayXY[2 * k] / texel), Math.floor(this.sprayXY[2 * k + 1] / texel), side, spray);
+    // ImageData is not premultiplied: 0xAABBGGRR words.
+    const sprayWords = liquidColours(options).map((c) => {
+      const [r, g, b] = lifted(c, SURFACE_SHADING.EDGE_LIFT).map(Math.round);
+      return ((Math.round(SPRAY_ALPHA * 255) << 24) | (b << 16) | (g << 8) | r) >>> 0;
+    });
+    const liquid = frame.liquid;
+    for (let k = 0; k < n; k++) {
+      const spray = sprayWords[liquid ? Math.min(liquid[this.sprayWhich[k]], sprayWords.length - 1) : 0];
+      this.paintDot(words, Math.floor(this.sprayXY[2 * k] / texel), Math.floor(this.sprayXY[2 * k + 1] / texel), side, spray);
+    }
     this.showDots();
   }
 
@@ -288,5 +344,6 @@ export class GpuLooks {
     this.dotCanvasEl.remove();
     this.container.destroy({ children: true });
     this.densitySource?.destroy();
+    this.tintSource?.destroy();
   }
 }

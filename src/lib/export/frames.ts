@@ -102,7 +102,8 @@ export class FrameRenderer {
     const [particles, plateImage] = await Promise.all([o.source.frameAt(frame), o.plate ? o.plate.frameAt(frame) : Promise.resolve(null)]);
     const r = this.layout.plateRect;
     if (plateImage && r) ctx.drawImage(plateImage, r.x, r.y, r.width, r.height);
-    if (particles.count > 0) {
+    // Walls and props are drawn even on a frame without liquid (the look draws them over the splash).
+    if (particles.count > 0 || o.source.lookOptions.scene) {
       const splash = this.looks.render(o.look, particles, this.layout.toView, o.source.lookOptions);
       const base = ctx.getImageData(0, 0, o.width, o.height);
       const dst = base.data;

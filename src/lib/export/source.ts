@@ -54,7 +54,7 @@ export async function openParticleSource(getUrls: () => Promise<ClipUrls>): Prom
   const h = reader.header;
   return {
     header: h,
-    lookOptions: lookOptionsFromStats(stats),
+    lookOptions: { ...lookOptionsFromStats(stats), scene: h.look },
     frameAt: (frame) => (frame < h.startFrame || frame > h.endFrame ? Promise.resolve(EMPTY) : reader.frameAt(frame)),
   };
 }

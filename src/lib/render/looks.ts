@@ -1,15 +1,25 @@
 // The render looks. "speed": particles as dots coloured by speed. "surface": a smooth liquid surface from the particle
-// density (splat → blur → threshold at half the rest density, with an edge line). LookRenderer draws them on the CPU
+// density (splat → blur → threshold at half the rest density), each liquid in its own colour, darker with depth below
+// the surface, with a lit edge line; walls and props drawn over it where the clip says they are (solids.ts). LookRenderer draws them on the CPU
 // into one image a frame (exports and the editor); the player draws the same looks on the GPU from the per-frame
 // inputs computed here (density field, spray droplets, dot sizes): src/components/player/gpuLooks.ts. Never a sprite
 // per particle: software WebGL can't draw 50k of them at the shot's fps (PITFALLS.md). Free of React and the DOM.
 import { createImage, packPremultiplied, rampColour, type PixelImage } from './image';
 import type { TankToView } from './view';
+import type { ClipLook, PropPose } from '../clip/format';
+import { DEFAULT_LIQUID } from '../scene/schema';
+import { drawSolids, hexColour, solidOutlines } from './solids';
 
 export const RENDER_LOOKS = ['surface', 'speed'] as const;
 export type RenderLook = (typeof RENDER_LOOKS)[number];
 
-export const LOOK_LABELS: Record<RenderLook, string> = { surface: 'Surface', speed: 'Speed' };
+/** What each look is called on its button or in a list: it says what the look shows. */
+export const LOOK_LABELS: Record<RenderLook, string> = { surface: 'Liquid in its colours', speed: 'Particle speed' };
+/** One line under the view on what the look shows. */
+export const LOOK_DESCRIPTIONS: Record<RenderLook, string> = {
+  surface: 'Each liquid in its own colour, darker with depth below its surface, with a lit edge; walls and props where they are.',
+  speed: 'Every particle as a dot, coloured from slow (deep blue) to fast (coral).',
+};
 
 /** One frame of particles: positions in metres (tank coordinates, y up), speeds in m/s. */
 export interface ParticleFrame {
@@ -18,6 +28,10 @@ export interface ParticleFrame {
   y: ArrayLike<number>;
   speed: ArrayLike<number>;
   maxSpeed: number;
+  /** Liquid of each particle (index into the scene look's liquids); omitted: all liquid 0. */
+  liquid?: ArrayLike<number>;
+  /** Pose of each prop of the scene look (omitted: props are not drawn). */
+  props?: readonly PropPose[];
 }
 
 export interface LookOptions {
@@ -30,6 +44,8 @@ export interface LookOptions {
    * on a side is not drawn with an edge line along it.
    */
   tank?: { width: number; height: number };
+  /** The clip's drawing facts: liquid colours, walls and props (omitted: one liquid in the default colour, no solids). */
+  scene?: ClipLook;
 }
 
 /** Speed ramp, slow → fast: deep blue, cyan, pale yellow, coral. Stops are [position, r, g, b]. */
@@ -41,9 +57,18 @@ export const SPEED_RAMP = [
 ] as const;
 
 const SPEED_ALPHA = 0.92;
-const SURFACE_FILL: [number, number, number] = [110, 196, 232];
-const SURFACE_DEEP: [number, number, number] = [40, 120, 185];
-const SURFACE_EDGE: [number, number, number] = [236, 250, 255];
+
+/**
+ * The surface look's shading, shared by the CPU look and the player's fragment shader. A liquid of colour c at depth
+ * d below its surface (m, down its column) is shaded s = 1 − exp(−d / ATTENUATION_DEPTH) (light fading with depth,
+ * the Beer–Lambert form; the depth scale is a look choice, not a measured absorption): fill = lit·(1 − DARKEN·s) with
+ * lit = c lifted toward white by LIFT·(1 − s) near the surface, alpha COVER_ALPHA + DEEP_ALPHA·s; the edge line is c
+ * lifted toward white by EDGE_LIFT.
+ */
+export const SURFACE_SHADING = { ATTENUATION_DEPTH: 0.2, DARKEN: 0.55, LIFT: 0.15, COVER_ALPHA: 0.62, DEEP_ALPHA: 0.3, EDGE_LIFT: 0.7 } as const;
+const SH = SURFACE_SHADING;
+/** Density ratio below which a cell is clear air (ends a depth run; between AIR and ½ is the blurred surface). */
+const AIR = 0.25;
 
 /**
  * Estimates the rest density (particles per m²) of a frame: the 80th percentile of particle counts over the
@@ -89,14 +114,23 @@ export interface DensityField {
   gh: number;
   /** ρ/ρ₀ per cell (reused between frames: read it before the next call). */
   ratio: Float32Array;
+  /**
+   * Per cell, 4 bytes: the liquid colour there (r, g, b: the particles' colours, density-weighted) and the depth shade
+   * s · 255 (SURFACE_SHADING). Reused between frames like `ratio`.
+   */
+  tint: Uint8Array;
 }
 
-/** Surface look colours, [r, g, b] in 0–255: fill at the surface, fill deep inside, and the edge line / spray. */
-export const SURFACE_COLOURS: Readonly<Record<'fill' | 'deep' | 'edge', readonly [number, number, number]>> = {
-  fill: SURFACE_FILL,
-  deep: SURFACE_DEEP,
-  edge: SURFACE_EDGE,
-};
+/** Colours of the scene's liquids, [r, g, b] 0–255, in order (the default liquid's without a scene look). */
+export function liquidColours(options: LookOptions): [number, number, number][] {
+  const liquids = options.scene?.liquids;
+  return liquids?.length ? liquids.map((l) => hexColour(l.colour)) : [hexColour(DEFAULT_LIQUID.colour)];
+}
+
+/** A colour lifted toward white by `k` (0: itself, 1: white). */
+export function lifted(c: readonly [number, number, number], k: number): [number, number, number] {
+  return [c[0] + (255 - c[0]) * k, c[1] + (255 - c[1]) * k, c[2] + (255 - c[2]) * k];
+}
 export const SPEED_DOT_ALPHA = SPEED_ALPHA;
 export const SPRAY_ALPHA = 0.85;
 
@@ -115,11 +149,17 @@ export class LookRenderer {
   private gh = 0;
   private density = new Float32Array(0);
   private scratch = new Float32Array(0);
+  private colourSums: Float32Array[] = [];
+  private tint = new Uint8Array(0);
+  private liquidRgb = new Float32Array(0);
   private quiet = new Uint8Array(0);
   private colIndex = new Int32Array(0);
   private colFrac = new Float32Array(0);
   private estimatedRest = 0;
   private sprayScratch = new Int32Array(0);
+  private sprayWhich = new Int32Array(0);
+  private solid = new Uint8Array(0);
+  private rowScratch = new Float32Array(0);
 
   constructor(width: number, height: number) {
     this.viewWidth = Math.max(1, Math.round(width));
@@ -135,13 +175,17 @@ export class LookRenderer {
     return (this.img ??= createImage(this.viewWidth, this.viewHeight));
   }
 
-  /** Draws the frame in the look; returns the image (cleared first: transparent where there is no liquid). */
+  /**
+   * Draws the frame in the look, then the walls and props of `options.scene` over it; returns the image (cleared
+   * first: transparent where nothing is drawn).
+   */
   render(look: RenderLook, frame: ParticleFrame, toView: TankToView, options: LookOptions = {}): PixelImage {
     this.image.pixels.fill(0);
     if (frame.count > 0) {
       if (look === 'speed') this.drawSpeed(frame, toView, options);
       else this.drawSurface(frame, toView, options);
     }
+    if (options.scene) drawSolids(this.image, solidOutlines(options.scene, frame.props, toView));
     return this.image;
   }
 
@@ -189,6 +233,8 @@ export class LookRenderer {
     this.gh = Math.ceil(height / cellPx) + 2;
     this.density = new Float32Array(this.gw * this.gh);
     this.scratch = new Float32Array(this.gw * this.gh);
+    this.colourSums = [0, 1, 2].map(() => new Float32Array(this.gw * this.gh));
+    this.tint = new Uint8Array(this.gw * this.gh * 4);
     this.quiet = new Uint8Array(this.gw * this.gh);
     // Pixel centre px + ½ sits at grid coordinate (px + ½)/cellPx − ½ (cell k is centred on pixel (k + ½)·cellPx).
     this.colIndex = new Int32Array(Math.max(width, height));
@@ -209,8 +255,22 @@ export class LookRenderer {
     const spacingPx = t.sx / Math.sqrt(rest);
     const cellPx = Math.max(2, Math.min(16, Math.round(spacingPx * 1.5)));
     this.ensureGrid(cellPx);
-    const { gw, gh, density, scratch } = this;
+    const { gw, gh, density } = this;
     density.fill(0);
+    // Several liquids in the frame: each particle also splats its liquid's colour, so a cell's colour is the
+    // density-weighted mean of the colours of the particles around it.
+    const colours = liquidColours(options);
+    const liquid = frame.liquid;
+    let mixed = false;
+    if (liquid && colours.length > 1) for (let i = 1; i < frame.count; i++) if (liquid[i] !== liquid[0]) { mixed = true; break; }
+    const [sr, sg, sb] = this.colourSums;
+    if (mixed) {
+      sr.fill(0); sg.fill(0); sb.fill(0);
+      if (this.liquidRgb.length < 3 * colours.length) this.liquidRgb = new Float32Array(3 * colours.length);
+      colours.forEach((c, k) => this.liquidRgb.set(c, 3 * k));
+    }
+    const rgb = this.liquidRgb;
+    let cr = 0, cg = 0, cb = 0;
 
     // Splat, in grid units (with the guard cell).
     const { ox, oy, sx, sy } = t;
@@ -224,10 +284,15 @@ export class LookRenderer {
       const fx = gx - i0;
       const fy = gy - j0;
       const k = j0 * gw + i0;
-      density[k] += (1 - fx) * (1 - fy);
-      density[k + 1] += fx * (1 - fy);
-      density[k + gw] += (1 - fx) * fy;
-      density[k + gw + 1] += fx * fy;
+      const w00 = (1 - fx) * (1 - fy), w10 = fx * (1 - fy), w01 = (1 - fx) * fy, w11 = fx * fy;
+      density[k] += w00;
+      density[k + 1] += w10;
+      density[k + gw] += w01;
+      density[k + gw + 1] += w11;
+      if (!mixed) return;
+      sr[k] += w00 * cr; sr[k + 1] += w10 * cr; sr[k + gw] += w01 * cr; sr[k + gw + 1] += w11 * cr;
+      sg[k] += w00 * cg; sg[k + 1] += w10 * cg; sg[k + gw] += w01 * cg; sg[k + gw + 1] += w11 * cg;
+      sb[k] += w00 * cb; sb[k + 1] += w10 * cb; sb[k + gw] += w01 * cb; sb[k + gw + 1] += w11 * cb;
     };
     const { x, y, count } = frame;
     const tank = options.tank;
@@ -236,6 +301,10 @@ export class LookRenderer {
     for (let i = 0; i < count; i++) {
       const px = x[i];
       const py = y[i];
+      if (mixed) {
+        const l = 3 * (liquid![i] < colours.length ? liquid![i] : 0);
+        cr = rgb[l]; cg = rgb[l + 1]; cb = rgb[l + 2];
+      }
       splat(ox + px * sx, oy - py * sy);
       if (!tank) continue;
       if (px < margin) splat(ox - px * sx, oy - py * sy);
@@ -243,24 +312,108 @@ export class LookRenderer {
       if (py < margin) splat(ox + px * sx, oy + py * sy);
     }
 
-    // Blur: box [1 1 1]/3 along x then y, twice.
-    for (let pass = 0; pass < 2; pass++) {
-      for (let j = 0; j < gh; j++) {
-        const row = j * gw;
-        scratch[row] = (density[row] + density[row + 1]) / 3;
-        for (let i = 1; i < gw - 1; i++) scratch[row + i] = (density[row + i - 1] + density[row + i] + density[row + i + 1]) / 3;
-        scratch[row + gw - 1] = (density[row + gw - 2] + density[row + gw - 1]) / 3;
-      }
-      for (let i = 0; i < gw; i++) density[i] = (scratch[i] + scratch[i + gw]) / 3;
-      for (let k = gw; k < gw * (gh - 1); k++) density[k] = (scratch[k - gw] + scratch[k] + scratch[k + gw]) / 3;
-      for (let k = gw * (gh - 1); k < gw * gh; k++) density[k] = (scratch[k - gw] + scratch[k]) / 3;
-    }
+    this.blur(density);
+    if (mixed) for (const a of this.colourSums) this.blur(a);
 
     // Normalise to r = ρ/ρ₀: particles a cell at rest = ρ₀ · (cell side in metres)².
     const cellMetres = cellPx / sx;
     const norm = 1 / (rest * cellMetres * cellMetres);
-    for (let k = 0; k < density.length; k++) density[k] *= norm;
-    return { cellPx, gw, gh, ratio: density };
+    const tint = this.tint;
+    const [r0, g0, b0] = mixed ? colours[0] : colours[liquid && liquid.length ? Math.min(liquid[0], colours.length - 1) : 0];
+    for (let k = 0; k < density.length; k++) {
+      const d = density[k];
+      if (mixed && d > 1e-6) {
+        tint[4 * k] = sr[k] / d + 0.5;
+        tint[4 * k + 1] = sg[k] / d + 0.5;
+        tint[4 * k + 2] = sb[k] / d + 0.5;
+      } else {
+        tint[4 * k] = r0 + 0.5;
+        tint[4 * k + 1] = g0 + 0.5;
+        tint[4 * k + 2] = b0 + 0.5;
+      }
+      density[k] = d * norm;
+    }
+    // Depth shade: down each column from the top, the depth below the surface the cell is under, in cells. Liquid
+    // counts from r ≥ ½; only clear air (r < AIR) ends a run, so density noise just under the surface does not, and a
+    // wall or prop inside the liquid counts as depth (the liquid under a floating can is as deep as beside it).
+    const solid = this.solidCells(options, frame, t);
+    const depth = this.scratch;
+    for (let i = 0; i < gw; i++) {
+      let run = 0;
+      for (let j = 0, k = i; j < gh; j++, k += gw) {
+        const r = density[k];
+        if (r >= 0.5 || (run > 0 && solid[k])) run++;
+        else if (r < AIR) run = 0;
+        depth[k] = r >= 0.5 ? run : 0;
+      }
+    }
+    // Smooth along rows (box [1 1 1]/3, twice) so neighbouring columns that found their surface a cell apart shade alike.
+    const perCell = cellMetres / SH.ATTENUATION_DEPTH;
+    const row = this.rowScratch.length >= gw ? this.rowScratch : (this.rowScratch = new Float32Array(gw));
+    for (let j = 0; j < gh; j++) {
+      const base = j * gw;
+      for (let pass = 0; pass < 2; pass++) {
+        for (let i = 0; i < gw; i++) row[i] = depth[base + i];
+        for (let i = 1; i < gw - 1; i++) depth[base + i] = (row[i - 1] + row[i] + row[i + 1]) / 3;
+      }
+      for (let i = 0; i < gw; i++) {
+        const d = depth[base + i];
+        tint[4 * (base + i) + 3] = d <= 0 ? 0 : 255 * (1 - Math.exp(-Math.max(0, d - 0.5) * perCell)) + 0.5;
+      }
+    }
+    return { cellPx, gw, gh, ratio: density, tint };
+  }
+
+  /** 1 for grid cells whose centre lies inside a wall or a prop at its pose (the scene look's solids), else 0. */
+  private solidCells(options: LookOptions, frame: ParticleFrame, t: TankToView): Uint8Array {
+    const { gw, gh, cellPx } = this;
+    if (this.solid.length !== gw * gh) this.solid = new Uint8Array(gw * gh);
+    const solid = this.solid;
+    solid.fill(0);
+    if (!options.scene) return solid;
+    // Every solid, hidden walls included: they still hold liquid back.
+    const look = { ...options.scene, wallStyle: 'outline' as const };
+    for (const s of solidOutlines(look, frame.props, t)) {
+      const pts = s.points;
+      const n = pts.length / 2;
+      let minX = Infinity, maxX = -Infinity, minY = Infinity, maxY = -Infinity;
+      for (let k = 0; k < n; k++) {
+        minX = Math.min(minX, pts[2 * k]); maxX = Math.max(maxX, pts[2 * k]);
+        minY = Math.min(minY, pts[2 * k + 1]); maxY = Math.max(maxY, pts[2 * k + 1]);
+      }
+      // Cell (i, j) is centred on view pixel ((i − ½)·cellPx, (j − ½)·cellPx).
+      const i0 = Math.max(0, Math.floor(minX / cellPx)), i1 = Math.min(gw - 1, Math.ceil(maxX / cellPx) + 1);
+      const j0 = Math.max(0, Math.floor(minY / cellPx)), j1 = Math.min(gh - 1, Math.ceil(maxY / cellPx) + 1);
+      for (let j = j0; j <= j1; j++) {
+        const cy = (j - 0.5) * cellPx;
+        for (let i = i0; i <= i1; i++) {
+          const cx = (i - 0.5) * cellPx;
+          let inside = false;
+          for (let k = 0, m = n - 1; k < n; m = k++) {
+            const yk = pts[2 * k + 1], ym = pts[2 * m + 1];
+            if ((yk > cy) !== (ym > cy) && cx < ((pts[2 * m] - pts[2 * k]) * (cy - yk)) / (ym - yk) + pts[2 * k]) inside = !inside;
+          }
+          if (inside) solid[j * gw + i] = 1;
+        }
+      }
+    }
+    return solid;
+  }
+
+  /** Blurs a grid in place: box [1 1 1]/3 along x then y, twice (≈ a Gaussian). */
+  private blur(a: Float32Array) {
+    const { gw, gh, scratch } = this;
+    for (let pass = 0; pass < 2; pass++) {
+      for (let j = 0; j < gh; j++) {
+        const row = j * gw;
+        scratch[row] = (a[row] + a[row + 1]) / 3;
+        for (let i = 1; i < gw - 1; i++) scratch[row + i] = (a[row + i - 1] + a[row + i] + a[row + i + 1]) / 3;
+        scratch[row + gw - 1] = (a[row + gw - 2] + a[row + gw - 1]) / 3;
+      }
+      for (let i = 0; i < gw; i++) a[i] = (scratch[i] + scratch[i + gw]) / 3;
+      for (let k = gw; k < gw * (gh - 1); k++) a[k] = (scratch[k - gw] + scratch[k] + scratch[k + gw]) / 3;
+      for (let k = gw * (gh - 1); k < gw * gh; k++) a[k] = (scratch[k - gw] + scratch[k]) / 3;
+    }
   }
 
   /** Side of a spray droplet in view pixels for a density grid of `cellPx`-pixel cells. */
@@ -270,10 +423,10 @@ export class LookRenderer {
 
   /**
    * Spray: the particles where the density is too low to make surface (r < ½ at the particle). Writes the top-left
-   * pixel of each droplet (view px, x then y) into `out` (room for 2 × frame.count) and returns how many there are.
-   * Call right after `densityField` for the same frame.
+   * pixel of each droplet (view px, x then y) into `out` (room for 2 × frame.count), and its particle's index into
+   * `which` when given; returns how many there are. Call right after `densityField` for the same frame.
    */
-  sprayDroplets(frame: ParticleFrame, t: TankToView, out: Float32Array | Int32Array): number {
+  sprayDroplets(frame: ParticleFrame, t: TankToView, out: Float32Array | Int32Array, which?: Int32Array): number {
     const { gw, density, colIndex, colFrac, cellPx } = this;
     const width = this.viewWidth;
     const height = this.viewHeight;
@@ -294,6 +447,7 @@ export class LookRenderer {
       if (top + (bottom - top) * fy >= 0.5) continue;
       out[2 * n] = px;
       out[2 * n + 1] = py;
+      if (which) which[n] = i;
       n++;
     }
     return n;
@@ -301,11 +455,12 @@ export class LookRenderer {
 
   /**
    * The density field, coloured: every pixel from the bilinearly sampled ratio r = ρ/ρ₀, liquid where r > ½ (the
-   * same iso-level as the solver's liquid area), anti-aliased over about a pixel, with a light edge line along
-   * r = ½; then the spray droplets. (The player's fragment shader, src/components/player/gpuLooks.ts, mirrors this.)
+   * same iso-level as the solver's liquid area), anti-aliased over about a pixel, in the liquid's colour shaded by its
+   * depth (SURFACE_SHADING), with a lit edge line along r = ½; then the spray droplets, each in its liquid's edge
+   * colour. (The player's fragment shader, src/components/player/gpuLooks.ts, mirrors this.)
    */
   private drawSurface(frame: ParticleFrame, t: TankToView, options: LookOptions) {
-    const { cellPx, gw, gh, ratio: density } = this.densityField(frame, t, options);
+    const { cellPx, gw, gh, ratio: density, tint } = this.densityField(frame, t, options);
     const quiet = this.quiet;
 
     // A quad (cells k, k+1, k+gw, k+gw+1) is quiet when none of its corners comes near the iso-level.
@@ -321,11 +476,7 @@ export class LookRenderer {
     // (r − ½)·2.5·cellPx approximates the signed distance to the surface in pixels.
     const { width, height, pixels } = this.image;
     const toPx = 2.5 * cellPx;
-    const deepPx = 6 * cellPx;
     const { colIndex, colFrac } = this;
-    const [fr, fg, fb] = SURFACE_FILL;
-    const [dr, dg, db] = SURFACE_DEEP;
-    const [er, eg, eb] = SURFACE_EDGE;
     for (let py = 0; py < height; py++) {
       const j = colIndex[py];
       const fy = colFrac[py];
@@ -345,29 +496,45 @@ export class LookRenderer {
         const cover = dist + 0.5 < 0 ? 0 : dist + 0.5 > 1 ? 1 : dist + 0.5;
         const edgeRaw = 1.5 - Math.abs(dist);
         const edge = edgeRaw < 0 ? 0 : edgeRaw > 1 ? 1 : edgeRaw;
-        const depth = dist <= 0 ? 0 : dist >= deepPx ? 1 : dist / deepPx;
-        const fillA = cover * (0.58 + 0.22 * depth);
-        const a = edge * 0.95 + fillA * (1 - edge * 0.95);
-        if (a <= 0.002) continue;
-        // Premultiplied "edge over fill".
-        const wf = fillA * (1 - edge * 0.95);
+        // The cell's colour and depth shade, bilinear like r.
+        const w00 = (1 - fx) * (1 - fy), w10 = fx * (1 - fy), w01 = (1 - fx) * fy, w11 = fx * fy;
+        const q00 = 4 * k, q10 = q00 + 4, q01 = 4 * (k + gw), q11 = q01 + 4;
+        const br = w00 * tint[q00] + w10 * tint[q10] + w01 * tint[q01] + w11 * tint[q11];
+        const bg = w00 * tint[q00 + 1] + w10 * tint[q10 + 1] + w01 * tint[q01 + 1] + w11 * tint[q11 + 1];
+        const bb = w00 * tint[q00 + 2] + w10 * tint[q10 + 2] + w01 * tint[q01 + 2] + w11 * tint[q11 + 2];
+        const shade = (w00 * tint[q00 + 3] + w10 * tint[q10 + 3] + w01 * tint[q01 + 3] + w11 * tint[q11 + 3]) / 255;
+        const fillA = cover * (SH.COVER_ALPHA + SH.DEEP_ALPHA * shade);
         const we = edge * 0.95;
-        const cr = we * er + wf * (fr + (dr - fr) * depth);
-        const cg = we * eg + wf * (fg + (dg - fg) * depth);
-        const cb = we * eb + wf * (fb + (db - fb) * depth);
+        const wf = fillA * (1 - we);
+        const a = we + wf;
+        if (a <= 0.002) continue;
+        // Premultiplied "edge over fill": fill = (c lifted near the surface)·(1 − DARKEN·s), edge = c lifted.
+        const lift = SH.LIFT * (1 - shade);
+        const dark = 1 - SH.DARKEN * shade;
+        const cr = we * (br + (255 - br) * SH.EDGE_LIFT) + wf * (br + (255 - br) * lift) * dark;
+        const cg = we * (bg + (255 - bg) * SH.EDGE_LIFT) + wf * (bg + (255 - bg) * lift) * dark;
+        const cb = we * (bb + (255 - bb) * SH.EDGE_LIFT) + wf * (bb + (255 - bb) * lift) * dark;
         pixels[rowP + px] = (((a * 255 + 0.5) << 24) | ((cb + 0.5) << 16) | ((cg + 0.5) << 8) | (cr + 0.5)) >>> 0;
       }
     }
 
-    // Spray: particles where the density is too low to make surface are drawn as droplets in the edge colour.
-    const spray = packPremultiplied(er, eg, eb, SPRAY_ALPHA);
+    // Spray: particles where the density is too low to make surface, drawn as droplets in their liquid's edge colour.
+    const sprayWords = liquidColours(options).map((c) => {
+      const [r, g, b] = lifted(c, SH.EDGE_LIFT);
+      return packPremultiplied(r, g, b, SPRAY_ALPHA);
+    });
     const dot = LookRenderer.sprayDot(cellPx);
-    if (this.sprayScratch.length < 2 * frame.count) this.sprayScratch = new Int32Array(2 * frame.count);
-    const n = this.sprayDroplets(frame, t, this.sprayScratch);
+    if (this.sprayScratch.length < 2 * frame.count) {
+      this.sprayScratch = new Int32Array(2 * frame.count);
+      this.sprayWhich = new Int32Array(frame.count);
+    }
+    const n = this.sprayDroplets(frame, t, this.sprayScratch, this.sprayWhich);
     const at = this.sprayScratch;
+    const liquid = frame.liquid;
     for (let s = 0; s < n; s++) {
       const px = at[2 * s];
       const py = at[2 * s + 1];
+      const spray = sprayWords[liquid ? Math.min(liquid[this.sprayWhich[s]], sprayWords.length - 1) : 0];
       for (let dy = 0; dy < dot; dy++) for (let dx = 0; dx < dot; dx++) pixels[(py + dy) * width + px + dx] = spray;
     }
   }

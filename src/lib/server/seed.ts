@@ -47,6 +47,9 @@ const DEMO_SHOWS = [
   },
 ];
 
+/** The fictional soda's can colour, so the demo can reads as the product in the player and exports. */
+const CAN_RED = '#D23C32';
+
 /** Blocking scenes of the demo shots (fictional). Tanks match the plates: the tank spans the plate's width. */
 export function demoScene(code: string, fps: number, first: number, last: number): { scene: unknown; tankWidth: number } | null {
   const timing = { fps, startFrame: first, endFrame: last, substeps: 4 };
@@ -69,9 +72,10 @@ export function demoScene(code: string, fps: number, first: number, last: number
         pours: [{ id: 'pool', shape: { type: 'rect', x: 0, y: 0, width: 1.6, height: 0.45 }, velocity: [0, 0] }],
         props: [
           hero
-            ? { id: 'can', shape: can, motion: 'free', density: 400, velocity: [0.15, 0], spin: 40 }
+            ? { id: 'can', colour: CAN_RED, shape: can, motion: 'free', density: 400, velocity: [0.15, 0], spin: 40 }
             : {
                 id: 'can',
+                colour: CAN_RED,
                 shape: can,
                 keys: [
                   { frame: first, dx: 0, dy: 0, angle: 0 },
