@@ -1,10 +1,10 @@
 // The player island's body: a baked version over its plate, scrubbed on a ruler in shot frames and SMPTE timecode,
-// stepped with ←/→, played at the shot's fps with loop and in/out range, in the "surface" or "speed" look, with the
-// bake statistics beside it.
+// stepped with ←/→, played at the shot's fps with loop and in/out range, in the liquid look (each liquid in its
+// colour, walls and props drawn) or the particle-speed look, with the bake statistics beside it.
 import { useCallback, useEffect, useRef, useState } from 'react';
 import { frameWithTimecode, rateInfo, rateText, sourceTimecodeLabel } from '~/lib/timecode';
 import { openPlate, type PlateFrameSource } from '~/lib/plate';
-import { LOOK_LABELS, RENDER_LOOKS, SPEED_RAMP, type LookOptions, type RenderLook } from '~/lib/render/looks';
+import { LOOK_DESCRIPTIONS, LOOK_LABELS, RENDER_LOOKS, SPEED_RAMP, type LookOptions, type RenderLook } from '~/lib/render/looks';
 import { api, messageOf } from '../shared/api';
 import { FormMessage } from '../shared/form';
 import type { PlayerEngine } from './engine';
@@ -297,6 +297,7 @@ export default function Player({ studioId, version, shot, plate, clip, onFrame, 
                   aria-pressed={look === l}
                   className="rounded-md px-2.5 py-1 text-sm font-medium text-ink-soft hover:bg-sand-deep aria-pressed:bg-harbour-50 aria-pressed:text-harbour-700"
                   onClick={() => chooseLook(l)}
+                  title={LOOK_DESCRIPTIONS[l]}
                 >
                   {LOOK_LABELS[l]}
                 </button>
@@ -353,7 +354,10 @@ export default function Player({ studioId, version, shot, plate, clip, onFrame, 
           </div>
 
           <div className="flex flex-wrap items-center justify-between gap-2 text-xs text-ink-muted">
-            {look === 'speed' ? <SpeedLegend scale={speedScale} /> : <span>Surface: liquid where the particle density is above half its rest value.</span>}
+            <span className="flex flex-wrap items-center gap-2" data-testid="look-description">
+              <span>{LOOK_DESCRIPTIONS[look]}</span>
+              {look === 'speed' && <SpeedLegend scale={speedScale} />}
+            </span>
             <span data-testid="player-timing">
               {rateNote ?? (firstFrameMs !== null ? `First frame in ${firstFrameMs} ms` : '')}
             </span>

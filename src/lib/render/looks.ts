@@ -8,7 +8,8 @@ import { createImage, packPremultiplied, rampColour, type PixelImage } from './i
 import type { TankToView } from './view';
 import type { ClipLook, PropPose } from '../clip/format';
 import { DEFAULT_LIQUID } from '../scene/schema';
-import { drawSolids, hexColour, solidOutlines } from './solids';
+import { drawSolids, hexColour, outlineBounds, outlinePairs, solidOutlines } from './solids';
+import { pointInPolygon } from '../scene/shapes';
 
 export const RENDER_LOOKS = ['surface', 'speed'] as const;
 export type RenderLook = (typeof RENDER_LOOKS)[number];
@@ -374,26 +375,15 @@ export class LookRenderer {
     // Every solid, hidden walls included: they still hold liquid back.
     const look = { ...options.scene, wallStyle: 'outline' as const };
     for (const s of solidOutlines(look, frame.props, t)) {
-      const pts = s.points;
-      const n = pts.length / 2;
-      let minX = Infinity, maxX = -Infinity, minY = Infinity, maxY = -Infinity;
-      for (let k = 0; k < n; k++) {
-        minX = Math.min(minX, pts[2 * k]); maxX = Math.max(maxX, pts[2 * k]);
-        minY = Math.min(minY, pts[2 * k + 1]); maxY = Math.max(maxY, pts[2 * k + 1]);
-      }
+      const { minX, minY, maxX, maxY } = outlineBounds(s.points);
+      const pairs = outlinePairs(s.points);
       // Cell (i, j) is centred on view pixel ((i − ½)·cellPx, (j − ½)·cellPx).
       const i0 = Math.max(0, Math.floor(minX / cellPx)), i1 = Math.min(gw - 1, Math.ceil(maxX / cellPx) + 1);
       const j0 = Math.max(0, Math.floor(minY / cellPx)), j1 = Math.min(gh - 1, Math.ceil(maxY / cellPx) + 1);
       for (let j = j0; j <= j1; j++) {
         const cy = (j - 0.5) * cellPx;
         for (let i = i0; i <= i1; i++) {
-          const cx = (i - 0.5) * cellPx;
-          let inside = false;
-          for (let k = 0, m = n - 1; k < n; m = k++) {
-            const yk = pts[2 * k + 1], ym = pts[2 * m + 1];
-            if ((yk > cy) !== (ym > cy) && cx < ((pts[2 * m] - pts[2 * k]) * (cy - yk)) / (ym - yk) + pts[2 * k]) inside = !inside;
-          }
-          if (inside) solid[j * gw + i] = 1;
+          if (pointInPolygon(pairs, (i - 0.5) * cellPx, cy)) solid[j * gw + i] = 1;
         }
       }
     }

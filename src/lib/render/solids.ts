@@ -98,6 +98,23 @@ export function solidOutlines(look: ClipLook, poses: readonly PropPose[] | undef
   return out;
 }
 
+/** Bounds of an outline's points, view px. */
+export function outlineBounds(pts: Float64Array): { minX: number; minY: number; maxX: number; maxY: number } {
+  let minY = Infinity, maxY = -Infinity, minX = Infinity, maxX = -Infinity;
+  for (let k = 0; k < pts.length; k += 2) {
+    minX = Math.min(minX, pts[k]); maxX = Math.max(maxX, pts[k]);
+    minY = Math.min(minY, pts[k + 1]); maxY = Math.max(maxY, pts[k + 1]);
+  }
+  return { minX, minY, maxX, maxY };
+}
+
+/** The outline's points as [x, y] pairs (for the scene's point-in-polygon test). */
+export function outlinePairs(pts: Float64Array): [number, number][] {
+  const out: [number, number][] = [];
+  for (let k = 0; k < pts.length; k += 2) out.push([pts[k], pts[k + 1]]);
+  return out;
+}
+
 /** Blends a colour (0–255, alpha 0–1) over a premultiplied pixel ("over"). */
 function blendOver(pixels: Uint32Array, p: number, r: number, g: number, b: number, a: number) {
   const d = pixels[p];
@@ -117,11 +134,7 @@ export function drawSolids(image: PixelImage, solids: readonly SolidOutline[]): 
     const pts = s.points;
     const n = pts.length / 2;
     if (n < 3) continue;
-    let minY = Infinity, maxY = -Infinity, minX = Infinity, maxX = -Infinity;
-    for (let k = 0; k < n; k++) {
-      minX = Math.min(minX, pts[2 * k]); maxX = Math.max(maxX, pts[2 * k]);
-      minY = Math.min(minY, pts[2 * k + 1]); maxY = Math.max(maxY, pts[2 * k + 1]);
-    }
+    const { minX, minY, maxX, maxY } = outlineBounds(pts);
     if (s.fill) {
       const [r, g, b, a] = s.fill;
       for (let py = Math.max(0, Math.floor(minY)); py <= Math.min(height - 1, Math.ceil(maxY)); py++) {

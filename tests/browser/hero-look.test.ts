@@ -1,0 +1,107 @@
+// Browser: the hero demo shot (the free soda can dropped into the rooftop pool, CNB_020's scene from the demo seed)
+// baked and opened on its version page at a mid-clip frame. The screenshot in test-results/screenshots/ is what a
+// client would judge: the can drawn where the solver put it, the pool water in its own colour over the plate.
+import { describe, it, expect, beforeAll, afterAll } from 'vitest';
+import { PNG } from 'pngjs';
+import { openBrowser, screenshot, signInAs } from '../support/browser';
+import { makeStudio, unique, type TestStudio } from '../support/app';
+import { closeDb, db } from '../../src/lib/server/db';
+import { shots, shows } from '../../src/lib/server/db/schema';
+import { demoScene } from '../../src/lib/server/seed';
+import { rooftopPoolPlate } from '../../src/lib/server/demo-plates';
+
+let studio: TestStudio;
+let versionId: number;
+const FIRST = 1001, LAST = 1084, MID = 1042;
+const PLATE = { width: 960, height: 540 };
+
+beforeAll(async () => {
+  studio = await makeStudio();
+  const artist = studio.members.artist.client;
+  const [show] = await db().insert(shows).values({ studioId: studio.id, code: unique('CNB').slice(0, 30), name: 'Hero look test', frameRate: '25' });
+  const [shot] = await db()
+    .insert(shots)
+    .values({ studioId: studio.id, showId: Number(show.insertId), code: unique('CNB_020').slice(0, 20), firstFrame: FIRST, lastFrame: LAST, frameRate: '25' });
+  const shotId = Number(shot.insertId);
+  const demo = demoScene('CNB_020', 25, FIRST, LAST)!;
+
+  const png = rooftopPoolPlate(PLATE.width, PLATE.height);
+  const start = await artist.post(`/api/studios/${studio.id}/shots/${shotId}/plates`, { fileName: 'rooftop-pool.png', contentType: 'image/png', byteSize: png.length });
+  expect(start.status, JSON.stringify(start.body)).toBe(201);
+  const put = await fetch(start.body.upload.url, { method: 'PUT', body: Buffer.from(png), headers: start.body.upload.headers });
+  expect(put.status).toBe(200);
+  expect((await artist.post(`/api/studios/${studio.id}/plates/${start.body.assetId}/complete`, {})).status).toBe(200);
+  expect((await artist.post(`/api/studios/${studio.id}/shots/${shotId}/scale`, { pixels: PLATE.width, metres: demo.tankWidth })).status).toBe(200);
+
+  const saved = await artist.post(`/api/shots/${shotId}/versions`, { scene: demo.scene, comment: 'Hero drop' });
+  expect(saved.status, JSON.stringify(saved.body)).toBe(201);
+  versionId = saved.body.version.id;
+  const bake = await artist.post(`/api/versions/${versionId}/bake`, {});
+  expect([200, 202]).toContain(bake.status);
+  const until = Date.now() + 420_000;
+  for (;;) {
+    const p = await artist.get(`/api/versions/${versionId}/bake`);
+    if (p.body.bakeState === 'baked') break;
+    if (p.body.bakeState === 'failed') throw new Error(`bake failed: ${JSON.stringify(p.body)}`);
+    if (Date.now() > until) throw new Error(`bake not done: ${JSON.stringify(p.body)}`);
+    await new Promise((r) => setTimeout(r, 1000));
+  }
+}, 480_000);
+afterAll(closeDb);
+
+/** Pixels of a PNG screenshot that pass a colour test. */
+function countPixels(png: Buffer, test: (r: number, g: number, b: number) => boolean): number {
+  const img = PNG.sync.read(png);
+  let n = 0;
+  for (let p = 0; p < img.data.length; p += 4) if (test(img.data[p], img.data[p + 1], img.data[p + 2])) n++;
+  return n;
+}
+
+// The demo can's red (#D23C32, src/lib/server/seed.ts) and its darker rim; nothing on the painted plate is that red.
+const canRed = (r: number, g: number, b: number) => r > 150 && g < 90 && b < 90;
+
+describe('the hero demo shot on its version page', () => {
+  it('shows the can where the solver put it and the pool water in its colour at a mid-clip frame', async () => {
+    const b = await openBrowser();
+    try {
+      const { page } = b;
+      const errors: string[] = [];
+      page.on('pageerror', (e) => errors.push(e.message));
+      await signInAs(page, studio.members.artist.email, studio.members.artist.password);
+      await page.waitForURL((url) => !url.pathname.startsWith('/sign-in'));
+      await page.goto(`/studios/${studio.slug}/versions/${versionId}?frame=${MID}`);
+      await page.locator('[data-testid="player"][data-status="ready"]').waitFor({ timeout: 60_000 });
+      await expect.poll(async () => page.getByTestId('player').getAttribute('data-drawn-frame'), { timeout: 30_000 }).toBe(String(MID));
+
+      // The looks say what they show; the liquid look is the one open.
+      const looks = page.getByRole('group', { name: 'Render look' });
+      expect(await looks.getByRole('button', { pressed: true }).textContent()).toBe('Liquid in its colours');
+      expect(await page.getByTestId('look-description').textContent()).toContain('own colour');
+
+      await page.evaluate(() => window.scrollTo(0, 0));
+      await page.waitForTimeout(300);
+      await screenshot(page, 'hero-look-mid-clip');
+      const view = await page.getByTestId('player-view').screenshot({ path: 'test-results/screenshots/hero-look-mid-clip-view.png' });
+      const box = (await page.getByTestId('player-view').boundingBox())!;
+      // The can: 66 × 122 mm in a 1.6 m tank drawn across the view's width.
+      const pxPerM = box.width / 1.6;
+      const canPx = 0.066 * 0.122 * pxPerM * pxPerM;
+      const red = countPixels(view, canRed);
+      console.log(`hero look: ${red} can-red pixels of ${Math.round(canPx)} expected at ${box.width}×${box.height}`);
+      expect(red).toBeGreaterThan(canPx * 0.6);
+      expect(red).toBeLessThan(canPx * 1.4);
+      // The pool water (#3A8FB7 shaded) covers much of the lower half: blue well over red.
+      const water = countPixels(view, (r, g, bl) => bl > r + 50 && bl > 90);
+      expect(water).toBeGreaterThan(box.width * box.height * 0.15);
+
+      // The particle-speed look still draws the can.
+      await looks.getByRole('button', { name: 'Particle speed' }).click();
+      await page.waitForTimeout(300);
+      const speedView = await page.getByTestId('player-view').screenshot({ path: 'test-results/screenshots/hero-look-mid-clip-speed.png' });
+      expect(countPixels(speedView, canRed)).toBeGreaterThan(canPx * 0.6);
+      expect(errors).toEqual([]);
+    } finally {
+      await b.close();
+    }
+  }, 240_000);
+});
