@@ -1,7 +1,7 @@
 // Player benchmark: the player's drawing engine with 50k particles in headless Chromium on software WebGL
 // (SwiftShader), for each render look at the on-page size and at full 1920×1080. Bundles the real engine and playback
 // (src/components/player/) with esbuild, feeds them synthetic splash frames over a painted plate, and prints per look
-// and size: frame time mean/p95 (CPU + upload + GPU, waited for), the most frames rAF can draw, the fps the player's
+// and size (two liquids, a wall and a turning prop drawn, as a version 2 clip asks): frame time mean/p95 (CPU + upload + GPU, waited for), the most frames rAF can draw, the fps the player's
 // Playback holds at 25 and 30 fps, and the browser's own no-op redraw rate; then a JSON line.
 // Run: npx tsx src/cli/bench-player.ts (BENCH_QUICK=1: 960×540 only; BENCH_PREVIEW=dir: pictures of each look).
 import { build } from 'esbuild';
@@ -35,11 +35,13 @@ function splashFrames(n, frames) {
   const out = [];
   for (let f = 0; f < frames; f++) {
     const t = f / 24;
-    const x = new Float32Array(n), y = new Float32Array(n), speed = new Float32Array(n);
+    const x = new Float32Array(n), y = new Float32Array(n), speed = new Float32Array(n), liquid = new Uint8Array(n);
     let maxSpeed = 0;
     for (let i = 0; i < n; i++) {
       const [a, b, c] = base[i];
+      // Two liquids side by side in the pool (left and right halves); the crown is of the left one.
       if (i < n * 0.8) {
+        liquid[i] = a < 0.5 ? 0 : 1;
         x[i] = a * 3.2; y[i] = b * 0.5 + 0.02 * Math.sin(a * 20 + t * 6);
         speed[i] = 0.2 * c;
       } else {
@@ -50,10 +52,19 @@ function splashFrames(n, frames) {
       }
       if (speed[i] > maxSpeed) maxSpeed = speed[i];
     }
-    out.push({ count: n, x, y, speed, maxSpeed });
+    // A can riding the crown, turning.
+    out.push({ count: n, x, y, speed, maxSpeed, liquid, props: [{ x: 1.2 + 0.3 * t, y: 0.7 + 0.4 * t, angle: 90 * t }] });
   }
   return out;
 }
+
+// What a version 2 clip's header tells the player to draw: two liquids, a harbour wall (outlined), a can.
+const LOOK = {
+  liquids: [{ id: 'water', colour: '#3A8FB7' }, { id: 'paint', colour: '#C8341E' }],
+  walls: [{ id: 'wall', shape: { type: 'rect', x: 2.8, y: 0, width: 0.4, height: 1.2 } }],
+  wallStyle: 'outline',
+  props: [{ id: 'can', shape: { type: 'rect', x: 1.167, y: 0.639, width: 0.066, height: 0.122 }, centroid: [1.2, 0.7], colour: '#D23C32' }],
+};
 
 function platePicture(w, h) {
   const c = document.createElement('canvas'); c.width = w; c.height = h;
@@ -71,7 +82,7 @@ window.preview = async ({ particles, frames, width, height, look, frame }) => {
   const data = splashFrames(particles, frames);
   const plateCanvas = platePicture(1920, 1080);
   const plate = { kind: 'still', width: 1920, height: 1080, frameAt: async () => plateCanvas, destroy() {} };
-  const source = { startFrame: 1001, endFrame: 1000 + frames, tankWidth: 3.2, tankHeight: 1.8, frameAt: async (f) => data[f - 1001] };
+  const source = { startFrame: 1001, endFrame: 1000 + frames, tankWidth: 3.2, tankHeight: 1.8, look: LOOK, frameAt: async (f) => data[f - 1001] };
   const engine = await PlayerEngine.create({ host, frames: source, plate, metresPerPixel: 3.2 / 1920, look, lookOptions: { restDensity: particles * 0.8 / (3.2 * 0.5), speedScale: 6 } });
   await engine.show(frame);
   window.previewEngine = engine;
@@ -103,7 +114,7 @@ window.runBench = async ({ particles, frames, width, height, playFps, playMs }) 
   const data = splashFrames(particles, frames);
   const plateCanvas = platePicture(1920, 1080);
   const plate = { kind: 'still', width: 1920, height: 1080, frameAt: async () => plateCanvas, destroy() {} };
-  const source = { startFrame: 1001, endFrame: 1000 + frames, tankWidth: 3.2, tankHeight: 1.8, frameAt: async (f) => data[f - 1001] };
+  const source = { startFrame: 1001, endFrame: 1000 + frames, tankWidth: 3.2, tankHeight: 1.8, look: LOOK, frameAt: async (f) => data[f - 1001] };
   const engine = await PlayerEngine.create({ host, frames: source, plate, metresPerPixel: 3.2 / 1920, look: 'surface', lookOptions: { restDensity: particles * 0.8 / (3.2 * 0.5), speedScale: 6 } });
   const gl = engine.app.renderer.gl;
   // gl.finish() returns before SwiftShader has drawn (Chromium's GPU process runs it later); reading one pixel back

@@ -21,7 +21,8 @@ import {
   type ParticleFrame,
   type RenderLook,
 } from '~/lib/render/looks';
-import { solidOutlines } from '~/lib/render/solids';
+import { solidOutlines, type SolidOutline } from '~/lib/render/solids';
+import type { ClipLook } from '~/lib/clip/format';
 import type { TankToView } from '~/lib/render/view';
 
 /** The density ratio ρ/ρ₀ that maps to the top of the 16-bit texture (the deep colour is reached near r ≈ 2.9). */
@@ -111,8 +112,10 @@ export class GpuLooks {
   private tintSource: BufferImageSource | null = null;
   private tintBytes = new Uint8Array(0);
   private sprayWhich = new Int32Array(0);
-  /** Walls and props, over the liquid. */
-  private readonly solids = new Graphics();
+  /** Walls and props, over the liquid: built once per look and view, then props only move (no geometry a frame). */
+  private readonly solids = new Container();
+  private solidsFor: { look: ClipLook; key: string } | null = null;
+  private propGraphics: Graphics[] = [];
 
   constructor(
     readonly width: number,
@@ -156,17 +159,44 @@ export class GpuLooks {
   }
 
   /** Walls and props of the clip's look at the frame's poses, as the CPU look draws them (solids.ts). */
-  private drawSolids(frame: ParticleFrame, toView: TankToView, options: LookOptions) {
-    const g = this.solids;
-    g.clear();
-    if (!options.scene) return;
-    for (const s of solidOutlines(options.scene, frame.props, toView)) {
-      const pts = Array.from(s.points);
-      const colour = (c: readonly number[]) => (Math.round(c[0]) << 16) | (Math.round(c[1]) << 8) | Math.round(c[2]);
-      g.poly(pts, true);
+  private drawSolids(frame: ParticleFrame, t: TankToView, options: LookOptions) {
+    const look = options.scene;
+    this.solids.visible = !!look;
+    if (!look) return;
+    const key = `${t.ox},${t.oy},${t.sx},${t.sy}`;
+    if (this.solidsFor?.look !== look || this.solidsFor.key !== key) this.buildSolids(look, t, key);
+    // A prop is built in its drawn pose about its drawn centroid: place that centroid at the pose and turn it
+    // (view y points down, so a counter-clockwise angle is a negative pixi rotation).
+    look.props.forEach((p, k) => {
+      const g = this.propGraphics[k];
+      const pose = frame.props?.[k];
+      g.visible = !!pose;
+      if (!pose) return;
+      g.position.set(t.ox + pose.x * t.sx, t.oy - pose.y * t.sy);
+      g.rotation = (-pose.angle * Math.PI) / 180;
+    });
+  }
+
+  private buildSolids(look: ClipLook, t: TankToView, key: string) {
+    for (const c of this.solids.removeChildren()) c.destroy();
+    const colour = (c: readonly number[]) => (Math.round(c[0]) << 16) | (Math.round(c[1]) << 8) | Math.round(c[2]);
+    const paint = (g: Graphics, s: SolidOutline) => {
+      g.poly(Array.from(s.points), true);
       if (s.fill) g.fill({ color: colour(s.fill), alpha: s.fill[3] });
       g.stroke({ width: s.lineWidth, color: colour(s.line), alpha: s.line[3], alignment: 0.5 });
-    }
+    };
+    const walls = new Graphics();
+    for (const s of solidOutlines({ ...look, props: [] }, [], t)) paint(walls, s);
+    this.solids.addChild(walls);
+    this.propGraphics = look.props.map((p) => {
+      const g = new Graphics();
+      const [cx, cy] = p.centroid;
+      paint(g, solidOutlines({ ...look, walls: [], props: [p] }, [{ x: cx, y: cy, angle: 0 }], t)[0]);
+      g.pivot.set(t.ox + cx * t.sx, t.oy - cy * t.sy);
+      this.solids.addChild(g);
+      return g;
+    });
+    this.solidsFor = { look, key };
   }
 
   /**

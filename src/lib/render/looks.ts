@@ -160,6 +160,8 @@ export class LookRenderer {
   private sprayScratch = new Int32Array(0);
   private sprayWhich = new Int32Array(0);
   private solid = new Uint8Array(0);
+  private shades = new Uint8Array(0);
+  private shadeLutFor = 0;
   private rowScratch = new Float32Array(0);
 
   constructor(width: number, height: number) {
@@ -234,7 +236,7 @@ export class LookRenderer {
     this.gh = Math.ceil(height / cellPx) + 2;
     this.density = new Float32Array(this.gw * this.gh);
     this.scratch = new Float32Array(this.gw * this.gh);
-    this.colourSums = [0, 1, 2].map(() => new Float32Array(this.gw * this.gh));
+    this.colourSums = [0, 1, 2, 3].map(() => new Float32Array(this.gw * this.gh));
     this.tint = new Uint8Array(this.gw * this.gh * 4);
     this.quiet = new Uint8Array(this.gw * this.gh);
     // Pixel centre px + ½ sits at grid coordinate (px + ½)/cellPx − ½ (cell k is centred on pixel (k + ½)·cellPx).
@@ -258,20 +260,10 @@ export class LookRenderer {
     this.ensureGrid(cellPx);
     const { gw, gh, density } = this;
     density.fill(0);
-    // Several liquids in the frame: each particle also splats its liquid's colour, so a cell's colour is the
-    // density-weighted mean of the colours of the particles around it.
     const colours = liquidColours(options);
     const liquid = frame.liquid;
     let mixed = false;
     if (liquid && colours.length > 1) for (let i = 1; i < frame.count; i++) if (liquid[i] !== liquid[0]) { mixed = true; break; }
-    const [sr, sg, sb] = this.colourSums;
-    if (mixed) {
-      sr.fill(0); sg.fill(0); sb.fill(0);
-      if (this.liquidRgb.length < 3 * colours.length) this.liquidRgb = new Float32Array(3 * colours.length);
-      colours.forEach((c, k) => this.liquidRgb.set(c, 3 * k));
-    }
-    const rgb = this.liquidRgb;
-    let cr = 0, cg = 0, cb = 0;
 
     // Splat, in grid units (with the guard cell).
     const { ox, oy, sx, sy } = t;
@@ -285,15 +277,10 @@ export class LookRenderer {
       const fx = gx - i0;
       const fy = gy - j0;
       const k = j0 * gw + i0;
-      const w00 = (1 - fx) * (1 - fy), w10 = fx * (1 - fy), w01 = (1 - fx) * fy, w11 = fx * fy;
-      density[k] += w00;
-      density[k + 1] += w10;
-      density[k + gw] += w01;
-      density[k + gw + 1] += w11;
-      if (!mixed) return;
-      sr[k] += w00 * cr; sr[k + 1] += w10 * cr; sr[k + gw] += w01 * cr; sr[k + gw + 1] += w11 * cr;
-      sg[k] += w00 * cg; sg[k + 1] += w10 * cg; sg[k + gw] += w01 * cg; sg[k + gw + 1] += w11 * cg;
-      sb[k] += w00 * cb; sb[k + 1] += w10 * cb; sb[k + gw] += w01 * cb; sb[k + gw + 1] += w11 * cb;
+      density[k] += (1 - fx) * (1 - fy);
+      density[k + 1] += fx * (1 - fy);
+      density[k + gw] += (1 - fx) * fy;
+      density[k + gw + 1] += fx * fy;
     };
     const { x, y, count } = frame;
     const tank = options.tank;
@@ -302,10 +289,6 @@ export class LookRenderer {
     for (let i = 0; i < count; i++) {
       const px = x[i];
       const py = y[i];
-      if (mixed) {
-        const l = 3 * (liquid![i] < colours.length ? liquid![i] : 0);
-        cr = rgb[l]; cg = rgb[l + 1]; cb = rgb[l + 2];
-      }
       splat(ox + px * sx, oy - py * sy);
       if (!tank) continue;
       if (px < margin) splat(ox - px * sx, oy - py * sy);
@@ -314,7 +297,8 @@ export class LookRenderer {
     }
 
     this.blur(density);
-    if (mixed) for (const a of this.colourSums) this.blur(a);
+    if (mixed) this.colourField(frame, t, colours);
+    const [sr, sg, sb, sw] = this.colourSums;
 
     // Normalise to r = ρ/ρ₀: particles a cell at rest = ρ₀ · (cell side in metres)².
     const cellMetres = cellPx / sx;
@@ -323,10 +307,11 @@ export class LookRenderer {
     const [r0, g0, b0] = mixed ? colours[0] : colours[liquid && liquid.length ? Math.min(liquid[0], colours.length - 1) : 0];
     for (let k = 0; k < density.length; k++) {
       const d = density[k];
-      if (mixed && d > 1e-6) {
-        tint[4 * k] = sr[k] / d + 0.5;
-        tint[4 * k + 1] = sg[k] / d + 0.5;
-        tint[4 * k + 2] = sb[k] / d + 0.5;
+      const w = mixed ? sw[k] : 0;
+      if (w > 1e-6) {
+        tint[4 * k] = sr[k] / w + 0.5;
+        tint[4 * k + 1] = sg[k] / w + 0.5;
+        tint[4 * k + 2] = sb[k] / w + 0.5;
       } else {
         tint[4 * k] = r0 + 0.5;
         tint[4 * k + 1] = g0 + 0.5;
@@ -349,7 +334,7 @@ export class LookRenderer {
       }
     }
     // Smooth along rows (box [1 1 1]/3, twice) so neighbouring columns that found their surface a cell apart shade alike.
-    const perCell = cellMetres / SH.ATTENUATION_DEPTH;
+    const shadeLut = this.shadeLut(cellMetres);
     const row = this.rowScratch.length >= gw ? this.rowScratch : (this.rowScratch = new Float32Array(gw));
     for (let j = 0; j < gh; j++) {
       const base = j * gw;
@@ -359,10 +344,52 @@ export class LookRenderer {
       }
       for (let i = 0; i < gw; i++) {
         const d = depth[base + i];
-        tint[4 * (base + i) + 3] = d <= 0 ? 0 : 255 * (1 - Math.exp(-Math.max(0, d - 0.5) * perCell)) + 0.5;
+        // s = 1 − exp(−(d − ½)·cell/ATTENUATION_DEPTH), looked up in quarter cells.
+        tint[4 * (base + i) + 3] = d <= 0.5 ? 0 : shadeLut[Math.min(shadeLut.length - 1, ((d - 0.5) * 4) | 0)];
       }
     }
     return { cellPx, gw, gh, ratio: density, tint };
+  }
+
+  /**
+   * Several liquids in the frame: the colour of each cell, the mean of the colours of the particles around it. Each
+   * particle adds its liquid's colour and a weight of 1 to its nearest cell, then one blur pass: colour changes
+   * over a cell or two, which is all the eye reads at a boundary between liquids (and a quarter of the bilinear
+   * splat's work). Fills colourSums (r, g, b sums and weights).
+   */
+  private colourField(frame: ParticleFrame, t: TankToView, colours: [number, number, number][]) {
+    const { gw, gh, cellPx } = this;
+    const [sr, sg, sb, sw] = this.colourSums;
+    sr.fill(0); sg.fill(0); sb.fill(0); sw.fill(0);
+    if (this.liquidRgb.length < 3 * colours.length) this.liquidRgb = new Float32Array(3 * colours.length);
+    colours.forEach((c, k) => this.liquidRgb.set(c, 3 * k));
+    const rgb = this.liquidRgb;
+    const { ox, oy, sx, sy } = t;
+    const inv = 1 / cellPx;
+    const { x, y, count } = frame;
+    const liquid = frame.liquid!;
+    const top = colours.length - 1;
+    for (let i = 0; i < count; i++) {
+      // Nearest cell: cell k is centred on pixel (k − 1 + ½)·cellPx.
+      const ci = Math.floor((ox + x[i] * sx) * inv) + 1;
+      const cj = Math.floor((oy - y[i] * sy) * inv) + 1;
+      if (ci < 0 || cj < 0 || ci >= gw || cj >= gh) continue;
+      const k = cj * gw + ci;
+      const l = 3 * (liquid[i] > top ? 0 : liquid[i]);
+      sr[k] += rgb[l]; sg[k] += rgb[l + 1]; sb[k] += rgb[l + 2]; sw[k] += 1;
+    }
+    for (const a of this.colourSums) this.blur(a, 1);
+  }
+
+  /** s·255 for depths of 0, ¼, ½, … cells below the surface up to where s reaches 254.5/255, for this cell size. */
+  private shadeLut(cellMetres: number): Uint8Array {
+    if (this.shadeLutFor === cellMetres) return this.shades;
+    const perQuarter = cellMetres / SH.ATTENUATION_DEPTH / 4;
+    const n = Math.min(65536, Math.ceil(Math.log(510) / perQuarter) + 2);
+    this.shades = new Uint8Array(n);
+    for (let q = 0; q < n; q++) this.shades[q] = 255 * (1 - Math.exp(-q * perQuarter)) + 0.5;
+    this.shadeLutFor = cellMetres;
+    return this.shades;
   }
 
   /** 1 for grid cells whose centre lies inside a wall or a prop at its pose (the scene look's solids), else 0. */
@@ -390,10 +417,10 @@ export class LookRenderer {
     return solid;
   }
 
-  /** Blurs a grid in place: box [1 1 1]/3 along x then y, twice (≈ a Gaussian). */
-  private blur(a: Float32Array) {
+  /** Blurs a grid in place: box [1 1 1]/3 along x then y, `passes` times (twice ≈ a Gaussian). */
+  private blur(a: Float32Array, passes = 2) {
     const { gw, gh, scratch } = this;
-    for (let pass = 0; pass < 2; pass++) {
+    for (let pass = 0; pass < passes; pass++) {
       for (let j = 0; j < gh; j++) {
         const row = j * gw;
         scratch[row] = (a[row] + a[row + 1]) / 3;
