@@ -124,6 +124,20 @@ describe('liquids in their own colour', () => {
     expect(brightest).toBeGreaterThan(luma(shallow) * 1.5);
   });
 
+  it('shades liquid under an air pocket as deep as the liquid beside it (no pale column under a cavity)', () => {
+    // A 0.4 m pool with a cavity 0.04 m wide and 0.2 m deep cut from its surface (where a plunging can would be).
+    const pool = block([{ x0: 0, x1: 0.48, depth: 0.4, liquid: 0 }, { x0: 0.52, x1: 1, depth: 0.4, liquid: 0 }]);
+    const floor = block([{ x0: 0.48, x1: 0.52, depth: 0.2, liquid: 0 }]);
+    const frame: ParticleFrame = {
+      count: pool.count + floor.count, x: [...Array.from(pool.x), ...Array.from(floor.x)], y: [...Array.from(pool.y), ...Array.from(floor.y)],
+      speed: new Array(pool.count + floor.count).fill(0), maxSpeed: 0, liquid: new Array(pool.count + floor.count).fill(0),
+    };
+    const img = new LookRenderer(W, H).render('surface', frame, toView, { scene: look({ liquids: [look().liquids[0]] }), restDensity: rest, tank });
+    const under = pixel(img, px(0.5), py(0.05));
+    const beside = pixel(img, px(0.3), py(0.05));
+    for (let c = 0; c < 4; c++) expect(Math.abs(under[c] - beside[c])).toBeLessThanOrEqual(3);
+  });
+
   it('draws one liquid in its colour without a scene look in the default water colour', () => {
     const one = block([{ x0: 0, x1: 1, depth: 0.3, liquid: 0 }]);
     const red = new LookRenderer(W, H).render('surface', one, toView, { scene: look({ liquids: [{ id: 'paint', colour: RED }] }), restDensity: rest, tank });

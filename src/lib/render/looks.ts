@@ -70,6 +70,8 @@ export const SURFACE_SHADING = { ATTENUATION_DEPTH: 0.2, DARKEN: 0.55, LIFT: 0.1
 const SH = SURFACE_SHADING;
 /** Density ratio below which a cell is clear air (ends a depth run; between AIR and ½ is the blurred surface). */
 const AIR = 0.25;
+/** Cells along a row over which a liquid cell takes its neighbours' depth below the surface (see densityField). */
+const DEPTH_REACH = 12;
 
 /**
  * Estimates the rest density (particles per m²) of a frame: the 80th percentile of particle counts over the
@@ -333,11 +335,22 @@ export class LookRenderer {
         depth[k] = r >= 0.5 ? run : 0;
       }
     }
-    // Smooth along rows (box [1 1 1]/3, twice) so neighbouring columns that found their surface a cell apart shade alike.
+    // Along each row, a liquid cell takes the greatest depth of the liquid cells within DEPTH_REACH cells of it in the
+    // same unbroken stretch of liquid: under an air pocket (the cavity behind a plunging prop) the liquid is as deep
+    // as beside it, not a pale column down to the floor. Then smooth (box [1 1 1]/3, twice) so neighbouring columns
+    // that found their surface a cell apart shade alike.
     const shadeLut = this.shadeLut(cellMetres);
     const row = this.rowScratch.length >= gw ? this.rowScratch : (this.rowScratch = new Float32Array(gw));
     for (let j = 0; j < gh; j++) {
       const base = j * gw;
+      for (let i = 0; i < gw; i++) row[i] = depth[base + i];
+      for (let i = 0; i < gw; i++) {
+        if (row[i] <= 0) continue;
+        let m = row[i];
+        for (let q = i - 1; q >= 0 && q >= i - DEPTH_REACH && row[q] > 0; q--) if (row[q] > m) m = row[q];
+        for (let q = i + 1; q < gw && q <= i + DEPTH_REACH && row[q] > 0; q++) if (row[q] > m) m = row[q];
+        depth[base + i] = m;
+      }
       for (let pass = 0; pass < 2; pass++) {
         for (let i = 0; i < gw; i++) row[i] = depth[base + i];
         for (let i = 1; i < gw - 1; i++) depth[base + i] = (row[i - 1] + row[i] + row[i + 1]) / 3;
