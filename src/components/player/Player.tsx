@@ -66,6 +66,8 @@ export default function Player({ studioId, version, shot, plate, clip, onFrame, 
   const [firstFrameMs, setFirstFrameMs] = useState<number | null>(null);
   const [rateNote, setRateNote] = useState<string | null>(null);
   const [speedScale, setSpeedScale] = useState<number | null>(null);
+  const [hasWalls, setHasWalls] = useState(false);
+  const [wallsHidden, setWallsHidden] = useState(false);
 
   const fps = fpsOf(shot.frameRate, 24);
   const inFrame = inOut?.inFrame ?? range.start;
@@ -109,6 +111,7 @@ export default function Player({ studioId, version, shot, plate, clip, onFrame, 
       });
       if (cancelled) return engine.destroy();
       engineRef.current = engine;
+      setHasWalls(engine.drawsWalls);
       playbackRef.current = new Playback(
         engine,
         (f) => {
@@ -289,7 +292,21 @@ export default function Player({ studioId, version, shot, plate, clip, onFrame, 
                 {frame - range.start + 1} / {total}
               </span>
             </div>
-            <div className="ml-auto flex items-center gap-1" role="group" aria-label="Render look">
+            {hasWalls && (
+              <button
+                type="button"
+                className="btn-quiet ml-auto px-3 py-1.5"
+                aria-pressed={!wallsHidden}
+                title="Hide the walls when the plate already shows them"
+                onClick={() => {
+                  setWallsHidden((h) => !h);
+                  engineRef.current?.setWallsHidden(!wallsHidden);
+                }}
+              >
+                Walls {wallsHidden ? 'hidden' : 'shown'}
+              </button>
+            )}
+            <div className={`${hasWalls ? '' : 'ml-auto '}flex items-center gap-1`} role="group" aria-label="Render look">
               {RENDER_LOOKS.map((l) => (
                 <button
                   key={l}

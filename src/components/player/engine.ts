@@ -62,6 +62,9 @@ export class PlayerEngine {
   look: RenderLook;
   lookOptions: LookOptions;
   lastTiming: DrawTiming | null = null;
+  /** Walls left out of the picture (the plate already shows them), whatever the scene's wall style. */
+  private wallsHidden = false;
+  private withoutWalls: ClipLook | undefined;
 
   private constructor(private o: EngineOptions) {
     this.stageEl = document.createElement('div');
@@ -134,6 +137,18 @@ export class PlayerEngine {
     this.build(width, height);
     const f = this.shown;
     if (f !== null && this.decoded.has(f)) this.drawNow(f);
+  }
+
+  /** True when the clip has walls the scene asks to draw (so hiding them changes the picture). */
+  get drawsWalls(): boolean {
+    const look = this.o.frames.look;
+    return !!look && look.walls.length > 0 && look.wallStyle !== 'hidden';
+  }
+
+  /** Shows or hides the walls and redraws. */
+  setWallsHidden(hidden: boolean) {
+    this.wallsHidden = hidden;
+    if (this.shown !== null && this.decoded.has(this.shown)) this.drawNow(this.shown);
   }
 
   setLook(look: RenderLook, options?: LookOptions) {
@@ -217,7 +232,9 @@ export class PlayerEngine {
   private drawParticles(frame: number, f: ParticleFrame) {
     const t0 = performance.now();
     const { tankWidth, tankHeight } = this.o.frames;
-    this.looks.draw(this.look, f, this.layout.toView, { tank: { width: tankWidth, height: tankHeight }, scene: this.o.frames.look, ...this.lookOptions });
+    const look = this.o.frames.look;
+    const scene = look && this.wallsHidden ? (this.withoutWalls ??= { ...look, wallStyle: 'hidden' }) : look;
+    this.looks.draw(this.look, f, this.layout.toView, { tank: { width: tankWidth, height: tankHeight }, scene, ...this.lookOptions });
     const t1 = performance.now();
     this.app.render();
     const t2 = performance.now();
