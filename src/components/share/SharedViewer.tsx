@@ -2,7 +2,7 @@
 // stored MP4/GIF) and takes the viewer's named comment at the current frame, filed as a client note.
 import { useEffect, useRef, useState } from 'react';
 import { rateInfo, sourceTimecodeLabel, type SourceTimecodeShot } from '~/lib/timecode';
-import type { RenderLook } from '~/lib/render/looks';
+import { LOOK_LABELS, RENDER_LOOKS, type RenderLook } from '~/lib/render/looks';
 import type { FrameRenderer } from '~/lib/export/frames';
 
 interface Props {
@@ -157,8 +157,7 @@ function ClipPlayer({ token, frameRate, tcShot, bakedRange, onFrame }: { token: 
           {frame} · {sourceTimecodeLabel(tcShot, frame)}
         </span>
         <select className="field-input w-auto" aria-label="Look" value={look} onChange={(e) => setLook(e.target.value as RenderLook)}>
-          <option value="surface">Surface</option>
-          <option value="speed">Speed</option>
+          {RENDER_LOOKS.map((l) => <option key={l} value={l}>{LOOK_LABELS[l]}</option>)}
         </select>
       </div>
     </div>
