@@ -7,9 +7,10 @@ import { GROUP_LABEL, CELL_SIZES, toWholeCells, type AnyItem, type ItemRef } fro
 import { setSection, replaceDocument } from '~/lib/editor/commands';
 import { PARAMS, PHYSICS_PRESETS, applyPreset, readPath, sectionWith, type ParamSpec } from '~/lib/editor/params';
 import { planDrop, surfaceHeightAt, impactFrameOf } from '~/lib/editor/timing';
-import { tankCells } from '~/lib/scene/schema';
+import { tankCells, PROP_DENSITY_RANGE } from '~/lib/scene/schema';
 import { shapeCentroid } from '~/lib/scene/shapes';
 import type { ShapeDoc } from '~/lib/scene/schema';
+import { FIRST_FREE_DENSITY, densityHint, motionProblems, withDensity, withLaunch, withMotion, withRelease } from '~/lib/editor/motion';
 import { NumberField, Section } from './fields';
 
 const r6 = (v: number) => Math.round(v * 1e6) / 1e6;
@@ -82,6 +83,7 @@ function ItemInspector({ store, snap, refItem, item }: { store: EditorStore; sna
         )}
       </Section>
       {'startFrame' in item && <SpoutSection store={store} item={item} put={put} />}
+      {'keys' in item && <MotionSection doc={snap.doc} item={item} put={put} />}
       {'keys' in item && <PropSection store={store} snap={snap} item={item} put={put} />}
     </>
   );
@@ -98,6 +100,62 @@ function SpoutSection({ store, item, put }: { store: EditorStore; item: Extract<
       <NumberField label="Direction" unit="° from +x" value={r6(dir)} min={-360} max={360} help="0 points right, 90 up, −90 down. Or drag the round knob in the view." onCommit={(v) => aim(speed, v)} />
       <NumberField label="First frame" unit="frame" integer value={item.startFrame} min={t.startFrame} max={item.endFrame} onCommit={(v) => put({ ...item, startFrame: v })} />
       <NumberField label="Last frame" unit="frame" integer value={item.endFrame} min={item.startFrame} max={t.endFrame} onCommit={(v) => put({ ...item, endFrame: v })} />
+    </Section>
+  );
+}
+
+type PropItem = Extract<AnyItem, { keys: unknown }>;
+
+/** Keyed or free; a free prop's density, start speed and spin, or the frame its keys let it go. */
+function MotionSection({ doc, item, put }: { doc: EditorSnapshot['doc']; item: PropItem; put: (n: AnyItem, l?: string) => void }) {
+  const t = doc.timing;
+  const problems = motionProblems(item, t);
+  const v = item.velocity ?? [0, 0];
+  const spin = item.spin ?? 0;
+  const lastKey = item.keys[item.keys.length - 1]?.frame ?? t.startFrame;
+  const firstRelease = Math.max(t.startFrame, Math.min(t.endFrame, Math.round(lastKey)));
+  return (
+    <Section title="Motion">
+      <fieldset className="flex flex-col gap-1 text-[0.8rem]" data-testid="prop-motion">
+        <legend className="sr-only">How the prop moves</legend>
+        <label className="flex items-start gap-1.5">
+          <input type="radio" name={`motion-${item.id}`} className="mt-0.5" checked={item.motion === 'keyed'} onChange={() => put(withMotion(item, 'keyed'), `${item.id} follows its keys`)} />
+          <span><strong className="font-medium">Keyed</strong> <span className="text-ink-muted">— goes exactly where its keys put it; the liquid does not push it.</span></span>
+        </label>
+        <label className="flex items-start gap-1.5">
+          <input type="radio" name={`motion-${item.id}`} className="mt-0.5" checked={item.motion === 'free'} onChange={() => put(withMotion(item, 'free'), `${item.id} moves freely`)} />
+          <span><strong className="font-medium">Free</strong> <span className="text-ink-muted">— falls, floats or sinks, and is pushed by the liquid.</span></span>
+        </label>
+      </fieldset>
+      {item.motion === 'free' && (
+        <>
+          <NumberField label="Density" unit="kg/m³" value={item.density ?? FIRST_FREE_DENSITY} min={PROP_DENSITY_RANGE.min} max={PROP_DENSITY_RANGE.max} testId="prop-density"
+            help={densityHint(item.density)} onCommit={(d) => put(withDensity(item, d), `Density of ${item.id}`)} />
+          <label className="mt-1 flex items-center gap-1.5 text-[0.8rem]">
+            <input type="checkbox" data-testid="prop-has-release" checked={item.releaseFrame !== undefined}
+              onChange={(e) => put(withRelease(item, e.target.checked ? firstRelease : null), e.target.checked ? `${item.id} keyed until ${firstRelease}` : `${item.id} free from the start`)} />
+            Follow the keys until a release frame
+          </label>
+          {item.releaseFrame !== undefined ? (
+            <NumberField label="Release frame" unit="frame" integer value={item.releaseFrame} min={t.startFrame} max={t.endFrame} testId="prop-release-frame"
+              help="Keyed up to this frame, then free with the speed and spin its keys give it there (a hand throwing it)."
+              onCommit={(f) => put(withRelease(item, f), `${item.id} released on ${f}`)} />
+          ) : (
+            <>
+              <NumberField label="Start speed across" unit="m/s" value={v[0]} min={-100} max={100} testId="prop-vx" compact
+                onCommit={(vx) => put(withLaunch(item, [vx, v[1]], spin), `Start speed of ${item.id}`)} />
+              <NumberField label="Start speed up" unit="m/s" value={v[1]} min={-100} max={100} testId="prop-vy" compact
+                onCommit={(vy) => put(withLaunch(item, [v[0], vy], spin), `Start speed of ${item.id}`)} />
+              <NumberField label="Spin" unit="°/s" value={spin} min={-36000} max={36000} testId="prop-spin"
+                help={`At frame ${t.startFrame}, from where it is drawn (or its first key). Positive spin turns it anticlockwise.`}
+                onCommit={(s2) => put(withLaunch(item, v, s2), `Spin of ${item.id}`)} />
+            </>
+          )}
+        </>
+      )}
+      {problems.length > 0 && (
+        <ul role="alert" className="mt-1 list-disc pl-4 text-[0.75rem] text-coral-700">{problems.map((p) => <li key={p}>{p}</li>)}</ul>
+      )}
     </Section>
   );
 }
@@ -162,9 +220,13 @@ function PropSection({ store, snap, item, put }: { store: EditorStore; snap: Edi
             </tbody>
           </table>
         </div>
-        <p className="mt-1 text-[0.7rem] text-ink-muted">Drag a diamond in the view to move a key. Keys are linear in between and held outside.</p>
+        <p className="mt-1 text-[0.7rem] text-ink-muted">
+          {item.motion === 'free' && item.releaseFrame === undefined
+            ? 'A free prop starts where its first key puts it; after that the solver moves it.'
+            : 'Drag a diamond in the view to move a key. Keys are linear in between and held outside.'}
+        </p>
       </Section>
-      <Section title="Timing helper">
+      {(item.motion === 'keyed' || item.releaseFrame !== undefined) && <Section title="Timing helper">
         <p className="mb-1 text-[0.7rem] leading-snug text-ink-muted">Pick the frame the prop must hit the liquid. Tidemark solves the drop h = v0·t + g·t²/2 (Newton, no drag) and keys every frame.</p>
         <NumberField label="Release frame" unit="frame" integer value={release} min={doc.timing.startFrame} max={doc.timing.endFrame} onCommit={setRelease} testId="timing-release" />
         <NumberField label="Impact frame" unit="frame" integer value={impact} min={doc.timing.startFrame} max={doc.timing.endFrame} onCommit={setImpact} testId="timing-impact" />
@@ -177,7 +239,7 @@ function PropSection({ store, snap, item, put }: { store: EditorStore; snap: Edi
         <button type="button" className="btn-primary mt-2 w-full py-1.5" onClick={apply}>Set keys to hit on frame {impact}</button>
         {message && <p className="mt-1.5 text-[0.75rem] text-ink-soft" role="status">{message}</p>}
         <p className="mt-1 text-[0.7rem] text-ink-muted">Reaches the surface on frame: <strong data-testid="prop-impact-frame">{marked ?? '—'}</strong></p>
-      </Section>
+      </Section>}
     </>
   );
 }
