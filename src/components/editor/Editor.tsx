@@ -15,6 +15,7 @@ import type { Vec } from '~/lib/editor/geometry';
 import { PreviewController } from './preview-controller';
 import { Viewport, type PlateInfo, type ViewControls } from './Viewport';
 import { Inspector, ParamsPanel } from './Panels';
+import { LiquidsPanel } from './LiquidsPanel';
 import { Ruler } from './Ruler';
 import { SavePanel } from './SavePanel';
 import { HelpOverlay } from './HelpOverlay';
@@ -40,7 +41,7 @@ export default function Editor({ boot }: { boot: EditorBoot }) {
   const preview = useMemo(() => new PreviewController((f) => store.setFrame(f), () => store.snapshot.frame), [store]);
   const pv = useSyncExternalStore(preview.subscribe, preview.getSnapshot, preview.getSnapshot);
   const viewRef = useRef<ViewControls | null>(null);
-  const [panel, setPanel] = useState<'inspector' | 'params'>('inspector');
+  const [panel, setPanel] = useState<'inspector' | 'liquids' | 'params'>('inspector');
   const [look, setLook] = useState<RenderLook>('speed');
   const [showPreview, setShowPreview] = useState(true);
   const [help, setHelp] = useState(false);
@@ -261,15 +262,15 @@ export default function Editor({ boot }: { boot: EditorBoot }) {
         {/* Panels */}
         <aside className="flex min-h-0 w-80 shrink-0 flex-col border-l border-sand-line bg-paper" aria-label="Panels">
           <div role="tablist" className="flex border-b border-sand-line text-sm">
-            {(['inspector', 'params'] as const).map((p) => (
+            {(['inspector', 'liquids', 'params'] as const).map((p) => (
               <button key={p} role="tab" type="button" aria-selected={panel === p} onClick={() => setPanel(p)}
                 className="flex-1 px-3 py-2 font-medium text-ink-muted aria-selected:border-b-2 aria-selected:border-harbour-500 aria-selected:text-ink">
-                {p === 'inspector' ? 'Inspector' : 'Parameters'}
+                {({ inspector: 'Inspector', liquids: 'Liquids', params: 'Parameters' } as const)[p]}
               </button>
             ))}
           </div>
           <div className="min-h-0 flex-1 overflow-y-auto">
-            {panel === 'inspector' ? <Inspector store={store} snap={snap} /> : <ParamsPanel store={store} snap={snap} />}
+            {panel === 'inspector' ? <Inspector store={store} snap={snap} /> : panel === 'liquids' ? <LiquidsPanel store={store} snap={snap} /> : <ParamsPanel store={store} snap={snap} />}
           </div>
           <p className="border-t border-sand-line px-3 py-1.5 text-[0.7rem] text-ink-muted" role="status" aria-live="polite" data-testid="editor-status">{snap.status || 'Ready'}</p>
         </aside>

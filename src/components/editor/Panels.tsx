@@ -81,6 +81,19 @@ function ItemInspector({ store, snap, refItem, item }: { store: EditorStore; sna
             <NumberField label="Start speed y" unit="m/s" value={item.velocity[1]} onCommit={(vy) => put({ ...item, velocity: [item.velocity![0], vy] } as AnyItem)} compact />
           </>
         )}
+        {'liquid' in item && (
+          <div className="flex items-center justify-between gap-2 py-1">
+            <label htmlFor="item-liquid" className="text-[0.8rem] font-medium">Liquid</label>
+            <div className="flex items-center gap-1.5">
+              <span aria-hidden="true" className="h-3 w-3 rounded-full border border-ink/20" style={{ background: snap.doc.liquids.find((l) => l.id === item.liquid)?.colour }} />
+              <select id="item-liquid" value={item.liquid} onChange={(e) => put({ ...item, liquid: e.target.value } as AnyItem, `${item.id} uses ${snap.doc.liquids.find((l) => l.id === e.target.value)?.name ?? e.target.value}`)}
+                className="w-40 rounded-md border border-sand-line bg-white px-2 py-1 text-[0.8rem]">
+                {snap.doc.liquids.map((l) => <option key={l.id} value={l.id}>{l.name}</option>)}
+              </select>
+            </div>
+          </div>
+        )}
+        {'liquid' in item && <p className="text-[0.7rem] text-ink-muted">Add or change liquids in the Liquids tab.</p>}
       </Section>
       {'startFrame' in item && <SpoutSection store={store} item={item} put={put} />}
       {'keys' in item && <MotionSection doc={snap.doc} item={item} put={put} />}

@@ -191,8 +191,10 @@ export function Viewport({ store, preview, plate, plateFirstFrame, look, showPre
       // Items.
       items.clear();
       const poly = (pts: Vec[]) => pts.flatMap((p) => toScreen(camera, p[0], p[1]));
+      const liquidColour = new Map(doc.liquids.map((l) => [l.id, parseInt(l.colour.slice(1), 16)]));
       for (const { ref, item } of allItems(doc)) {
-        const colour = COLOURS[ref.group];
+        // standing liquid and spouts in their liquid's colour
+        const colour = ('liquid' in item && liquidColour.get(item.liquid)) || COLOURS[ref.group];
         const fillAlpha = { pours: 0.3, spouts: 0.45, walls: 0.75, props: 0.55, drains: 0.55 }[ref.group] * (pf && (ref.group === 'pours' || ref.group === 'spouts') ? 0.25 : 1);
         if (ref.group === 'props' && 'keys' in item) {
           items.poly(poly(shapeOutline(item.shape))).stroke({ width: 1, color: colour, alpha: 0.35 }); // drawn pose

@@ -65,6 +65,7 @@ export function viscosityText(nu: number): string {
   if (nu === 0) return '0 m²/s (no viscosity)';
   const exp = Math.floor(Math.log10(nu) + 1e-9);
   const mant = +(nu / 10 ** exp).toPrecision(3);
+  if (exp === 0) return `${mant} m²/s`;
   const sup = String(exp).replace(/[-0-9]/g, (c) => '⁻⁰¹²³⁴⁵⁶⁷⁸⁹'['-0123456789'.indexOf(c)]);
   return `${mant === 1 ? '' : `${mant} × `}10${sup} m²/s`;
 }
