@@ -56,6 +56,10 @@ export default function Editor({ boot }: { boot: EditorBoot }) {
   const dirty = snap.revision !== savedRevision;
 
   useEffect(() => () => preview.dispose(), [preview]);
+  // The Pick tool hits free props where the view draws them: at the preview's solved pose while it is shown.
+  useEffect(() => {
+    store.solvedPropsAt = (f) => (showPreview && preview.snapshot.status !== 'off' ? preview.frameAt(f)?.props ?? null : null);
+  }, [store, preview, showPreview]);
   // A read-only handle for browser tests and debugging in the console: the document, preview frames, page positions.
   useEffect(() => {
     (window as unknown as { tidemarkEditor?: unknown }).tidemarkEditor = {

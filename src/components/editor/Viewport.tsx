@@ -7,7 +7,7 @@ import { Application, BufferImageSource, Container, Graphics, Sprite, Text, Text
 import type { EditorStore } from '~/lib/editor/store';
 import type { PreviewController } from './preview-controller';
 import { allItems, findItem, type AnyItem } from '~/lib/editor/document';
-import { handlesOf, propOutlineAt, shapeOutline, shownPropPose, SPOUT_ARM_PER_SPEED, type Vec } from '~/lib/editor/geometry';
+import { handlesOf, propOutlineAt, shapeOutline, SPOUT_ARM_PER_SPEED, type Vec } from '~/lib/editor/geometry';
 import { fitBox, gridSteps, toScreen, toWorld, zoomAt, type Camera } from '~/lib/editor/camera';
 import { shapeBounds, shapeCentroid } from '~/lib/scene/shapes';
 import { LookRenderer, type RenderLook } from '~/lib/render/looks';
@@ -203,7 +203,7 @@ export function Viewport({ store, preview, plate, plateFirstFrame, look, showPre
           if (path.length > 1) { items.moveTo(path[0][0], path[0][1]); for (const p of path.slice(1)) items.lineTo(p[0], p[1]); items.stroke({ width: 1.5, color: colour, alpha: 0.8 }); }
           for (const p of path) items.circle(p[0], p[1], 2.5).fill({ color: colour });
           // A free prop stands where the preview solved it at this frame (keyed props: where their keys put them).
-          items.poly(poly(propOutlineAt(item, snap.frame, shownPropPose(item, pf?.props ?? null)))).fill({ color: colour, alpha: fillAlpha }).stroke({ width: 1.5, color: colour });
+          items.poly(poly(propOutlineAt(item, snap.frame, pf?.props ?? null))).fill({ color: colour, alpha: fillAlpha }).stroke({ width: 1.5, color: colour });
         } else {
           const active = !('startFrame' in item) || (snap.frame >= item.startFrame && snap.frame <= item.endFrame);
           items.poly(poly(shapeOutline(item.shape))).fill({ color: colour, alpha: fillAlpha * (active ? 1 : 0.4) }).stroke({ width: ref.group === 'drains' ? 2 : 1.5, color: ref.group === 'drains' ? 0xe0583d : colour, alpha: active ? 1 : 0.5 });

@@ -3,6 +3,7 @@
 // progress through the context (a draft document, an overlay) and change the scene only by executing commands.
 import type { ShapeDoc } from '../scene/schema';
 import { shapeBounds, shapeCentroid, type Bounds } from '../scene/shapes';
+import type { SolvedPose } from '../scene/pose';
 import { type EditorDoc, type Group, type ItemRef, type AnyItem, findItem, makeItem, sameRef, toWholeCells } from './document';
 import { addItem, setSection, updateItems, type Command } from './commands';
 import {
@@ -53,6 +54,8 @@ export interface ToolContext {
   readonly pixel: number;
   readonly shapeMode: ShapeMode;
   readonly brushRadius: number;
+  /** The live preview's solved prop states at the current frame, as the view draws them (null: none shown). */
+  readonly solvedProps: readonly SolvedPose[] | null;
   /** Snaps a point to the grid or cells when snapping is on. */
   snap(p: Vec): Vec;
   execute(command: Command): void;
@@ -103,7 +106,7 @@ export class SelectTool implements Tool {
         return;
       }
     }
-    const hit = hitTest(ctx.doc, p.x, p.y, ctx.frame, 4 * ctx.pixel);
+    const hit = hitTest(ctx.doc, p.x, p.y, ctx.frame, 4 * ctx.pixel, ctx.solvedProps);
     if (hit && !ctx.selection.some((r) => sameRef(r, hit)) && !p.shift) ctx.select([hit]);
     this.s = { name: 'pointing', start: at, gesture: hit ? 'move' : 'band', handle: null, hit, shift: p.shift };
   }
