@@ -35,17 +35,18 @@ describe('liquids in the editor', () => {
   it("won't remove the last liquid nor one in use, and says who uses it", () => {
     const d0 = scene();
     const water = d0.liquids[0].id;
-    expect(whyNotRemovable(d0, water)).toBe('A scene needs at least one liquid.');
+    expect(whyNotRemovable(d0, water)).toBe(`Standing liquid “${d0.pours[0].id}” and Spout “${d0.spouts[0].id}” use it, and a scene needs at least one liquid.`);
+    expect(whyNotRemovable({ ...d0, pours: [], spouts: [] }, water)).toBe('A scene needs at least one liquid.');
     const paint = liquidFromPreset(d0, liquidPreset('thin-paint')!);
     const d1 = { ...d0, liquids: [...d0.liquids, paint] };
     expect(liquidUsers(d1, water).map((r) => r.id)).toEqual([d0.pours[0].id, d0.spouts[0].id]);
-    expect(whyNotRemovable(d1, water)).toBe(`Standing liquid “${d0.pours[0].id}” and Spout “${d0.spouts[0].id}” use it: pick another liquid there first.`);
+    expect(whyNotRemovable(d1, water)).toBe(`Standing liquid “${d0.pours[0].id}” and Spout “${d0.spouts[0].id}” use it: pick another liquid there before removing it.`);
     expect(whyNotRemovable(d1, paint.id)).toBeNull();
     // removing what the panel allows leaves a valid scene; removing what it refuses would not
     expect(parseScene({ ...d1, liquids: d1.liquids.filter((l) => l.id !== paint.id) }).ok).toBe(true);
     expect(parseScene({ ...d1, liquids: d1.liquids.filter((l) => l.id !== water) }).ok).toBe(false);
     const d2 = { ...d1, spouts: [{ ...d1.spouts[0], liquid: paint.id }] };
-    expect(whyNotRemovable(d2, paint.id)).toBe(`Spout “${d0.spouts[0].id}” uses it: pick another liquid there first.`);
+    expect(whyNotRemovable(d2, paint.id)).toBe(`Spout “${d0.spouts[0].id}” uses it: pick another liquid there before removing it.`);
   });
 
   it('edits liquids as one undoable command', () => {

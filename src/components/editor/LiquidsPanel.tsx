@@ -4,9 +4,9 @@
 import { useEffect, useState } from 'react';
 import type { EditorStore, EditorSnapshot } from '~/lib/editor/store';
 import { setSection } from '~/lib/editor/commands';
-import { GROUP_LABEL, type EditorDoc } from '~/lib/editor/document';
+import type { EditorDoc } from '~/lib/editor/document';
 import { LIQUID_DENSITY } from '~/lib/editor/motion';
-import { liquidFromPreset, liquidProblems, liquidUsers, replaceLiquid, viscosityText, whyNotRemovable } from '~/lib/editor/liquids';
+import { liquidFromPreset, liquidProblems, replaceLiquid, viscosityText, whyNotRemovable } from '~/lib/editor/liquids';
 import { LIQUID_PRESETS } from '~/lib/scene/liquids';
 import { VISCOSITY_RANGE, type Liquid } from '~/lib/scene/schema';
 import { NumberField, Section } from './fields';
@@ -61,7 +61,6 @@ function LiquidCard({ doc, liquid, onChange, onRemove }: { doc: EditorDoc; liqui
     setError(null);
     onChange(next, `Rename liquid ${liquid.name} to ${next.name}`);
   };
-  const users = liquidUsers(doc, liquid.id);
   const blocked = whyNotRemovable(doc, liquid.id);
   const preset = LIQUID_PRESETS.find((p) => p.viscosity === liquid.viscosity);
   return (
@@ -77,7 +76,7 @@ function LiquidCard({ doc, liquid, onChange, onRemove }: { doc: EditorDoc; liqui
         help={`${viscosityText(liquid.viscosity)}${preset ? ` (as ${preset.name.toLowerCase()})` : ''}. Water is 10⁻⁶; thicker liquids flow slower and splash less.`}
         onCommit={(viscosity) => onChange({ ...liquid, viscosity }, `Viscosity of ${liquid.name}`)} />
       <div className="flex items-center justify-between gap-2 py-1">
-        <label htmlFor={`liquid-preset-${liquid.id}`} className="text-[0.75rem] text-ink-soft">Viscosity of</label>
+        <label htmlFor={`liquid-preset-${liquid.id}`} className="text-[0.75rem] text-ink-soft">Viscosity preset</label>
         <select id={`liquid-preset-${liquid.id}`} value={preset?.key ?? ''} className="rounded-md border border-sand-line bg-white px-1.5 py-0.5 text-[0.75rem]"
           onChange={(e) => { const p = LIQUID_PRESETS.find((x) => x.key === e.target.value); if (p) onChange({ ...liquid, viscosity: p.viscosity }, `Viscosity of ${liquid.name}: ${p.name}`); }}>
           {!preset && <option value="">your own value</option>}
@@ -85,13 +84,10 @@ function LiquidCard({ doc, liquid, onChange, onRemove }: { doc: EditorDoc; liqui
         </select>
       </div>
       <div className="mt-1 flex items-start justify-between gap-2 text-[0.7rem]">
-        <span className="text-ink-muted">
-          {users.length === 0 ? 'Not used yet.' : `Used by ${users.map((u) => `${GROUP_LABEL[u.group].toLowerCase()} ${u.id}`).join(', ')}.`}
-        </span>
-        <button type="button" className="shrink-0 text-coral-700 hover:underline disabled:text-ink-muted disabled:no-underline" disabled={blocked !== null}
+        {blocked ? <span className="text-ink-muted" data-testid="liquid-keep-reason">{blocked}</span> : <span className="text-ink-muted">Not used yet.</span>}
+        <button type="button" className="shrink-0 text-coral-700 hover:underline disabled:text-ink-muted/60 disabled:no-underline" disabled={blocked !== null}
           title={blocked ?? `Remove ${liquid.name}`} onClick={onRemove}>Remove</button>
       </div>
-      {blocked && <p className="mt-0.5 text-[0.7rem] text-ink-muted" data-testid="liquid-keep-reason">Can’t remove: {blocked}</p>}
     </li>
   );
 }

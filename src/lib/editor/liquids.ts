@@ -14,17 +14,18 @@ export function liquidUsers(doc: EditorDoc, id: string): ItemRef[] {
 }
 
 /** "Spout “jet” and Standing liquid “pool”" — the items in words. */
-function itemsInWords(refs: readonly ItemRef[]): string {
+export function itemsInWords(refs: readonly ItemRef[]): string {
   const words = refs.map((r) => `${GROUP_LABEL[r.group]} “${r.id}”`);
   return words.length <= 1 ? words.join('') : `${words.slice(0, -1).join(', ')} and ${words[words.length - 1]}`;
 }
 
 /** Why liquid `id` cannot be removed, in words, or null when it can. */
 export function whyNotRemovable(doc: EditorDoc, id: string): string | null {
-  if (doc.liquids.length <= 1) return 'A scene needs at least one liquid.';
   const users = liquidUsers(doc, id);
-  if (users.length === 0) return null;
-  return `${itemsInWords(users)} ${users.length === 1 ? 'uses' : 'use'} it: pick another liquid there first.`;
+  const used = users.length ? `${itemsInWords(users)} ${users.length === 1 ? 'uses' : 'use'} it` : '';
+  if (doc.liquids.length <= 1) return `${used ? `${used}, and a` : 'A'} scene needs at least one liquid.`;
+  if (!used) return null;
+  return `${used}: pick another liquid there before removing it.`;
 }
 
 /** A liquid id not yet used in the scene, from `base` ("thick-paint", "thick-paint-2", …). */
