@@ -150,6 +150,22 @@ describe('free props and liquids in the editor', () => {
       await page.evaluate(() => window.scrollTo(0, 0));
       await page.waitForTimeout(200);
       await screenshot(page, 'editor-liquids-3-preview-free-prop');
+
+      // Unsaved work offered back after a reload: the bar lies over the view and does not move the canvas.
+      await page.getByTestId('editor-view').focus();
+      await page.keyboard.press('Control+d');
+      await expect.poll(async () => (await docOf(page)).props.length).toBe(2);
+      await page.waitForTimeout(700);
+      await page.reload();
+      await page.getByTestId('draft-offer').waitFor({ timeout: 60_000 });
+      await page.evaluate(() => window.scrollTo(0, 0));
+      await screenshot(page, 'editor-liquids-4-restore-bar');
+      await page.evaluate(() => window.scrollTo(0, 0));
+      const withBar = await page.getByTestId('editor-canvas').boundingBox();
+      await page.getByRole('button', { name: 'Discard' }).click();
+      await page.getByTestId('draft-offer').waitFor({ state: 'detached' });
+      expect(await page.getByTestId('editor-canvas').boundingBox()).toEqual(withBar);
+      expect((await docOf(page)).props).toHaveLength(1);
       expect(errors).toEqual([]);
     } finally {
       await b.close();

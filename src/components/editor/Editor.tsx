@@ -58,6 +58,7 @@ export default function Editor({ boot }: { boot: EditorBoot }) {
   useEffect(() => () => preview.dispose(), [preview]);
   // The Pick tool hits free props where the view draws them: at the preview's solved pose while it is shown.
   useEffect(() => {
+    store.confirm = (question) => window.confirm(question);
     store.solvedPropsAt = (f) => (showPreview && preview.snapshot.status !== 'off' ? preview.frameAt(f)?.props ?? null : null);
   }, [store, preview, showPreview]);
   // A read-only handle for browser tests and debugging in the console: the document, preview frames, page positions.
@@ -173,13 +174,6 @@ export default function Editor({ boot }: { boot: EditorBoot }) {
         </div>
       </div>
 
-      {offer && (
-        <div role="status" className="flex flex-wrap items-center gap-3 rounded-lg border border-harbour-100 bg-harbour-50 px-3.5 py-2 text-sm text-harbour-900" data-testid="draft-offer">
-          <span className="flex-1">You have unsaved changes to this shot from {new Date(offer.savedAt).toLocaleString()}.</span>
-          <button type="button" className="btn-primary px-3 py-1" onClick={() => { store.execute(replaceDocument(offer.scene, 'Restore unsaved changes')); setOffer(null); }}>Restore them</button>
-          <button type="button" className="btn-quiet px-3 py-1" onClick={() => { dropDraft(localStorage, shotId); setOffer(null); }}>Discard</button>
-        </div>
-      )}
       {notice && (
         <div role="status" className="flex items-center gap-3 rounded-lg border border-sand-line bg-paper px-3.5 py-2 text-sm text-ink-soft">
           <span className="flex-1">{notice}</span>
@@ -227,10 +221,18 @@ export default function Editor({ boot }: { boot: EditorBoot }) {
                 <option value="grid">to grid</option><option value="cells">to cells</option><option value="off">off</option>
               </select>
             </label>
-            <button type="button" className="btn-quiet px-2 py-0.5 text-xs" onClick={() => viewRef.current?.fit()} title="Fit the tank in the view (H)">Fit</button>
+            <button type="button" className="btn-quiet px-2 py-0.5 text-xs" onClick={() => viewRef.current?.fit()} title="Fit the tank in the view (F)">Fit</button>
           </div>
 
           <div className="relative min-h-0 flex-1">
+            {/* Over the view, not above it: the bar appears after load and must not move the canvas under the pointer. */}
+            {offer && (
+              <div role="status" className="absolute inset-x-2 top-2 z-10 flex flex-wrap items-center gap-3 rounded-lg border border-harbour-100 bg-harbour-50/95 px-3.5 py-2 text-sm text-harbour-900 shadow-md" data-testid="draft-offer">
+                <span className="flex-1">You have unsaved changes to this shot from {new Date(offer.savedAt).toLocaleString()}.</span>
+                <button type="button" className="btn-primary px-3 py-1" onClick={() => { store.execute(replaceDocument(offer.scene, 'Restore unsaved changes')); setOffer(null); }}>Restore them</button>
+                <button type="button" className="btn-quiet px-3 py-1" onClick={() => { dropDraft(localStorage, shotId); setOffer(null); }}>Discard</button>
+              </div>
+            )}
             <Viewport store={store} preview={preview} plate={plate} plateFirstFrame={plateStartFrame(boot.shot)} look={look} showPreview={showPreview} viewRef={viewRef} onCursor={onCursor} />
             <div className="pointer-events-none absolute right-2 bottom-2 rounded bg-ink/70 px-2 py-0.5 text-[0.7rem] text-sand tabular-nums">
               {cursor ? `x ${cursor[0].toFixed(3)} m · y ${cursor[1].toFixed(3)} m` : 'Wheel zooms · Space-drag pans'}

@@ -10,6 +10,7 @@ import { planDrop, surfaceHeightAt, impactFrameOf } from '~/lib/editor/timing';
 import { tankCells, PROP_DENSITY_RANGE } from '~/lib/scene/schema';
 import { shapeCentroid } from '~/lib/scene/shapes';
 import type { ShapeDoc } from '~/lib/scene/schema';
+import { jumpWarning } from '~/lib/editor/key-jump';
 import { FIRST_FREE_DENSITY, densityHint, motionProblems, withDensity, withLaunch, withMotion, withRelease } from '~/lib/editor/motion';
 import { NumberField, Section } from './fields';
 
@@ -191,12 +192,27 @@ function PropSection({ store, snap, item, put }: { store: EditorStore; snap: Edi
     const keys = [...item.keys.filter((k) => k.frame !== f), pose].sort((a, b) => a.frame - b.frame);
     put({ ...item, keys }, `Key ${item.id} at ${f}`);
   };
+  /** Keeps the new keys unless they make the prop jump more than its size in a frame and the artist says no. */
+  const putKeys = (keys: typeof item.keys, label: string) => {
+    const question = jumpWarning(item, { ...item, keys }, doc.timing.fps);
+    if (question && !store.confirm(question)) return false;
+    put({ ...item, keys }, label);
+    return true;
+  };
   const setKey = (i: number, patch: Partial<(typeof item.keys)[number]>) => {
     const keys = item.keys.map((k, j) => (j === i ? { ...k, ...patch } : k));
     if (keys.some((k, j) => j > 0 && !(k.frame > keys[j - 1].frame))) { setMessage('Keys must stay in frame order'); return; }
     setMessage(null);
-    put({ ...item, keys }, `Edit key of ${item.id}`);
+    if (!putKeys(keys, `Edit key of ${item.id}`)) setKeysShown((n) => n + 1);
   };
+  // bumped when a key edit is refused, so the table's inputs show the kept values again
+  const [keysShown, setKeysShown] = useState(0);
+  const keyInput = (k: (typeof item.keys)[number], i: number, field: 'dx' | 'dy' | 'angle', label: string) => (
+    <input aria-label={`${label} at frame ${k.frame}`} defaultValue={field === 'angle' ? k[field] : +k[field].toFixed(4)} className="w-14 rounded border border-sand-line px-1 text-right"
+      onFocus={() => store.setFrame(k.frame)}
+      onKeyDown={(e) => { if (e.key === 'Enter') (e.target as HTMLInputElement).blur(); }}
+      onBlur={(e) => { const v = Number(e.target.value); if (Number.isFinite(v) && v !== k[field]) setKey(i, { [field]: v }); }} />
+  );
   const apply = () => {
     try {
       const r = planDrop(doc, item, { releaseFrame: release, impactFrame: impact, surfaceY: surface, mode });
@@ -217,16 +233,13 @@ function PropSection({ store, snap, item, put }: { store: EditorStore; snap: Edi
             <thead className="text-ink-muted"><tr><th className="text-left font-medium">frame</th><th className="text-right font-medium">dx m</th><th className="text-right font-medium">dy m</th><th className="text-right font-medium">angle °</th><th /></tr></thead>
             <tbody>
               {item.keys.map((k, i) => (
-                <tr key={`${k.frame}-${i}`} className={k.frame === snap.frame ? 'bg-harbour-50' : ''}>
-                  <td><button type="button" className="link text-[0.75rem]" onClick={() => store.setFrame(k.frame)}>{k.frame}</button></td>
-                  <td className="text-right">{k.dx.toFixed(3)}</td>
-                  <td className="text-right">{k.dy.toFixed(3)}</td>
+                <tr key={`${k.frame}-${i}-${k.dx}-${k.dy}-${k.angle}-${keysShown}`} aria-selected={k.frame === snap.frame} className={k.frame === snap.frame ? 'bg-harbour-50' : ''} data-testid="key-row">
+                  <td><button type="button" className="link text-[0.75rem]" title="Pick this key: go to its frame (a drag in the view then takes this key)" onClick={() => store.setFrame(k.frame)}>{k.frame}</button></td>
+                  <td className="text-right">{keyInput(k, i, 'dx', 'Offset across')}</td>
+                  <td className="text-right">{keyInput(k, i, 'dy', 'Offset up')}</td>
+                  <td className="text-right">{keyInput(k, i, 'angle', 'Angle')}</td>
                   <td className="text-right">
-                    <input aria-label={`Angle at frame ${k.frame}`} defaultValue={k.angle} className="w-12 rounded border border-sand-line px-1 text-right"
-                      onBlur={(e) => { const v = Number(e.target.value); if (Number.isFinite(v) && v !== k.angle) setKey(i, { angle: v }); }} />
-                  </td>
-                  <td className="text-right">
-                    {item.keys.length > 1 && <button type="button" aria-label={`Remove key at ${k.frame}`} className="px-1 text-coral-700" onClick={() => put({ ...item, keys: item.keys.filter((_, j) => j !== i) }, `Remove key of ${item.id}`)}>×</button>}
+                    {item.keys.length > 1 && <button type="button" aria-label={`Remove key at ${k.frame}`} className="px-1 text-coral-700" onClick={() => putKeys(item.keys.filter((_, j) => j !== i), `Remove key of ${item.id}`)}>×</button>}
                   </td>
                 </tr>
               ))}
@@ -236,7 +249,7 @@ function PropSection({ store, snap, item, put }: { store: EditorStore; snap: Edi
         <p className="mt-1 text-[0.7rem] text-ink-muted">
           {item.motion === 'free' && item.releaseFrame === undefined
             ? 'A free prop starts where its first key puts it; after that the solver moves it.'
-            : 'Drag a diamond in the view to move a key. Keys are linear in between and held outside.'}
+            : 'Pick a key by its frame, then drag its diamond in the view (the key nearest the current frame wins where diamonds overlap). Keys are linear in between and held outside.'}
         </p>
       </Section>
       {(item.motion === 'keyed' || item.releaseFrame !== undefined) && <Section title="Timing helper">

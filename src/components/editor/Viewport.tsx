@@ -222,7 +222,7 @@ export function Viewport({ store, preview, plate, plateFirstFrame, look, showPre
         const b = shapeBounds(item.shape);
         const [x0, y1] = toScreen(camera, b.minX, b.maxY), [x1, y0] = toScreen(camera, b.maxX, b.minY);
         guides.rect(x0 - 2, y1 - 2, x1 - x0 + 4, y0 - y1 + 4).stroke({ width: 1, color: COLOURS.handle, alpha: 0.9 });
-        if (snap.selection.length === 1) drawHandles(guides, camera, item);
+        if (snap.selection.length === 1) drawHandles(guides, camera, item, snap.frame);
       }
       drawOverlay(guides, camera, snap.overlay);
       for (let i = labelCount; i < labelPool.length; i++) labelPool[i].visible = false;
@@ -364,13 +364,21 @@ function arrow(g: Graphics, cam: Camera, from: Vec, v: readonly number[], colour
     .stroke({ width: 2, color: colour });
 }
 
-function drawHandles(g: Graphics, cam: Camera, item: AnyItem) {
-  for (const h of handlesOf(item, 1 / cam.scale)) {
+/** The selection's handles; the key at the current frame (the one a drag takes where diamonds overlap) is drawn last and larger. */
+function drawHandles(g: Graphics, cam: Camera, item: AnyItem, frame: number) {
+  const hs = handlesOf(item, 1 / cam.scale);
+  const current = hs.find((h) => h.kind === 'key' && h.frame === frame);
+  for (const h of hs) {
+    if (h === current) continue;
     const [x, y] = toScreen(cam, h.x, h.y);
     if (h.kind === 'corner') g.rect(x - 4, y - 4, 8, 8).fill({ color: COLOURS.handle }).stroke({ width: 1.5, color: COLOURS.accent });
     else if (h.kind === 'rotate') g.circle(x, y, 5).fill({ color: COLOURS.accent }).stroke({ width: 1.5, color: COLOURS.handle });
     else if (h.kind === 'key') g.poly([x, y - 6, x + 6, y, x, y + 6, x - 6, y]).fill({ color: 0xfad5cb }).stroke({ width: 1.5, color: 0x9e3521 });
     else g.circle(x, y, 6).fill({ color: 0x7fe3f0 }).stroke({ width: 1.5, color: 0x053534 });
+  }
+  if (current) {
+    const [x, y] = toScreen(cam, current.x, current.y);
+    g.poly([x, y - 8, x + 8, y, x, y + 8, x - 8, y]).fill({ color: 0xe0583d }).stroke({ width: 2, color: 0xffffff });
   }
 }
 

@@ -172,6 +172,8 @@ export interface Handle {
   y: number;
   /** corner: 0 lower-left, 1 lower-right, 2 upper-right, 3 upper-left; key: the key's index. */
   index: number;
+  /** key: the key's frame. */
+  frame?: number;
 }
 
 /** Metres of handle arm per m/s of spout speed (the direction handle sits at centroid + velocity·this). */
@@ -191,19 +193,30 @@ export function handlesOf(item: AnyItem, pixel: number): Handle[] {
     { kind: 'rotate', x: (b.minX + b.maxX) / 2, y: b.maxY + 24 * pixel, index: 0 },
   ];
   const [cx, cy] = shapeCentroid(item.shape);
-  if ('keys' in item) item.keys.forEach((k, i) => hs.push({ kind: 'key', x: cx + k.dx, y: cy + k.dy, index: i }));
+  if ('keys' in item) item.keys.forEach((k, i) => hs.push({ kind: 'key', x: cx + k.dx, y: cy + k.dy, index: i, frame: k.frame }));
   if ('startFrame' in item && 'velocity' in item) {
     hs.push({ kind: 'direction', x: cx + item.velocity[0] * SPOUT_ARM_PER_SPEED, y: cy + item.velocity[1] * SPOUT_ARM_PER_SPEED, index: 0 });
   }
   return hs;
 }
 
-/** The handle within `radius` metres of (x, y), preferring keys and knobs over corners. */
-export function handleAt(handles: readonly Handle[], x: number, y: number, radius: number): Handle | null {
+/**
+ * The handle within `radius` metres of (x, y), preferring keys and knobs over corners. When key diamonds overlap there
+ * (keys on neighbouring frames), the key nearest in time to `frame` wins — the one at the current frame when there is
+ * one — so the keys list's pick (which sets the frame) is the key a drag takes.
+ */
+export function handleAt(handles: readonly Handle[], x: number, y: number, radius: number, frame?: number): Handle | null {
   let best: Handle | null = null, bestD = radius;
   for (const h of handles) {
     const d = Math.hypot(h.x - x, h.y - y) - (h.kind === 'corner' ? 0 : 0.25 * radius);
     if (d <= bestD) { best = h; bestD = d; }
   }
-  return best;
+  if (best?.kind !== 'key' || frame === undefined) return best;
+  let key = best, gap = Math.abs((best.frame ?? 0) - frame);
+  for (const h of handles) {
+    if (h.kind !== 'key' || Math.hypot(h.x - x, h.y - y) > radius) continue;
+    const g = Math.abs((h.frame ?? 0) - frame);
+    if (g < gap) { key = h; gap = g; }
+  }
+  return key;
 }

@@ -47,6 +47,8 @@ export class EditorStore {
    * preview), so the Pick tool hits a free prop where it is shown.
    */
   solvedPropsAt: (frame: number) => readonly SolvedPose[] | null = () => null;
+  /** Asks the artist a yes/no question (the editor sets window.confirm); true: go ahead. */
+  confirm: (question: string) => boolean = () => true;
 
   constructor(doc: EditorDoc) {
     this.history = new History(doc);
@@ -161,6 +163,7 @@ export class EditorStore {
       get solvedProps() { return store.solvedPropsAt(store.state.frame); },
       snap: (p) => store.snapPoint(p),
       execute: (c) => store.execute(c),
+      confirm: (q) => store.confirm(q),
       select: (refs) => store.select(refs),
       setDraft: (d) => { store.draft = d; store.publish(); },
       setOverlay: (o) => store.set({ overlay: o }),
