@@ -15,6 +15,7 @@ import type { Vec } from '~/lib/editor/geometry';
 import { PreviewController } from './preview-controller';
 import { Viewport, type PlateInfo, type ViewControls } from './Viewport';
 import { Inspector, ParamsPanel } from './Panels';
+import { LiquidsPanel } from './LiquidsPanel';
 import { Ruler } from './Ruler';
 import { SavePanel } from './SavePanel';
 import { HelpOverlay } from './HelpOverlay';
@@ -40,7 +41,7 @@ export default function Editor({ boot }: { boot: EditorBoot }) {
   const preview = useMemo(() => new PreviewController((f) => store.setFrame(f), () => store.snapshot.frame), [store]);
   const pv = useSyncExternalStore(preview.subscribe, preview.getSnapshot, preview.getSnapshot);
   const viewRef = useRef<ViewControls | null>(null);
-  const [panel, setPanel] = useState<'inspector' | 'params'>('inspector');
+  const [panel, setPanel] = useState<'inspector' | 'liquids' | 'params'>('inspector');
   const [look, setLook] = useState<RenderLook>('surface');
   const [showPreview, setShowPreview] = useState(true);
   const [help, setHelp] = useState(false);
@@ -55,6 +56,11 @@ export default function Editor({ boot }: { boot: EditorBoot }) {
   const dirty = snap.revision !== savedRevision;
 
   useEffect(() => () => preview.dispose(), [preview]);
+  // The Pick tool hits free props where the view draws them: at the preview's solved pose while it is shown.
+  useEffect(() => {
+    store.confirm = (question) => window.confirm(question);
+    store.solvedPropsAt = (f) => (showPreview && preview.snapshot.status !== 'off' ? preview.frameAt(f)?.props ?? null : null);
+  }, [store, preview, showPreview]);
   // A read-only handle for browser tests and debugging in the console: the document, preview frames, page positions.
   useEffect(() => {
     (window as unknown as { tidemarkEditor?: unknown }).tidemarkEditor = {
@@ -168,13 +174,6 @@ export default function Editor({ boot }: { boot: EditorBoot }) {
         </div>
       </div>
 
-      {offer && (
-        <div role="status" className="flex flex-wrap items-center gap-3 rounded-lg border border-harbour-100 bg-harbour-50 px-3.5 py-2 text-sm text-harbour-900" data-testid="draft-offer">
-          <span className="flex-1">You have unsaved changes to this shot from {new Date(offer.savedAt).toLocaleString()}.</span>
-          <button type="button" className="btn-primary px-3 py-1" onClick={() => { store.execute(replaceDocument(offer.scene, 'Restore unsaved changes')); setOffer(null); }}>Restore them</button>
-          <button type="button" className="btn-quiet px-3 py-1" onClick={() => { dropDraft(localStorage, shotId); setOffer(null); }}>Discard</button>
-        </div>
-      )}
       {notice && (
         <div role="status" className="flex items-center gap-3 rounded-lg border border-sand-line bg-paper px-3.5 py-2 text-sm text-ink-soft">
           <span className="flex-1">{notice}</span>
@@ -222,10 +221,18 @@ export default function Editor({ boot }: { boot: EditorBoot }) {
                 <option value="grid">to grid</option><option value="cells">to cells</option><option value="off">off</option>
               </select>
             </label>
-            <button type="button" className="btn-quiet px-2 py-0.5 text-xs" onClick={() => viewRef.current?.fit()} title="Fit the tank in the view (H)">Fit</button>
+            <button type="button" className="btn-quiet px-2 py-0.5 text-xs" onClick={() => viewRef.current?.fit()} title="Fit the tank in the view (F)">Fit</button>
           </div>
 
           <div className="relative min-h-0 flex-1">
+            {/* Over the view, not above it: the bar appears after load and must not move the canvas under the pointer. */}
+            {offer && (
+              <div role="status" className="absolute inset-x-2 top-2 z-10 flex flex-wrap items-center gap-3 rounded-lg border border-harbour-100 bg-harbour-50/95 px-3.5 py-2 text-sm text-harbour-900 shadow-md" data-testid="draft-offer">
+                <span className="flex-1">You have unsaved changes to this shot from {new Date(offer.savedAt).toLocaleString()}.</span>
+                <button type="button" className="btn-primary px-3 py-1" onClick={() => { store.execute(replaceDocument(offer.scene, 'Restore unsaved changes')); setOffer(null); }}>Restore them</button>
+                <button type="button" className="btn-quiet px-3 py-1" onClick={() => { dropDraft(localStorage, shotId); setOffer(null); }}>Discard</button>
+              </div>
+            )}
             <Viewport store={store} preview={preview} plate={plate} plateFirstFrame={plateStartFrame(boot.shot)} look={look} showPreview={showPreview} viewRef={viewRef} onCursor={onCursor} />
             <div className="pointer-events-none absolute right-2 bottom-2 rounded bg-ink/70 px-2 py-0.5 text-[0.7rem] text-sand tabular-nums">
               {cursor ? `x ${cursor[0].toFixed(3)} m · y ${cursor[1].toFixed(3)} m` : 'Wheel zooms · Space-drag pans'}
@@ -261,15 +268,15 @@ export default function Editor({ boot }: { boot: EditorBoot }) {
         {/* Panels */}
         <aside className="flex min-h-0 w-80 shrink-0 flex-col border-l border-sand-line bg-paper" aria-label="Panels">
           <div role="tablist" className="flex border-b border-sand-line text-sm">
-            {(['inspector', 'params'] as const).map((p) => (
+            {(['inspector', 'liquids', 'params'] as const).map((p) => (
               <button key={p} role="tab" type="button" aria-selected={panel === p} onClick={() => setPanel(p)}
                 className="flex-1 px-3 py-2 font-medium text-ink-muted aria-selected:border-b-2 aria-selected:border-harbour-500 aria-selected:text-ink">
-                {p === 'inspector' ? 'Inspector' : 'Parameters'}
+                {({ inspector: 'Inspector', liquids: 'Liquids', params: 'Parameters' } as const)[p]}
               </button>
             ))}
           </div>
           <div className="min-h-0 flex-1 overflow-y-auto">
-            {panel === 'inspector' ? <Inspector store={store} snap={snap} /> : <ParamsPanel store={store} snap={snap} />}
+            {panel === 'inspector' ? <Inspector store={store} snap={snap} /> : panel === 'liquids' ? <LiquidsPanel store={store} snap={snap} /> : <ParamsPanel store={store} snap={snap} />}
           </div>
           <p className="border-t border-sand-line px-3 py-1.5 text-[0.7rem] text-ink-muted" role="status" aria-live="polite" data-testid="editor-status">{snap.status || 'Ready'}</p>
         </aside>

@@ -7,9 +7,11 @@ import { GROUP_LABEL, CELL_SIZES, toWholeCells, type AnyItem, type ItemRef } fro
 import { setSection, replaceDocument } from '~/lib/editor/commands';
 import { PARAMS, PHYSICS_PRESETS, applyPreset, readPath, sectionWith, type ParamSpec } from '~/lib/editor/params';
 import { planDrop, surfaceHeightAt, impactFrameOf } from '~/lib/editor/timing';
-import { tankCells } from '~/lib/scene/schema';
+import { tankCells, PROP_DENSITY_RANGE } from '~/lib/scene/schema';
 import { shapeCentroid } from '~/lib/scene/shapes';
 import type { ShapeDoc } from '~/lib/scene/schema';
+import { jumpWarning } from '~/lib/editor/key-jump';
+import { FIRST_FREE_DENSITY, densityHint, motionProblems, withDensity, withLaunch, withMotion, withRelease } from '~/lib/editor/motion';
 import { NumberField, Section } from './fields';
 
 const r6 = (v: number) => Math.round(v * 1e6) / 1e6;
@@ -80,8 +82,22 @@ function ItemInspector({ store, snap, refItem, item }: { store: EditorStore; sna
             <NumberField label="Start speed y" unit="m/s" value={item.velocity[1]} onCommit={(vy) => put({ ...item, velocity: [item.velocity![0], vy] } as AnyItem)} compact />
           </>
         )}
+        {'liquid' in item && (
+          <div className="flex items-center justify-between gap-2 py-1">
+            <label htmlFor="item-liquid" className="text-[0.8rem] font-medium">Liquid</label>
+            <div className="flex items-center gap-1.5">
+              <span aria-hidden="true" className="h-3 w-3 rounded-full border border-ink/20" style={{ background: snap.doc.liquids.find((l) => l.id === item.liquid)?.colour }} />
+              <select id="item-liquid" value={item.liquid} onChange={(e) => put({ ...item, liquid: e.target.value } as AnyItem, `${item.id} uses ${snap.doc.liquids.find((l) => l.id === e.target.value)?.name ?? e.target.value}`)}
+                className="w-40 rounded-md border border-sand-line bg-white px-2 py-1 text-[0.8rem]">
+                {snap.doc.liquids.map((l) => <option key={l.id} value={l.id}>{l.name}</option>)}
+              </select>
+            </div>
+          </div>
+        )}
+        {'liquid' in item && <p className="text-[0.7rem] text-ink-muted">Add or change liquids in the Liquids tab.</p>}
       </Section>
       {'startFrame' in item && <SpoutSection store={store} item={item} put={put} />}
+      {'keys' in item && <MotionSection doc={snap.doc} item={item} put={put} />}
       {'keys' in item && <PropSection store={store} snap={snap} item={item} put={put} />}
     </>
   );
@@ -98,6 +114,62 @@ function SpoutSection({ store, item, put }: { store: EditorStore; item: Extract<
       <NumberField label="Direction" unit="° from +x" value={r6(dir)} min={-360} max={360} help="0 points right, 90 up, −90 down. Or drag the round knob in the view." onCommit={(v) => aim(speed, v)} />
       <NumberField label="First frame" unit="frame" integer value={item.startFrame} min={t.startFrame} max={item.endFrame} onCommit={(v) => put({ ...item, startFrame: v })} />
       <NumberField label="Last frame" unit="frame" integer value={item.endFrame} min={item.startFrame} max={t.endFrame} onCommit={(v) => put({ ...item, endFrame: v })} />
+    </Section>
+  );
+}
+
+type PropItem = Extract<AnyItem, { keys: unknown }>;
+
+/** Keyed or free; a free prop's density, start speed and spin, or the frame its keys let it go. */
+function MotionSection({ doc, item, put }: { doc: EditorSnapshot['doc']; item: PropItem; put: (n: AnyItem, l?: string) => void }) {
+  const t = doc.timing;
+  const problems = motionProblems(item, t);
+  const v = item.velocity ?? [0, 0];
+  const spin = item.spin ?? 0;
+  const lastKey = item.keys[item.keys.length - 1]?.frame ?? t.startFrame;
+  const firstRelease = Math.max(t.startFrame, Math.min(t.endFrame, Math.round(lastKey)));
+  return (
+    <Section title="Motion">
+      <fieldset className="flex flex-col gap-1 text-[0.8rem]" data-testid="prop-motion">
+        <legend className="sr-only">How the prop moves</legend>
+        <label className="flex items-start gap-1.5">
+          <input type="radio" name={`motion-${item.id}`} className="mt-0.5" checked={item.motion === 'keyed'} onChange={() => put(withMotion(item, 'keyed'), `${item.id} follows its keys`)} />
+          <span><strong className="font-medium">Keyed</strong> <span className="text-ink-muted">— goes exactly where its keys put it; the liquid does not push it.</span></span>
+        </label>
+        <label className="flex items-start gap-1.5">
+          <input type="radio" name={`motion-${item.id}`} className="mt-0.5" checked={item.motion === 'free'} onChange={() => put(withMotion(item, 'free'), `${item.id} moves freely`)} />
+          <span><strong className="font-medium">Free</strong> <span className="text-ink-muted">— falls, floats or sinks, and is pushed by the liquid.</span></span>
+        </label>
+      </fieldset>
+      {item.motion === 'free' && (
+        <>
+          <NumberField label="Density" unit="kg/m³" value={item.density ?? FIRST_FREE_DENSITY} min={PROP_DENSITY_RANGE.min} max={PROP_DENSITY_RANGE.max} testId="prop-density"
+            help={densityHint(item.density)} onCommit={(d) => put(withDensity(item, d), `Density of ${item.id}`)} />
+          <label className="mt-1 flex items-center gap-1.5 text-[0.8rem]">
+            <input type="checkbox" data-testid="prop-has-release" checked={item.releaseFrame !== undefined}
+              onChange={(e) => put(withRelease(item, e.target.checked ? firstRelease : null), e.target.checked ? `${item.id} keyed until ${firstRelease}` : `${item.id} free from the start`)} />
+            Follow the keys until a release frame
+          </label>
+          {item.releaseFrame !== undefined ? (
+            <NumberField label="Release frame" unit="frame" integer value={item.releaseFrame} min={t.startFrame} max={t.endFrame} testId="prop-release-frame"
+              help="Keyed up to this frame, then free with the speed and spin its keys give it there (a hand throwing it)."
+              onCommit={(f) => put(withRelease(item, f), `${item.id} released on ${f}`)} />
+          ) : (
+            <>
+              <NumberField label="Start speed across" unit="m/s" value={v[0]} min={-100} max={100} testId="prop-vx" compact
+                onCommit={(vx) => put(withLaunch(item, [vx, v[1]], spin), `Start speed of ${item.id}`)} />
+              <NumberField label="Start speed up" unit="m/s" value={v[1]} min={-100} max={100} testId="prop-vy" compact
+                onCommit={(vy) => put(withLaunch(item, [v[0], vy], spin), `Start speed of ${item.id}`)} />
+              <NumberField label="Spin" unit="°/s" value={spin} min={-36000} max={36000} testId="prop-spin"
+                help={`At frame ${t.startFrame}, from where it is drawn (or its first key). Positive spin turns it anticlockwise.`}
+                onCommit={(s2) => put(withLaunch(item, v, s2), `Spin of ${item.id}`)} />
+            </>
+          )}
+        </>
+      )}
+      {problems.length > 0 && (
+        <ul role="alert" className="mt-1 list-disc pl-4 text-[0.75rem] text-coral-700">{problems.map((p) => <li key={p}>{p}</li>)}</ul>
+      )}
     </Section>
   );
 }
@@ -120,12 +192,27 @@ function PropSection({ store, snap, item, put }: { store: EditorStore; snap: Edi
     const keys = [...item.keys.filter((k) => k.frame !== f), pose].sort((a, b) => a.frame - b.frame);
     put({ ...item, keys }, `Key ${item.id} at ${f}`);
   };
+  /** Keeps the new keys unless they make the prop jump more than its size in a frame and the artist says no. */
+  const putKeys = (keys: typeof item.keys, label: string) => {
+    const question = jumpWarning(item, { ...item, keys }, doc.timing.fps);
+    if (question && !store.confirm(question)) return false;
+    put({ ...item, keys }, label);
+    return true;
+  };
   const setKey = (i: number, patch: Partial<(typeof item.keys)[number]>) => {
     const keys = item.keys.map((k, j) => (j === i ? { ...k, ...patch } : k));
     if (keys.some((k, j) => j > 0 && !(k.frame > keys[j - 1].frame))) { setMessage('Keys must stay in frame order'); return; }
     setMessage(null);
-    put({ ...item, keys }, `Edit key of ${item.id}`);
+    if (!putKeys(keys, `Edit key of ${item.id}`)) setKeysShown((n) => n + 1);
   };
+  // bumped when a key edit is refused, so the table's inputs show the kept values again
+  const [keysShown, setKeysShown] = useState(0);
+  const keyInput = (k: (typeof item.keys)[number], i: number, field: 'dx' | 'dy' | 'angle', label: string) => (
+    <input aria-label={`${label} at frame ${k.frame}`} defaultValue={field === 'angle' ? k[field] : +k[field].toFixed(4)} className="w-14 rounded border border-sand-line px-1 text-right"
+      onFocus={() => store.setFrame(k.frame)}
+      onKeyDown={(e) => { if (e.key === 'Enter') (e.target as HTMLInputElement).blur(); }}
+      onBlur={(e) => { const v = Number(e.target.value); if (Number.isFinite(v) && v !== k[field]) setKey(i, { [field]: v }); }} />
+  );
   const apply = () => {
     try {
       const r = planDrop(doc, item, { releaseFrame: release, impactFrame: impact, surfaceY: surface, mode });
@@ -146,25 +233,26 @@ function PropSection({ store, snap, item, put }: { store: EditorStore; snap: Edi
             <thead className="text-ink-muted"><tr><th className="text-left font-medium">frame</th><th className="text-right font-medium">dx m</th><th className="text-right font-medium">dy m</th><th className="text-right font-medium">angle °</th><th /></tr></thead>
             <tbody>
               {item.keys.map((k, i) => (
-                <tr key={`${k.frame}-${i}`} className={k.frame === snap.frame ? 'bg-harbour-50' : ''}>
-                  <td><button type="button" className="link text-[0.75rem]" onClick={() => store.setFrame(k.frame)}>{k.frame}</button></td>
-                  <td className="text-right">{k.dx.toFixed(3)}</td>
-                  <td className="text-right">{k.dy.toFixed(3)}</td>
+                <tr key={`${k.frame}-${i}-${k.dx}-${k.dy}-${k.angle}-${keysShown}`} aria-selected={k.frame === snap.frame} className={k.frame === snap.frame ? 'bg-harbour-50' : ''} data-testid="key-row">
+                  <td><button type="button" className="link text-[0.75rem]" title="Pick this key: go to its frame (a drag in the view then takes this key)" onClick={() => store.setFrame(k.frame)}>{k.frame}</button></td>
+                  <td className="text-right">{keyInput(k, i, 'dx', 'Offset across')}</td>
+                  <td className="text-right">{keyInput(k, i, 'dy', 'Offset up')}</td>
+                  <td className="text-right">{keyInput(k, i, 'angle', 'Angle')}</td>
                   <td className="text-right">
-                    <input aria-label={`Angle at frame ${k.frame}`} defaultValue={k.angle} className="w-12 rounded border border-sand-line px-1 text-right"
-                      onBlur={(e) => { const v = Number(e.target.value); if (Number.isFinite(v) && v !== k.angle) setKey(i, { angle: v }); }} />
-                  </td>
-                  <td className="text-right">
-                    {item.keys.length > 1 && <button type="button" aria-label={`Remove key at ${k.frame}`} className="px-1 text-coral-700" onClick={() => put({ ...item, keys: item.keys.filter((_, j) => j !== i) }, `Remove key of ${item.id}`)}>×</button>}
+                    {item.keys.length > 1 && <button type="button" aria-label={`Remove key at ${k.frame}`} className="px-1 text-coral-700" onClick={() => putKeys(item.keys.filter((_, j) => j !== i), `Remove key of ${item.id}`)}>×</button>}
                   </td>
                 </tr>
               ))}
             </tbody>
           </table>
         </div>
-        <p className="mt-1 text-[0.7rem] text-ink-muted">Drag a diamond in the view to move a key. Keys are linear in between and held outside.</p>
+        <p className="mt-1 text-[0.7rem] text-ink-muted">
+          {item.motion === 'free' && item.releaseFrame === undefined
+            ? 'A free prop starts where its first key puts it; after that the solver moves it.'
+            : 'Pick a key by its frame, then drag its diamond in the view (the key nearest the current frame wins where diamonds overlap). Keys are linear in between and held outside.'}
+        </p>
       </Section>
-      <Section title="Timing helper">
+      {(item.motion === 'keyed' || item.releaseFrame !== undefined) && <Section title="Timing helper">
         <p className="mb-1 text-[0.7rem] leading-snug text-ink-muted">Pick the frame the prop must hit the liquid. Tidemark solves the drop h = v0·t + g·t²/2 (Newton, no drag) and keys every frame.</p>
         <NumberField label="Release frame" unit="frame" integer value={release} min={doc.timing.startFrame} max={doc.timing.endFrame} onCommit={setRelease} testId="timing-release" />
         <NumberField label="Impact frame" unit="frame" integer value={impact} min={doc.timing.startFrame} max={doc.timing.endFrame} onCommit={setImpact} testId="timing-impact" />
@@ -177,7 +265,7 @@ function PropSection({ store, snap, item, put }: { store: EditorStore; snap: Edi
         <button type="button" className="btn-primary mt-2 w-full py-1.5" onClick={apply}>Set keys to hit on frame {impact}</button>
         {message && <p className="mt-1.5 text-[0.75rem] text-ink-soft" role="status">{message}</p>}
         <p className="mt-1 text-[0.7rem] text-ink-muted">Reaches the surface on frame: <strong data-testid="prop-impact-frame">{marked ?? '—'}</strong></p>
-      </Section>
+      </Section>}
     </>
   );
 }

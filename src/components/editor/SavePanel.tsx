@@ -5,7 +5,7 @@ import { parseScene, type SceneError } from '~/lib/scene/schema';
 import type { EditorDoc } from '~/lib/editor/document';
 import { api, ApiError, messageOf } from '~/components/shared/api';
 import { Spinner } from '~/components/shared/form';
-import { fieldLabel } from '~/lib/scene/labels';
+import { errorInWords } from '~/lib/editor/save-errors';
 import { versionLabel } from '~/lib/vocab';
 
 interface Saved { id: number; number: number; sceneHash: string }
@@ -63,7 +63,7 @@ export function SavePanel({ doc, shotId, studioSlug, onSaved, onClose }: { doc: 
             {errors.length > 0 && (
               <div role="alert" className="mt-3 rounded-lg border border-coral-100 bg-coral-50 px-3 py-2 text-sm text-coral-700">
                 <p className="font-medium">The scene needs fixing before it can be saved:</p>
-                <ul className="mt-1 list-disc pl-5">{errors.slice(0, 8).map((e) => <li key={e.path + e.message}><strong className="font-semibold">{fieldLabel(e.path)}</strong>: {e.message}</li>)}</ul>
+                <ul className="mt-1 list-disc pl-5">{errors.slice(0, 8).map((e) => { const w = errorInWords(e); return <li key={e.path + e.message}><strong className="font-semibold">{w.where}</strong>: {w.what}</li>; })}</ul>
               </div>
             )}
             {message && errors.length === 0 && <p role="alert" className="mt-3 text-sm text-coral-700">{message}</p>}
@@ -74,7 +74,7 @@ export function SavePanel({ doc, shotId, studioSlug, onSaved, onClose }: { doc: 
           </>
         ) : (
           <>
-            <p className="mt-1 text-sm text-ink-soft">Scene hash <code className="text-xs">{saved.sceneHash.slice(0, 12)}</code>. Bake it to review the full-resolution splash.</p>
+            <p className="mt-1 text-sm text-ink-soft">Earlier versions stay as they were. Bake this one to review the full-resolution splash.</p>
             {bake && <p role="status" className="mt-3 rounded-lg bg-foam-50 px-3 py-2 text-sm text-foam-600" data-testid="bake-status">{bake}</p>}
             <div className="mt-5 flex flex-wrap justify-end gap-2">
               <a className="btn-quiet" href={`/studios/${studioSlug}/versions/${saved.id}`}>Open {versionLabel(saved.number)}</a>

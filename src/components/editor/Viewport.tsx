@@ -7,7 +7,7 @@ import { Application, BufferImageSource, Container, Graphics, Sprite, Text, Text
 import type { EditorStore } from '~/lib/editor/store';
 import type { PreviewController } from './preview-controller';
 import { allItems, findItem, type AnyItem } from '~/lib/editor/document';
-import { handlesOf, propOutlineAt, shapeOutline, shownPropPose, SPOUT_ARM_PER_SPEED, type Vec } from '~/lib/editor/geometry';
+import { handlesOf, propOutlineAt, shapeOutline, SPOUT_ARM_PER_SPEED, type Vec } from '~/lib/editor/geometry';
 import { fitBox, gridSteps, toScreen, toWorld, zoomAt, type Camera } from '~/lib/editor/camera';
 import { shapeBounds, shapeCentroid } from '~/lib/scene/shapes';
 import { LookRenderer, type RenderLook } from '~/lib/render/looks';
@@ -191,8 +191,10 @@ export function Viewport({ store, preview, plate, plateFirstFrame, look, showPre
       // Items.
       items.clear();
       const poly = (pts: Vec[]) => pts.flatMap((p) => toScreen(camera, p[0], p[1]));
+      const liquidColour = new Map(doc.liquids.map((l) => [l.id, parseInt(l.colour.slice(1), 16)]));
       for (const { ref, item } of allItems(doc)) {
-        const colour = COLOURS[ref.group];
+        // standing liquid and spouts in their liquid's colour
+        const colour = ('liquid' in item && liquidColour.get(item.liquid)) || COLOURS[ref.group];
         const fillAlpha = { pours: 0.3, spouts: 0.45, walls: 0.75, props: 0.55, drains: 0.55 }[ref.group] * (pf && (ref.group === 'pours' || ref.group === 'spouts') ? 0.25 : 1);
         if (ref.group === 'props' && 'keys' in item) {
           items.poly(poly(shapeOutline(item.shape))).stroke({ width: 1, color: colour, alpha: 0.35 }); // drawn pose
@@ -201,7 +203,7 @@ export function Viewport({ store, preview, plate, plateFirstFrame, look, showPre
           if (path.length > 1) { items.moveTo(path[0][0], path[0][1]); for (const p of path.slice(1)) items.lineTo(p[0], p[1]); items.stroke({ width: 1.5, color: colour, alpha: 0.8 }); }
           for (const p of path) items.circle(p[0], p[1], 2.5).fill({ color: colour });
           // A free prop stands where the preview solved it at this frame (keyed props: where their keys put them).
-          items.poly(poly(propOutlineAt(item, snap.frame, shownPropPose(item, pf?.props ?? null)))).fill({ color: colour, alpha: fillAlpha }).stroke({ width: 1.5, color: colour });
+          items.poly(poly(propOutlineAt(item, snap.frame, pf?.props ?? null))).fill({ color: colour, alpha: fillAlpha }).stroke({ width: 1.5, color: colour });
         } else {
           const active = !('startFrame' in item) || (snap.frame >= item.startFrame && snap.frame <= item.endFrame);
           items.poly(poly(shapeOutline(item.shape))).fill({ color: colour, alpha: fillAlpha * (active ? 1 : 0.4) }).stroke({ width: ref.group === 'drains' ? 2 : 1.5, color: ref.group === 'drains' ? 0xe0583d : colour, alpha: active ? 1 : 0.5 });
@@ -220,7 +222,7 @@ export function Viewport({ store, preview, plate, plateFirstFrame, look, showPre
         const b = shapeBounds(item.shape);
         const [x0, y1] = toScreen(camera, b.minX, b.maxY), [x1, y0] = toScreen(camera, b.maxX, b.minY);
         guides.rect(x0 - 2, y1 - 2, x1 - x0 + 4, y0 - y1 + 4).stroke({ width: 1, color: COLOURS.handle, alpha: 0.9 });
-        if (snap.selection.length === 1) drawHandles(guides, camera, item);
+        if (snap.selection.length === 1) drawHandles(guides, camera, item, snap.frame);
       }
       drawOverlay(guides, camera, snap.overlay);
       for (let i = labelCount; i < labelPool.length; i++) labelPool[i].visible = false;
@@ -362,13 +364,21 @@ function arrow(g: Graphics, cam: Camera, from: Vec, v: readonly number[], colour
     .stroke({ width: 2, color: colour });
 }
 
-function drawHandles(g: Graphics, cam: Camera, item: AnyItem) {
-  for (const h of handlesOf(item, 1 / cam.scale)) {
+/** The selection's handles; the key at the current frame (the one a drag takes where diamonds overlap) is drawn last and larger. */
+function drawHandles(g: Graphics, cam: Camera, item: AnyItem, frame: number) {
+  const hs = handlesOf(item, 1 / cam.scale);
+  const current = hs.find((h) => h.kind === 'key' && h.frame === frame);
+  for (const h of hs) {
+    if (h === current) continue;
     const [x, y] = toScreen(cam, h.x, h.y);
     if (h.kind === 'corner') g.rect(x - 4, y - 4, 8, 8).fill({ color: COLOURS.handle }).stroke({ width: 1.5, color: COLOURS.accent });
     else if (h.kind === 'rotate') g.circle(x, y, 5).fill({ color: COLOURS.accent }).stroke({ width: 1.5, color: COLOURS.handle });
     else if (h.kind === 'key') g.poly([x, y - 6, x + 6, y, x, y + 6, x - 6, y]).fill({ color: 0xfad5cb }).stroke({ width: 1.5, color: 0x9e3521 });
     else g.circle(x, y, 6).fill({ color: 0x7fe3f0 }).stroke({ width: 1.5, color: 0x053534 });
+  }
+  if (current) {
+    const [x, y] = toScreen(cam, current.x, current.y);
+    g.poly([x, y - 8, x + 8, y, x, y + 8, x - 8, y]).fill({ color: 0xe0583d }).stroke({ width: 2, color: 0xffffff });
   }
 }
 

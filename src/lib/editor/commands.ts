@@ -12,7 +12,7 @@ export interface Command {
   revert(doc: EditorDoc): EditorDoc;
 }
 
-type Section = 'tank' | 'timing' | 'physics';
+type Section = 'tank' | 'timing' | 'physics' | 'liquids';
 
 function withGroup<G extends Group>(doc: EditorDoc, group: G, items: EditorDoc[G]): EditorDoc {
   return { ...doc, [group]: items };
@@ -97,7 +97,7 @@ export function updateItems(changes: readonly { ref: ItemRef; next: AnyItem }[],
   return batch(label, changes.map((c) => updateItem(c.ref, c.next)));
 }
 
-/** Sets the tank, timing or physics section. */
+/** Sets the tank, timing or physics section, or the list of liquids. */
 export function setSection<S extends Section>(section: S, value: EditorDoc[S], label = `Change ${section}`): Command {
   const stored = clone(value);
   let before: EditorDoc[S] | null = null;

@@ -32,9 +32,9 @@ export function allItems(doc: EditorDoc): { ref: ItemRef; item: AnyItem }[] {
   return out;
 }
 
-/** A fresh id for a new item of the group: "pour-1", "pour-2", … (unique across the whole scene). */
+/** A fresh id for a new item of the group: "standing-liquid-1", "spout-2", … (unique across the whole scene). */
 export function nextId(doc: EditorDoc, group: Group): string {
-  const base = GROUP_LABEL[group].toLowerCase();
+  const base = GROUP_LABEL[group].toLowerCase().replace(/\s+/g, '-');
   const taken = new Set(allItems(doc).map((e) => e.ref.id));
   for (let n = 1; ; n++) if (!taken.has(`${base}-${n}`)) return `${base}-${n}`;
 }

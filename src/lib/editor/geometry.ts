@@ -2,9 +2,8 @@
 // hit tests and handles for the select tool; snapping to the grid or the cells. Pure functions.
 import type { ShapeDoc } from '../scene/schema';
 import { shapeBounds, shapeCentroid, pointInShape, shapeSignedDistance, type Bounds } from '../scene/shapes';
-import { placementOf, toDrawn, toWorld, type Pose } from '../scene/keys';
-import { propPlacementAt, type PropLike } from '../scene/pose';
-import type { PropState } from '../sim/rigid';
+import { toDrawn, toWorld } from '../scene/keys';
+import { shownPlacementAt, type PropLike, type SolvedPose } from '../scene/pose';
 import { type EditorDoc, type ItemRef, type AnyItem, allItems } from './document';
 
 export type Vec = [number, number];
@@ -118,56 +117,40 @@ export function shapeOutline(shape: ShapeDoc, segments = 64): Vec[] {
 }
 
 /**
- * The pose a solved prop state stands for: the solver reports the centroid in tank metres and the angle in
- * degrees; the pose is the offset of that centroid from the drawn shape's centroid, and the same angle.
+ * A prop's outline at `frame` (world metres) as the view shows it: a free prop at its solved pose when `solved` (the
+ * live preview's prop states at that frame) has it, otherwise where its keys put it (shownPlacementAt).
  */
-export function poseOfState(shape: PropLike['shape'], state: Pick<PropState, 'x' | 'y' | 'angle'>): Pose {
-  const [cx, cy] = shapeCentroid(shape);
-  return { dx: state.x - cx, dy: state.y - cy, angle: state.angle };
-}
-
-/**
- * Where the view shows a prop: a free prop at the solver's pose when the live preview has solved this frame
- * (`solved`: the frame's prop states, by id); otherwise, and for every keyed prop, where its keys put it.
- */
-export function shownPropPose(item: PropLike & { id: string }, solved: readonly PropState[] | null): Pose | null {
-  if (item.motion !== 'free' || !solved) return null;
-  const s = solved.find((p) => p.id === item.id);
-  return s ? poseOfState(item.shape, s) : null;
-}
-
-/**
- * A prop's outline at `frame` (world metres): where its keys put it, or at `pose` when given (a free prop's
- * solved pose, see shownPropPose).
- */
-export function propOutlineAt(item: PropLike, frame: number, pose?: Pose | null): Vec[] {
-  const place = pose ? placementOf(item.shape, pose) : propPlacementAt(item, frame);
+export function propOutlineAt(item: PropLike & { id: string }, frame: number, solved: readonly SolvedPose[] | null = null): Vec[] {
+  const place = shownPlacementAt(item, frame, solved);
   const out: Vec[] = [];
   const tmp = [0, 0];
   for (const p of shapeOutline(item.shape)) { toWorld(place, p[0], p[1], tmp); out.push([tmp[0], tmp[1]]); }
   return out;
 }
 
-/** The drawn-pose point of world point (x, y) for an item at `frame` (props move; everything else stays). */
-function toItemFrame(item: AnyItem, x: number, y: number, frame: number): Vec {
+/** The drawn-pose point of world point (x, y) for an item as shown at `frame` (props move; everything else stays). */
+function toItemFrame(item: AnyItem, x: number, y: number, frame: number, solved: readonly SolvedPose[] | null): Vec {
   if (!('keys' in item)) return [x, y];
-  const place = propPlacementAt(item, frame);
+  const place = shownPlacementAt(item, frame, solved);
   const out = [0, 0];
   toDrawn(place, x, y, out);
   return [out[0], out[1]];
 }
 
-/** True when world point (x, y) is on the item at `frame`, within `tolerance` metres of its edge. */
-export function hitsItem(item: AnyItem, x: number, y: number, frame: number, tolerance: number): boolean {
-  const [px, py] = toItemFrame(item, x, y, frame);
+/**
+ * True when world point (x, y) is on the item as shown at `frame`, within `tolerance` metres of its edge. A free prop
+ * is where the live preview solved it (`solved`: the preview's prop states at that frame, or null).
+ */
+export function hitsItem(item: AnyItem, x: number, y: number, frame: number, tolerance: number, solved: readonly SolvedPose[] | null = null): boolean {
+  const [px, py] = toItemFrame(item, x, y, frame, solved);
   if (pointInShape(item.shape, px, py)) return true;
   return shapeSignedDistance(item.shape, px, py, [0, 0]) <= tolerance;
 }
 
-/** The topmost item under world point (x, y) at `frame` (drains and props are drawn last, so they come first). */
-export function hitTest(doc: EditorDoc, x: number, y: number, frame: number, tolerance: number): ItemRef | null {
+/** The topmost item under world point (x, y) as shown at `frame` (drains and props are drawn last, so they come first). */
+export function hitTest(doc: EditorDoc, x: number, y: number, frame: number, tolerance: number, solved: readonly SolvedPose[] | null = null): ItemRef | null {
   const items = allItems(doc);
-  for (let i = items.length - 1; i >= 0; i--) if (hitsItem(items[i].item, x, y, frame, tolerance)) return items[i].ref;
+  for (let i = items.length - 1; i >= 0; i--) if (hitsItem(items[i].item, x, y, frame, tolerance, solved)) return items[i].ref;
   return null;
 }
 
@@ -189,6 +172,8 @@ export interface Handle {
   y: number;
   /** corner: 0 lower-left, 1 lower-right, 2 upper-right, 3 upper-left; key: the key's index. */
   index: number;
+  /** key: the key's frame. */
+  frame?: number;
 }
 
 /** Metres of handle arm per m/s of spout speed (the direction handle sits at centroid + velocity·this). */
@@ -208,19 +193,30 @@ export function handlesOf(item: AnyItem, pixel: number): Handle[] {
     { kind: 'rotate', x: (b.minX + b.maxX) / 2, y: b.maxY + 24 * pixel, index: 0 },
   ];
   const [cx, cy] = shapeCentroid(item.shape);
-  if ('keys' in item) item.keys.forEach((k, i) => hs.push({ kind: 'key', x: cx + k.dx, y: cy + k.dy, index: i }));
+  if ('keys' in item) item.keys.forEach((k, i) => hs.push({ kind: 'key', x: cx + k.dx, y: cy + k.dy, index: i, frame: k.frame }));
   if ('startFrame' in item && 'velocity' in item) {
     hs.push({ kind: 'direction', x: cx + item.velocity[0] * SPOUT_ARM_PER_SPEED, y: cy + item.velocity[1] * SPOUT_ARM_PER_SPEED, index: 0 });
   }
   return hs;
 }
 
-/** The handle within `radius` metres of (x, y), preferring keys and knobs over corners. */
-export function handleAt(handles: readonly Handle[], x: number, y: number, radius: number): Handle | null {
+/**
+ * The handle within `radius` metres of (x, y), preferring keys and knobs over corners. When key diamonds overlap there
+ * (keys on neighbouring frames), the key nearest in time to `frame` wins — the one at the current frame when there is
+ * one — so the keys list's pick (which sets the frame) is the key a drag takes.
+ */
+export function handleAt(handles: readonly Handle[], x: number, y: number, radius: number, frame?: number): Handle | null {
   let best: Handle | null = null, bestD = radius;
   for (const h of handles) {
     const d = Math.hypot(h.x - x, h.y - y) - (h.kind === 'corner' ? 0 : 0.25 * radius);
     if (d <= bestD) { best = h; bestD = d; }
   }
-  return best;
+  if (best?.kind !== 'key' || frame === undefined) return best;
+  let key = best, gap = Math.abs((best.frame ?? 0) - frame);
+  for (const h of handles) {
+    if (h.kind !== 'key' || Math.hypot(h.x - x, h.y - y) > radius) continue;
+    const g = Math.abs((h.frame ?? 0) - frame);
+    if (g < gap) { key = h; gap = g; }
+  }
+  return key;
 }

@@ -6,6 +6,7 @@ import { batch, removeItems, addItem, updateItem, type Command } from './command
 import { type EditorDoc, type ItemRef, type AnyItem, type Group, findItem, nextId, clone, sameRef } from './document';
 import { createTool, SHAPE_MODES, type Overlay, type ShapeMode, type Tool, type ToolContext, type ToolId, type ToolPointer } from './tools';
 import { snapValue, translateShape, type Vec } from './geometry';
+import type { SolvedPose } from '../scene/pose';
 
 export type SnapMode = 'off' | 'grid' | 'cells';
 
@@ -41,6 +42,13 @@ export class EditorStore {
   pixel = 0.002;
   /** The metres grid's minor step, set by the view at each zoom (snapping to the grid uses it). */
   gridStep = 0.1;
+  /**
+   * The live preview's solved prop states at a frame when the view draws them (set by the editor, which owns the
+   * preview), so the Pick tool hits a free prop where it is shown.
+   */
+  solvedPropsAt: (frame: number) => readonly SolvedPose[] | null = () => null;
+  /** Asks the artist a yes/no question (the editor sets window.confirm); true: go ahead. */
+  confirm: (question: string) => boolean = () => true;
 
   constructor(doc: EditorDoc) {
     this.history = new History(doc);
@@ -152,8 +160,10 @@ export class EditorStore {
       get pixel() { return store.pixel; },
       get shapeMode() { return store.state.shapeModes[store.state.tool] ?? 'rect'; },
       get brushRadius() { return store.state.brushRadius; },
+      get solvedProps() { return store.solvedPropsAt(store.state.frame); },
       snap: (p) => store.snapPoint(p),
       execute: (c) => store.execute(c),
+      confirm: (q) => store.confirm(q),
       select: (refs) => store.select(refs),
       setDraft: (d) => { store.draft = d; store.publish(); },
       setOverlay: (o) => store.set({ overlay: o }),

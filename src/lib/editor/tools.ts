@@ -3,6 +3,7 @@
 // progress through the context (a draft document, an overlay) and change the scene only by executing commands.
 import type { ShapeDoc } from '../scene/schema';
 import { shapeBounds, shapeCentroid, type Bounds } from '../scene/shapes';
+import type { SolvedPose } from '../scene/pose';
 import { type EditorDoc, type Group, type ItemRef, type AnyItem, findItem, makeItem, sameRef, toWholeCells } from './document';
 import { addItem, setSection, updateItems, type Command } from './commands';
 import {
@@ -10,6 +11,7 @@ import {
   hitTest, itemsInBox, handlesOf, handleAt, SPOUT_ARM_PER_SPEED, tidy,
 } from './geometry';
 import { traceMatte, type Mask } from './matte';
+import { jumpWarning } from './key-jump';
 
 export type ToolId = 'select' | 'pour' | 'spout' | 'wall' | 'prop' | 'drain' | 'tank';
 export type ShapeMode = 'rect' | 'ellipse' | 'circle' | 'polygon' | 'brush';
@@ -53,9 +55,13 @@ export interface ToolContext {
   readonly pixel: number;
   readonly shapeMode: ShapeMode;
   readonly brushRadius: number;
+  /** The live preview's solved prop states at the current frame, as the view draws them (null: none shown). */
+  readonly solvedProps: readonly SolvedPose[] | null;
   /** Snaps a point to the grid or cells when snapping is on. */
   snap(p: Vec): Vec;
   execute(command: Command): void;
+  /** Asks the artist a yes/no question (a key change that makes a prop jump); true: go ahead. */
+  confirm(question: string): boolean;
   select(refs: ItemRef[]): void;
   /** Shows a changed document while dragging (null: show the document itself). */
   setDraft(doc: EditorDoc | null): void;
@@ -96,14 +102,14 @@ export class SelectTool implements Tool {
     const at = pt(p);
     if (ctx.selection.length === 1) {
       const item = findItem(ctx.doc, ctx.selection[0]);
-      const h = item ? handleAt(handlesOf(item, ctx.pixel), p.x, p.y, 7 * ctx.pixel) : null;
+      const h = item ? handleAt(handlesOf(item, ctx.pixel), p.x, p.y, 7 * ctx.pixel, ctx.frame) : null;
       if (h) {
         const gesture: SelectGesture = h.kind === 'corner' ? 'resize' : h.kind;
         this.s = { name: 'pointing', start: at, gesture, handle: h, hit: ctx.selection[0], shift: p.shift };
         return;
       }
     }
-    const hit = hitTest(ctx.doc, p.x, p.y, ctx.frame, 4 * ctx.pixel);
+    const hit = hitTest(ctx.doc, p.x, p.y, ctx.frame, 4 * ctx.pixel, ctx.solvedProps);
     if (hit && !ctx.selection.some((r) => sameRef(r, hit)) && !p.shift) ctx.select([hit]);
     this.s = { name: 'pointing', start: at, gesture: hit ? 'move' : 'band', handle: null, hit, shift: p.shift };
   }
@@ -151,7 +157,13 @@ export class SelectTool implements Tool {
     }
     ctx.setDraft(null);
     const changes = this.changesFor(ctx, s, pt(p), p);
-    if (changes.length) ctx.execute(updateItems(changes, gestureLabel(s.gesture, changes)));
+    if (!changes.length) return;
+    if (s.gesture === 'key') {
+      const before = findItem(ctx.doc, changes[0].ref), after = changes[0].next;
+      const question = before && 'keys' in before && 'keys' in after ? jumpWarning(before, after, ctx.doc.timing.fps) : null;
+      if (question && !ctx.confirm(question)) return;
+    }
+    ctx.execute(updateItems(changes, gestureLabel(s.gesture, changes)));
   }
 
   cancel(ctx: ToolContext) {
