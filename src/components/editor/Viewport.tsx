@@ -182,8 +182,10 @@ export function Viewport({ store, preview, plate, plateFirstFrame, look, showPre
           particleSource = new BufferImageSource({ resource: renderer.image.data, width: w, height: h, format: 'rgba8unorm', alphaMode: 'premultiplied-alpha' });
           particles.texture = new Texture({ source: particleSource });
         }
-        renderer.render(live.current.look, { count: pf.count, x: pf.x, y: pf.y, speed: pf.speed, maxSpeed: Math.max(pf.stats.maxSpeed, 0.5) },
-          { ox: camera.ox, oy: camera.oy, sx: camera.scale, sy: camera.scale }, { restDensity: preview.snapshot.restDensity || undefined });
+        // Each liquid in its colour (the view draws walls and props itself, in its own way, below).
+        const liquidsLook = { liquids: doc.liquids.map((l) => ({ id: l.id, colour: l.colour })), walls: [], wallStyle: 'hidden' as const, props: [] };
+        renderer.render(live.current.look, { count: pf.count, x: pf.x, y: pf.y, speed: pf.speed, liquid: pf.liquid, maxSpeed: Math.max(pf.stats.maxSpeed, 0.5) },
+          { ox: camera.ox, oy: camera.oy, sx: camera.scale, sy: camera.scale }, { restDensity: preview.snapshot.restDensity || undefined, scene: liquidsLook });
         particleSource!.update();
         particles.visible = true;
       } else particles.visible = false;

@@ -5,7 +5,7 @@ import { previewScene, type PreviewMessage, type PreviewRequest } from '~/lib/ed
 import type { FrameStats, PropState } from '~/lib/sim/solver';
 
 /** One streamed frame: particles, stats, and every prop's solved pose (free props are drawn there). */
-export interface PreviewFrame { frame: number; count: number; x: Float32Array; y: Float32Array; speed: Float32Array; stats: FrameStats; props: PropState[] }
+export interface PreviewFrame { frame: number; count: number; x: Float32Array; y: Float32Array; speed: Float32Array; liquid: Uint8Array; stats: FrameStats; props: PropState[] }
 
 export interface PreviewSnapshot {
   status: 'off' | 'starting' | 'running' | 'paused' | 'done' | 'error';
@@ -108,7 +108,7 @@ export class PreviewController {
     if (m.type === 'started') { this.set({ status: this.snapshot.playing ? 'running' : 'paused', cells: m.cells }); return; }
     if (m.type === 'error') { this.set({ status: 'error', playing: false, message: m.message }); return; }
     if (m.type === 'done') { this.set({ status: 'done' }); return; }
-    this.frames.set(m.frame, { frame: m.frame, count: m.count, x: m.x, y: m.y, speed: m.speed, stats: m.stats, props: m.props });
+    this.frames.set(m.frame, { frame: m.frame, count: m.count, x: m.x, y: m.y, speed: m.speed, liquid: m.liquid, stats: m.stats, props: m.props });
     const now = performance.now();
     this.arrivals.push(now);
     while (this.arrivals.length > 2 && now - this.arrivals[0] > 1500) this.arrivals.shift();

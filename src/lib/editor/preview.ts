@@ -30,6 +30,8 @@ export type PreviewMessage =
       type: 'frame'; run: number; frame: number; count: number;
       /** Positions (m) and speeds (m/s), length `count`. */
       x: Float32Array; y: Float32Array; speed: Float32Array;
+      /** Liquid of each particle (index into the scene's liquids), length `count`. */
+      liquid: Uint8Array;
       stats: FrameStats;
       /** Every prop's pose and velocity at this frame (centroid in tank m, angle in degrees), keyed or free. */
       props: PropState[];

@@ -19,10 +19,11 @@ function post(m: PreviewMessage, transfer: Transferable[] = []) { scope.postMess
 function sendFrame(s: Solver, stats: ReturnType<Solver['stats']>) {
   const n = s.count;
   const x = new Float32Array(n), y = new Float32Array(n), speed = new Float32Array(n);
+  const liquid = s.liquid.slice(0, n);
   x.set(s.x); y.set(s.y);
   const u = s.u, v = s.v;
   for (let i = 0; i < n; i++) speed[i] = Math.hypot(u[i], v[i]);
-  post({ type: 'frame', run, frame: s.frame, count: n, x, y, speed, stats, props: stats.props }, [x.buffer, y.buffer, speed.buffer]);
+  post({ type: 'frame', run, frame: s.frame, count: n, x, y, speed, liquid, stats, props: stats.props }, [x.buffer, y.buffer, speed.buffer, liquid.buffer]);
 }
 
 /** Steps one frame, sends it, and schedules the next (a macrotask between frames lets pause/start messages in). */
