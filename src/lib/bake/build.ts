@@ -1,4 +1,6 @@
 // Identifies the solver build that baked a clip. Bump it when a solver change alters baked frames,
 // so stored clips are not reused for scenes that would now bake differently.
 // 2: the drift correction's time scale no longer shrinks with CFL substeps (stages.ts, DRIFT_TIME).
-export const SOLVER_BUILD = 'tidemark-flip/2';
+// 3: trapezoidal position update and the drift correction as a displacement outside the velocities
+//    (stages.ts, correctPositions); the projection solves the divergence alone.
+export const SOLVER_BUILD = 'tidemark-flip/3';

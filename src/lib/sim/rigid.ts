@@ -11,7 +11,7 @@
 // it is stabilised here by adding the mass of the displaced liquid (the wetted share of ρ_water·area) to the
 // prop's inertia. The added mass changes how fast a prop gets somewhere, never where it comes to rest:
 // at rest the pressure force balances gravity whatever the inertia.
-// Known limit (measured, tests/sim/free-props.test.ts): the force uses the drift-free pressure and is bounded
+// Known limit (measured, tests/sim/free-props.test.ts): the force uses the projection's pressure and is bounded
 // (see measureForces); props of 500–750 kg/m³ float about 0.04 m high of their Archimedes draft on a 1/64 m grid,
 // and props of 250 kg/m³ are not yet stable. Sinking, free fall and contacts are right.
 // Units per unit depth (the solver is 2D): mass kg/m, force N/m, moment of inertia kg·m.
@@ -20,7 +20,7 @@
 import type { Scene, Prop } from '../scene/schema';
 import { shapeArea, shapeSignedDistance } from '../scene/shapes';
 import { type FlipState, type PropRuntime, WATER_DENSITY } from './stages';
-import { FLUID, AIR, solveDriftPart } from './pressure';
+import { FLUID, AIR } from './pressure';
 
 /** Friction coefficient of prop contacts (common practice (no source): wood or plastic on wet surfaces). */
 const FRICTION = 0.4;
@@ -269,14 +269,8 @@ export function createRigidBodies(S: FlipState, scene: Scene): RigidBodies {
     }
   }
 
-  const qPhys = new Float64Array(S.nc);
   function measureForces(): void {
-    const { nx, ny, h, type, solid } = S;
-    // the pressure of the divergence alone: the drift correction's share (a numerical density fix, large and
-    // alternating beside a moving solid) is removed, as Solver.pressureField({ withoutDrift }) does
-    solveDriftPart(S, qPhys, 200, 1e-3);
-    for (let k2 = 0; k2 < S.fluidCount; k2++) { const c = S.fluid[k2]; qPhys[c] = S.q[c] - qPhys[c]; }
-    const q = qPhys;
+    const { nx, ny, h, type, solid, q } = S;
     const k = S.lastDt > 0 ? (WATER_DENSITY * h) / S.lastDt : 0; // p = q·ρ·h/dt (Pa)
     const pAt = (c: number, far: number): number => {
       // pressure at the face between solid cell and fluid cell c: linear from c and the cell beyond it

@@ -27,6 +27,8 @@ export interface SurfaceGrid extends ProjectionGrid {
   restDensity: number;
   /** Signed distance to the free surface at cell centres, m (negative in liquid, |φ| ≤ h). */
   phi: Float64Array;
+  /** The drift correction's divergence target per cell (m/s; stages.ts, driftTarget). */
+  driftTarget: Float64Array;
 }
 
 /** Signed distance in cells from a density ratio r = ρ/ρ₀ (inverse of the tent CDF, negated). */
@@ -54,7 +56,7 @@ export function ghostTheta(phiLiquid: number, phiAir: number): number {
  * cells are driven). Before ρ₀ is known every face weight is the first-order one.
  */
 export function freeSurface(S: SurfaceGrid): void {
-  const { nx, ny, dens, type, phi, open, target } = S;
+  const { nx, ny, dens, type, phi, open, driftTarget: target } = S;
   const wu = S.faceU, wv = S.faceV;
   const nc = nx * ny;
   const rest = S.restDensity;
