@@ -51,6 +51,17 @@ export interface ProjectionGrid {
 }
 
 
+/**
+ * An extra symmetric positive semi-definite term C of the projection's matrix, solved as (A + C)·q = −D:
+ * rigid bodies coupled to the liquid (rigid.ts). CG needs only products with it.
+ */
+export interface Coupling {
+  /** out[c] += sign·(C·x)[c] on the cells C touches; returns xᵀ·C·x. */
+  apply(x: Float64Array, out: Float64Array, sign: number): number;
+  /** After the solve, with its q: moves what is coupled (the bodies' velocities and their faces). */
+  finish(q: Float64Array): void;
+}
+
 /** Builds the fluid list, the diagonal (sum of the face weights) and b; returns ‖b‖₂. */
 export function assembleSystem(g: ProjectionGrid): number {
   const { nx, ny, type, faceU: wu, faceV: wv, gu: u, gv: v, fluid, diag, res } = g;
@@ -158,18 +169,20 @@ function applyMic0(g: ProjectionGrid): void {
  * the previous step's q (rescaled by the caller), stops when ‖r‖₂ ≤ tolerance·‖b‖₂ or after maxIterations.
  * Then applies the pressure gradient to the open faces around fluid cells. Returns the relative residual.
  */
-export function projectPcgMic0(g: ProjectionGrid, maxIterations: number, tolerance: number): number {
+export function projectPcgMic0(g: ProjectionGrid, maxIterations: number, tolerance: number, coupling?: Coupling): number {
   const bNorm = assembleSystem(g);
   const { fluid, fluidCount, q } = g;
   g.lastIterations = 0;
   if (bNorm === 0) {
     for (let k = 0; k < fluidCount; k++) q[fluid[k]] = 0;
+    coupling?.finish(q);
     return 0;
   }
   // q outside fluid must be 0 (air Dirichlet); clear stale values from cells that were fluid before.
   clearOutsideFluid(g, q);
-  const it = pcgSolve(g, q, bNorm, maxIterations, tolerance);
+  const it = pcgSolve(g, q, bNorm, maxIterations, tolerance, coupling);
   applyPressureGradient(g);
+  coupling?.finish(q);
   g.lastIterations = it;
   return divergenceResidual(g) / bNorm;
 }
@@ -202,20 +215,20 @@ function clearOutsideFluid(g: ProjectionGrid, x: Float64Array): void {
 }
 
 /**
- * PCG on A·x = b over the fluid cells: on entry res holds b and x the starting guess (0 outside fluid);
+ * PCG on (A + C)·x = b over the fluid cells (C: the optional coupling): on entry res holds b and x the starting guess (0 outside fluid);
  * on exit x is the solution and res = b − A·x. Returns the iterations used.
  */
-function pcgSolve(g: ProjectionGrid, x: Float64Array, bNorm: number, maxIterations: number, tolerance: number): number {
+function pcgSolve(g: ProjectionGrid, x: Float64Array, bNorm: number, maxIterations: number, tolerance: number, coupling?: Coupling): number {
   const { nx, fluid, fluidCount, res, zv, dir, adir, diag } = g;
-  // r = b − A x0
+  // r = b − (A + C) x0
   let rr = 0;
   for (let k = 0; k < fluidCount; k++) {
     const c = fluid[k];
     const ax = diag[c] * x[c] - x[c - 1] - x[c + 1] - x[c - nx] - x[c + nx];
-    const r = res[c] - ax;
-    res[c] = r;
-    rr += r * r;
+    res[c] -= ax;
   }
+  coupling?.apply(x, res, -1);
+  for (let k = 0; k < fluidCount; k++) rr += res[fluid[k]] ** 2;
   const stop = tolerance * bNorm;
   let it = 0;
   if (Math.sqrt(rr) > stop) {
@@ -232,6 +245,7 @@ function pcgSolve(g: ProjectionGrid, x: Float64Array, bNorm: number, maxIteratio
         adir[c] = a;
         dAd += dir[c] * a;
       }
+      if (coupling) dAd += coupling.apply(dir, adir, 1);
       if (!(dAd > 0)) break;
       const alpha = sigma / dAd;
       // x += α·dir;  r −= α·adir

@@ -134,6 +134,8 @@ export function createSolver(scene: Scene, options: SolverOptions = {}): Solver 
     // warm start for CG: q scales with dt (q = p·dt/(ρh))
     if (S.lastDt > 0 && S.lastDt !== dt) { const k = dt / S.lastDt; for (let c = 0; c < S.nc; c++) S.q[c] *= k; }
     S.lastDt = dt;
+    // free props are coupled into the matrix (rigid.ts), which only the CG solver takes
+    if (hasFree) { rigid.prepareCoupling(); return projectPcgMic0(S, physics.pressureIterations, physics.pressureTolerance, rigid.coupling); }
     return solverName === 'gauss-seidel'
       ? projectGaussSeidel(S, physics.pressureIterations, physics.overRelaxation, physics.pressureTolerance)
       : projectPcgMic0(S, physics.pressureIterations, physics.pressureTolerance);
@@ -156,7 +158,7 @@ export function createSolver(scene: Scene, options: SolverOptions = {}): Solver 
     { name: 'density and drift', run: (dt) => densityAndDrift(S, dt) },
     { name: 'free surface', run: () => freeSurface(S) },
     { name: 'pressure', run: (dt) => { lastResidual = project(dt); } },
-    ...(hasFree ? [{ name: 'prop forces', run: () => rigid.measureForces() }] : []),
+    ...(hasFree ? [{ name: 'prop contacts', run: () => rigid.settle() }] : []),
     { name: 'grid to particles', run: () => gridToParticles(S) },
     { name: 'position correction', run: (dt) => correctPositions(S, dt, physics.pressureIterations, physics.pressureTolerance) },
   ];

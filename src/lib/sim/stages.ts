@@ -86,6 +86,15 @@ export class FlipState implements ProjectionGrid {
   readonly phi: Float64Array; readonly faceU: Float64Array; readonly faceV: Float64Array;
   readonly type: Uint8Array;
   readonly solid: Uint8Array; readonly staticSolid: Uint8Array;
+  /**
+   * Open share of each cell (1 − the part its walls and props cover, from the outline's distance at the cell
+   * centre: clamp(½ + φ/h, 0, 1)) and, folded like the density (foldSolidDensity), the share of ρ₀ a cell's
+   * density reads when the liquid around it is at rest: the free surface and the drift correction compare
+   * with ρ₀ × restShare (see depositDensity). 1 away from solids.
+   */
+  readonly staticOpen: Float64Array; readonly openShare: Float64Array; readonly restShare: Float64Array;
+  /** True when some cell's restShare differs from 1 (a wall or prop). */
+  hasShares = false;
   readonly solidU: Float64Array; readonly solidV: Float64Array;
   readonly nearSolid: Uint8Array; readonly staticNearSolid: Uint8Array;
   readonly drainCell: Uint8Array;
@@ -131,6 +140,7 @@ export class FlipState implements ProjectionGrid {
     this.dens = f64(); this.open = f64(); this.solidU = f64(); this.solidV = f64();
     this.driftTarget = f64(); this.driftPotential = f64();
     this.phi = f64(); this.faceU = f64(); this.faceV = f64();
+    this.staticOpen = f64(); this.openShare = f64(); this.restShare = f64();
     this.q = f64(); this.res = f64(); this.zv = f64(); this.dir = f64(); this.adir = f64(); this.precon = f64(); this.diag = f64();
     this.type = new Uint8Array(nc); this.solid = new Uint8Array(nc); this.staticSolid = new Uint8Array(nc);
     this.nearSolid = new Uint8Array(nc); this.staticNearSolid = new Uint8Array(nc); this.drainCell = new Uint8Array(nc);
@@ -192,8 +202,13 @@ export class FlipState implements ProjectionGrid {
         if (j === 0 && sides.bottom) s = 1;
         if (j === ny - 1 && sides.top) s = 1;
         const cx = (i - 0.5) * h, cy = (j - 0.5) * h;
-        for (const w of this.walls) if (pointInShape(w, cx, cy)) s = 1;
+        let open = s === 1 ? 0 : 1;
+        for (const w of this.walls) {
+          if (pointInShape(w, cx, cy)) s = 1;
+          open = Math.min(open, openShareAt(shapeSignedDistance(w, cx, cy, this.normal), h));
+        }
         staticSolid[c] = s;
+        this.staticOpen[c] = open;
       }
     }
     const margin = this.radius + 1.5 * h;
@@ -205,6 +220,9 @@ export class FlipState implements ProjectionGrid {
     for (const d of this.drains) mark(drainCell, d);
     this.solid.set(staticSolid);
     this.nearSolid.set(staticNearSolid);
+    this.openShare.set(this.staticOpen);
+    this.hasShares = this.walls.length > 0 || this.props.length > 0;
+    updateRestShare(this);
   }
 
   /** Sets arr[c] = 1 for every cell overlapping the box (tank metres). */
@@ -437,6 +455,7 @@ export function placeSolids(S: FlipState, f0: number, f1: number, dt: number): v
   const { nx, h, solid, solidU, solidV, nearSolid } = S;
   solid.set(S.staticSolid);
   nearSolid.set(S.staticNearSolid);
+  S.openShare.set(S.staticOpen);
   solidU.fill(0); solidV.fill(0);
   const margin = S.radius + 1.5 * h;
   for (const p of S.props) {
@@ -448,14 +467,18 @@ export function placeSolids(S: FlipState, f0: number, f1: number, dt: number): v
     for (let j = j0; j <= j1; j++) {
       for (let i = i0; i <= i1; i++) {
         const cxm = (i - 0.5) * h, cym = (j - 0.5) * h;
-        if (S.propDistance(p, cxm, cym) >= 0) continue;
         const c = i + nx * j;
+        const phi = S.propDistance(p, cxm, cym);
+        const open = openShareAt(phi, h);
+        if (open < S.openShare[c]) S.openShare[c] = open;
+        if (phi >= 0) continue;
         solid[c] = 1;
         solidU[c] = p.vx - p.omega * (cym - wy);
         solidV[c] = p.vy + p.omega * (cxm - wx);
       }
     }
   }
+  updateRestShare(S);
 }
 
 /**
@@ -650,7 +673,7 @@ export function depositDensity(S: FlipState): void {
     dens[n0 + nx + 1] += tx * ty;
     dens[n0 + nx] += (1 - tx) * ty;
   }
-  foldSolidDensity(S);
+  foldSolidDensity(S, dens);
 }
 
 /**
@@ -663,8 +686,8 @@ export function depositDensity(S: FlipState): void {
  * a corner, and the solid cell keeps none. Exact for the tank sides; cell-rasterised walls and props get the
  * same rule along their staircase outline.
  */
-function foldSolidDensity(S: FlipState): void {
-  const { nx, ny, dens, solid } = S;
+function foldSolidDensity(S: FlipState, dens: Float64Array): void {
+  const { nx, ny, solid } = S;
   for (let j = 0; j < ny; j++) {
     for (let i = 0, c = nx * j; i < nx; i++, c++) {
       const m = dens[c];
@@ -693,6 +716,24 @@ function foldSolidDensity(S: FlipState): void {
       dens[c] = 0;
     }
   }
+}
+
+/** Open share of a cell whose centre lies at signed distance φ (m) from a solid's outline (see FlipState.openShare). */
+function openShareAt(phi: number, h: number): number {
+  const f = 0.5 + phi / h;
+  return f < 0 ? 0 : f > 1 ? 1 : f;
+}
+
+/**
+ * restShare = openShare folded onto the non-solid cells as foldSolidDensity folds the density: liquid at rest
+ * beside an outline that crosses a cell off its faces reads (½ + φ/h)·ρ₀ there (between ½ and 1½ ρ₀),
+ * not ρ₀, and the free surface and drift correction must not read that as air or as compression.
+ */
+export function updateRestShare(S: FlipState): void {
+  if (!S.hasShares) { S.restShare.fill(1); return; }
+  S.restShare.set(S.openShare);
+  foldSolidDensity(S, S.restShare);
+  for (let c = 0; c < S.nc; c++) if (S.solid[c] === 0 && S.restShare[c] < 0.25) S.restShare[c] = 0.25;
 }
 
 /** Cell types from the current particles: solid, fluid (a particle inside) or air; what particlesToGrid marks. */
@@ -746,7 +787,7 @@ export function estimateRestDensity(S: FlipState): number {
 export const DRIFT_TIME = 1 / 240;
 
 export function driftTarget(S: FlipState, dt: number): void {
-  const { nx, ny, dens, type, driftTarget: target } = S;
+  const { nx, ny, dens, type, driftTarget: target, restShare } = S;
   const rest = S.restDensity;
   const k = rest > 0 ? (S.drift * S.h) / (Math.max(dt, DRIFT_TIME) * rest) : 0;
   target.fill(0);
@@ -754,7 +795,7 @@ export function driftTarget(S: FlipState, dt: number): void {
   for (let j = 1; j < ny - 1; j++) {
     for (let i = 1, c = 1 + nx * j; i < nx - 1; i++, c++) {
       if (type[c] !== FLUID) continue;
-      const excess = dens[c] - rest;
+      const excess = dens[c] - rest * restShare[c];
       // interior cells (no air neighbour) are driven both ways; cells at the free surface only when over-dense
       const interior = type[c - 1] !== AIR && type[c + 1] !== AIR && type[c - nx] !== AIR && type[c + nx] !== AIR;
       target[c] = excess > 0 || interior ? k * excess : 0;
