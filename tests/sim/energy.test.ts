@@ -4,11 +4,11 @@
 // Expected: no gain beyond 1 % (acceptance bound of the solver issue; conservation itself is Newtonian
 // mechanics, no source needed) and a loss that we report.
 //
-// Measured from the end of the first frame, not from the seeded state: in the first substep the seeding's
-// jitter packs particles closer than the contact distance, separation and the drift correction push them
-// apart, and FLIP keeps that push as momentum — a kick of +1.3 % of E at 2 substeps per frame (+3.5 % after
-// one 1/480 s substep, which decays). That start-up kick is a known gap (the drift flow should move
-// positions without entering the particles' momentum) and is printed here, not hidden.
+// Measured from the seeded state (frame 0). What it loses: the dam break gives up about 60 % of its energy
+// over 4 s (printed) to the PIC share of the transfer, inelastic collisions with the tank and the separation
+// of particles. The start-up gain of earlier builds (+1.3 % in the first frame) came mostly from the position
+// update lagging the velocities by half a step (+1.1 % with separation and drift correction off), and the
+// rest from the drift flow kept as momentum; both are gone (src/lib/sim/stages.ts, correctPositions).
 import { describe, it, expect } from 'vitest';
 import { createSolver } from '../../src/lib/sim/solver';
 import { sceneFrom } from './helpers/scenes';
@@ -27,7 +27,7 @@ function damBreakInClosedTank(flipRatio: number) {
 
 describe('energy in a closed tank', () => {
   for (const flipRatio of [0.9, 0.99]) {
-    it(`never gains more than 1 % over 4 s of sloshing (flip ratio ${flipRatio})`, () => {
+    it(`never gains more than 1 % over its seeded state in 4 s of sloshing (flip ratio ${flipRatio})`, () => {
       const sim = damBreakInClosedTank(flipRatio);
       // per unit mass (every particle carries the same mass), J/kg
       const energy = () => {
@@ -36,12 +36,10 @@ describe('energy in a closed tank', () => {
         return e / sim.count;
       };
       const seeded = energy();
-      sim.stepFrame();
-      const e1 = energy();
-      let max = e1, last = e1;
-      for (let f = 2; f <= 96; f++) { sim.stepFrame(); last = energy(); if (last > max) max = last; }
-      const kick = (e1 - seeded) / seeded, gain = (max - e1) / e1, loss = (e1 - last) / e1;
-      console.log(`flip ${flipRatio}: first-frame kick ${(100 * kick).toFixed(2)} %, largest later gain ${(100 * gain).toFixed(2)} %, lost after 4 s ${(100 * loss).toFixed(1)} %`);
+      let max = seeded, last = seeded, first = seeded;
+      for (let f = 1; f <= 96; f++) { sim.stepFrame(); last = energy(); if (f === 1) first = last; if (last > max) max = last; }
+      const kick = (first - seeded) / seeded, gain = (max - seeded) / seeded, loss = (seeded - last) / seeded;
+      console.log(`flip ${flipRatio}: first frame ${(100 * kick).toFixed(2)} %, largest gain over frame 0 ${(100 * gain).toFixed(2)} %, lost after 4 s ${(100 * loss).toFixed(1)} %`);
       expect(sim.count).toBeGreaterThan(0);
       expect(gain).toBeLessThanOrEqual(0.01);
       expect(loss).toBeGreaterThan(0); // sloshing dies down: energy is lost, not made

@@ -114,9 +114,8 @@ describe('free props', () => {
   });
 
   it('a prop lighter than water floats: 600 kg/m³ stays at the surface, its draft between 0 and its height', () => {
-    // Archimedes (On Floating Bodies, Book I, Prop. 5): draft = ρ/ρ_water × height = 0.06 m here. The solver's
-    // coupling reads the draft short by about 0.04 m at these cells (measured; see the note in rigid.ts), so this
-    // checks only that the prop floats in the surface, not the 5 % of height the issue asks for.
+    // Archimedes (On Floating Bodies, Book I, Prop. 5): draft = ρ/ρ_water × height = 0.06 m here; a coarse
+    // 1/32 m grid, so only that it floats in the surface (the 5 % check is below, at 1/64 m)
     const sim = createSolver(scene({
       pours: [{ id: 'pool', shape: { type: 'rect', x: 0, y: 0, width: 1, height: 0.4 } }],
       props: [box(0.34)],
@@ -129,34 +128,57 @@ describe('free props', () => {
   });
 });
 
-describe('free props float (Archimedes, within the coupling’s measured bias)', () => {
+describe('free props float (Archimedes)', () => {
   // Archimedes, On Floating Bodies, Book I, Prop. 5: a floating body displaces its own weight, so a box of
-  // density ρ floats with draft ρ/ρ_water × height. The issue asks for 5 % of the height; this coupling reaches
-  // about −20 % of the height (it floats about 0.04 m high on this 1/64 m grid: the first-order free surface and
-  // the drift-free pressure both read high, see rigid.ts). Bound here: 25 % of the height, which fails if the
-  // buoyancy breaks (sinks, flies off) but is NOT the issue's acceptance bound.
-  it.each([500, 750])('ρ = %i kg/m³ settles with draft ρ/1000 × height within 25 %% of the height', (rho) => {
-    const h = 1 / 64, H = 0.2, depth = 0.4;
-    const sim = createSolver(sceneFrom({
+  // density ρ floats with draft ρ/ρ_water × height. Bound: 5 % of the height (the solver issue's acceptance;
+  // measured −0.6 … +1.4 % at these cells over 4–10 s, src/lib/sim/rigid.ts).
+  const h = 1 / 64, H = 0.2, depth = 0.4;
+  function floating(rho: number) {
+    return createSolver(sceneFrom({
       version: 2, tank: { width: 1, height: 0.75, cellSize: h, sides: { top: true } },
       timing: { fps: 24, startFrame: 1, endFrame: 1000, substeps: 2 },
       pours: [{ id: 'pool', shape: { type: 'rect', x: 0, y: 0, width: 1, height: depth } }],
       props: [{ id: 'box', shape: { type: 'rect', x: 0.3, y: depth - (H * rho) / 1000, width: 0.4, height: H }, motion: 'free', density: rho }],
     }));
-    let p = sim.stats().props[0];
-    for (let f = 0; f < 96; f++) p = sim.stepFrame().props[0];
-    // free surface away from the prop: top particle of thin columns in x ∈ [0.02, 0.2] plus a quarter sub-cell
+  }
+  // free surface away from the prop: top particle of thin columns in x ∈ [0.02, 0.2] plus a quarter sub-cell
+  function surface(sim: ReturnType<typeof createSolver>): number {
     let sum = 0;
     for (let c = 0; c < 9; c++) {
       const a = 0.02 + c * 0.02, b = a + 0.02;
       let top = -1;
-      const x = sim.x, y = sim.y;
-      for (let k = 0; k < sim.count; k++) if (x[k] >= a && x[k] < b && y[k] > top) top = y[k];
+      for (let k = 0; k < sim.count; k++) if (sim.x[k] >= a && sim.x[k] < b && sim.y[k] > top) top = sim.y[k];
       sum += top;
     }
-    const surface = sum / 9 + h / 4;
-    const draft = surface - (p.y - H / 2);
-    expect(Math.abs(draft - (H * rho) / 1000)).toBeLessThan(0.25 * H);
+    return sum / 9 + h / 4;
+  }
+  // speed of the prop's fastest point: |v| + |ω|·reach (reach: centroid to corner of the 0.4 × 0.2 box)
+  const speed = (p: { vx: number; vy: number; spin: number }) => Math.hypot(p.vx, p.vy) + Math.abs((p.spin * Math.PI) / 180) * Math.hypot(0.2, 0.1);
+
+  it.each([250, 500, 750])('ρ = %i kg/m³ released at rest on still water settles with draft ρ/1000 × height within 5 %% of the height', (rho) => {
+    const sim = floating(rho);
+    let p = sim.stats().props[0];
+    let worst = 0;
+    for (let f = 1; f <= 144; f++) {
+      p = sim.stepFrame().props[0];
+      if (f % 24 === 0 && f >= 72) worst = Math.max(worst, Math.abs(surface(sim) - (p.y - H / 2) - (H * rho) / 1000) / H);
+    }
+    // checked at 3, 4, 5 and 6 s: settled, and it stays settled
+    expect(worst).toBeLessThan(0.05);
     expect(Math.abs(p.angle)).toBeLessThan(5); // floats level (a wide box is stable: metacentre above centroid)
-  });
+  }, 60_000);
+
+  it.each([250, 500])('ρ = %i kg/m³ comes to rest within 8 s: speed below 1 %% of √(g·height) over the following 2 s', (rho) => {
+    // Bound: 1 % of √(g·H) (the issue's acceptance; √(g·H) is the speed scale of a body of height H moving in
+    // gravity, Froude scaling). The closed 1 m tank keeps sloshing for seconds (nothing radiates its waves
+    // away), so "at rest" is measured after 8 s (measured: below it from 1.8 s at 250 kg/m³, 6 s at 500).
+    const sim = floating(rho);
+    const limit = 0.01 * Math.sqrt(G * H);
+    let fastest = 0;
+    for (let f = 1; f <= 240; f++) {
+      const p = sim.stepFrame().props[0];
+      if (f > 192) fastest = Math.max(fastest, speed(p));
+    }
+    expect(fastest).toBeLessThan(limit);
+  }, 90_000);
 });

@@ -1,4 +1,7 @@
 // Identifies the solver build that baked a clip. Bump it when a solver change alters baked frames,
 // so stored clips are not reused for scenes that would now bake differently.
 // 2: the drift correction's time scale no longer shrinks with CFL substeps (stages.ts, DRIFT_TIME).
-export const SOLVER_BUILD = 'tidemark-flip/2';
+// 3: trapezoidal position update and the drift correction as a displacement outside the velocities
+//    (stages.ts, correctPositions); the projection solves the divergence alone; free props coupled into the
+//    projection (rigid.ts); densities beside walls and props compared with the share of ρ₀ they read at rest.
+export const SOLVER_BUILD = 'tidemark-flip/3';

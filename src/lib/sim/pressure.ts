@@ -1,11 +1,12 @@
-// Pressure projection on the MAC grid: make the velocity field divergence-free (up to the
-// density drift target) with solid faces keeping their solid velocity.
+// Pressure projection on the MAC grid: make the velocity field divergence-free with solid faces keeping
+// their solid velocity. The density drift correction is not part of it: it is solved with the same matrix
+// (solvePoisson) into a displacement of the particles that never enters their velocities (stages.ts).
 // Two solvers of the same system: over-relaxed Gauss–Seidel (the textbook sweep) and conjugate
 // gradient preconditioned with modified incomplete Cholesky, MIC(0) (Bridson, "Fluid Simulation
 // for Computer Graphics", 2nd ed., 2015, §5.4; tuning τ = 0.97, σ = 0.25 from the same section).
 //
 // Units: q is the pressure scaled to a velocity, q = p·dt/(ρ·h) (m/s), so that the discrete system is
-//   Σ_{n non-solid} (q_c − q_n) = b_c,   b_c = target_c − D_c,   D_c = u_{i+1} − u_i + v_{j+1} − v_j (m/s),
+//   Σ_{n non-solid} (q_c − q_n) = b_c,   b_c = −D_c,   D_c = u_{i+1} − u_i + v_{j+1} − v_j (m/s),
 // with q = 0 in air cells (free surface, Dirichlet) and solid neighbours dropped (Neumann).
 // The velocity update is u_face −= q_right − q_left (and likewise for v).
 //
@@ -33,8 +34,6 @@ export interface ProjectionGrid {
   faceU: Float64Array;
   faceV: Float64Array;
   type: Uint8Array;
-  /** Divergence target per cell (m/s), from drift correction; only fluid cells read. */
-  target: Float64Array;
   /** Fluid cells in increasing index order, and their number. */
   fluid: Int32Array;
   fluidCount: number;
@@ -52,9 +51,20 @@ export interface ProjectionGrid {
 }
 
 
+/**
+ * An extra symmetric positive semi-definite term C of the projection's matrix, solved as (A + C)·q = −D:
+ * rigid bodies coupled to the liquid (rigid.ts). CG needs only products with it.
+ */
+export interface Coupling {
+  /** out[c] += sign·(C·x)[c] on the cells C touches; returns xᵀ·C·x. */
+  apply(x: Float64Array, out: Float64Array, sign: number): number;
+  /** After the solve, with its q: moves what is coupled (the bodies' velocities and their faces). */
+  finish(q: Float64Array): void;
+}
+
 /** Builds the fluid list, the diagonal (sum of the face weights) and b; returns ‖b‖₂. */
 export function assembleSystem(g: ProjectionGrid): number {
-  const { nx, ny, type, faceU: wu, faceV: wv, gu: u, gv: v, target, fluid, diag, res } = g;
+  const { nx, ny, type, faceU: wu, faceV: wv, gu: u, gv: v, fluid, diag, res } = g;
   let n = 0, bb = 0;
   for (let j = 1; j < ny - 1; j++) {
     let c = 1 + nx * j;
@@ -62,8 +72,8 @@ export function assembleSystem(g: ProjectionGrid): number {
       if (type[c] !== FLUID) continue;
       fluid[n++] = c;
       diag[c] = wu[c] + wu[c + 1] + wv[c] + wv[c + nx];
-      // b_c = target_c − D_c
-      const b = target[c] - (u[c + 1] - u[c] + v[c + nx] - v[c]);
+      // b_c = −D_c
+      const b = -(u[c + 1] - u[c] + v[c + nx] - v[c]);
       res[c] = b;
       bb += b * b;
     }
@@ -72,13 +82,13 @@ export function assembleSystem(g: ProjectionGrid): number {
   return Math.sqrt(bb);
 }
 
-/** ‖target − D‖₂ over fluid cells with the current velocities (the residual of the solve just done). */
+/** ‖D‖₂ over fluid cells with the current velocities (the residual of the solve just done). */
 export function divergenceResidual(g: ProjectionGrid): number {
-  const { nx, gu: u, gv: v, target, fluid, fluidCount } = g;
+  const { nx, gu: u, gv: v, fluid, fluidCount } = g;
   let rr = 0;
   for (let k = 0; k < fluidCount; k++) {
     const c = fluid[k];
-    const r = target[c] - (u[c + 1] - u[c] + v[c + nx] - v[c]);
+    const r = u[c + 1] - u[c] + v[c + nx] - v[c];
     rr += r * r;
   }
   return Math.sqrt(rr);
@@ -87,11 +97,11 @@ export function divergenceResidual(g: ProjectionGrid): number {
 /**
  * Over-relaxed Gauss–Seidel on the velocities, cold start (q = 0), at most `maxSweeps` sweeps,
  * stopping early once the running residual of a sweep is below tolerance·‖b‖. Returns ‖b − A q‖₂/‖b‖₂.
- * Per fluid cell: corr = ω·(target − D_c)/Σ w_f; q_c += corr; each face f moves by w_f·corr outward.
+ * Per fluid cell: corr = −ω·D_c/Σ w_f; q_c += corr; each face f moves by w_f·corr outward.
  */
 export function projectGaussSeidel(g: ProjectionGrid, maxSweeps: number, omega: number, tolerance: number): number {
   const bNorm = assembleSystem(g);
-  const { nx, gu: u, gv: v, faceU: wu, faceV: wv, target, fluid, fluidCount, q, diag } = g;
+  const { nx, gu: u, gv: v, faceU: wu, faceV: wv, fluid, fluidCount, q, diag } = g;
   for (let k = 0; k < fluidCount; k++) q[fluid[k]] = 0;
   g.lastIterations = 0;
   if (bNorm === 0) return 0;
@@ -103,7 +113,7 @@ export function projectGaussSeidel(g: ProjectionGrid, maxSweeps: number, omega: 
       const c = fluid[k];
       const sum = diag[c];
       if (sum === 0) continue;
-      const r = target[c] - (u[c + 1] - u[c] + v[c + nx] - v[c]);
+      const r = -(u[c + 1] - u[c] + v[c + nx] - v[c]);
       running += r * r;
       const corr = (omega * r) / sum;
       q[c] += corr;
@@ -159,37 +169,38 @@ function applyMic0(g: ProjectionGrid): void {
  * the previous step's q (rescaled by the caller), stops when ‖r‖₂ ≤ tolerance·‖b‖₂ or after maxIterations.
  * Then applies the pressure gradient to the open faces around fluid cells. Returns the relative residual.
  */
-export function projectPcgMic0(g: ProjectionGrid, maxIterations: number, tolerance: number): number {
+export function projectPcgMic0(g: ProjectionGrid, maxIterations: number, tolerance: number, coupling?: Coupling): number {
   const bNorm = assembleSystem(g);
   const { fluid, fluidCount, q } = g;
   g.lastIterations = 0;
   if (bNorm === 0) {
     for (let k = 0; k < fluidCount; k++) q[fluid[k]] = 0;
+    coupling?.finish(q);
     return 0;
   }
   // q outside fluid must be 0 (air Dirichlet); clear stale values from cells that were fluid before.
   clearOutsideFluid(g, q);
-  const it = pcgSolve(g, q, bNorm, maxIterations, tolerance);
+  const it = pcgSolve(g, q, bNorm, maxIterations, tolerance, coupling);
   applyPressureGradient(g);
+  coupling?.finish(q);
   g.lastIterations = it;
   return divergenceResidual(g) / bNorm;
 }
 
 /**
- * Solves A·x = target (the drift-correction part of the last projection's right-hand side) on the last
- * projection's fluid cells, from x = 0, until ‖r‖₂ ≤ tolerance·‖target‖₂. By linearity the last solve's
- * q = A⁻¹(target − D) = A⁻¹(−D) + x, so q − x is the pressure of the divergence alone (the physical one).
- * Uses the CG scratch (rewritten by every projection) and leaves q and the velocities untouched.
+ * Solves A·x = rhs with the last projection's matrix (its fluid cells and face weights), until
+ * ‖r‖₂ ≤ tolerance·‖rhs‖₂ or maxIterations: the drift correction's displacement potential (stages.ts,
+ * correctPositions). Starts from x as given on the fluid cells (a warm start; 0 elsewhere). Uses the CG
+ * scratch (rewritten by every projection) and leaves q and the grid velocities untouched.
  * Returns the relative residual reached.
  */
-export function solveDriftPart(g: ProjectionGrid, x: Float64Array, maxIterations: number, tolerance: number): number {
-  const { fluid, fluidCount, target, res } = g;
-  x.fill(0);
+export function solvePoisson(g: ProjectionGrid, x: Float64Array, rhs: Float64Array, maxIterations: number, tolerance: number): number {
+  const { fluid, fluidCount, res } = g;
   clearOutsideFluid(g, x);
   let bb = 0;
-  for (let k = 0; k < fluidCount; k++) { const c = fluid[k]; const b = target[c]; res[c] = b; bb += b * b; }
+  for (let k = 0; k < fluidCount; k++) { const c = fluid[k]; const b = rhs[c]; res[c] = b; bb += b * b; }
   const bNorm = Math.sqrt(bb);
-  if (bNorm === 0) return 0;
+  if (bNorm === 0) { for (let k = 0; k < fluidCount; k++) x[fluid[k]] = 0; return 0; }
   pcgSolve(g, x, bNorm, maxIterations, tolerance);
   let rr = 0;
   for (let k = 0; k < fluidCount; k++) rr += res[fluid[k]] ** 2;
@@ -204,20 +215,20 @@ function clearOutsideFluid(g: ProjectionGrid, x: Float64Array): void {
 }
 
 /**
- * PCG on A·x = b over the fluid cells: on entry res holds b and x the starting guess (0 outside fluid);
+ * PCG on (A + C)·x = b over the fluid cells (C: the optional coupling): on entry res holds b and x the starting guess (0 outside fluid);
  * on exit x is the solution and res = b − A·x. Returns the iterations used.
  */
-function pcgSolve(g: ProjectionGrid, x: Float64Array, bNorm: number, maxIterations: number, tolerance: number): number {
+function pcgSolve(g: ProjectionGrid, x: Float64Array, bNorm: number, maxIterations: number, tolerance: number, coupling?: Coupling): number {
   const { nx, fluid, fluidCount, res, zv, dir, adir, diag } = g;
-  // r = b − A x0
+  // r = b − (A + C) x0
   let rr = 0;
   for (let k = 0; k < fluidCount; k++) {
     const c = fluid[k];
     const ax = diag[c] * x[c] - x[c - 1] - x[c + 1] - x[c - nx] - x[c + nx];
-    const r = res[c] - ax;
-    res[c] = r;
-    rr += r * r;
+    res[c] -= ax;
   }
+  coupling?.apply(x, res, -1);
+  for (let k = 0; k < fluidCount; k++) rr += res[fluid[k]] ** 2;
   const stop = tolerance * bNorm;
   let it = 0;
   if (Math.sqrt(rr) > stop) {
@@ -234,6 +245,7 @@ function pcgSolve(g: ProjectionGrid, x: Float64Array, bNorm: number, maxIteratio
         adir[c] = a;
         dAd += dir[c] * a;
       }
+      if (coupling) dAd += coupling.apply(dir, adir, 1);
       if (!(dAd > 0)) break;
       const alpha = sigma / dAd;
       // x += α·dir;  r −= α·adir

@@ -1,36 +1,33 @@
 // Free props: rigid bodies two-way coupled to the liquid.
 //
-// Coupling method: weak (partitioned) coupling — the prop is a moving solid in the projection (its cells carry
-// its rigid velocity as the boundary condition, so it pushes the liquid), and the liquid's pressure from that
-// projection is integrated over the prop's boundary faces into a force and torque that move the prop in the
-// next step (the pressure-integration coupling of Guendelman, Selle, Losasso & Fedkiw 2005, "Coupling water and
-// smoke to thin deformable and rigid shells", SIGGRAPH 2005). Chosen over Carlson, Mucha & Turk 2004 ("Rigid fluid") because
-// it needs no change to the pressure solve (a variable-density projection), which other work owns.
-// A partitioned scheme is unstable for props lighter than the liquid they move (the added-mass instability,
-// Förster, Wall & Ramm 2007, "Artificial added mass instabilities in sequential staggered coupling…", CMAME 196);
-// it is stabilised here by adding the mass of the displaced liquid (the wetted share of ρ_water·area) to the
-// prop's inertia. The added mass changes how fast a prop gets somewhere, never where it comes to rest:
-// at rest the pressure force balances gravity whatever the inertia.
-// Known limit (measured, tests/sim/free-props.test.ts): the force uses the drift-free pressure and is bounded
-// (see measureForces); props of 500–750 kg/m³ float about 0.04 m high of their Archimedes draft on a 1/64 m grid,
-// and props of 250 kg/m³ are not yet stable. Sinking, free fall and contacts are right.
+// Coupling method: strong (monolithic) coupling in the pressure projection, the rigid-body case of Batty,
+// Bertails & Bridson 2007 ("A fast variational framework for accurate solid–fluid coupling", SIGGRAPH 2007;
+// also Bridson, "Fluid Simulation for Computer Graphics", 2nd ed., 2015, ch. 8). The prop's cells carry its
+// rigid velocity V = (vx, vy, ω) on their faces; the pressure that makes the liquid divergence-free also
+// accelerates the prop, in the same solve: (A + k·B·M⁻¹·Bᵀ)·q = −D*, where row c of B sums, over the
+// prop's faces beside liquid cell c, the face's direction into the prop times (1, 0, −r_y) or (0, 1, r_x)
+// (r from the centroid), k = ρ_water·h² and M = diag(m, m, I). After the solve V ← V* + k·M⁻¹·Bᵀ·q.
+// Being implicit, it is stable for props of any density (the partitioned scheme it replaces needed an
+// artificial added mass, six times the displaced liquid, to stay stable: the added-mass instability of
+// Förster, Wall & Ramm 2007, CMAME 196; it slowed every prop and made props lighter than 500 kg/m³ bob for
+// seconds).
+// The liquid cell beside a wetted face holds its pressure at its centre, a distance δ (0 < δ ≤ h along the
+// face's axis) from the prop's outline, and no liquid velocity of the grid covers the layer between: it moves
+// with the prop's face. So that layer's mass (ρ_water·h·δ per wetted face, along the face's axis, with its
+// weight) is the prop's too. A floating prop then balances p(centre)·w = (m + ρ·δ·w)·g, i.e. the pressure at
+// its true outline p − ρ·g·δ carries its weight: Archimedes' draft, continuous in the prop's position (a
+// rasterised outline alone gives a buoyancy in steps of ρ·g·h·w, and a prop rests on a step's edge jittering
+// at several cm/s).
 // Units per unit depth (the solver is 2D): mass kg/m, force N/m, moment of inertia kg·m.
 // Contacts (tank sides, walls, keyed props, other free props): boundary sample points pushed out along the
 // obstacle's normal, with inelastic impulses (restitution 0) and Coulomb friction, so props come to rest.
 import type { Scene, Prop } from '../scene/schema';
 import { shapeArea, shapeSignedDistance } from '../scene/shapes';
 import { type FlipState, type PropRuntime, WATER_DENSITY } from './stages';
-import { FLUID, AIR, solveDriftPart } from './pressure';
+import { FLUID, type Coupling } from './pressure';
 
 /** Friction coefficient of prop contacts (common practice (no source): wood or plastic on wet surfaces). */
 const FRICTION = 0.4;
-/**
- * Added-mass factor: the prop's inertia gains ADDED_MASS × the wetted share of ρ_water × its area. The
- * projection's impulsive reaction on a prop in a closed tank measured up to about 8 × ρ_water·area (a 0.4 × 0.2 m
- * box 0.3 m above the floor of a 1 m tank); the partitioned step is stable while that stays below twice the
- * inertia used (Förster et al. 2007), so 6 leaves margin. Tuned by measurement, not from a source.
- */
-const ADDED_MASS = 6;
 /** Speed (m/s) below which a prop in contact is stopped. */
 const REST_SPEED = 1e-3;
 /** Penetration (m) left uncorrected between two free props. */
@@ -45,10 +42,14 @@ interface Body {
   m: number; I: number;
   /** Boundary sample points in drawn coordinates relative to the centroid. */
   sx: Float64Array; sy: Float64Array;
-  /** Pressure force and torque from the last projection (N/m, N). */
-  fx: number; fy: number; tau: number;
-  /** Share of boundary faces wetted in the last projection (0…1). */
-  wet: number;
+  /**
+   * Coupling of the current projection: liquid cells beside the prop and their rows of B (see the file's
+   * head); the inverse masses along x, y and of rotation, the wetted faces' half-cells included.
+   */
+  cells: number[]; bx: number[]; by: number[]; bw: number[];
+  imx: number; imy: number; iI: number;
+  /** Moment of those layers' weight about the centroid (N per unit depth), applied with the next step's gravity. */
+  tg: number;
   /** Touched an obstacle in this substep's contact passes. */
   touching: boolean;
 }
@@ -98,10 +99,14 @@ function boundarySamples(shape: Prop['shape'], cx: number, cy: number, h: number
 }
 
 export interface RigidBodies {
-  /** Before placeSolids: releases props whose release frame has come, then moves every free prop over dt. */
+  /** Before placeSolids: releases props whose release frame has come, moves every free prop over dt, then gravity. */
   advance(dt: number, f0: number): void;
-  /** After the projection: the liquid's pressure force and torque on every free prop. */
-  measureForces(): void;
+  /** Before the projection (after the free surface): the coupling rows of every free prop. */
+  prepareCoupling(): void;
+  /** The coupling term of the projection's matrix; its finish() gives the props their new velocities. */
+  readonly coupling: Coupling;
+  /** After the projection: contacts stop what the liquid pushed into an obstacle; props at rest are stopped. */
+  settle(): void;
   /** Pose and velocity of every prop (keyed and free), in scene order. */
   states(): PropState[];
 }
@@ -113,7 +118,7 @@ export function createRigidBodies(S: FlipState, scene: Scene): RigidBodies {
     const prop = S.props[k];
     const rho = doc.density ?? WATER_DENSITY;
     const { sx, sy } = boundarySamples(doc.shape, prop.cx, prop.cy, S.h);
-    bodies.push({ prop, doc, m: rho * shapeArea(doc.shape), I: rho * polarMoment(doc.shape, prop.cx, prop.cy), sx, sy, fx: 0, fy: 0, tau: 0, wet: 0, touching: false });
+    bodies.push({ prop, doc, m: rho * shapeArea(doc.shape), I: rho * polarMoment(doc.shape, prop.cx, prop.cy), sx, sy, cells: [], bx: [], by: [], bw: [], imx: 0, imy: 0, iI: 0, tg: 0, touching: false });
     if (doc.releaseFrame === undefined) {
       prop.free = true;
       prop.vx = doc.velocity?.[0] ?? 0; prop.vy = doc.velocity?.[1] ?? 0; prop.omega = (doc.spin ?? 0) / DEG;
@@ -235,31 +240,7 @@ export function createRigidBodies(S: FlipState, scene: Scene): RigidBodies {
     }
   }
 
-  function advance(dt: number, f0: number): void {
-    const gx = S.gx, gy = S.gy;
-    for (const b of bodies) {
-      const p = b.prop;
-      if (!p.free) {
-        // keyed until the release frame; then free with the velocity its keys had (set by the last placeProp)
-        if (b.doc.releaseFrame !== undefined && f0 >= b.doc.releaseFrame) p.free = true;
-        else continue;
-      }
-      // added mass of the wetted share of the displaced liquid (stabilisation, see the file's head)
-      const ma = ADDED_MASS * b.wet * WATER_DENSITY * shapeArea(b.doc.shape);
-      // turning moves liquid out to the prop's reach on either side: added inertia ma·reach² (same stabilisation)
-      const m = b.m + ma, I = b.I + ma * p.reach * p.reach;
-      p.vx += dt * (b.m * gx + b.fx) / m;
-      p.vy += dt * (b.m * gy + b.fy) / m;
-      p.omega += (dt * b.tau) / I;
-    }
-    resolveContacts(); // velocities first: a prop resting on the floor does not move into it
-    for (const b of bodies) {
-      const p = b.prop;
-      if (!p.free) continue;
-      p.dx += p.vx * dt; p.dy += p.vy * dt;
-      setAngle(p, p.angle + p.omega * dt);
-    }
-    resolveContacts();
+  function stopResting(): void {
     // rest: a prop in contact whose every point moves slower than 1 mm/s is stopped, so round-off in the
     // contact passes cannot grow into rocking (sleeping bodies, common practice in rigid-body engines (no source))
     for (const b of bodies) {
@@ -269,61 +250,120 @@ export function createRigidBodies(S: FlipState, scene: Scene): RigidBodies {
     }
   }
 
-  const qPhys = new Float64Array(S.nc);
-  function measureForces(): void {
-    const { nx, ny, h, type, solid } = S;
-    // the pressure of the divergence alone: the drift correction's share (a numerical density fix, large and
-    // alternating beside a moving solid) is removed, as Solver.pressureField({ withoutDrift }) does
-    solveDriftPart(S, qPhys, 200, 1e-3);
-    for (let k2 = 0; k2 < S.fluidCount; k2++) { const c = S.fluid[k2]; qPhys[c] = S.q[c] - qPhys[c]; }
-    const q = qPhys;
-    const k = S.lastDt > 0 ? (WATER_DENSITY * h) / S.lastDt : 0; // p = q·ρ·h/dt (Pa)
-    const pAt = (c: number, far: number): number => {
-      // pressure at the face between solid cell and fluid cell c: linear from c and the cell beyond it
-      const pc = q[c] * k;
-      if (far < 0 || far >= S.nc) return pc;
-      const t = type[far];
-      if (t === FLUID) return 1.5 * pc - 0.5 * q[far] * k;
-      if (t === AIR) return 1.5 * pc;
-      return pc;
-    };
+  function advance(dt: number, f0: number): void {
     for (const b of bodies) {
       const p = b.prop;
-      b.fx = 0; b.fy = 0; b.tau = 0;
+      // keyed until the release frame; then free with the velocity its keys had (set by the last placeProp)
+      if (!p.free && b.doc.releaseFrame !== undefined && f0 >= b.doc.releaseFrame) p.free = true;
+    }
+    // position first (the velocity the last projection and its contacts gave), as the particles move:
+    // a floating prop at rest stays where it is
+    for (const b of bodies) {
+      const p = b.prop;
       if (!p.free) continue;
-      const wx = p.cx + p.dx, wy = p.cy + p.dy, R = p.reach;
-      const i0 = Math.max(1, Math.floor((wx - R) / h) + 1), i1 = Math.min(nx - 2, Math.floor((wx + R) / h) + 1);
-      const j0 = Math.max(1, Math.floor((wy - R) / h) + 1), j1 = Math.min(ny - 2, Math.floor((wy + R) / h) + 1);
-      let faces = 0, wetFaces = 0;
-      for (let j = j0; j <= j1; j++) {
-        for (let i = i0; i <= i1; i++) {
-          const c = i + nx * j;
-          if (solid[c] === 0) continue;
-          const cxm = (i - 0.5) * h, cym = (j - 0.5) * h;
-          if (S.propDistance(p, cxm, cym) >= 0) continue; // a cell of this prop (as placeSolids rasterised it)
-          for (let d = 0; d < 4; d++) {
-            const ox = d === 0 ? -1 : d === 1 ? 1 : 0, oy = d === 2 ? -1 : d === 3 ? 1 : 0;
-            const n = c + ox + nx * oy;
-            if (solid[n] !== 0) continue;
-            faces++;
-            if (type[n] !== FLUID) continue;
-            wetFaces++;
-            const pf = pAt(n, n + ox + nx * oy);
-            // the liquid in n pushes on the face towards the prop: force −(ox, oy)·p·h
-            const fx = -ox * pf * h, fy = -oy * pf * h;
-            const rx = cxm + 0.5 * ox * h - wx, ry = cym + 0.5 * oy * h - wy;
-            b.fx += fx; b.fy += fy; b.tau += rx * fy - ry * fx;
-          }
-        }
-      }
-      b.wet = faces > 0 ? wetFaces / faces : 0;
-      // bound the reaction to twice the full buoyancy ρ_w·|g|·area (and its moment): the partitioned step's
-      // impulsive pressures beside a moving prop alternate in sign with magnitudes many times that
-      const fMax = 2 * WATER_DENSITY * Math.hypot(S.gx, S.gy) * shapeArea(b.doc.shape), tMax = fMax * p.reach * 0.25;
-      b.fx = Math.max(-fMax, Math.min(fMax, b.fx)); b.fy = Math.max(-fMax, Math.min(fMax, b.fy));
-      b.tau = Math.max(-tMax, Math.min(tMax, b.tau));
+      p.dx += p.vx * dt; p.dy += p.vy * dt;
+      setAngle(p, p.angle + p.omega * dt);
+    }
+    resolveContacts();
+    stopResting();
+    // gravity; the projection then adds the liquid's push (coupling) and settle() the contacts
+    for (const b of bodies) {
+      const p = b.prop;
+      if (!p.free) continue;
+      p.vx += dt * S.gx; p.vy += dt * S.gy;
+      p.omega += dt * b.tg * b.iI;
     }
   }
+
+  function settle(): void {
+    // twice the passes: this step's gravity and push are new here, and a stack needs them to reach its base
+    resolveContacts();
+    resolveContacts();
+    stopResting();
+  }
+
+  // cell → index in the coupling list of the body being built (−1: none)
+  const slot = new Int32Array(S.nc).fill(-1);
+  const bodyCells: number[][] = bodies.map(() => []);
+
+  function prepareCoupling(): void {
+    const { nx, ny, h, type, solid } = S;
+    const layer = WATER_DENSITY * h; // kg/m per metre of liquid between a liquid cell's centre and the prop
+    bodies.forEach((b, bi) => {
+      const p = b.prop;
+      b.cells.length = 0; b.bx.length = 0; b.by.length = 0; b.bw.length = 0;
+      const own = bodyCells[bi];
+      own.length = 0;
+      let mx = b.m, my = b.m, ii = b.I, tg = 0;
+      if (p.free) {
+        const wx = p.cx + p.dx, wy = p.cy + p.dy, R = p.reach;
+        const i0 = Math.max(1, Math.floor((wx - R) / h) + 1), i1 = Math.min(nx - 2, Math.floor((wx + R) / h) + 1);
+        const j0 = Math.max(1, Math.floor((wy - R) / h) + 1), j1 = Math.min(ny - 2, Math.floor((wy + R) / h) + 1);
+        for (let j = j0; j <= j1; j++) {
+          for (let i = i0; i <= i1; i++) {
+            const c = i + nx * j;
+            if (solid[c] === 0) continue;
+            const rx = (i - 0.5) * h - wx, ry = (j - 0.5) * h - wy;
+            if (S.propDistance(p, rx + wx, ry + wy) >= 0) continue; // a cell of this prop (as placeSolids rasterised it)
+            own.push(c);
+            for (let d = 0; d < 4; d++) {
+              const ox = d === 0 ? -1 : d === 1 ? 1 : 0, oy = d === 2 ? -1 : d === 3 ? 1 : 0;
+              const n = c + ox + nx * oy;
+              if (type[n] !== FLUID) continue;
+              // the face's direction from liquid cell n into the prop is −(ox, oy)
+              let k = slot[n];
+              if (k < 0) { k = b.cells.length; slot[n] = k; b.cells.push(n); b.bx.push(0); b.by.push(0); b.bw.push(0); }
+              // the liquid between n's centre and the prop's outline moves with the prop (see the file's head)
+              const dl = S.propDistance(p, rx + wx + ox * h, ry + wy + oy * h);
+              const ml = layer * (dl < 0 ? 0 : dl > h ? h : dl);
+              if (ox !== 0) { b.bx[k] -= ox; b.bw[k] += ox * ry; mx += ml; ii += ml * ry * ry; tg -= ry * ml * S.gx; }
+              else { b.by[k] -= oy; b.bw[k] -= oy * rx; my += ml; ii += ml * rx * rx; tg += rx * ml * S.gy; }
+            }
+          }
+        }
+        for (const c of b.cells) slot[c] = -1;
+      }
+      b.imx = 1 / mx; b.imy = 1 / my; b.iI = 1 / ii; b.tg = tg;
+    });
+  }
+
+  const coupling: Coupling = {
+    apply(x, out, sign) {
+      const k = WATER_DENSITY * S.h * S.h;
+      let xCx = 0;
+      for (const b of bodies) {
+        const n = b.cells.length;
+        if (n === 0) continue;
+        let sx = 0, sy = 0, sw = 0;
+        for (let i = 0; i < n; i++) { const xc = x[b.cells[i]]; sx += b.bx[i] * xc; sy += b.by[i] * xc; sw += b.bw[i] * xc; }
+        const tx = k * b.imx * sx, ty = k * b.imy * sy, tw = k * b.iI * sw;
+        for (let i = 0; i < n; i++) out[b.cells[i]] += sign * (b.bx[i] * tx + b.by[i] * ty + b.bw[i] * tw);
+        xCx += sx * tx + sy * ty + sw * tw;
+      }
+      return xCx;
+    },
+    finish(q) {
+      const { nx, h, gu, gv, solid } = S;
+      const k = WATER_DENSITY * h * h;
+      bodies.forEach((b, bi) => {
+        const p = b.prop;
+        if (!p.free) return;
+        let sx = 0, sy = 0, sw = 0;
+        for (let i = 0; i < b.cells.length; i++) { const qc = q[b.cells[i]]; sx += b.bx[i] * qc; sy += b.by[i] * qc; sw += b.bw[i] * qc; }
+        p.vx += k * b.imx * sx; p.vy += k * b.imy * sy; p.omega += k * b.iI * sw;
+        // the prop's faces beside liquid or air carry its new velocity (the liquid was solved against it)
+        const wx = p.cx + p.dx, wy = p.cy + p.dy;
+        for (const c of bodyCells[bi]) {
+          const i = c % nx, j = (c - i) / nx;
+          const su = p.vx - p.omega * ((j - 0.5) * h - wy), sv = p.vy + p.omega * ((i - 0.5) * h - wx);
+          if (solid[c - 1] === 0) gu[c] = su;
+          if (solid[c + 1] === 0) gu[c + 1] = su;
+          if (solid[c - nx] === 0) gv[c] = sv;
+          if (solid[c + nx] === 0) gv[c + nx] = sv;
+        }
+      });
+    },
+  };
 
   function states(): PropState[] {
     return scene.props.map((doc, k) => {
@@ -332,5 +372,5 @@ export function createRigidBodies(S: FlipState, scene: Scene): RigidBodies {
     });
   }
 
-  return { advance, measureForces, states };
+  return { advance, prepareCoupling, coupling, settle, states };
 }

@@ -5,9 +5,9 @@ import { frameToTime } from '../scene/time';
 import { shapeSignedDistance as shapeDistance } from '../scene/shapes';
 import {
   FlipState, WATER_DENSITY, integrate, separate, placeSolids, collide, emit, particlesToGrid,
-  densityAndDrift, gridToParticles, classifyCells, depositDensity, estimateRestDensity, type SolverOptions,
+  densityAndDrift, gridToParticles, correctPositions, classifyCells, depositDensity, estimateRestDensity, type SolverOptions,
 } from './stages';
-import { projectGaussSeidel, projectPcgMic0, solveDriftPart, FLUID } from './pressure';
+import { projectGaussSeidel, projectPcgMic0, FLUID } from './pressure';
 import { liquidArea } from './area';
 import { createRigidBodies, type PropState } from './rigid';
 import { freeSurface } from './surface';
@@ -58,15 +58,6 @@ interface Stage {
 export interface PressureOptions {
   /** Write into this array (length nx·ny) instead of a new one (pressureField only). */
   out?: Float64Array;
-  /**
-   * Remove the drift-correction part: the last projection solved A·q = target − D; the drift part
-   * x = A⁻¹·target is solved again here (CG + MIC(0), relative residual 1e-8) and q − x returned: the
-   * pressure the divergence D alone asks for this step. Nothing the next step reads is changed; cached until
-   * the next step. Caution: FLIP particle velocities carry earlier steps' drift flow, so in settled liquid
-   * D already contains it and the applied pressure (the default) is the hydrostatic one; q − x then reads
-   * several % high (tests/sim/hydrostatic.test.ts). Use it to see the drift's share, not as "the" pressure.
-   */
-  withoutDrift?: boolean;
 }
 
 export interface Grid {
@@ -105,13 +96,12 @@ export interface Solver {
   /** Statistics of the current state without stepping (the initial frame: no substeps, stepMs 0). */
   stats(): FrameStats;
   /**
-   * Pressure in Pa at cell centres from the last projection (length nx·ny; 0 outside liquid). With
-   * `withoutDrift`, the drift-correction part of that projection is removed: the physical pressure that
-   * balances the velocity divergence alone (see PressureOptions).
+   * Pressure in Pa at cell centres from the last projection (length nx·ny; 0 outside liquid): the physical
+   * pressure (the drift correction is a displacement of its own and never enters it, see stages.ts).
    */
   pressureField(options?: PressureOptions): Float64Array;
   /** Pressure in Pa at tank point (x, y): bilinear over cell centres of the last projection. */
-  pressureAt(x: number, y: number, options?: PressureOptions): number;
+  pressureAt(x: number, y: number): number;
   /** Signed distance (m) from (x, y) to the nearest wall or prop at the current pose (negative inside); Infinity if none. */
   solidDistance(x: number, y: number): number;
   /** Rest density ρ₀ in particles per cell (0 before liquid was first seen). */
@@ -132,10 +122,6 @@ export function createSolver(scene: Scene, options: SolverOptions = {}): Solver 
   let lastResidual = 0;
   const speedOfSpouts = scene.spouts.reduce((m, s) => Math.max(m, Math.hypot(s.velocity[0], s.velocity[1])), 0);
   const gMag = Math.hypot(physics.gravity[0], physics.gravity[1]);
-  let steps = 0;
-  // the drift-free pressure (scaled like q), valid while driftFreeStep === steps
-  const qDriftFree = new Float64Array(S.nc);
-  let driftFreeStep = -1;
 
   // The first frame: solids at their starting pose, cell types and the density of the seeded pours, so that
   // stats() can measure it. Every array written here is rewritten by a step before the step reads it.
@@ -151,6 +137,8 @@ export function createSolver(scene: Scene, options: SolverOptions = {}): Solver 
     // warm start for CG: q scales with dt (q = p·dt/(ρh))
     if (S.lastDt > 0 && S.lastDt !== dt) { const k = dt / S.lastDt; for (let c = 0; c < S.nc; c++) S.q[c] *= k; }
     S.lastDt = dt;
+    // free props are coupled into the matrix (rigid.ts), which only the CG solver takes
+    if (hasFree) { rigid.prepareCoupling(); return projectPcgMic0(S, physics.pressureIterations, physics.pressureTolerance, rigid.coupling); }
     return solverName === 'gauss-seidel'
       ? projectGaussSeidel(S, physics.pressureIterations, physics.overRelaxation, physics.pressureTolerance)
       : projectPcgMic0(S, physics.pressureIterations, physics.pressureTolerance);
@@ -175,8 +163,9 @@ export function createSolver(scene: Scene, options: SolverOptions = {}): Solver 
     // after the transfer to the grid (and the densities its liquid fractions read), before the projection
     ...(viscous ? [{ name: 'viscosity', run: (dt: number) => viscous.run(dt) }] : []),
     { name: 'pressure', run: (dt) => { lastResidual = project(dt); } },
-    ...(hasFree ? [{ name: 'prop forces', run: () => rigid.measureForces() }] : []),
+    ...(hasFree ? [{ name: 'prop contacts', run: () => rigid.settle() }] : []),
     { name: 'grid to particles', run: () => gridToParticles(S) },
+    { name: 'position correction', run: (dt) => correctPositions(S, dt, physics.pressureIterations, physics.pressureTolerance) },
   ];
   const stageMs = new Float64Array(stages.length);
 
@@ -189,7 +178,6 @@ export function createSolver(scene: Scene, options: SolverOptions = {}): Solver 
       if (validating) validateAfter(S, stages[k].name, physics, lastResidual);
     }
     time += dt;
-    steps++;
     return lastResidual;
   }
 
@@ -246,28 +234,17 @@ export function createSolver(scene: Scene, options: SolverOptions = {}): Solver 
     };
   }
 
-  /** Scaled pressure q (m/s) of the last projection, or its drift-free part. */
-  function scaledPressure(withoutDrift: boolean): Float64Array {
-    if (!withoutDrift || steps === 0) return S.q;
-    if (driftFreeStep !== steps) {
-      solveDriftPart(S, qDriftFree, 1000, 1e-8);
-      for (let k = 0; k < S.fluidCount; k++) { const c = S.fluid[k]; qDriftFree[c] = S.q[c] - qDriftFree[c]; }
-      driftFreeStep = steps;
-    }
-    return qDriftFree;
-  }
-
   function pressureField(options: PressureOptions = {}): Float64Array {
     const out = options.out ?? new Float64Array(S.nc);
-    const q = scaledPressure(options.withoutDrift === true);
+    const q = S.q;
     // p = q·ρ·h/dt (Pa)
     const k = S.lastDt > 0 ? (WATER_DENSITY * S.h) / S.lastDt : 0;
     for (let c = 0; c < S.nc; c++) out[c] = S.type[c] === FLUID ? q[c] * k : 0;
     return out;
   }
 
-  function pressureAt(x: number, y: number, options: PressureOptions = {}): number {
-    const qs = scaledPressure(options.withoutDrift === true);
+  function pressureAt(x: number, y: number): number {
+    const qs = S.q;
     const k = S.lastDt > 0 ? (WATER_DENSITY * S.h) / S.lastDt : 0;
     let fx = x / S.h + 0.5, fy = y / S.h + 0.5; // centre of cell i at x = (i − ½)h
     fx = Math.min(Math.max(fx, 0), S.nx - 1.0001); fy = Math.min(Math.max(fy, 0), S.ny - 1.0001);

@@ -4,7 +4,8 @@
 // "Using the particle level set method and a second order accurate pressure boundary condition for free
 // surface flows", ASME FEDSM2003-45144).
 //
-// The surface is the ½ρ₀ iso-contour of the cell-centred particle density (the same contour the liquidArea
+// The surface is the ½ρ₀ iso-contour of the cell-centred particle density (beside walls and props, of the
+// density over the share of ρ₀ the cell reads at rest, FlipState.restShare) (the same contour the liquidArea
 // statistic measures). The density is a bilinear (tent-kernel) deposit, so beside a flat, axis-aligned
 // surface at signed distance s (cells, positive into the air) from a cell centre it reads ρ/ρ₀ = F(−s) with
 // F the tent's cumulative distribution:
@@ -27,6 +28,10 @@ export interface SurfaceGrid extends ProjectionGrid {
   restDensity: number;
   /** Signed distance to the free surface at cell centres, m (negative in liquid, |φ| ≤ h). */
   phi: Float64Array;
+  /** The drift correction's divergence target per cell (m/s; stages.ts, driftTarget). */
+  driftTarget: Float64Array;
+  /** Share of ρ₀ a cell reads with the liquid around it at rest (1 away from solids; stages.ts, restShare). */
+  restShare: Float64Array;
 }
 
 /** Signed distance in cells from a density ratio r = ρ/ρ₀ (inverse of the tent CDF, negated). */
@@ -54,13 +59,13 @@ export function ghostTheta(phiLiquid: number, phiAir: number): number {
  * cells are driven). Before ρ₀ is known every face weight is the first-order one.
  */
 export function freeSurface(S: SurfaceGrid): void {
-  const { nx, ny, dens, type, phi, open, target } = S;
+  const { nx, ny, dens, type, phi, open, driftTarget: target, restShare } = S;
   const wu = S.faceU, wv = S.faceV;
   const nc = nx * ny;
   const rest = S.restDensity;
   if (rest > 0) {
     const inv = 1 / rest, h = S.h;
-    for (let c = 0; c < nc; c++) phi[c] = densityToDistance(dens[c] * inv) * h;
+    for (let c = 0; c < nc; c++) phi[c] = densityToDistance((dens[c] * inv) / restShare[c]) * h;
     for (let c = 0; c < nc; c++) if (type[c] === FLUID && phi[c] >= 0) type[c] = AIR;
   } else {
     phi.fill(-S.h);
