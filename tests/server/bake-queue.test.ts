@@ -206,7 +206,8 @@ describe('bake queue', () => {
     expect(claims).toHaveLength(2);
     expect((claims[1].detail as { workerId: string }).workerId).not.toBe(owner);
     expect(claims[1].createdAt.getTime()).toBeGreaterThanOrEqual(killedAt - 50);
-  });
+    // Two slow bakes back to back on a shared machine: longer than the default test timeout.
+  }, 180_000);
 
   it('the object store going away mid-upload: the job retries, then fails clearly, and nothing is marked baked', async () => {
     // A stand-in that accepts connections and drops them after the first bytes, like a store that stops mid-upload.
