@@ -62,6 +62,7 @@ export class ClipUpload {
 
   /** Sends what is left with the head in front; resolves to the stored object's size in bytes. */
   async finish(head: Uint8Array): Promise<number> {
+    this.signal.throwIfAborted();
     if (this.failure) throw this.failure;
     if (this.fillingBytes === 0 && !this.upload) {
       await putBytes(this.key, concat([head, ...this.first]), this.contentType, this.signal);
@@ -80,6 +81,7 @@ export class ClipUpload {
   async abort(): Promise<void> {
     this.first = [];
     this.filling = [];
+    this.fillingBytes = 0;
     if (!this.upload) return;
     const upload = await this.upload.catch(() => null);
     await Promise.allSettled(this.sending);
