@@ -2,7 +2,9 @@
 // prints particles, steps, wall/cpu seconds, particle-steps per second, pressure residuals (ours vs 50
 // Gauss–Seidel sweeps inside our solver) and the dam-break front; with --ref also runs the native
 // measuring stick (../shared/bench/flip-ref/run.sh) in the same process run and prints ours ÷ native.
+// Also prints the same scene with one free prop (cost ratio to a keyed one) and with ν = 1e-2 m²/s (cost ratio to water).
 // Usage: npx tsx src/cli/bench-sim.ts [--ref] [--rounds N] [--scales 1,2] [--solver pcg-mic0|gauss-seidel]
+//        [--props-only | --viscous-only]
 import { execFileSync } from 'node:child_process';
 import { existsSync } from 'node:fs';
 import { resolve } from 'node:path';
@@ -111,8 +113,45 @@ function runPropCost(): { keyed_cpu_s: number; free_cpu_s: number; ratio: number
   return { keyed_cpu_s: +keyed.toFixed(4), free_cpu_s: +free.toFixed(4), ratio: +ratio.toFixed(4) };
 }
 
+/**
+ * The reference dam break as water (1e-6 m²/s: the viscous stage is left out) and as a liquid of ν = 1e-2 m²/s
+ * (thick paint; implicit viscosity, viscosity.ts): CPU time ratio viscous/water (target ≤ 1.5), the viscous
+ * stage's share of the viscous run, and the dam-break front of each at 0.1 s.
+ */
+function runViscousCost(): { water_cpu_s: number; viscous_cpu_s: number; ratio: number; viscosity_share: number; front_water: number; front_viscous: number } {
+  const base = referenceDamBreak(1);
+  const run = (viscosity: number, steps = base.steps) => {
+    const r = parseScene({ ...base.scene, version: 2, liquids: [{ id: 'water', name: 'Test liquid', colour: '#3A8FB7', viscosity }] });
+    if (!r.ok) throw new Error(JSON.stringify(r.errors));
+    const sim = createSolver(r.scene, base.options);
+    let stage = 0, total = 0, front = 0;
+    const c0 = process.cpuUsage();
+    for (let s = 1; s <= steps; s++) {
+      const st = sim.stepFrame();
+      for (const [name, ms] of Object.entries(st.stageMs)) { total += ms; if (name === 'viscosity') stage += ms; }
+      if (s === 12) { const x = sim.x; front = -Infinity; for (let i = 0; i < x.length; i++) if (x[i] > front) front = x[i]; }
+    }
+    const c = process.cpuUsage(c0);
+    return { cpu: (c.user + c.system) / 1e6, share: total > 0 ? stage / total : 0, front };
+  };
+  // warm both up first, so that neither run pays the JIT's compile time for the other
+  run(1e-6, 24); run(1e-2, 24);
+  const water = run(1e-6), viscous = run(1e-2);
+  const ratio = viscous.cpu / water.cpu;
+  console.log(
+    `reference dam break, ν = 1e-2 m²/s vs water: water cpu_s=${water.cpu.toFixed(3)} viscous cpu_s=${viscous.cpu.toFixed(3)} ` +
+      `ratio viscous/water=${ratio.toFixed(3)} (target ≤ 1.5); viscosity stage ${(100 * viscous.share).toFixed(0)}% of the viscous step; ` +
+      `front at 0.1 s: water ${water.front.toFixed(3)} m, viscous ${viscous.front.toFixed(3)} m`,
+  );
+  return {
+    water_cpu_s: +water.cpu.toFixed(4), viscous_cpu_s: +viscous.cpu.toFixed(4), ratio: +ratio.toFixed(4),
+    viscosity_share: +viscous.share.toFixed(4), front_water: +water.front.toFixed(4), front_viscous: +viscous.front.toFixed(4),
+  };
+}
+
 function main(): void {
   if (process.argv.includes('--props-only')) { console.log(JSON.stringify({ free_prop: runPropCost() })); return; }
+  if (process.argv.includes('--viscous-only')) { console.log(JSON.stringify({ viscous: runViscousCost() })); return; }
   const rounds = Number(arg('--rounds') ?? 1);
   const scales = (arg('--scales') ?? '1,2').split(',').map(Number);
   const defaultSolver = (arg('--solver') as PressureSolverName | undefined) ?? DEFAULT_PRESSURE_SOLVER;
@@ -151,6 +190,7 @@ function main(): void {
     }
   }
   summary.free_prop = runPropCost();
+  summary.viscous = runViscousCost();
   console.log(JSON.stringify(summary));
 }
 

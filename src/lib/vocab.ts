@@ -16,13 +16,32 @@ export type ReviewState = (typeof REVIEW_STATES)[number];
 export const REVIEW_STATE_WORDS: Record<ReviewState, string> = {
   draft: 'Draft',
   submitted: 'Waiting for review',
-  approved: 'Approved',
+  approved: 'Approved by us',
   returned: 'Back for changes',
   superseded: 'Replaced by a newer version',
 };
 
 /** The words for a review state id ('' → the id itself when unknown). */
 export const reviewStateWord = (state: string) => REVIEW_STATE_WORDS[state as ReviewState] ?? state;
+
+/**
+ * The client's sign-off of a version, kept apart from the studio's own review state: a supervisor asks for it once the
+ * version is approved by us, then the client (signed in, or a guest through the share link) signs off or asks for
+ * changes.
+ */
+export const CLIENT_STATES = ['not sent', 'waiting', 'signed off', 'changes asked'] as const;
+export type ClientState = (typeof CLIENT_STATES)[number];
+
+/** One set of words for the client's sign-off, on every screen, e-mail and export. */
+export const CLIENT_STATE_WORDS: Record<ClientState, string> = {
+  'not sent': 'Not sent to the client',
+  waiting: 'Waiting for client',
+  'signed off': 'Client signed off',
+  'changes asked': 'Client asked for changes',
+};
+
+/** The words for a client state id (the id itself when unknown). */
+export const clientStateWord = (state: string) => CLIENT_STATE_WORDS[state as ClientState] ?? state;
 
 /** Where a shot's first frame number falls: the first head-handle frame (common practice, no source) or the cut in. */
 export const HANDLE_CONVENTIONS = ['head-handle', 'cut-in'] as const;

@@ -1,8 +1,11 @@
-// Issue 8 in Chromium, on the real version page: a producer (the studio's supervisor) opens a really baked version,
+// Issue 8 in Chromium, on the real version page: a producer (the studio's supervisor) opens the shot of an imported
+// edit (frame 1009 paired with the cut's source timecode), then a really baked version of it,
 // exports an MP4, a GIF and a PNG ZIP with slate and burn-ins (progress bar to 100 %, downloads caught by Playwright),
 // cancels one export and carries on, makes a share link, opens it in a fresh browser without signing in, leaves a
 // named comment, and sees the comment in the version page's notes. The files are checked in Node: ffprobe (MP4),
-// omggif (GIF), fflate (ZIP). Chromium runs with web security on: the S3 stand-in allows the test app's origin.
+// omggif (GIF), fflate (ZIP); the MP4's first shot frame is read two ways: its timecode track (ffprobe) and its pixels
+// (decoded with ffmpeg, compared with the lossless PNG of the same frame). Chromium runs with web security on: the S3
+// stand-in allows the test app's origin.
 import { describe, it, expect, beforeAll, afterAll } from 'vitest';
 import type { Page } from 'playwright-core';
 import { execFileSync } from 'node:child_process';
@@ -12,20 +15,24 @@ import path from 'node:path';
 import { eq } from 'drizzle-orm';
 import { GifReader } from 'omggif';
 import { unzipSync } from 'fflate';
-import { makeStudio, unique, type TestStudio } from '../support/app';
+import { makeStudio, type TestStudio } from '../support/app';
 import { SHOTS_DIR, openBrowser, screenshot, signInAs } from '../support/browser';
 import { tinyScene } from '../support/scenes';
 import { closeDb, db } from '../../src/lib/server/db';
-import { notes, shots, shows } from '../../src/lib/server/db/schema';
+import { notes, shots } from '../../src/lib/server/db/schema';
 import { burnInLayout, gifDelays, GIF_SLATE_DELAY_CS } from '../../src/lib/export/layout';
 
-const FIRST = 1001;
-const LAST = 1024; // 24 frames at 24 fps
+// One 24-frame cut at 24 fps (CMX 3600 layout, from memory): source 01:00:10:00–01:00:11:00, record out exclusive.
+// The studio's default convention puts 1001 on the first of 8 head handles (common practice (no source)): cut in 1009.
+const EDIT = ['TITLE: LOW TIDE', 'FCM: NON-DROP FRAME', '001  RL01     V     C        01:00:10:00 01:00:11:00 01:00:00:00 01:00:01:00', '* FROM CLIP NAME: LT_010'].join('\n');
+const FIRST = 1009;
+const LAST = 1032;
 const PLATE = { width: 640, height: 360 }; // "Half" → 320×180
 
 let studio: TestStudio;
 let versionId: number;
 let shotCode: string;
+let shotId: number;
 const downloads = mkdtempSync(path.join(tmpdir(), 'tidemark-exports-'));
 
 async function waitBaked(id: number) {
@@ -41,13 +48,17 @@ async function waitBaked(id: number) {
 
 beforeAll(async () => {
   studio = await makeStudio();
-  const [show] = await db().insert(shows).values({ studioId: studio.id, code: 'LT', name: 'Low Tide', frameRate: '24' });
-  const [shot] = await db()
-    .insert(shots)
-    .values({ studioId: studio.id, showId: Number(show.insertId), code: unique('LT_010').slice(0, 20), firstFrame: FIRST, lastFrame: LAST, handles: 4, frameRate: '24', sourceTimecodeIn: '01:00:10:00', plateWidth: PLATE.width, plateHeight: PLATE.height });
-  const shotId = Number(shot.insertId);
   const sup = studio.members.supervisor;
-  const saved = await sup.client.post(`/api/shots/${shotId}/versions`, { scene: tinyScene(LAST - FIRST + 1, 7), comment: 'for export' });
+  const show = await sup.client.post(`/api/studios/${studio.id}/shows`, { code: 'LT', name: 'Low Tide', frameRate: '24' });
+  expect(show.status, JSON.stringify(show.body)).toBe(201);
+  const imported = await sup.client.post(`/api/studios/${studio.id}/shows/${show.body.show.id}/import/confirm`, { format: 'edl', text: EDIT, options: { headHandles: 8, tailHandles: 8 } });
+  expect(imported.status, JSON.stringify(imported.body)).toBe(200);
+  shotId = imported.body.import.created[0].id;
+  const [made] = await db().select().from(shots).where(eq(shots.id, shotId));
+  expect([made.firstFrame, made.lastFrame, made.sourceTimecodeIn]).toEqual([FIRST, LAST, '01:00:10:00']);
+  expect((await sup.client.patch(`/api/studios/${studio.id}/shots/${shotId}`, { plateWidth: PLATE.width, plateHeight: PLATE.height })).status).toBe(200);
+  const scene = { ...tinyScene(LAST - FIRST + 1, 7), timing: { fps: 24, startFrame: FIRST, endFrame: LAST, substeps: 2 } };
+  const saved = await sup.client.post(`/api/shots/${shotId}/versions`, { scene, comment: 'for export' });
   expect(saved.status).toBe(201);
   versionId = saved.body.version.id;
   expect((await sup.client.post(`/api/versions/${versionId}/bake`)).status).toBe(202);
@@ -91,6 +102,31 @@ async function exportAndDownload(page: Page, format: 'gif' | 'mp4' | 'zip'): Pro
   return file;
 }
 
+/** An image file decoded by ffmpeg to RGBA bytes (its size is known to the caller). */
+function rgbOf(file: string): Uint8Array {
+  return new Uint8Array(execFileSync('ffmpeg', ['-v', 'error', '-i', file, '-f', 'rawvideo', '-pix_fmt', 'rgba', '-']));
+}
+
+function writeTemp(bytes: Uint8Array, name: string): string {
+  const file = path.join(downloads, name);
+  writeFileSync(file, bytes);
+  return file;
+}
+
+/** Mean absolute difference of the RGB values of two RGBA images inside a rectangle (0–255). */
+function meanDiff(a: Uint8Array, b: Uint8Array, width: number, r: { x0: number; y0: number; x1: number; y1: number }): number {
+  let total = 0;
+  let n = 0;
+  for (let y = Math.max(0, Math.floor(r.y0)); y < Math.ceil(r.y1); y++) {
+    for (let x = Math.max(0, Math.floor(r.x0)); x < Math.ceil(r.x1); x++) {
+      const i = (y * width + x) * 4;
+      for (let c = 0; c < 3; c++) total += Math.abs(a[i + c] - b[i + c]);
+      n += 3;
+    }
+  }
+  return total / n;
+}
+
 /** Pixels of a GIF frame as RGBA. */
 function gifFrame(reader: GifReader, i: number): Uint8Array {
   const px = new Uint8Array(reader.width * reader.height * 4);
@@ -124,6 +160,12 @@ describe('exports and share links in Chromium', () => {
       const errors: string[] = [];
       page.on('pageerror', (e) => errors.push(e.message));
       page.on('console', (m) => m.type() === 'error' && console.log(`[version page console] ${m.text()}`));
+      // The shot page of the imported cut: the cut in is paired with the event's source in, the cut out with the
+      // source out − 1 frame (CMX 3600 out exclusive; 24 fps non-drop labels, SMPTE ST 12-1).
+      await page.goto(`/studios/${studio.slug}/shots/${shotId}`);
+      expect(await page.getByTestId('frame-range-source').textContent()).toBe(`${FIRST} · 01:00:10:00 – ${LAST} · 01:00:10:23`);
+      expect(await page.getByTestId('frame-range').textContent()).toContain('24f · head 8 · tail 8');
+      await pageShot(page, 'export-shot-page');
       const versionPage = `/studios/${studio.slug}/versions/${versionId}`;
       await page.goto(versionPage);
       await page.getByTestId('version-header').waitFor();
@@ -142,12 +184,16 @@ describe('exports and share links in Chromium', () => {
 
       // ── MP4 ──
       const mp4 = await exportAndDownload(page, 'mp4');
-      expect(path.basename(mp4)).toMatch(/_v001_1001-1024\.mp4$/);
+      expect(path.basename(mp4)).toMatch(new RegExp(`_v001_${FIRST}-${LAST}\\.mp4$`));
       const probe = JSON.parse(
         execFileSync('ffprobe', ['-v', 'error', '-count_frames', '-select_streams', 'v:0', '-show_entries', 'stream=codec_name,pix_fmt,r_frame_rate,avg_frame_rate,width,height,nb_read_frames', '-of', 'json', mp4]).toString(),
       ).streams[0];
       expect(probe).toMatchObject({ codec_name: 'h264', pix_fmt: 'yuv420p', r_frame_rate: '24/1', width: 320, height: 180 });
       expect(Number(probe.nb_read_frames)).toBe(LAST - FIRST + 1 + 1); // 24 frames + the slate
+      // Read 1 of the first frame's timecode: the MP4's timecode track (QuickTime 'tmcd', ffprobe's stream tag). The
+      // slate holds the frame before the cut in (01:00:09:23), so picture 2, the first shot frame, is 01:00:10:00.
+      const tracks = JSON.parse(execFileSync('ffprobe', ['-v', 'error', '-show_entries', 'stream=codec_type:stream_tags=timecode', '-of', 'json', mp4]).toString()).streams;
+      expect(tracks.find((s: { codec_type: string }) => s.codec_type === 'video').tags.timecode).toBe('01:00:09:23');
       expect(await page.evaluate(() => document.fonts.check('600 16px "Space Grotesk"'))).toBe(true);
       await pageShot(page, 'export-mp4-done');
 
@@ -188,11 +234,22 @@ describe('exports and share links in Chromium', () => {
       const names = Object.keys(entries).sort();
       expect(names).toHaveLength(LAST - FIRST + 1 + 1);
       expect(names[0]).toMatch(/\.0000_slate\.png$/);
-      expect(names[1]).toMatch(/\.1001\.png$/);
-      expect(names[names.length - 1]).toMatch(/\.1024\.png$/);
+      expect(names[1]).toMatch(new RegExp(`\\.${FIRST}\\.png$`));
+      expect(names[names.length - 1]).toMatch(new RegExp(`\\.${LAST}\\.png$`));
       // Keep the slate and a frame beside the screenshots, to look at.
       writeFileSync(path.join(SHOTS_DIR, 'export-slate.png'), entries[names[0]]);
-      writeFileSync(path.join(SHOTS_DIR, 'export-frame-1012.png'), entries[names[12]]);
+      writeFileSync(path.join(SHOTS_DIR, `export-frame-${FIRST + 11}.png`), entries[names[12]]);
+
+      // Read 2 of the MP4's first frame: decode its picture 2 (after the slate) with ffmpeg and compare its timecode
+      // corner with the lossless PNGs of the cut in (burn-in 01:00:10:00) and the cut out (01:00:10:23).
+      const firstPng = path.join(SHOTS_DIR, 'export-mp4-first-frame.png');
+      execFileSync('ffmpeg', ['-v', 'error', '-y', '-i', mp4, '-vf', 'select=eq(n\\,1)', '-frames:v', '1', firstPng]);
+      const mp4First = rgbOf(firstPng);
+      const pngIn = rgbOf(writeTemp(entries[names[1]], 'cut-in.png'));
+      const pngOut = rgbOf(writeTemp(entries[names[names.length - 1]], 'cut-out.png'));
+      const nearIn = meanDiff(mp4First, pngIn, 320, box);
+      const nearOut = meanDiff(mp4First, pngOut, 320, box);
+      expect(nearIn).toBeLessThan(nearOut / 2); // the MP4's first frame carries the cut in's burn-in, not another frame's
       for (const n of names) {
         const png = entries[n];
         const dv = new DataView(png.buffer, png.byteOffset);

@@ -7,7 +7,7 @@ import { mkdtempSync, writeFileSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import path from 'node:path';
 import { eq } from 'drizzle-orm';
-import { openBrowser, screenshot as fullScreenshot, signInAs } from '../support/browser';
+import { openBrowser, screenshot as fullScreenshot, signInAs, waitForIslands } from '../support/browser';
 import type { Page } from 'playwright-core';
 import { APP, makeStudio, type TestStudio } from '../support/app';
 import { closeDb, db } from '../../src/lib/server/db';
@@ -74,6 +74,7 @@ describe('shot library in Chromium', () => {
       await page.waitForURL((url) => !url.pathname.startsWith('/sign-in'));
       await page.goto(`/studios/${studio.slug}/`);
       await page.getByTestId('library').waitFor();
+      await waitForIslands(page);
 
       // A new show.
       await page.getByRole('button', { name: 'New show', exact: true }).click();
@@ -117,16 +118,17 @@ describe('shot library in Chromium', () => {
         ['create', 'BW_0030', '1009–1080'],
       ]);
       // The cut in (frame 1009) is labelled with the event's source in, 48 frames to 10:00:01:23 (CMX 3600 out exclusive).
-      expect(await previewTable.textContent()).toContain('source 10:00:00:00 – 10:00:01:23');
+      expect(await previewTable.textContent()).toContain('1009 · 10:00:00:00 – 1056 · 10:00:01:23');
+      expect(await previewTable.textContent()).toContain('head 8 · tail 8');
       expect(await previewTable.textContent()).not.toContain('00:00:42:01'); // frame 1009 read as timecode at 24 fps
       await screenshot(page, 'library-import-preview');
       await page.getByRole('button', { name: 'Confirm import' }).click();
       await page.getByText('Imported into BW').waitFor();
       const imported = await db().select().from(shots).where(eq(shots.showId, showId)).orderBy(shots.code);
-      expect(imported.map((s) => [s.code, s.firstFrame, s.lastFrame, s.handles])).toEqual([
-        ['BW_0010', 1009, 1056, 8],
-        ['BW_0020', 1009, 1044, 8],
-        ['BW_0030', 1009, 1080, 8],
+      expect(imported.map((s) => [s.code, s.firstFrame, s.lastFrame, s.headHandles, s.tailHandles])).toEqual([
+        ['BW_0010', 1009, 1056, 8, 8],
+        ['BW_0020', 1009, 1044, 8, 8],
+        ['BW_0030', 1009, 1080, 8, 8],
       ]);
 
       // The shots table: timecode beside frames, inline status change (saved through the API).
@@ -134,7 +136,7 @@ describe('shot library in Chromium', () => {
       const table = page.getByTestId('shots-table');
       await table.locator('tbody tr[data-row]').nth(2).waitFor();
       // BW_0030 (1009–1080, 72 frames) cuts in at source 12:00:00:00 (the dissolve's incoming side).
-      expect(await table.textContent()).toContain('12:00:00:00 – 12:00:02:23');
+      expect(await table.getByTestId('cut-range-BW_0030-source').textContent()).toBe('1009 · 12:00:00:00 – 1080 · 12:00:02:23');
       await page.getByLabel('Status of BW_0020').selectOption('in review');
       await expect.poll(async () => (await db().select().from(shots).where(eq(shots.code, 'BW_0020')))[0]?.status).toBe('in review');
       // Filter by status: the URL keeps the filter.
@@ -169,15 +171,19 @@ describe('shot library in Chromium', () => {
       await page.getByRole('button', { name: 'New shot', exact: true }).click();
       const shotDialog = page.getByRole('dialog');
       await shotDialog.getByLabel('Code', { exact: true }).fill('BW_0010');
-      await shotDialog.getByLabel('Last frame').fill('1100');
+      // The studio's convention (the first frame number is the first head-handle frame) puts the cut in at 1001 + 8.
+      expect(await shotDialog.getByLabel('Cut in', { exact: true }).inputValue()).toBe('1009');
+      expect([await shotDialog.getByLabel('Head handles').inputValue(), await shotDialog.getByLabel('Tail handles').inputValue()]).toEqual(['8', '8']);
+      await shotDialog.getByLabel('Cut out').fill('1100');
       await shotDialog.getByRole('button', { name: 'Create shot' }).click();
       await shotDialog.getByText('Code is already used by another shot in this show').waitFor();
       await shotDialog.getByLabel('Code', { exact: true }).fill('BW_0040');
-      await shotDialog.getByLabel('Last frame').fill('1000');
+      await shotDialog.getByLabel('Cut out').fill('1000');
       await shotDialog.getByRole('button', { name: 'Create shot' }).click();
-      await shotDialog.getByText('Last frame must not be before the first frame').waitFor();
+      await shotDialog.getByText('Cut out must not be before the cut in').waitFor();
       await screenshot(page, 'library-new-shot');
-      await shotDialog.getByLabel('Last frame').fill('1100');
+      await shotDialog.getByLabel('Cut out').fill('1100');
+      await shotDialog.getByLabel('Tail handles').fill('12');
       await shotDialog.getByLabel('Due date').fill('2031-03-31');
       // A shot by hand starts at 00:00:00:00 at the show's rate; the plate's own timecode is typed in.
       expect(await shotDialog.getByLabel('Source timecode at cut in').inputValue()).toBe('00:00:00:00');
@@ -186,9 +192,13 @@ describe('shot library in Chromium', () => {
       await page.getByText('Created BW_0040.').waitFor();
       await expect.poll(() => table.locator('tbody tr[data-row]').count()).toBe(4);
       const [made] = await db().select().from(shots).where(eq(shots.code, 'BW_0040'));
-      expect([made!.firstFrame, made!.lastFrame, made!.handles, made!.frameRate, String(made!.dueDate).slice(0, 10), made!.sourceTimecodeIn]).toEqual([1001, 1100, 8, '24', '2031-03-31', '02:10:00:00']);
-      // 1001–1100 is 100 frames: the cut out is 99 frames after 02:10:00:00 at 24 fps (SMPTE ST 12-1, non-drop).
-      expect(await table.textContent()).toContain('02:10:00:00 – 02:10:04:03');
+      expect([made!.firstFrame, made!.lastFrame, made!.headHandles, made!.tailHandles, made!.frameRate, String(made!.dueDate).slice(0, 10), made!.sourceTimecodeIn]).toEqual([
+        1009, 1100, 8, 12, '24', '2031-03-31', '02:10:00:00',
+      ]);
+      // 1009–1100 is 92 frames: the cut out is 91 frames (3 s 19 f) after 02:10:00:00 at 24 fps (SMPTE ST 12-1, non-drop).
+      expect(await table.getByTestId('cut-range-BW_0040-frames').textContent()).toBe('1009–1100');
+      expect(await table.getByTestId('cut-range-BW_0040').textContent()).toContain('92f · head 8 · tail 12');
+      expect(await table.getByTestId('cut-range-BW_0040-source').textContent()).toBe('1009 · 02:10:00:00 – 1100 · 02:10:03:19');
       await screenshot(page, 'library-shots');
 
       // Keyboard: focus the first row, ↓ to the second, ↑ back, Enter opens BW_0010.
@@ -202,7 +212,8 @@ describe('shot library in Chromium', () => {
       expect(shotId).toBe(imported[0]!.id);
       await page.getByTestId('shot-page').getByRole('heading', { name: 'BW_0010' }).waitFor();
       // Frame 1009 (the cut in) is paired with the event's source in; the record range from the edit is shown too.
-      expect(await page.getByTestId('source-range').textContent()).toContain('1009 · 10:00:00:00 – 1056 · 10:00:01:23');
+      expect(await page.getByTestId('frame-range-source').textContent()).toContain('1009 · 10:00:00:00 – 1056 · 10:00:01:23');
+      expect(await page.getByTestId('frame-range').textContent()).toContain('48f · head 8 · tail 8');
       expect(await page.getByTestId('record-range').textContent()).toBe('record 01:00:00:00 – 01:00:02:00');
       expect(await page.getByRole('link', { name: 'Block a new version' }).getAttribute('href')).toBe(`/studios/${studio.slug}/shots/${shotId}/edit`);
 

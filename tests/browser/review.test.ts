@@ -3,10 +3,10 @@
 // new version, sees the notes carried over and submits it; the supervisor compares the two with the wipe and approves.
 // Needs the version page to mount src/components/review/ReviewPanel beside the player (currentFrame / onSeek wired).
 import { describe, it, expect, beforeAll, afterAll } from 'vitest';
-import type { BrowserContext, Page } from 'playwright-core';
-import { openBrowser, screenshot, signInAs } from '../support/browser';
+import type { Page } from 'playwright-core';
+import { answerCors, openBrowser, screenshot, signInAs } from '../support/browser';
 import { APP, makeStudio, waitForMail, type TestStudio } from '../support/app';
-import { tinyScene } from '../support/scenes';
+import { bakedVersion as bakedVersionOf } from '../support/bake';
 import { makeShot } from '../server/endpoints';
 import { closeDb } from '../../src/lib/server/db';
 
@@ -14,41 +14,12 @@ let studio: TestStudio;
 let shotId: number;
 afterAll(closeDb);
 
-async function bakedVersion(seed: number): Promise<number> {
-  const artist = studio.members.artist.client;
-  const saved = await artist.post(`/api/shots/${shotId}/versions`, { scene: tinyScene(12, seed), comment: `pass ${seed}` });
-  expect(saved.status, JSON.stringify(saved.body)).toBe(201);
-  const id: number = saved.body.version.id;
-  await artist.post(`/api/versions/${id}/bake`);
-  for (let i = 0; i < 600; i++) {
-    const res = await artist.get(`/api/versions/${id}/bake`);
-    if (res.body.bakeState === 'baked') return id;
-    if (res.body.bakeState === 'failed') throw new Error('bake failed');
-    await new Promise((r) => setTimeout(r, 200));
-  }
-  throw new Error('bake did not finish');
-}
+const bakedVersion = (seed: number) => bakedVersionOf(studio.members.artist.client, shotId, seed);
 
 beforeAll(async () => {
   studio = await makeStudio();
   shotId = await makeShot(studio);
 }, 60_000);
-
-/** The test S3 stand-in's CORS rules name the dev origins, not this run's random app port: answer for it here. */
-async function answerCors(context: BrowserContext) {
-  const appOrigin = new URL(APP).origin;
-  await context.route(
-    (url) => url.origin !== appOrigin,
-    async (route) => {
-      const cors = { 'access-control-allow-origin': appOrigin, 'access-control-expose-headers': 'Content-Range, Content-Length, ETag' };
-      if (route.request().method() === 'OPTIONS') {
-        return route.fulfill({ status: 204, headers: { ...cors, 'access-control-allow-methods': 'GET, HEAD', 'access-control-allow-headers': '*' } });
-      }
-      const response = await route.fetch();
-      return route.fulfill({ response, headers: { ...response.headers(), ...cors } });
-    },
-  );
-}
 
 const panelState = (page: Page) => page.getByTestId('review-panel-state');
 

@@ -8,7 +8,7 @@ import { openBrowser, screenshot, signInAs } from '../support/browser';
 import { makeStudio, unique, type TestStudio } from '../support/app';
 import { QUAY_CUT, fakeMp4, addMp4, addVersion } from '../support/turnover';
 import { closeDb, db } from '../../src/lib/server/db';
-import { shots } from '../../src/lib/server/db/schema';
+import { shots, versions } from '../../src/lib/server/db/schema';
 
 let studio: TestStudio;
 beforeAll(async () => {
@@ -21,7 +21,7 @@ describe('turnover on the show page', () => {
     const sup = studio.members.supervisor;
     const made = await sup.client.post(`/api/studios/${studio.id}/shows`, { code: unique('BT').slice(0, 14), name: 'Quay', frameRate: '24' });
     const show = made.body.show as { id: number; code: string };
-    const imported = await sup.client.post(`/api/studios/${studio.id}/shows/${show.id}/import/confirm`, { format: 'edl', text: QUAY_CUT, options: { codeFrom: 'clip', handles: 8 } });
+    const imported = await sup.client.post(`/api/studios/${studio.id}/shows/${show.id}/import/confirm`, { format: 'edl', text: QUAY_CUT, options: { codeFrom: 'clip', headHandles: 8, tailHandles: 8 } });
     expect(imported.status, JSON.stringify(imported.body)).toBe(200);
     const [a, b] = await db().select().from(shots).where(eq(shots.showId, show.id)).orderBy(shots.recordIn);
     const a1 = await addVersion(studio, a.id, 1, 'approved');
@@ -48,6 +48,17 @@ describe('turnover on the show page', () => {
       expect(Object.keys(files).sort()).toEqual([`${a.code}_v001.mp4`, `${show.code}_turnover.edl`, 'contents.txt'].sort());
       expect(files[`${a.code}_v001.mp4`]).toEqual(mp4);
       expect(strFromU8(files[`${show.code}_turnover.edl`])).toContain(`* FROM CLIP NAME: ${a.code}_v001.mp4`);
+
+      // Only what the client signed off: nothing yet, then a's version once the client signed it off.
+      await panel.getByLabel('Versions to include').selectOption('client');
+      await expect.poll(() => page.getByTestId('turnover-contents').innerText()).toContain('nothing yet');
+      await db().update(versions).set({ clientState: 'signed off' }).where(eq(versions.id, a1));
+      await page.reload();
+      await page.getByTestId('turnover').scrollIntoViewIfNeeded();
+      await page.locator('astro-island:not([ssr]) [data-testid="turnover"]').waitFor({ timeout: 30_000 });
+      await page.getByTestId('turnover').getByLabel('Versions to include').selectOption('client');
+      await expect.poll(() => page.getByTestId('turnover-contents').innerText()).toContain(`${a.code}_v001.mp4`);
+      await screenshot(page, 'turnover-panel-client-signed-off');
     } finally {
       await close();
     }

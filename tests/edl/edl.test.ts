@@ -29,7 +29,7 @@ const lines = [
 ];
 const EDL = lines.join('\r\n');
 
-const options = { codeFrom: 'clip' as const, handles: 8, startFrame: 1001 }; // 1001: common practice (no source)
+const options = { codeFrom: 'clip' as const, headHandles: 8, tailHandles: 8, startFrame: 1001 }; // 1001: common practice (no source)
 
 describe('CMX 3600 parser', () => {
   const parsed = parseCmx3600(EDL, '24');
@@ -74,11 +74,11 @@ describe('CMX 3600 parser', () => {
     // Cut in = 1001 + 8 handles = 1009 (common practice, no source: frame 1001 is the first frame with handles).
     // Event 001: 48 frames → 1009–1056; 002: 1 s 12 f = 36 → 1009–1044; 003 dissolve incoming: 3 s = 72 → 1009–1080;
     // 007: 24 → 1009–1032. The zero-length outgoing line of the dissolve, the audio and the black events make no shot.
-    expect(plan.shots.map((s) => [s.line, s.code, s.firstFrame, s.lastFrame, s.handles])).toEqual([
-      [4, 'CNB_010', 1009, 1056, 8],
-      [7, 'CNB_020', 1009, 1044, 8],
-      [10, 'CNB_030', 1009, 1080, 8],
-      [18, 'CNB_040_plate', 1009, 1032, 8],
+    expect(plan.shots.map((s) => [s.line, s.code, s.firstFrame, s.lastFrame, s.headHandles, s.tailHandles])).toEqual([
+      [4, 'CNB_010', 1009, 1056, 8, 8],
+      [7, 'CNB_020', 1009, 1044, 8, 8],
+      [10, 'CNB_030', 1009, 1080, 8, 8],
+      [18, 'CNB_040_plate', 1009, 1032, 8, 8],
     ]);
     expect(plan.shots[0].source).toMatchObject({ reel: 'A001C003', recordIn: '01:00:00:00', recordOut: '01:00:02:00' });
   });
@@ -109,7 +109,7 @@ describe('CMX 3600 parser', () => {
     expect(p.events[0].dropFrame).toBe(true);
     // 00:02:00;00 does not exist in drop-frame: reported on its line.
     expect(p.errors).toEqual([{ line: 7, message: expect.stringMatching(/does not exist in drop-frame/) }]);
-    const plan = planFromEdl(p, { ...options, handles: 0 });
+    const plan = planFromEdl(p, { ...options, headHandles: 0, tailHandles: 0 });
     expect(plan.shots.map((s) => [s.code, s.firstFrame, s.lastFrame])).toEqual([
       ['DF_010', 1001, 1004],
       ['DF_020', 1001, 1004],
@@ -151,32 +151,32 @@ describe('CMX 3600 parser', () => {
 });
 
 describe('import preview', () => {
-  const existingFrom = (codes: [string, number, number, number][]): ExistingShot[] =>
-    codes.map(([code, firstFrame, lastFrame, handles], i) => ({ id: i + 1, code, firstFrame, lastFrame, handles }));
+  const existingFrom = (codes: [string, number, number, number, number][]): ExistingShot[] =>
+    codes.map(([code, firstFrame, lastFrame, headHandles, tailHandles], i) => ({ id: i + 1, code, firstFrame, lastFrame, headHandles, tailHandles }));
 
   it('re-importing an updated edit reports changed ranges, not duplicates', () => {
     const first = previewText('edl', EDL, '24', [], options);
     expect(first.create.map((s) => s.code)).toEqual(['CNB_010', 'CNB_020', 'CNB_030', 'CNB_040_plate']);
-    const existing = existingFrom(first.create.map((s) => [s.code, s.firstFrame, s.lastFrame, s.handles]));
+    const existing = existingFrom(first.create.map((s) => [s.code, s.firstFrame, s.lastFrame, s.headHandles, s.tailHandles]));
     // The editor trims CNB_020 by 6 frames at the tail and adds a shot.
     const updated = EDL.replace('15:01:00:00 15:01:01:12 01:00:02:00 01:00:03:12', '15:01:00:00 15:01:01:06 01:00:02:00 01:00:03:06').concat(
       '\r\n009  A004C001 V     C        11:00:00:00 11:00:02:00 01:00:09:00 01:00:11:00\r\n* FROM CLIP NAME: CNB_050.mov\r\n',
     );
     const second = previewText('edl', updated, '24', existing, options);
     expect(second.create.map((s) => [s.code, s.firstFrame, s.lastFrame])).toEqual([['CNB_050', 1009, 1056]]);
-    expect(second.update).toEqual([{ id: 2, line: 7, code: 'CNB_020', from: { first: 1009, last: 1044, handles: 8 }, to: { first: 1009, last: 1038, handles: 8 }, source: expect.objectContaining({ reel: 'A001C007', recordIn: '01:00:02:00' }) }]);
+    expect(second.update).toEqual([{ id: 2, line: 7, code: 'CNB_020', from: { first: 1009, last: 1044, headHandles: 8, tailHandles: 8 }, to: { first: 1009, last: 1038, headHandles: 8, tailHandles: 8 }, source: expect.objectContaining({ reel: 'A001C007', recordIn: '01:00:02:00' }) }]);
     expect(second.unchanged.map((s) => s.code)).toEqual(['CNB_010', 'CNB_030', 'CNB_040_plate']);
     expect(second.errors.map((e) => e.line)).toEqual([16, 17, 20]);
   });
 
   it('matches codes case-insensitively and reports a code used twice on its second line', () => {
     const planned = [
-      { line: 2, code: 'sh010', firstFrame: 1001, lastFrame: 1010, handles: 8, description: null },
-      { line: 3, code: 'SH020', firstFrame: 1001, lastFrame: 1010, handles: 8, description: null },
-      { line: 4, code: 'SH020', firstFrame: 1001, lastFrame: 1020, handles: 8, description: null },
-      { line: 5, code: 'bad code!', firstFrame: 1001, lastFrame: 1020, handles: 8, description: null },
+      { line: 2, code: 'sh010', firstFrame: 1001, lastFrame: 1010, headHandles: 8, tailHandles: 8, description: null },
+      { line: 3, code: 'SH020', firstFrame: 1001, lastFrame: 1010, headHandles: 8, tailHandles: 8, description: null },
+      { line: 4, code: 'SH020', firstFrame: 1001, lastFrame: 1020, headHandles: 8, tailHandles: 8, description: null },
+      { line: 5, code: 'bad code!', firstFrame: 1001, lastFrame: 1020, headHandles: 8, tailHandles: 8, description: null },
     ];
-    const p = previewImport(existingFrom([['SH010', 1001, 1010, 8]]), planned);
+    const p = previewImport(existingFrom([['SH010', 1001, 1010, 8, 8]]), planned);
     expect(p.unchanged.map((s) => s.code)).toEqual(['SH010']);
     expect(p.create.map((s) => s.line)).toEqual([3]);
     expect(p.errors).toEqual([
@@ -201,19 +201,34 @@ describe('CSV shot lists', () => {
     ].join('\n');
     const parsed = parseShotCsv(csv, '24');
     expect(parsed.mode).toBe('frames');
-    expect(parsed.rows.map((r) => [r.line, r.code, r.first, r.last, r.handles, r.description])).toEqual([
-      [2, 'LHK_0100', 1001, 1072, 8, 'Wide, first wave'],
-      [3, 'LHK_0200', 1001, 1060, undefined, 'Wave slaps "the wall"'],
-      [9, 'LHK_0600', 1001, 1100, undefined, undefined],
+    expect(parsed.rows.map((r) => [r.line, r.code, r.first, r.last, r.headHandles, r.tailHandles, r.description])).toEqual([
+      [2, 'LHK_0100', 1001, 1072, 8, 8, 'Wide, first wave'],
+      [3, 'LHK_0200', 1001, 1060, undefined, undefined, 'Wave slaps "the wall"'],
+      [9, 'LHK_0600', 1001, 1100, undefined, undefined, undefined],
     ]);
     expect(parsed.errors.map((e) => e.line)).toEqual([4, 5, 6, 7]);
     expect(parsed.errors[0].message).toMatch(/before first/);
-    const plan = planFromCsv(parsed, { ...options, handles: 4 });
-    // Frame rows keep their numbers; a row without handles takes the option's.
-    expect(plan.shots.map((s) => [s.code, s.firstFrame, s.lastFrame, s.handles])).toEqual([
-      ['LHK_0100', 1001, 1072, 8],
-      ['LHK_0200', 1001, 1060, 4],
-      ['LHK_0600', 1001, 1100, 4],
+    const plan = planFromCsv(parsed, { ...options, headHandles: 4, tailHandles: 6 });
+    // Frame rows keep their numbers; a row without handles takes the options' head and tail.
+    expect(plan.shots.map((s) => [s.code, s.firstFrame, s.lastFrame, s.headHandles, s.tailHandles])).toEqual([
+      ['LHK_0100', 1001, 1072, 8, 8],
+      ['LHK_0200', 1001, 1060, 4, 6],
+      ['LHK_0600', 1001, 1100, 4, 6],
+    ]);
+  });
+
+  it('reads head_handles and tail_handles columns, each winning over "handles" for its end', () => {
+    const csv = ['code,first,last,handles,head_handles,tail_handles', 'HT_010,1009,1056,8,,12', 'HT_020,1001,1048,,0,', 'HT_030,1001,1048,4,x,'].join('\n');
+    const parsed = parseShotCsv(csv, '24');
+    expect(parsed.rows.map((r) => [r.code, r.headHandles, r.tailHandles])).toEqual([
+      ['HT_010', 8, 12],
+      ['HT_020', 0, undefined],
+    ]);
+    expect(parsed.errors).toEqual([{ line: 4, message: 'head_handles must be a whole number of frames, 0 or more, found "x"' }]);
+    const plan = planFromCsv(parsed, { ...options, headHandles: 8, tailHandles: 8 });
+    expect(plan.shots.map((s) => [s.code, s.headHandles, s.tailHandles])).toEqual([
+      ['HT_010', 8, 12],
+      ['HT_020', 0, 8],
     ]);
   });
 
@@ -222,7 +237,7 @@ describe('CSV shot lists', () => {
     const parsed = parseShotCsv(csv, '29.97df');
     expect(parsed.mode).toBe('timecode');
     expect(parsed.errors).toEqual([{ line: 3, message: expect.stringMatching(/must be after/) }]);
-    const plan = planFromCsv(parsed, { ...options, handles: 8 });
+    const plan = planFromCsv(parsed, { ...options, headHandles: 8, tailHandles: 8 });
     // SMPTE ST 12-1 drop-frame rule: 4 frames; placed at 1001 + 8 handles (common practice, no source).
     expect(plan.shots.map((s) => [s.code, s.firstFrame, s.lastFrame])).toEqual([['DF_010', 1009, 1012]]);
   });

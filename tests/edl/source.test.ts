@@ -4,7 +4,7 @@ import { describe, it, expect } from 'vitest';
 import { parseCmx3600, parseShotCsv, planFromCsv, planFromEdl } from '../../src/lib/edl';
 import { sourceTimecodeAt } from '../../src/lib/timecode';
 
-const options = { codeFrom: 'clip' as const, handles: 8, startFrame: 1001 };
+const options = { codeFrom: 'clip' as const, headHandles: 8, tailHandles: 8, startFrame: 1001 };
 
 describe('EDL import keeps source and record timecode (CMX 3600 layout, from memory)', () => {
   it('drop-frame events: source in, record in/out, reel, clip name; frames labelled per SMPTE ST 12-1', () => {

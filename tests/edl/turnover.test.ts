@@ -4,7 +4,7 @@ import { describe, it, expect } from 'vitest';
 import { parseCmx3600, planFromEdl, writeCmx3600, EdlWriteError } from '../../src/lib/edl';
 import { sourceTimecodeAt, timecodeToFrames } from '../../src/lib/timecode';
 
-const options = { codeFrom: 'clip' as const, handles: 8, startFrame: 1001 };
+const options = { codeFrom: 'clip' as const, headHandles: 8, tailHandles: 8, startFrame: 1001 };
 
 describe('turnover EDL writer (CMX 3600 layout, from memory)', () => {
   it('non-drop at 24: one cut event per shot in record order, re-read with the same record range and duration', () => {

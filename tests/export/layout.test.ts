@@ -9,6 +9,7 @@ import {
   ffmpegRate,
   gifDelays,
   mp4Args,
+  mp4StartTimecode,
   outputSize,
   resolveRange,
   slateLayout,
@@ -67,10 +68,12 @@ describe('gif.js trailing bytes', () => {
 });
 
 describe('frame range and size', () => {
-  const shot = { firstFrame: 1001, lastFrame: 1048, handles: 8 };
-  it('resolves the cut range, handles, and in/out', () => {
+  const shot = { firstFrame: 1001, lastFrame: 1048, headHandles: 8, tailHandles: 12 };
+  it('resolves the cut range, head and tail handles, and in/out', () => {
     expect(resolveRange({ kind: 'shot' }, shot)).toEqual({ first: 1001, last: 1048 });
-    expect(resolveRange({ kind: 'handles' }, shot)).toEqual({ first: 993, last: 1056 });
+    expect(resolveRange({ kind: 'handles' }, shot)).toEqual({ first: 993, last: 1060 });
+    // A tail never stored apart (null) counts as many frames as the head.
+    expect(resolveRange({ kind: 'handles' }, { ...shot, tailHandles: null })).toEqual({ first: 993, last: 1056 });
     expect(resolveRange({ kind: 'custom', first: 1010, last: 1020 }, shot)).toEqual({ first: 1010, last: 1020 });
     expect(() => resolveRange({ kind: 'custom', first: 1020, last: 1010 }, shot)).toThrow(/before/);
   });
@@ -168,6 +171,18 @@ describe('names and encoder settings', () => {
     expect(args.join(' ')).toContain('-pix_fmt yuv420p');
     expect(args.join(' ')).toContain('-framerate 25');
     expect(args.join(' ')).toContain('-r 25');
+    expect(args).not.toContain('-timecode');
+    expect(mp4Args('25', '01:00:09:24').join(' ')).toContain('-timecode 01:00:09:24 -movflags');
+  });
+  it("gives the MP4's timecode track the source timecode of its first picture (the slate sits on the frame before)", () => {
+    const at = (rateId: string, sourceTimecodeIn: string) => ({ ...labels, rateId, cutIn: 1001, sourceTimecodeIn });
+    // Source in 01:00:10:00 at the cut in; the slate one frame earlier (24 fps non-drop, SMPTE ST 12-1).
+    expect(mp4StartTimecode(at('24', '01:00:10:00'), 1001, true)).toBe('01:00:09:23');
+    expect(mp4StartTimecode(at('24', '01:00:10:00'), 1001, false)).toBe('01:00:10:00');
+    // From the head handles (993 = 8 frames before the cut in) with a slate: 9 frames before 01:00:10:00.
+    expect(mp4StartTimecode(at('24', '01:00:10:00'), 993, true)).toBe('01:00:09:15');
+    // Drop frame: the frame before 00:01:00;02 is 00:00:59;29 (SMPTE ST 12-1 skips ;00 and ;01 at minute 1).
+    expect(mp4StartTimecode(at('29.97df', '00:01:00;02'), 1001, true)).toBe('00:00:59;29');
   });
 });
 

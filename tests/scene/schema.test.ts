@@ -59,7 +59,7 @@ describe('parseScene', () => {
     [['physics', 'particlesPerCell'], 3, 'physics.particlesPerCell'],
     [['physics', 'gravity'], [0], 'physics.gravity'],
     [['tank', 'cellSize'], -1, 'tank.cellSize'],
-    [['tank', 'width'], 1.003, 'tank.width'],
+    [['tank', 'width'], 0, 'tank.width'], // any positive width is accepted (tests/sim/tank-size.test.ts); 0 is not
     [['timing', 'substeps'], 0, 'timing.substeps'],
     [['pours', 0, 'shape', 'width'], -0.5, 'pours.0.shape.width'],
     [['walls', 0, 'shape', 'radius'], 'big', 'walls.0.shape.radius'],

@@ -1,5 +1,6 @@
 // The authorization matrix: every endpoint called as anonymous, as each role, and as a member of another studio.
 // Expected: anonymous → 401; another studio's member → 404 (existence is not confirmed); a role below → 403; allowed → 2xx.
+// 'client-only' endpoints (the client's own sign-off) allow the client role alone: every studio role gets 403.
 import { describe, it, expect, beforeAll, afterAll } from 'vitest';
 import { readdirSync, readFileSync, statSync } from 'node:fs';
 import path from 'node:path';
@@ -34,7 +35,7 @@ function apiRoutes(): { method: string; route: string }[] {
 }
 
 const allowed = (access: Access, role: (typeof ROLES)[number]) =>
-  access === 'public' || access === 'signed-in' || roleAtLeast(role, access);
+  access === 'client-only' ? role === 'client' : access === 'public' || access === 'signed-in' || roleAtLeast(role, access);
 
 describe('authorization matrix', () => {
   it('lists every API endpoint (add new ones to tests/server/endpoints.ts)', () => {

@@ -9,7 +9,8 @@ import { sceneHash, parseScene } from '../../src/lib/scene';
 import { tinyScene } from '../support/scenes';
 import { hashToken } from '../../src/lib/server/tokens';
 
-export type Access = 'public' | 'signed-in' | Role;
+/** Who may call: anyone, any signed-in person, a role or above, or the client role alone ('client-only'). */
+export type Access = 'public' | 'signed-in' | Role | 'client-only';
 
 export interface EndpointCase {
   method: 'GET' | 'POST' | 'PATCH' | 'PUT' | 'DELETE';
@@ -493,4 +494,33 @@ ENDPOINTS.push(
   { method: 'POST', route: '/api/shared/[token]/unlock', access: 'public', path: () => '/api/shared/x/unlock' },
   { method: 'GET', route: '/api/shared/[token]/media', access: 'public', path: () => '/api/shared/x/media' },
   { method: 'POST', route: '/api/shared/[token]/notes', access: 'public', path: () => '/api/shared/x/notes' },
+);
+
+// ── Client sign-off (issue 13) ───────────────────────────────────────────────────────────────────────────────────
+// The fixture is a baked version shared with clients in a show the test client may see, approved by us; for a client
+// decision the studio has already asked for the sign-off. Only the client role may decide ('client-only').
+
+/** An approved, shared version; `asked` also puts it in 'waiting' (the studio asked for the client's sign-off). */
+export async function approvedVersion(s: TestStudio, asked = false) {
+  const made = await makeVersion(s, { baked: true });
+  await db().update(versions).set({ reviewState: 'approved', clientState: asked ? 'waiting' : 'not sent' }).where(eqId(made.versionId));
+  return made;
+}
+
+ENDPOINTS.push(
+  {
+    method: 'POST',
+    route: '/api/versions/[versionId]/client-review',
+    access: 'supervisor',
+    path: async (s) => `/api/versions/${(await approvedVersion(s)).versionId}/client-review`,
+    body: () => ({ message: 'matrix' }),
+  },
+  {
+    method: 'POST',
+    route: '/api/versions/[versionId]/client-review/decide',
+    access: 'client-only',
+    path: async (s) => `/api/versions/${(await approvedVersion(s, true)).versionId}/client-review/decide`,
+    body: () => ({ decision: 'sign-off' }),
+  },
+  { method: 'POST', route: '/api/shared/[token]/decision', access: 'public', path: () => '/api/shared/x/decision' },
 );

@@ -28,7 +28,7 @@ async function newShow(fields: Record<string, unknown> = {}) {
 async function newShot(showId: number, fields: Record<string, unknown> = {}) {
   const res = await supervisor().post(`${api()}/shots`, { showId, code: unique('SH'), lastFrame: 1100, ...fields });
   expect(res.status, JSON.stringify(res.body)).toBe(201);
-  return res.body.shot as { id: number; code: string; firstFrame: number; lastFrame: number; status: string };
+  return res.body.shot as { id: number; code: string; firstFrame: number; lastFrame: number; status: string; headHandles: number; tailHandles: number };
 }
 
 const countShots = async (showId: number) => Number((await db().select({ n: sql<number>`count(*)` }).from(shots).where(eq(shots.showId, showId)))[0].n);
@@ -114,7 +114,7 @@ describe('shots', () => {
   it('creates with defaults: first frame 1001 (common practice, no source), the show’s rate, status blocking', async () => {
     const res = await supervisor().post(`${api()}/shots`, { showId: show.id, code: 'LHK_0100', lastFrame: 1072 });
     expect(res.status).toBe(201);
-    expect(res.body.shot).toMatchObject({ code: 'LHK_0100', firstFrame: 1001, lastFrame: 1072, frameRate: '25', status: 'blocking', handles: 8, versions: [] });
+    expect(res.body.shot).toMatchObject({ code: 'LHK_0100', firstFrame: 1001, lastFrame: 1072, frameRate: '25', status: 'blocking', headHandles: 8, tailHandles: 8, versions: [] });
   });
 
   it('refuses a duplicate code in the show (409 naming code) but allows it in another show', async () => {
@@ -130,17 +130,18 @@ describe('shots', () => {
     const before = await countShots(show.id);
     const backwards = await supervisor().post(`${api()}/shots`, { showId: show.id, code: 'X_0', firstFrame: 1100, lastFrame: 1001 });
     expect(backwards.status).toBe(400);
-    expect(backwards.body.error.fields).toEqual({ lastFrame: 'must not be before the first frame' });
+    expect(backwards.body.error.fields).toEqual({ lastFrame: 'must not be before the cut in' });
     const res = await supervisor().post(`${api()}/shots`, {
       showId: show.id,
       code: 'X_1',
-      handles: -1,
+      headHandles: -1,
+      tailHandles: 1.5,
       frameRate: '31',
       pixelAspect: 0,
       dueDate: '2025-02-30',
     });
     expect(res.status).toBe(400);
-    expect(Object.keys(res.body.error.fields).sort()).toEqual(['dueDate', 'frameRate', 'handles', 'lastFrame', 'pixelAspect']);
+    expect(Object.keys(res.body.error.fields).sort()).toEqual(['dueDate', 'frameRate', 'headHandles', 'lastFrame', 'pixelAspect', 'tailHandles']);
     const noShow = await supervisor().post(`${api()}/shots`, { showId: 999999999, code: 'X_2', lastFrame: 1010 });
     expect(noShow.status).toBe(400);
     expect(noShow.body.error.fields.showId).toBeTruthy();
@@ -174,7 +175,7 @@ describe('shots', () => {
     expect(res.body.shot).toMatchObject({ description: 'Impact', firstFrame: 1001, lastFrame: 1060 });
     const bad = await supervisor().patch(`${api()}/shots/${shot.id}`, { firstFrame: 1100 });
     expect(bad.status).toBe(400);
-    expect(bad.body.error.fields.lastFrame).toMatch(/before the first frame \(1100\)/);
+    expect(bad.body.error.fields.lastFrame).toMatch(/before the cut in \(1100\)/);
     const unknown = await supervisor().patch(`${api()}/shots/${shot.id}`, { colour: 'red' });
     expect(unknown.status).toBe(400);
     const [entry] = await db()
@@ -329,16 +330,16 @@ const EDL_V1 = [
 describe('import', () => {
   it('previews an EDL (errors by line), refuses to confirm with errors, then imports the readable lines in one go', async () => {
     const show = await newShow({ frameRate: '24' });
-    const body = { format: 'edl', text: EDL_V1, options: { handles: 8, startFrame: 1001 } };
+    const body = { format: 'edl', text: EDL_V1, options: { headHandles: 8, tailHandles: 8, startFrame: 1001 } };
     const preview = await supervisor().post(`${api()}/shows/${show.id}/import/preview`, body);
     expect(preview.status).toBe(200);
     const p = preview.body.preview;
     expect(p.title).toBe('HARBOUR WALL CUT 1');
     // 3 s = 72 frames, 2 s = 48, 4 s = 96 at 24 fps; cut in at 1001 + 8 handles (common practice, no source).
-    expect(p.create.map((s: any) => [s.code, s.firstFrame, s.lastFrame, s.handles])).toEqual([
-      ['HW_0100', 1009, 1080, 8],
-      ['HW_0200', 1009, 1056, 8],
-      ['HW_0300', 1009, 1104, 8],
+    expect(p.create.map((s: any) => [s.code, s.firstFrame, s.lastFrame, s.headHandles, s.tailHandles])).toEqual([
+      ['HW_0100', 1009, 1080, 8, 8],
+      ['HW_0200', 1009, 1056, 8, 8],
+      ['HW_0300', 1009, 1104, 8, 8],
     ]);
     expect(p.errors).toEqual([{ line: 12, message: expect.stringMatching(/timecode/) }]);
     expect(await countShots(show.id)).toBe(0);
@@ -353,10 +354,10 @@ describe('import', () => {
     expect(done.status).toBe(200);
     expect(done.body.import.summary).toEqual({ create: 3, update: 0, unchanged: 0, errors: 1 });
     const rows = await db().select().from(shots).where(eq(shots.showId, show.id)).orderBy(shots.code);
-    expect(rows.map((r) => [r.code, r.firstFrame, r.lastFrame, r.handles, r.frameRate])).toEqual([
-      ['HW_0100', 1009, 1080, 8, '24'],
-      ['HW_0200', 1009, 1056, 8, '24'],
-      ['HW_0300', 1009, 1104, 8, '24'],
+    expect(rows.map((r) => [r.code, r.firstFrame, r.lastFrame, r.headHandles, r.tailHandles, r.frameRate])).toEqual([
+      ['HW_0100', 1009, 1080, 8, 8, '24'],
+      ['HW_0200', 1009, 1056, 8, 8, '24'],
+      ['HW_0300', 1009, 1104, 8, 8, '24'],
     ]);
 
     // The editor trims HW_0200 by 12 frames and fixes the bad line: re-import reports the change, no duplicates.
@@ -368,7 +369,7 @@ describe('import', () => {
     const again = await supervisor().post(`${api()}/shows/${show.id}/import/preview`, { ...body, text: v2 });
     const q = again.body.preview;
     expect(q.errors).toEqual([]);
-    expect(q.update).toEqual([expect.objectContaining({ code: 'HW_0200', from: { first: 1009, last: 1056, handles: 8 }, to: { first: 1009, last: 1044, handles: 8 } })]);
+    expect(q.update).toEqual([expect.objectContaining({ code: 'HW_0200', from: { first: 1009, last: 1056, headHandles: 8, tailHandles: 8 }, to: { first: 1009, last: 1044, headHandles: 8, tailHandles: 8 } })]);
     expect(q.unchanged.map((s: any) => s.code)).toEqual(['HW_0100', 'HW_0300']);
     expect(q.create.map((s: any) => [s.code, s.firstFrame, s.lastFrame])).toEqual([['HW_0400', 1009, 1032]]);
     const applied = await supervisor().post(`${api()}/shows/${show.id}/import/confirm`, { ...body, text: v2 });
@@ -397,7 +398,7 @@ describe('import', () => {
     const res = await supervisor().post(`${api()}/shows/${show.id}/import/confirm`, {
       format: 'edl',
       text: edl,
-      options: { codeFrom: 'pattern', pattern: 'DF_{n:03}0', handles: 0 },
+      options: { codeFrom: 'pattern', pattern: 'DF_{n:03}0', headHandles: 0, tailHandles: 0 },
     });
     expect(res.status, JSON.stringify(res.body)).toBe(200);
     const rows = await db().select().from(shots).where(eq(shots.showId, show.id)).orderBy(shots.code);
@@ -410,24 +411,24 @@ describe('import', () => {
 
   it('imports a CSV shot list and reports bad rows by line', async () => {
     const show = await newShow();
-    const text = 'code,first,last,handles,description\nCSV_010,1001,1040,4,"Can, tumbling"\nCSV_020,1001,900,4,backwards\nCSV_030,1001,1030,,\n';
-    const preview = await supervisor().post(`${api()}/shows/${show.id}/import/preview`, { format: 'csv', text, options: { handles: 6 } });
+    const text = 'code,first,last,handles,tail_handles,description\nCSV_010,1001,1040,4,,"Can, tumbling"\nCSV_020,1001,900,4,,backwards\nCSV_030,1001,1030,,10,\n';
+    const preview = await supervisor().post(`${api()}/shows/${show.id}/import/preview`, { format: 'csv', text, options: { headHandles: 6, tailHandles: 6 } });
     expect(preview.body.preview.errors).toEqual([{ line: 3, message: expect.stringMatching(/before first/) }]);
-    const done = await supervisor().post(`${api()}/shows/${show.id}/import/confirm`, { format: 'csv', text, options: { handles: 6 }, skipErrors: true });
+    const done = await supervisor().post(`${api()}/shows/${show.id}/import/confirm`, { format: 'csv', text, options: { headHandles: 6, tailHandles: 6 }, skipErrors: true });
     expect(done.status).toBe(200);
     const rows = await db().select().from(shots).where(eq(shots.showId, show.id)).orderBy(shots.code);
-    expect(rows.map((r) => [r.code, r.firstFrame, r.lastFrame, r.handles, r.description])).toEqual([
-      ['CSV_010', 1001, 1040, 4, 'Can, tumbling'],
-      ['CSV_030', 1001, 1030, 6, null],
+    expect(rows.map((r) => [r.code, r.firstFrame, r.lastFrame, r.headHandles, r.tailHandles, r.description])).toEqual([
+      ['CSV_010', 1001, 1040, 4, 4, 'Can, tumbling'],
+      ['CSV_030', 1001, 1030, 6, 10, null],
     ]);
   });
 
   it('refuses bad import requests naming the field, and a body over 1 MB with 413', async () => {
     const show = await newShow();
     const url = `${api()}/shows/${show.id}/import/preview`;
-    const bad = await supervisor().post(url, { format: 'xml', text: '', options: { codeFrom: 'pattern', handles: -2 } });
+    const bad = await supervisor().post(url, { format: 'xml', text: '', options: { codeFrom: 'pattern', headHandles: -2 } });
     expect(bad.status).toBe(400);
-    expect(Object.keys(bad.body.error.fields).sort()).toEqual(['format', 'options.handles', 'options.pattern', 'text']);
+    expect(Object.keys(bad.body.error.fields).sort()).toEqual(['format', 'options.headHandles', 'options.pattern', 'text']);
     const big = await supervisor().post(url, { format: 'csv', text: 'code,first,last\n' + 'A,1,2\n'.repeat(200_000) });
     expect(big.status).toBe(413);
     expect(await countShots(show.id)).toBe(0);
@@ -512,16 +513,17 @@ describe('handle convention (studio setting, owner only)', () => {
     const owner = s.members.owner.client;
     const importInto = async () => {
       const show = await sup.post(`${api(s)}/shows`, { code: unique('HC').slice(0, 14), name: 'Handles', frameRate: '24' });
-      const res = await sup.post(`${api(s)}/shows/${show.body.show.id}/import/confirm`, { format: 'edl', text: EDL, options: { codeFrom: 'clip', handles: 8 } });
+      // Head and tail apart (8 and 12) so a swap of the two would show.
+      const res = await sup.post(`${api(s)}/shows/${show.body.show.id}/import/confirm`, { format: 'edl', text: EDL, options: { codeFrom: 'clip', headHandles: 8, tailHandles: 12 } });
       expect(res.status, JSON.stringify(res.body)).toBe(200);
       const rows = await db().select().from(shots).where(eq(shots.showId, show.body.show.id)).orderBy(shots.code);
-      return rows.map((r) => [r.code, r.firstFrame, r.lastFrame, r.handles, r.sourceTimecodeIn]);
+      return rows.map((r) => [r.code, r.firstFrame, r.lastFrame, r.headHandles, r.tailHandles, r.sourceTimecodeIn]);
     };
     expect((await owner.get(`${api(s)}/settings`)).body.settings).toEqual({ handleConvention: 'head-handle' });
     // Default: 1001 on the first head-handle frame (common practice (no source)), so the cut in is 1001 + 8.
     expect(await importInto()).toEqual([
-      ['HC_010', 1009, 1056, 8, '01:00:10:00'],
-      ['HC_020', 1009, 1038, 8, '02:00:00:00'],
+      ['HC_010', 1009, 1056, 8, 12, '01:00:10:00'],
+      ['HC_020', 1009, 1038, 8, 12, '02:00:00:00'],
     ]);
 
     const refused = await sup.patch(`${api(s)}/settings`, { handleConvention: 'cut-in' });
@@ -533,8 +535,8 @@ describe('handle convention (studio setting, owner only)', () => {
     expect(set.status, JSON.stringify(set.body)).toBe(200);
     // The cut in is 1001; durations (48, 30 frames) and the source in at the cut in are the same.
     expect(await importInto()).toEqual([
-      ['HC_010', 1001, 1048, 8, '01:00:10:00'],
-      ['HC_020', 1001, 1030, 8, '02:00:00:00'],
+      ['HC_010', 1001, 1048, 8, 12, '01:00:10:00'],
+      ['HC_020', 1001, 1030, 8, 12, '02:00:00:00'],
     ]);
   });
 });
@@ -542,7 +544,7 @@ describe('handle convention (studio setting, owner only)', () => {
 describe("plate's first frame", () => {
   it('is kept on create and edit (null = the plate starts at the cut in); a bad value → 400 naming plateFirstFrame', async () => {
     const show = await newShow();
-    const shot = await newShot(show.id, { firstFrame: 1009, lastFrame: 1056, handles: 8, plateFirstFrame: 1001 });
+    const shot = await newShot(show.id, { firstFrame: 1009, lastFrame: 1056, headHandles: 8, tailHandles: 8, plateFirstFrame: 1001 });
     const [row] = await db().select().from(shots).where(eq(shots.id, shot.id));
     expect(row.plateFirstFrame).toBe(1001);
     const cleared = await supervisor().patch(`${api()}/shots/${shot.id}`, { plateFirstFrame: null });
@@ -551,5 +553,28 @@ describe("plate's first frame", () => {
     const bad = await supervisor().patch(`${api()}/shots/${shot.id}`, { plateFirstFrame: 10.5 });
     expect(bad.status).toBe(400);
     expect(bad.body.error.fields).toHaveProperty('plateFirstFrame');
+  });
+});
+
+describe('head and tail handles', () => {
+  it('are stored apart; an edit of the head keeps the tail; a tail never stored apart (null) reads as the head', async () => {
+    const show = await newShow();
+    const shot = await newShot(show.id, { firstFrame: 1009, lastFrame: 1056, headHandles: 8, tailHandles: 16 });
+    expect([shot.headHandles, shot.tailHandles]).toEqual([8, 16]);
+    const head = await supervisor().patch(`${api()}/shots/${shot.id}`, { headHandles: 4 });
+    expect(head.status, JSON.stringify(head.body)).toBe(200);
+    expect([head.body.shot.headHandles, head.body.shot.tailHandles]).toEqual([4, 16]);
+    // A shot made before head and tail were apart has tail_handles null: the API and the table read the head's count.
+    await db().update(shots).set({ headHandles: 6, tailHandles: null }).where(eq(shots.id, shot.id));
+    const read = await supervisor().get(`${api()}/shots/${shot.id}`);
+    expect([read.body.shot.headHandles, read.body.shot.tailHandles]).toEqual([6, 6]);
+    const list = await supervisor().get(`${api()}/shots?showId=${show.id}`);
+    expect(list.body.items.map((r: any) => [r.headHandles, r.tailHandles])).toEqual([[6, 6]]);
+    // Changing only the head now stores the tail it had (6), so the tail does not silently follow.
+    await supervisor().patch(`${api()}/shots/${shot.id}`, { headHandles: 10 });
+    expect((await db().select().from(shots).where(eq(shots.id, shot.id)))[0].tailHandles).toBe(6);
+    const bad = await supervisor().patch(`${api()}/shots/${shot.id}`, { tailHandles: -3 });
+    expect(bad.status).toBe(400);
+    expect(bad.body.error.fields).toHaveProperty('tailHandles');
   });
 });

@@ -304,6 +304,8 @@ describe('inbox, compare and e-mails', () => {
     const base = `${APP}/studios/${studio.slug}/versions/${v}`;
     expect(mail.text).toContain(`${base}?frame=1003`);
     expect(mail.text).toContain(`${base}?frame=1009`);
+    // Each note's frame is written with its source timecode: 2 frames after the cut in (1001, source 00:00:00:00) at 24 fps (SMPTE ST 12-1).
+    expect(mail.text).toContain('Frame 1003 · 00:00:00:02');
     expect(mail.text).toContain('crest breaks too soon');
     expect(mail.html).toContain(`href="${base}?frame=1003"`);
     // A signed-out reader of the link is sent through sign-in (once the version page exists).

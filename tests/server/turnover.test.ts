@@ -26,7 +26,7 @@ async function newShow() {
 }
 
 async function importCut(showId: number, text: string) {
-  const res = await supervisor().post(`${api()}/shows/${showId}/import/confirm`, { format: 'edl', text, options: { codeFrom: 'clip', handles: 8 } });
+  const res = await supervisor().post(`${api()}/shows/${showId}/import/confirm`, { format: 'edl', text, options: { codeFrom: 'clip', headHandles: 8, tailHandles: 8 } });
   expect(res.status, JSON.stringify(res.body)).toBe(200);
   return db().select().from(shots).where(eq(shots.showId, showId)).orderBy(shots.recordIn);
 }
@@ -64,6 +64,9 @@ describe('turnover to editorial', () => {
     const res = await download(`${api()}/shows/${show.id}/turnover?approval=internal&format=zip`);
     expect(res.status).toBe(200);
     expect(res.headers.get('content-type')).toBe('application/zip');
+    // Streamed as it is written: no length up front, sent in chunks.
+    expect(res.headers.get('content-length')).toBeNull();
+    expect(res.headers.get('transfer-encoding')).toBe('chunked');
     expect(res.headers.get('content-disposition')).toContain(`${show.code}_turnover.zip`);
     const files = unzipSync(new Uint8Array(await res.arrayBuffer()));
     const edlName = `${show.code}_turnover.edl`;

@@ -43,6 +43,13 @@ export async function screenshot(page: Page, name: string) {
   await page.screenshot({ path: path.join(SHOTS_DIR, `${name}.png`), fullPage: true });
 }
 
+/** Waits until every island on the page has hydrated (Astro drops an island's `ssr` attribute then), so a click
+ *  lands on a live control rather than on server-rendered markup that ignores it. Islands loaded `client:visible`
+ *  stay unhydrated until scrolled into view: on such pages wait for the one island you need instead. */
+export async function waitForIslands(page: Page, timeout = 60_000) {
+  await page.waitForFunction(() => document.querySelectorAll('astro-island[ssr]').length === 0, undefined, { timeout });
+}
+
 export async function signInAs(page: Page, email: string, password: string) {
   await page.goto('/sign-in');
   // Under CPU load the form's island can still be hydrating; a click before that submits nothing, and the
@@ -52,4 +59,20 @@ export async function signInAs(page: Page, email: string, password: string) {
   await page.locator('input[name="email"]').fill(email);
   await page.locator('input[name="password"]').fill(password);
   await page.getByRole('button', { name: 'Sign in' }).click();
+}
+
+/** The test S3 stand-in's CORS rules name the dev origins, not this run's random app port: answer for it here. */
+export async function answerCors(context: BrowserContext) {
+  const appOrigin = new URL(APP).origin;
+  await context.route(
+    (url) => url.origin !== appOrigin,
+    async (route) => {
+      const cors = { 'access-control-allow-origin': appOrigin, 'access-control-expose-headers': 'Content-Range, Content-Length, ETag' };
+      if (route.request().method() === 'OPTIONS') {
+        return route.fulfill({ status: 204, headers: { ...cors, 'access-control-allow-methods': 'GET, HEAD', 'access-control-allow-headers': '*' } });
+      }
+      const response = await route.fetch();
+      return route.fulfill({ response, headers: { ...response.headers(), ...cors } });
+    },
+  );
 }

@@ -1,6 +1,6 @@
 // Source timecode of a shot frame: the plate's timecode at the cut in plus the frame's offset from the cut in.
 import { describe, it, expect } from 'vitest';
-import { rateText, sourceTimecodeAt, sourceTimecodeLabel, TimecodeError } from '../../src/lib/timecode';
+import { frameWithTimecode, rateText, sourceTimecodeAt, sourceTimecodeLabel, TimecodeError } from '../../src/lib/timecode';
 
 describe('sourceTimecodeAt', () => {
   it('labels the cut-in frame with the source in, not the frame number (non-drop 24, SMPTE ST 12-1)', () => {
@@ -49,5 +49,18 @@ describe('rateText', () => {
     expect(rateText('59.94')).toBe('59.94 NDF');
     expect(rateText('24')).toBe('24 fps');
     expect(rateText('23.976')).toBe('23.976 fps');
+  });
+});
+
+describe('frameWithTimecode', () => {
+  it('pairs the frame number with its source timecode, drop frame included (SMPTE ST 12-1)', () => {
+    expect(frameWithTimecode({ firstFrame: 1009, frameRate: '24', sourceTimecodeIn: '01:00:10:00' }, 1009)).toBe('1009 · 01:00:10:00');
+    expect(frameWithTimecode({ firstFrame: 1001, frameRate: '29.97df', sourceTimecodeIn: '00:00:59;28' }, 1003)).toBe('1003 · 00:01:00;02');
+    // Never the frame number read as timecode: 1009 at 24 fps would be 00:00:42:01.
+    expect(frameWithTimecode({ firstFrame: 1009, frameRate: '24', sourceTimecodeIn: null }, 1009)).toBe('1009 · 00:00:00:00');
+  });
+
+  it('falls back to the number alone when the source timecode cannot label the frame', () => {
+    expect(frameWithTimecode({ firstFrame: 1001, frameRate: '24', sourceTimecodeIn: 'not a tc' }, 1005)).toBe('1005');
   });
 });

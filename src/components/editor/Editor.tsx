@@ -20,6 +20,7 @@ import { SavePanel } from './SavePanel';
 import { HelpOverlay } from './HelpOverlay';
 import type { EditorBoot } from './types';
 import { versionLabel } from '~/lib/vocab';
+import { plateStartFrame } from '~/lib/plate';
 
 const TOOLS: { id: ToolId; label: string; key: string; what: string; icon: ReactElement }[] = [
   { id: 'select', label: 'Pick', key: '1', what: 'Select, move, resize, rotate', icon: <path d="M5 3l10 6-4.5 1.2L13 15l-2 1-2.4-4.8L5 14z" fill="currentColor" /> },
@@ -225,7 +226,7 @@ export default function Editor({ boot }: { boot: EditorBoot }) {
           </div>
 
           <div className="relative min-h-0 flex-1">
-            <Viewport store={store} preview={preview} plate={plate} plateFirstFrame={boot.shot.plateFirstFrame ?? boot.shot.firstFrame} look={look} showPreview={showPreview} viewRef={viewRef} onCursor={onCursor} />
+            <Viewport store={store} preview={preview} plate={plate} plateFirstFrame={plateStartFrame(boot.shot)} look={look} showPreview={showPreview} viewRef={viewRef} onCursor={onCursor} />
             <div className="pointer-events-none absolute right-2 bottom-2 rounded bg-ink/70 px-2 py-0.5 text-[0.7rem] text-sand tabular-nums">
               {cursor ? `x ${cursor[0].toFixed(3)} m · y ${cursor[1].toFixed(3)} m` : 'Wheel zooms · Space-drag pans'}
             </div>

@@ -4,7 +4,7 @@ import type { EditorDoc } from '~/lib/editor/document';
 export interface EditorBoot {
   studio: { id: number; slug: string };
   shot: {
-    id: number; code: string; firstFrame: number; lastFrame: number; handles: number; frameRate: string;
+    id: number; code: string; firstFrame: number; lastFrame: number; headHandles: number; tailHandles: number; frameRate: string;
     plateWidth: number; plateHeight: number; metresPerPixel: number | null;
     /** Source timecode of the cut-in frame (null: 00:00:00:00). */
     sourceTimecodeIn: string | null;

@@ -16,6 +16,7 @@ import {
   type SizeChoice,
 } from '~/lib/export/layout';
 import { formatEta, STAGE_LABELS, type ProgressReport } from '~/lib/export/progress';
+import { rangeWithHandles } from '~/lib/library/handles';
 import { EXPORT_STORED_EVENT, listExports, storeExport, type StoredExport } from '~/lib/export/store';
 
 export interface ExportPanelProps {
@@ -28,10 +29,13 @@ export interface ExportPanelProps {
   versionNumber: number;
   artistName: string | null;
   reviewState: string;
-  /** The shot's cut range and handles, in shot frames. */
+  /** The shot's cut in and cut out, head and tail handles, in shot frames. */
   firstFrame: number;
   lastFrame: number;
-  handles: number;
+  headHandles: number;
+  tailHandles: number;
+  /** Shot frame number of the plate's first frame (null: the cut in): a video plate is seeked by it. */
+  plateFirstFrame: number | null;
   /** Frame rate id of the shot, e.g. '24' or '29.97df'. */
   frameRate: string;
   /** Source timecode at the cut in, and where the shot sits in the cut (burn-ins and slate print these). */
@@ -101,6 +105,7 @@ export default function ExportPanel(p: ExportPanelProps) {
   } catch (e) {
     rangeError = e instanceof Error ? e.message : String(e);
   }
+  const withHandles = rangeWithHandles(p);
   const sizeChoice: SizeChoice = sizeKind === 'width' ? { kind: 'width', width } : { kind: sizeKind };
   const size = outputSize(sizeChoice, p.plateWidth, p.plateHeight);
   const frameCount = range.last - range.first + 1 + (slate ? 1 : 0);
@@ -125,7 +130,7 @@ export default function ExportPanel(p: ExportPanelProps) {
         const res = await fetch(`/api/studios/${p.studioId}/plates/${p.plate.assetId}`);
         const body = await res.json();
         if (!res.ok) throw new Error(body?.error?.message ?? 'Could not open the plate');
-        plateSource = await openPlate({ url: body.url, contentType: p.plate.contentType, firstFrame: p.firstFrame, fps: rateInfo(p.frameRate).fps });
+        plateSource = await openPlate({ url: body.url, contentType: p.plate.contentType, shot: p, fps: rateInfo(p.frameRate).fps });
       }
       const labels: ExportLabels = {
         studioName: p.studioName,
@@ -225,7 +230,7 @@ export default function ExportPanel(p: ExportPanelProps) {
             Cut range {p.firstFrame}–{p.lastFrame}
           </option>
           <option value="handles">
-            With handles {p.firstFrame - p.handles}–{p.lastFrame + p.handles}
+            With handles {withHandles.first}–{withHandles.last} (head {p.headHandles}, tail {p.tailHandles})
           </option>
           <option value="custom">In and out…</option>
         </select>

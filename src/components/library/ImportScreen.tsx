@@ -9,25 +9,36 @@ import { importBody, MAX_IMPORT_BYTES } from '~/lib/library/schemas';
 import { api, ApiError } from '../shared/api';
 import { applyServerError, FormMessage, SubmitButton, Spinner } from '../shared/form';
 import { InputField, toNumber } from './fields';
-import { rangeLength } from './format';
-import { rateText, sourceTimecodeLabel } from '~/lib/timecode';
+import { CutRange, handlesText } from './CutRange';
+import { rateText } from '~/lib/timecode';
+import { DEFAULT_FIRST_FRAME, DEFAULT_HANDLES } from '~/lib/library/handles';
 import type { ShotSource } from '~/lib/edl/preview';
 import type { ShowDetail, Viewer } from './types';
 
 type Input = z.input<typeof importBody>;
 type Output = z.output<typeof importBody>;
-const FIELDS = ['format', 'text', 'options.codeFrom', 'options.pattern', 'options.handles', 'options.startFrame'] as const;
+const FIELDS = ['format', 'text', 'options.codeFrom', 'options.pattern', 'options.headHandles', 'options.tailHandles', 'options.startFrame'] as const;
 
 interface Range {
   first: number;
   last: number;
-  handles: number;
+  headHandles: number;
+  tailHandles: number;
+}
+interface Planned {
+  line: number;
+  code: string;
+  firstFrame: number;
+  lastFrame: number;
+  headHandles: number;
+  tailHandles: number;
+  source?: ShotSource;
 }
 interface Preview {
   frameRate: string;
-  create: { line: number; code: string; firstFrame: number; lastFrame: number; handles: number; description: string | null; source?: ShotSource }[];
+  create: (Planned & { description: string | null })[];
   update: { id: number; line: number; code: string; from: Range; to: Range; source?: ShotSource }[];
-  unchanged: { id: number; line: number; code: string; firstFrame: number; lastFrame: number }[];
+  unchanged: (Planned & { id: number })[];
   errors: { line: number; message: string }[];
   summary: { create: number; update: number; unchanged: number; errors: number };
 }
@@ -37,7 +48,7 @@ interface Done {
 }
 
 export default function ImportScreen({ viewer, show }: { viewer: Viewer; show: ShowDetail }) {
-  const { studioId, studioSlug } = viewer;
+  const { studioId, studioSlug, handleConvention: convention } = viewer;
   const [message, setMessage] = useState('');
   const [preview, setPreview] = useState<{ data: Preview; body: Output } | null>(null);
   const [done, setDone] = useState<Done | null>(null);
@@ -46,7 +57,7 @@ export default function ImportScreen({ viewer, show }: { viewer: Viewer; show: S
   const fileInput = useRef<HTMLInputElement>(null);
   const form = useForm<Input, unknown, Output>({
     resolver: zodResolver(importBody),
-    defaultValues: { format: 'edl', text: '', options: { codeFrom: 'clip', pattern: undefined, handles: 8, startFrame: 1001 }, skipErrors: false },
+    defaultValues: { format: 'edl', text: '', options: { codeFrom: 'clip', pattern: undefined, headHandles: DEFAULT_HANDLES, tailHandles: DEFAULT_HANDLES, startFrame: DEFAULT_FIRST_FRAME }, skipErrors: false },
   });
   const { errors, isSubmitting } = form.formState;
   const codeFrom = form.watch('options.codeFrom');
@@ -168,9 +179,16 @@ export default function ImportScreen({ viewer, show }: { viewer: Viewer; show: S
               }
             />
           )}
-          <div className="grid grid-cols-2 gap-3">
-            <InputField label="Handles" type="number" registration={form.register('options.handles', { setValueAs: toNumber })} error={errors.options?.handles?.message} hint="frames each side" />
-            <InputField label="Start frame" type="number" registration={form.register('options.startFrame', { setValueAs: toNumber })} error={errors.options?.startFrame?.message} hint="first frame incl. handles" />
+          <div className="grid grid-cols-3 gap-3">
+            <InputField label="Head handles" type="number" registration={form.register('options.headHandles', { setValueAs: toNumber })} error={errors.options?.headHandles?.message} hint="frames before the cut in" />
+            <InputField label="Tail handles" type="number" registration={form.register('options.tailHandles', { setValueAs: toNumber })} error={errors.options?.tailHandles?.message} hint="frames after the cut out" />
+            <InputField
+              label="First frame number"
+              type="number"
+              registration={form.register('options.startFrame', { setValueAs: toNumber })}
+              error={errors.options?.startFrame?.message}
+              hint={convention === 'cut-in' ? 'falls on the cut in (studio setting)' : 'falls on the first head-handle frame (studio setting)'}
+            />
           </div>
         </fieldset>
         <div className="flex justify-end gap-2">
@@ -242,15 +260,19 @@ export default function ImportScreen({ viewer, show }: { viewer: Viewer; show: S
                       What happens
                     </th>
                     <th scope="col" className="px-3 py-2.5 pr-5 font-medium">
-                      Frame range ({rateText(p.frameRate)})
+                      Cut in – cut out, handles ({rateText(p.frameRate)})
                     </th>
                   </tr>
                 </thead>
                 <tbody className="divide-y divide-sand-line/70">
                   {[
-                    ...p.create.map((s) => ({ line: s.line, key: `c${s.line}`, row: <PlanRow line={s.line} code={s.code} kind="create" first={s.firstFrame} last={s.lastFrame} handles={s.handles} rate={p.frameRate} sourceIn={s.source?.sourceIn ?? null} note={s.source?.clipName ?? undefined} /> })),
-                    ...p.update.map((u) => ({ line: u.line, key: `u${u.line}`, row: <PlanRow line={u.line} code={u.code} kind="update" first={u.to.first} last={u.to.last} handles={u.to.handles} rate={p.frameRate} sourceIn={u.source?.sourceIn ?? null} from={u.from} /> })),
-                    ...p.unchanged.map((s) => ({ line: s.line, key: `n${s.line}`, row: <PlanRow line={s.line} code={s.code} kind="unchanged" first={s.firstFrame} last={s.lastFrame} rate={p.frameRate} /> })),
+                    ...p.create.map((s) => ({ line: s.line, key: `c${s.line}`, row: <PlanRow kind="create" shot={s} rate={p.frameRate} note={s.source?.clipName ?? undefined} /> })),
+                    ...p.update.map((u) => ({
+                      line: u.line,
+                      key: `u${u.line}`,
+                      row: <PlanRow kind="update" shot={{ line: u.line, code: u.code, firstFrame: u.to.first, lastFrame: u.to.last, headHandles: u.to.headHandles, tailHandles: u.to.tailHandles, source: u.source }} rate={p.frameRate} from={u.from} />,
+                    })),
+                    ...p.unchanged.map((s) => ({ line: s.line, key: `n${s.line}`, row: <PlanRow kind="unchanged" shot={s} rate={p.frameRate} /> })),
                   ]
                     .sort((a, b) => a.line - b.line)
                     .map((r) => (
@@ -312,13 +334,13 @@ const KIND = {
   unchanged: { label: 'unchanged', mark: '=', tone: 'text-ink-muted' },
 } as const;
 
-function PlanRow({ line, code, kind, first, last, handles, rate, sourceIn, from, note }: { line: number; code: string; kind: keyof typeof KIND; first: number; last: number; handles?: number; rate: string; sourceIn?: string | null; from?: Range; note?: string }) {
+function PlanRow({ kind, shot, rate, from, note }: { kind: keyof typeof KIND; shot: Planned; rate: string; from?: Range; note?: string }) {
   const k = KIND[kind];
   return (
     <tr data-kind={kind} className={kind === 'unchanged' ? 'text-ink-muted' : ''}>
-      <td className="px-3 py-2 pl-5 font-mono text-xs text-ink-muted">{line}</td>
+      <td className="px-3 py-2 pl-5 font-mono text-xs text-ink-muted">{shot.line}</td>
       <td className="px-3 py-2">
-        <span className="font-semibold">{code}</span>
+        <span className="font-semibold">{shot.code}</span>
         {note && <span className="block text-xs text-ink-muted">{note}</span>}
       </td>
       <td className={`px-3 py-2 whitespace-nowrap ${k.tone}`}>
@@ -327,22 +349,16 @@ function PlanRow({ line, code, kind, first, last, handles, rate, sourceIn, from,
         </span>
         {k.label}
       </td>
-      <td className="px-3 py-2 pr-5 whitespace-nowrap tabular-nums">
+      <td className="px-3 py-2 pr-5 whitespace-nowrap">
         {from && (
-          <span className="mr-2 text-ink-muted line-through decoration-1">
-            {from.first}–{from.last}
+          <span className="block text-xs text-ink-muted tabular-nums">
+            <span className="line-through decoration-1">
+              {from.first}–{from.last} · {handlesText(from.headHandles, from.tailHandles)}
+            </span>{' '}
+            <span aria-label="becomes">→</span>
           </span>
         )}
-        {from && <span aria-label="becomes" className="mr-2">→</span>}
-        <span className="font-medium">
-          {first}–{last}
-        </span>{' '}
-        <span className="text-xs text-ink-muted">
-          {rangeLength(first, last)}f{handles ? ` +${handles}h` : ''}
-        </span>
-        <span className="block text-xs text-ink-muted">
-          {sourceIn ? `source ${sourceTimecodeLabel({ firstFrame: first, frameRate: rate, sourceTimecodeIn: sourceIn }, first)} – ${sourceTimecodeLabel({ firstFrame: first, frameRate: rate, sourceTimecodeIn: sourceIn }, last)}` : 'no source timecode'}
-        </span>
+        <CutRange shot={{ ...shot, frameRate: rate, sourceTimecodeIn: shot.source?.sourceIn ?? null }} testId={`plan-range-${shot.line}`} />
       </td>
     </tr>
   );

@@ -1,11 +1,13 @@
-// Create or edit a shot: code, description, frame range (default first frame 1001) with timecode, handles, rate,
-// plate resolution and pixel aspect, assignee, due date, status. Validated with the shared shotCreate schema.
+// Create or edit a shot: code, description, cut in and cut out (a new shot's cut in follows the studio's handle
+// convention) with their source timecode, head and tail handles, rate, plate resolution and pixel aspect, assignee,
+// due date, status. Validated with the shared shotCreate schema.
 import { useState } from 'react';
 import { useForm } from 'react-hook-form';
 import { zodResolver } from '@hookform/resolvers/zod';
 import type { z } from 'zod';
-import { DEFAULT_FIRST_FRAME, shotCreate } from '~/lib/library/schemas';
-import { SHOT_STATUSES } from '~/lib/vocab';
+import { shotCreate } from '~/lib/library/schemas';
+import { cutInFrame, DEFAULT_FIRST_FRAME, DEFAULT_HANDLES, rangeWithHandles } from '~/lib/library/handles';
+import { SHOT_STATUSES, type HandleConvention } from '~/lib/vocab';
 import { FRAME_RATES, rateText, framesToTimecode, sourceTimecodeLabel } from '~/lib/timecode';
 import { api } from '../shared/api';
 import { applyServerError, FormMessage, SubmitButton } from '../shared/form';
@@ -15,7 +17,7 @@ import type { Person, ShotDetail, ShotRow } from './types';
 
 type Input = z.input<typeof shotCreate>;
 type Output = z.output<typeof shotCreate>;
-const FIELDS = ['code', 'description', 'firstFrame', 'lastFrame', 'handles', 'frameRate', 'plateWidth', 'plateHeight', 'pixelAspect', 'assigneeId', 'dueDate', 'status', 'sourceTimecodeIn', 'plateFirstFrame'] as const;
+const FIELDS = ['code', 'description', 'firstFrame', 'lastFrame', 'headHandles', 'tailHandles', 'frameRate', 'plateWidth', 'plateHeight', 'pixelAspect', 'assigneeId', 'dueDate', 'status', 'sourceTimecodeIn', 'plateFirstFrame'] as const;
 
 interface Props {
   studioId: number;
@@ -23,12 +25,14 @@ interface Props {
   /** The show's rate: the default for a new shot. */
   showRate: string;
   shot?: ShotRow;
+  /** The studio's handle convention: places a new shot's cut in (1001 + head handles, or 1001). */
+  convention?: HandleConvention;
   people: Person[];
   onSaved: (shot: ShotDetail) => void;
   onCancel: () => void;
 }
 
-export default function ShotForm({ studioId, showId, showRate, shot, people, onSaved, onCancel }: Props) {
+export default function ShotForm({ studioId, showId, showRate, shot, convention = 'head-handle', people, onSaved, onCancel }: Props) {
   const [message, setMessage] = useState('');
   const form = useForm<Input, unknown, Output>({
     resolver: zodResolver(shotCreate),
@@ -36,9 +40,10 @@ export default function ShotForm({ studioId, showId, showRate, shot, people, onS
       showId,
       code: shot?.code ?? '',
       description: shot?.description ?? null,
-      firstFrame: shot?.firstFrame ?? DEFAULT_FIRST_FRAME,
+      firstFrame: shot?.firstFrame ?? cutInFrame(convention, DEFAULT_HANDLES),
       lastFrame: shot?.lastFrame ?? (undefined as unknown as number),
-      handles: shot?.handles ?? 8,
+      headHandles: shot?.headHandles ?? DEFAULT_HANDLES,
+      tailHandles: shot?.tailHandles ?? DEFAULT_HANDLES,
       frameRate: (shot?.frameRate ?? showRate) as Output['frameRate'],
       plateWidth: shot?.plateWidth ?? 1920,
       plateHeight: shot?.plateHeight ?? 1080,
@@ -52,7 +57,7 @@ export default function ShotForm({ studioId, showId, showRate, shot, people, onS
     },
   });
   const { errors, isSubmitting } = form.formState;
-  const [first, last, rate, sourceIn] = form.watch(['firstFrame', 'lastFrame', 'frameRate', 'sourceTimecodeIn']);
+  const [first, last, rate, sourceIn, head, tail] = form.watch(['firstFrame', 'lastFrame', 'frameRate', 'sourceTimecodeIn', 'headHandles', 'tailHandles']);
   const validRange = Number.isInteger(first) && Number.isInteger(last) && (last as number) >= (first as number);
   // Hints show the source timecode of the frame (from the source timecode at the cut in), never the frame number as timecode.
   const tc = (f: unknown) =>
@@ -96,17 +101,18 @@ export default function ShotForm({ studioId, showId, showRate, shot, people, onS
       <TextAreaField label="Description" rows={2} registration={form.register('description', { setValueAs: blankToNull })} error={errors.description?.message} />
 
       <fieldset className="rounded-lg border border-sand-line p-4">
-        <legend className="px-1 text-sm font-semibold">Frame range</legend>
-        <div className="grid gap-4 sm:grid-cols-5">
-          <InputField label="First frame" type="number" inputMode="numeric" registration={form.register('firstFrame', num)} error={errors.firstFrame?.message} hint={tc(first)} />
-          <InputField label="Last frame" type="number" inputMode="numeric" registration={form.register('lastFrame', num)} error={errors.lastFrame?.message} hint={tc(last)} />
-          <InputField label="Handles" type="number" inputMode="numeric" registration={form.register('handles', num)} error={errors.handles?.message} hint="frames each side" />
+        <legend className="px-1 text-sm font-semibold">Cut and handles</legend>
+        <div className="grid gap-4 sm:grid-cols-3">
+          <InputField label="Cut in" type="number" inputMode="numeric" registration={form.register('firstFrame', num)} error={errors.firstFrame?.message} hint={tc(first) && `source ${tc(first)}`} />
+          <InputField label="Cut out" type="number" inputMode="numeric" registration={form.register('lastFrame', num)} error={errors.lastFrame?.message} hint={tc(last) && `source ${tc(last)}`} />
           <InputField
             label="Source timecode at cut in"
             registration={form.register('sourceTimecodeIn', { setValueAs: blankToNull })}
             error={errors.sourceTimecodeIn?.message}
             hint="the plate's own timecode, e.g. 01:00:10:00"
           />
+          <InputField label="Head handles" type="number" inputMode="numeric" registration={form.register('headHandles', num)} error={errors.headHandles?.message} hint="frames before the cut in" />
+          <InputField label="Tail handles" type="number" inputMode="numeric" registration={form.register('tailHandles', num)} error={errors.tailHandles?.message} hint="frames after the cut out" />
           <SelectField label="Frame rate" registration={form.register('frameRate')} error={errors.frameRate?.message}>
             {FRAME_RATES.map((r) => (
               <option key={r} value={r}>
@@ -116,7 +122,11 @@ export default function ShotForm({ studioId, showId, showRate, shot, people, onS
           </SelectField>
         </div>
         <p className="mt-3 text-xs text-ink-muted" aria-live="polite">
-          {validRange ? `${rangeLength(first as number, last as number)} frames in the cut. Source timecode shown at ${rateText(String(rate))}.` : 'First frame defaults to 1001.'}
+          {validRange
+            ? `${rangeLength(first as number, last as number)} frames in the cut${handleSpan(first as number, last as number, head, tail)}. Source timecode shown at ${rateText(String(rate))}.`
+            : convention === 'cut-in'
+              ? `A new shot's cut in is ${DEFAULT_FIRST_FRAME} (studio setting: the first frame number is the cut in).`
+              : `A new shot's cut in is ${DEFAULT_FIRST_FRAME} + head handles (studio setting: the first frame number is the first head-handle frame).`}
         </p>
       </fieldset>
 
@@ -146,4 +156,11 @@ export default function ShotForm({ studioId, showId, showRate, shot, people, onS
       </div>
     </form>
   );
+}
+
+/** ", frames 1001–1064 with handles" when both handle counts are whole numbers. */
+function handleSpan(first: number, last: number, head: unknown, tail: unknown): string {
+  if (!Number.isInteger(head) || !Number.isInteger(tail)) return '';
+  const { first: from, last: to } = rangeWithHandles({ firstFrame: first, lastFrame: last, headHandles: head as number, tailHandles: tail as number });
+  return `, frames ${from}–${to} with handles`;
 }

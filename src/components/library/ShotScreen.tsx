@@ -9,12 +9,14 @@ import { fullDate, relativeTime } from '../members/time';
 import { LibraryQueries } from './query';
 import { Dialog } from './fields';
 import { StatusBadge, StateWord } from './status';
+import { ClientStateBadge } from '../review/ClientSignOff';
 import { AssigneeSelect, StatusSelect } from './inline';
 import PlatePanel from './PlatePanel';
 import { ShotThumbnail } from './thumbnail';
 import ShotForm from './ShotForm';
-import { dueLabel, rangeLength } from './format';
-import { rateText, sourceTimecodeLabel } from '~/lib/timecode';
+import { dueLabel } from './format';
+import { CutRange } from './CutRange';
+import { rateText } from '~/lib/timecode';
 import { can, keys, type ActivityEntry, type Person, type ShotDetail, type Viewer } from './types';
 import { versionLabel } from '~/lib/vocab';
 
@@ -163,16 +165,8 @@ function Shot({ viewer, shot: initialShot, showName }: Props) {
             (shot.assigneeName ?? '—')
           )}
         </Fact>
-        <Fact label="Frame range" wide>
-          <span className="font-medium tabular-nums" data-testid="frame-range">
-            {shot.firstFrame}–{shot.lastFrame}
-          </span>{' '}
-          <span className="text-ink-muted">
-            · {rangeLength(shot.firstFrame, shot.lastFrame)} frames{shot.handles ? ` + ${shot.handles} handles each side` : ''}
-          </span>
-          <span className="block text-xs text-ink-muted tabular-nums" data-testid="source-range" title={`Source timecode at ${rateText(shot.frameRate)}`}>
-            {shot.firstFrame} · {sourceTimecodeLabel(shot, shot.firstFrame)} – {shot.lastFrame} · {sourceTimecodeLabel(shot, shot.lastFrame)} source
-          </span>
+        <Fact label="Cut in – cut out · handles" wide>
+          <CutRange shot={shot} testId="frame-range" />
         </Fact>
         {shot.recordIn && shot.recordOut && (
           <Fact label="In the cut" wide>
@@ -205,6 +199,7 @@ function Shot({ viewer, shot: initialShot, showName }: Props) {
           showId={shot.showId}
           showRate={shot.frameRate}
           shot={shot}
+          convention={viewer.handleConvention}
           people={peopleList}
           onCancel={() => setEditing(false)}
           onSaved={(saved) => {
@@ -258,6 +253,7 @@ function Versions({ shot, studioSlug, canBlock }: { shot: ShotDetail; studioSlug
                 <span className="flex flex-wrap gap-x-3">
                   <StateWord kind="bake" state={v.bakeState} />
                   <StateWord kind="review" state={v.reviewState} />
+                  {v.clientState !== 'not sent' && <ClientStateBadge state={v.clientState} testId="version-client-state" />}
                   {v.plateAssetId !== shot.plateAssetId && v.plateAssetId && <span className="text-xs text-ink-muted">earlier plate</span>}
                 </span>
               </a>

@@ -17,8 +17,9 @@ import { AssigneeSelect, StatusSelect } from './inline';
 import ShotForm from './ShotForm';
 import ShowForm from './ShowForm';
 import { ShotThumbnail } from './thumbnail';
-import { dueLabel, isOverdue, rangeLength } from './format';
-import { rateText, sourceTimecodeLabel } from '~/lib/timecode';
+import { dueLabel, isOverdue } from './format';
+import { CutRange } from './CutRange';
+import { rateText } from '~/lib/timecode';
 import { can, keys, type Page, type Person, type ShotRow, type ShowDetail, type Viewer } from './types';
 
 export const SHOT_DEFAULTS: UrlState = { q: '', status: '', assignee: '', archived: 'false', sort: 'code', order: 'asc', page: '1', pageSize: '25' };
@@ -235,9 +236,9 @@ function Show({ viewer, show: initialShow, initialSearch }: Props) {
           ),
       }),
       column.accessor('firstFrame', {
-        header: 'Frame range',
+        header: 'Cut in – cut out · handles',
         meta: { sortKey: 'firstFrame', className: 'whitespace-nowrap' } satisfies ColumnMeta,
-        cell: (c) => <FrameRange shot={c.row.original} />,
+        cell: (c) => <CutRange shot={c.row.original} testId={`cut-range-${c.row.original.code}`} />,
       }),
       column.accessor('dueDate', {
         header: 'Due',
@@ -454,6 +455,7 @@ function Show({ viewer, show: initialShow, initialSearch }: Props) {
           studioId={studioId}
           showId={show.id}
           showRate={show.frameRate}
+          convention={viewer.handleConvention}
           people={peopleList}
           onCancel={() => setDialog(null)}
           onSaved={(shot) => {
@@ -482,23 +484,6 @@ function Show({ viewer, show: initialShow, initialSearch }: Props) {
 
 function Kbd({ children }: { children: string }) {
   return <kbd className="rounded border border-sand-line bg-paper px-1 font-sans">{children}</kbd>;
-}
-
-/** First–last frame with the cut length, and the SMPTE timecode of both ends beside them. */
-export function FrameRange({ shot }: { shot: Pick<ShotRow, 'firstFrame' | 'lastFrame' | 'handles' | 'frameRate'> }) {
-  return (
-    <div className="leading-tight tabular-nums">
-      <span className="font-medium">
-        {shot.firstFrame}–{shot.lastFrame}
-      </span>{' '}
-      <span className="text-xs text-ink-muted">
-        {rangeLength(shot.firstFrame, shot.lastFrame)}f{shot.handles ? ` +${shot.handles}h` : ''}
-      </span>
-      <div className="text-xs text-ink-muted" title={`Source timecode at ${rateText(shot.frameRate)}`}>
-        {sourceTimecodeLabel(shot, shot.firstFrame)} – {sourceTimecodeLabel(shot, shot.lastFrame)}
-      </div>
-    </div>
-  );
 }
 
 /** Shot counts by status, each with its mark. */

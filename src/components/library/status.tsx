@@ -1,5 +1,5 @@
 // Shot statuses in Tidemark's own visual language: a small drawn mark plus the word, never colour alone.
-import type { ShotStatus } from '~/lib/vocab';
+import { reviewStateWord, type ShotStatus } from '~/lib/vocab';
 
 /** Text colour for each status (the mark and the word share it; the shape carries the meaning). */
 export const STATUS_TONE: Record<ShotStatus, string> = {
@@ -83,7 +83,7 @@ export function StateWord({ state, kind }: { state: string; kind: 'bake' | 'revi
       <span aria-hidden="true" className="w-3 text-center">
         {mark}
       </span>
-      {kind === 'bake' && state === 'none' ? 'not baked' : state}
+      {kind === 'bake' ? (state === 'none' ? 'not baked' : state) : reviewStateWord(state)}
     </span>
   );
 }

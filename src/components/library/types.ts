@@ -1,5 +1,5 @@
 // Shapes of the shot library's API answers as the browser sees them (dates arrive as ISO strings).
-import type { ShotStatus } from '~/lib/vocab';
+import type { ClientState, HandleConvention, ShotStatus } from '~/lib/vocab';
 
 export type RoleName = 'owner' | 'supervisor' | 'artist' | 'client';
 
@@ -34,7 +34,9 @@ export interface ShotRow {
   description: string | null;
   firstFrame: number;
   lastFrame: number;
-  handles: number;
+  /** Frames before the cut in and after the cut out. */
+  headHandles: number;
+  tailHandles: number;
   frameRate: string;
   /** Source timecode of the cut-in frame; from an edit also record in/out (out exclusive), reel and clip name. */
   sourceTimecodeIn: string | null;
@@ -81,6 +83,8 @@ export interface VersionRow {
   bakeState: string;
   reviewState: string;
   sharedWithClient: boolean;
+  /** The client's sign-off, apart from the review state. */
+  clientState: ClientState;
   plateAssetId: number | null;
   clipAssetId: number | null;
 }
@@ -110,6 +114,8 @@ export interface Viewer {
   studioId: number;
   studioSlug: string;
   role: RoleName;
+  /** The studio's handle convention: where a new shot's first frame number falls. */
+  handleConvention?: HandleConvention;
 }
 
 const rank: Record<RoleName, number> = { client: 0, artist: 1, supervisor: 2, owner: 3 };

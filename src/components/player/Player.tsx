@@ -2,7 +2,7 @@
 // stepped with ←/→, played at the shot's fps with loop and in/out range, in the "surface" or "speed" look, with the
 // bake statistics beside it.
 import { useCallback, useEffect, useRef, useState } from 'react';
-import { rateInfo, sourceTimecodeLabel } from '~/lib/timecode';
+import { frameWithTimecode, rateInfo, rateText, sourceTimecodeLabel } from '~/lib/timecode';
 import { openPlate, type PlateFrameSource } from '~/lib/plate';
 import { LOOK_LABELS, RENDER_LOOKS, SPEED_RAMP, type LookOptions, type RenderLook } from '~/lib/render/looks';
 import { api, messageOf } from '../shared/api';
@@ -84,7 +84,7 @@ export default function Player({ studioId, version, shot, plate, clip, onFrame, 
       const platePromise: Promise<PlateFrameSource | null> = plate
         ? (async () => {
             const url = plate.url ?? (await api<{ url: string }>(`/api/studios/${studioId}/plates/${plate.assetId}`)).url;
-            return openPlate({ url, contentType: plate.contentType, firstFrame: shot.plateFirstFrame ?? shot.firstFrame, fps });
+            return openPlate({ url, contentType: plate.contentType, shot, fps });
           })().catch((err) => {
             setPlateNote(`The plate could not be shown (${messageOf(err)}); the splash is drawn on its own.`);
             return null;
@@ -348,7 +348,7 @@ export default function Player({ studioId, version, shot, plate, clip, onFrame, 
               </button>
             )}
             <span className="ml-auto text-xs text-ink-muted tabular-nums" data-testid="range-readout">
-              In {inFrame} · Out {outFrame} · {fps % 1 === 0 ? fps : fps.toFixed(3)} fps
+              In {frameWithTimecode(shot, inFrame)} · Out {frameWithTimecode(shot, outFrame)} · {rateText(shot.frameRate)}
             </span>
           </div>
 

@@ -13,7 +13,9 @@ import type { Role } from '~/lib/vocab';
 import type { NoteMarker } from '~/lib/review/notes';
 import { rateText, sourceTimecodeLabel } from '~/lib/timecode';
 import type { BakeProgress, BakeState, ClipInfo, PlateInfo, ShotInfo, VersionInfo } from './types';
-import { versionLabel } from '~/lib/vocab';
+import { CutRange } from '../library/CutRange';
+import { reviewStateWord, versionLabel, type ClientState } from '~/lib/vocab';
+import { ClientStateBadge } from '../review/ClientSignOff';
 
 interface Props {
   studioId: number;
@@ -79,6 +81,9 @@ function Version({ studioId, studioSlug, version, shot, plate, clip, canBake, ro
     return Number.isInteger(f) && f >= version.startFrame && f <= version.endFrame ? { frame: f } : null;
   });
   const [markers, setMarkers] = useState<NoteMarker[]>([]);
+  // both states follow the review panel's answers: the studio's review and the client's sign-off
+  const [reviewState, setReviewState] = useState(version.reviewState);
+  const [clientState, setClientState] = useState<ClientState>(version.clientState);
   const queryClient = useQueryClient();
   const progressKey = ['version', version.id, 'bake'];
   const progress = useQuery({
@@ -127,7 +132,8 @@ function Version({ studioId, studioSlug, version, shot, plate, clip, canBake, ro
             <span>
               {shot.code} <span className="text-ink-muted">{versionLabel(version.number)}</span>
             </span>
-            <Chip value={version.reviewState} label={version.reviewState} testId="review-state" />
+            <Chip value={reviewState} label={reviewStateWord(reviewState)} testId="review-state" />
+            <ClientStateBadge state={clientState} testId="header-client-state" />
             <Chip value={bakeState} label={BAKE_LABEL[bakeState]} testId="bake-state" />
           </h1>
           <p className="mt-2 text-sm text-ink-soft">
@@ -145,10 +151,10 @@ function Version({ studioId, studioSlug, version, shot, plate, clip, canBake, ro
           <dd className="font-mono text-xs leading-5 tabular-nums">
             {sourceTimecodeLabel(shot, version.startFrame, '—')} – {sourceTimecodeLabel(shot, version.endFrame, '—')}
           </dd>
-          <dt className="text-ink-muted">Shot</dt>
-          <dd className="tabular-nums">
-            {shot.firstFrame}–{shot.lastFrame}
-            {shot.handles ? <span className="text-ink-muted"> + {shot.handles} handles</span> : null} · {rateText(shot.frameRate)}
+          <dt className="text-ink-muted">Cut in – cut out</dt>
+          <dd>
+            <CutRange shot={shot} testId="shot-cut-range" />
+            <span className="text-xs text-ink-muted">{rateText(shot.frameRate)}</span>
           </dd>
         </dl>
       </header>
@@ -170,7 +176,7 @@ function Version({ studioId, studioSlug, version, shot, plate, clip, canBake, ro
           <div className="space-y-2">
             <BakeHealthNote health={clipInfo.health} />
             <Player studioId={studioId} version={version} shot={shot} plate={plate} clip={clipInfo} onFrame={setCurrentFrame} seekTo={seekTo} />
-            <NoteTicks markers={markers} start={version.startFrame} end={version.endFrame} currentFrame={currentFrame} onSeek={(f) => setSeekTo({ frame: f })} />
+            <NoteTicks markers={markers} start={version.startFrame} end={version.endFrame} currentFrame={currentFrame} onSeek={(f) => setSeekTo({ frame: f })} tcShot={shot} />
           </div>
         ) : (
           <section className="card p-6 text-sm text-ink-muted" data-testid="player-loading">
@@ -186,7 +192,10 @@ function Version({ studioId, studioSlug, version, shot, plate, clip, canBake, ro
         onSeek={(f) => setSeekTo({ frame: f })}
         frameRange={{ start: version.startFrame, end: version.endFrame }}
         onMarkers={setMarkers}
+        onStateChange={setReviewState}
+        onClientStateChange={setClientState}
         compareWithVersionId={previousVersionId ?? null}
+        tcShot={shot}
       />
     </div>
   );

@@ -1,6 +1,7 @@
 // Shapes the version page hands to its island, and the answers of the bake and clip endpoints.
 import type { FrameStats } from '~/lib/sim';
 import type { BakeHealth } from '~/lib/sim/health';
+import type { ClientState } from '~/lib/vocab';
 
 export type BakeState = 'none' | 'queued' | 'baking' | 'baked' | 'failed' | 'cancelled';
 
@@ -10,6 +11,8 @@ export interface VersionInfo {
   authorName: string | null;
   comment: string | null;
   reviewState: string;
+  /** The client's sign-off, apart from the review state (src/lib/vocab.ts CLIENT_STATES). */
+  clientState: ClientState;
   bakeState: BakeState;
   createdAt: string;
   /** The scene's frame range (what a bake produces). */
@@ -24,7 +27,9 @@ export interface ShotInfo {
   description: string | null;
   firstFrame: number;
   lastFrame: number;
-  handles: number;
+  /** Frames before the cut in and after the cut out. */
+  headHandles: number;
+  tailHandles: number;
   /** Frame rate id, e.g. '25' or '29.97df'. */
   frameRate: string;
   /** Source timecode of the cut-in frame (null reads as 00:00:00:00): every frame is shown with its source timecode. */

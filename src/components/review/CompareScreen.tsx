@@ -50,7 +50,7 @@ export default function CompareScreen({ studioId, studioSlug, compare, frameRate
         if (!assetId) return null;
         try {
           const view = await api<{ url: string; asset: { contentType: string } }>(`/api/studios/${studioId}/plates/${assetId}`);
-          return await openPlate({ url: view.url, contentType: view.asset.contentType, firstFrame: shot.firstFrame, fps });
+          return await openPlate({ url: view.url, contentType: view.asset.contentType, shot, fps });
         } catch {
           return null; // a plate that cannot be shown: the splashes are still compared on their own
         }

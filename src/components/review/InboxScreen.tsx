@@ -1,11 +1,13 @@
-// The review inbox island: versions waiting for the viewer's decision, their own versions sent back, and new notes on
-// their versions (each note links to its frame), plus the daily digest switch.
+// The review inbox island: versions waiting for the viewer's decision, their own versions sent back, new notes on
+// their versions (each note links to its frame), the client's sign-off (what waits for a client's sign-off, or the
+// client's recent decisions for the studio), plus the daily digest switch.
 import { useState } from 'react';
 import { QueryClient, QueryClientProvider, useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
 import { api, ApiError, messageOf } from '../shared/api';
 import { FormMessage } from '../shared/form';
 import { STATE_TONE, STATE_WORDS, type InboxAnswer, type InboxItem } from './types';
 import { versionLabel } from '~/lib/vocab';
+import { ClientDecisionLine, ClientStateBadge } from './ClientSignOff';
 
 interface Props {
   studioId: number;
@@ -58,6 +60,11 @@ function Inbox({ studioId, studioSlug, role, initial, dailyDigest }: Props) {
           ))}
         </Section>
       )}
+      <Section title={role === 'client' ? 'Waiting for your sign-off' : 'Client decisions (last two weeks)'} count={data.counts.client} testId="inbox-client">
+        {data.client.map((v) => (
+          <ClientRow key={v.versionId} item={v} href={link(v.versionId)} />
+        ))}
+      </Section>
       {role !== 'client' && (
         <Section title="Your versions sent back" count={data.counts.returned} testId="inbox-returned">
           {data.returned.map((v) => (
@@ -109,24 +116,42 @@ function Section({ title, count, testId, children }: { title: string; count: num
   );
 }
 
-function Row({ item, href }: { item: InboxItem; href: string }) {
+/** One version in a section: its code as a link, what the section says of it, and a state badge on the right. */
+function VersionCard({ item, href, testId, badge, children }: { item: InboxItem; href: string; testId: string; badge: React.ReactNode; children: React.ReactNode }) {
   return (
-    <li className="card flex flex-wrap items-start justify-between gap-3 p-4" data-testid="inbox-version" data-version-id={item.versionId}>
+    <li className="card flex flex-wrap items-start justify-between gap-3 p-4" data-testid={testId} data-version-id={item.versionId}>
       <div className="min-w-0">
         <a className="font-semibold hover:underline" href={href}>
           {item.showCode} · {item.shotCode} {versionLabel(item.number)}
         </a>
-        <p className="text-sm text-ink-soft">
-          By {item.author.name} · {when(item.updatedAt)}
-        </p>
-        {item.lastEvent?.comment && (
-          <p className="mt-1 text-sm">
-            “{item.lastEvent.comment}”{item.lastEvent.actorName ? <span className="text-ink-muted"> — {item.lastEvent.actorName}</span> : null}
-          </p>
-        )}
+        {children}
       </div>
-      <span className={`rounded-full px-2.5 py-0.5 text-xs font-medium ${STATE_TONE[item.reviewState] ?? ''}`}>{STATE_WORDS[item.reviewState] ?? item.reviewState}</span>
+      {badge}
     </li>
+  );
+}
+
+function Row({ item, href }: { item: InboxItem; href: string }) {
+  const badge = <span className={`rounded-full px-2.5 py-0.5 text-xs font-medium ${STATE_TONE[item.reviewState] ?? ''}`}>{STATE_WORDS[item.reviewState] ?? item.reviewState}</span>;
+  return (
+    <VersionCard item={item} href={href} testId="inbox-version" badge={badge}>
+      <p className="text-sm text-ink-soft">
+        By {item.author.name} · {when(item.updatedAt)}
+      </p>
+      {item.lastEvent?.comment && (
+        <p className="mt-1 text-sm">
+          “{item.lastEvent.comment}”{item.lastEvent.actorName ? <span className="text-ink-muted"> — {item.lastEvent.actorName}</span> : null}
+        </p>
+      )}
+    </VersionCard>
+  );
+}
+
+function ClientRow({ item, href }: { item: InboxItem; href: string }) {
+  return (
+    <VersionCard item={item} href={href} testId="inbox-client-version" badge={<ClientStateBadge state={item.clientState} testId="inbox-client-state" />}>
+      <ClientDecisionLine side={item} />
+    </VersionCard>
   );
 }
 

@@ -1,5 +1,5 @@
 // The review side panel of a version: its review state with the actions the viewer may take (submit, approve, send
-// back, share with clients), the notes pinned to frames (threads, replies, resolve), the composer for a note at the
+// back, share with clients), the client's sign-off (asked for by a supervisor, decided by the client), the notes pinned to frames (threads, replies, resolve), the composer for a note at the
 // player's current frame, and the still-open notes of earlier versions. Mounted by the version page beside the player.
 import { useEffect, useMemo, useState, type FormEvent } from 'react';
 import { QueryClient, QueryClientProvider, useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
@@ -8,7 +8,9 @@ import { FormMessage, Spinner } from '../shared/form';
 import { markersOf, threadsOf, type NoteMarker, type NotePoint } from '~/lib/review/notes';
 import type { Role } from '~/lib/vocab';
 import { STATE_TONE, STATE_WORDS, type NotesAnswer, type NoteView, type ReviewAnswer } from './types';
-import { versionLabel } from '~/lib/vocab';
+import { versionLabel, type ClientState } from '~/lib/vocab';
+import { frameWithTimecode, sourceTimecodeLabel, type SourceTimecodeShot } from '~/lib/timecode';
+import { ClientDecisionForm, ClientDecisionLine, ClientSignOffHeading, type DecisionInput } from './ClientSignOff';
 
 /** A mark drawn on the image for the next note: a point or a rough stroke, in plate-normalised 0..1 coordinates. */
 export type NoteMark = { point: NotePoint; stroke?: undefined } | { stroke: NotePoint[]; point?: undefined };
@@ -31,9 +33,16 @@ export interface ReviewPanelProps {
   onMarkers?: (markers: NoteMarker[]) => void;
   /** Told when the review state changes (for the page header). */
   onStateChange?: (state: string) => void;
+  /** Told when the client's sign-off state changes (for the page header). */
+  onClientStateChange?: (state: ClientState) => void;
   /** Where the compare link points (the previous version of the shot), when there is one. */
   compareWithVersionId?: number | null;
+  /** The shot's cut in, rate and source timecode at the cut in: a note's frame is shown with its source timecode. */
+  tcShot?: SourceTimecodeShot;
 }
+
+/** A note's frame as shown: its number with its source timecode when the shot is known. */
+const noteFrame = (p: Pick<ReviewPanelProps, 'tcShot'>, frame: number) => (p.tcShot ? frameWithTimecode(p.tcShot, frame) : String(frame));
 
 export default function ReviewPanel(props: ReviewPanelProps) {
   const [client] = useState(
@@ -64,12 +73,16 @@ function Panel(p: ReviewPanelProps) {
   };
 
   const markers = useMemo(() => markersOf(notes.data?.notes ?? []), [notes.data]);
-  const { onMarkers, onStateChange } = p;
+  const { onMarkers, onStateChange, onClientStateChange } = p;
   useEffect(() => onMarkers?.(markers), [markers, onMarkers]);
   const state = review.data?.version.reviewState;
   useEffect(() => {
     if (state) onStateChange?.(state);
   }, [state, onStateChange]);
+  const clientState = review.data?.version.clientState;
+  useEffect(() => {
+    if (clientState) onClientStateChange?.(clientState);
+  }, [clientState, onClientStateChange]);
 
   const failure = review.error ?? notes.error;
   if (failure instanceof ApiError && failure.status === 401) {
@@ -81,6 +94,7 @@ function Panel(p: ReviewPanelProps) {
     <aside className="space-y-5" aria-label="Review" data-testid="review-panel">
       {failure && <FormMessage>{messageOf(failure)}</FormMessage>}
       {review.data ? <ReviewStatus {...p} answer={review.data} onChanged={refresh} /> : !failure && <LoadingCard label="Loading the review…" />}
+      {review.data && <ClientSignOffCard {...p} answer={review.data} onChanged={refresh} />}
       <NoteComposer {...p} onCreated={refresh} />
       {notes.data ? <NoteList {...p} notes={notes.data.notes} onChanged={refresh} /> : !failure && <LoadingCard label="Loading notes…" />}
       {notes.data?.carried && notes.data.carried.length > 0 && <CarriedNotes {...p} notes={notes.data.carried} />}
@@ -242,6 +256,68 @@ function ReviewStatus(p: ReviewPanelProps & { answer: ReviewAnswer; onChanged: (
   );
 }
 
+// ── The client's sign-off ────────────────────────────────────────────────────────────────────────────────────────
+
+function ClientSignOffCard(p: ReviewPanelProps & { answer: ReviewAnswer; onChanged: () => void }) {
+  const { version, clientSteps } = p.answer;
+  const [message, setMessage] = useState('');
+  const [note, setNote] = useState<{ tone: 'error' | 'success'; text: string } | null>(null);
+  const ask = useMutation({
+    mutationFn: () => api(`/api/versions/${p.versionId}/client-review`, { method: 'POST', body: message.trim() ? { message: message.trim() } : {} }),
+    onSuccess: () => {
+      setMessage('');
+      setNote({ tone: 'success', text: 'Sent. The show’s clients see this version and have been asked by e-mail; a share link opens it for sign-off too.' });
+      p.onChanged();
+    },
+    onError: (err) => {
+      setNote({ tone: 'error', text: messageOf(err) });
+      p.onChanged();
+    },
+  });
+  const decide = async (input: DecisionInput) => {
+    try {
+      await api(`/api/versions/${p.versionId}/client-review/decide`, { method: 'POST', body: { decision: input.decision, ...(input.comment ? { comment: input.comment } : {}) } });
+      setNote({ tone: 'success', text: input.decision === 'sign-off' ? 'Thank you: you signed off this version. The studio has been told.' : 'Sent: the studio has your request for changes.' });
+      p.onChanged();
+      return null;
+    } catch (err) {
+      p.onChanged();
+      return { message: messageOf(err), fields: err instanceof ApiError ? err.fields : {} };
+    }
+  };
+  // once signed off, asking again is possible through the API but not offered: the decision stands
+  const canAsk = clientSteps.includes('send') && version.clientState !== 'signed off';
+  const canDecide = clientSteps.includes('sign-off');
+  return (
+    <section className="card p-4" data-testid="client-sign-off-card">
+      <ClientSignOffHeading title="Client sign-off" state={version.clientState} testId="review-panel-client-state" titleClass="text-sm font-semibold tracking-wide text-ink-soft uppercase" />
+      <ClientDecisionLine side={version} />
+      {staff(p.role) && version.reviewState !== 'approved' && version.clientState === 'not sent' && (
+        <p className="mt-2 text-sm text-ink-muted">Once the version is approved by us, a supervisor can ask the client to sign it off.</p>
+      )}
+      {!staff(p.role) && version.clientState === 'not sent' && <p className="mt-2 text-sm text-ink-muted">The studio has not asked for your sign-off on this version yet.</p>}
+      {canAsk && (
+        <form className="mt-3 space-y-2" onSubmit={(e) => e.preventDefault()}>
+          <label htmlFor={`client-message-${p.versionId}`} className="field-label">
+            A word for the client (optional)
+          </label>
+          <textarea id={`client-message-${p.versionId}`} className="field-input min-h-16" value={message} maxLength={2000} onChange={(e) => setMessage(e.target.value)} />
+          <button type="button" className="btn-primary" disabled={ask.isPending} onClick={() => ask.mutate()} data-testid="ask-client">
+            {ask.isPending && <Spinner />}
+            {version.clientState === 'not sent' ? 'Ask the client to sign off' : 'Ask the client again'}
+          </button>
+        </form>
+      )}
+      {canDecide && <ClientDecisionForm idPrefix={`version-${p.versionId}`} askName={false} onDecide={decide} />}
+      {note && (
+        <div className="mt-3">
+          <FormMessage tone={note.tone}>{note.text}</FormMessage>
+        </div>
+      )}
+    </section>
+  );
+}
+
 // ── Composer ─────────────────────────────────────────────────────────────────────────────────────────────────────
 
 function NoteComposer(p: ReviewPanelProps & { onCreated: () => void }) {
@@ -278,6 +354,7 @@ function NoteComposer(p: ReviewPanelProps & { onCreated: () => void }) {
       <form onSubmit={submit} className="space-y-2">
         <label htmlFor={`note-body-${p.versionId}`} className="field-label">
           Note on frame <span className="tabular-nums" data-testid="composer-frame">{p.currentFrame}</span>
+          {p.tcShot && <span className="tabular-nums text-ink-muted"> · {sourceTimecodeLabel(p.tcShot, p.currentFrame)}</span>}
         </label>
         <textarea
           id={`note-body-${p.versionId}`}
@@ -366,8 +443,8 @@ function Thread(p: ReviewPanelProps & { note: NoteView; replies: NoteView[]; onC
       data-note-id={p.note.id}
     >
       <div className="flex items-start justify-between gap-2">
-        <button type="button" className="rounded-md bg-ink px-2 py-0.5 font-mono text-xs text-white tabular-nums hover:bg-harbour-700" onClick={() => p.onSeek(p.note.frame)} aria-label={`Go to frame ${p.note.frame}`}>
-          {p.note.frame}
+        <button type="button" className="rounded-md bg-ink px-2 py-0.5 font-mono text-xs text-white tabular-nums hover:bg-harbour-700" onClick={() => p.onSeek(p.note.frame)} aria-label={`Go to frame ${noteFrame(p, p.note.frame)}`}>
+          {noteFrame(p, p.note.frame)}
         </button>
         <span className="flex flex-wrap justify-end gap-1 text-xs">
           {p.note.internal && <span className="rounded-full bg-sand-deep px-2 py-0.5 text-ink-soft">studio only</span>}
@@ -434,10 +511,10 @@ function CarriedNotes(p: ReviewPanelProps & { notes: NoteView[] }) {
               {note.versionNumber !== undefined ? versionLabel(note.versionNumber) : ''} ·{' '}
               {inRange(note.frame) ? (
                 <button type="button" className="link" onClick={() => p.onSeek(note.frame)}>
-                  frame {note.frame}
+                  frame {noteFrame(p, note.frame)}
                 </button>
               ) : (
-                <>frame {note.frame}</>
+                <>frame {noteFrame(p, note.frame)}</>
               )}{' '}
               · {note.author.name}
             </p>

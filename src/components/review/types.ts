@@ -2,7 +2,8 @@
 import { REVIEW_STATE_WORDS } from '~/lib/vocab';
 import type { NoteView } from '~/lib/review/notes';
 import type { SceneChange } from '~/lib/review/diff';
-import type { ReviewAction } from '~/lib/review/states';
+import type { ClientStep, ReviewAction } from '~/lib/review/states';
+import type { ClientState } from '~/lib/vocab';
 
 export type { NoteView };
 
@@ -15,6 +16,12 @@ export interface ReviewVersion {
   reviewState: 'draft' | 'submitted' | 'approved' | 'returned' | 'superseded';
   bakeState: string;
   sharedWithClient: boolean;
+  /** The client's sign-off, apart from the review state. */
+  clientState: ClientState;
+  clientSentAt: string | null;
+  clientDecidedAt: string | null;
+  clientDecidedByName: string | null;
+  clientComment: string | null;
   createdAt: string;
   updatedAt: string;
 }
@@ -23,6 +30,8 @@ export interface ReviewAnswer {
   version: ReviewVersion;
   events: { id: number; fromState: string; toState: string; comment: string | null; actor: { id: string | null; name: string }; createdAt: string }[];
   actions: ReviewAction[];
+  /** The client sign-off steps the viewer may take now. */
+  clientSteps: ClientStep[];
   canShare: boolean;
 }
 
@@ -41,18 +50,24 @@ export interface InboxItem {
   author: { id: string | null; name: string };
   updatedAt: string;
   lastEvent: { comment: string | null; actorName: string | null; at: string } | null;
+  clientState: ClientState;
+  clientDecidedByName: string | null;
+  clientComment: string | null;
+  clientDecidedAt: string | null;
   notes?: NoteView[];
 }
 
 export interface InboxAnswer {
-  counts: { toReview: number; returned: number; newNotes: number; total: number };
+  counts: { toReview: number; returned: number; newNotes: number; client: number; total: number };
   toReview: InboxItem[];
   returned: InboxItem[];
   newNotes: (InboxItem & { notes: NoteView[] })[];
+  /** A client: versions waiting for their sign-off; the studio: the client's recent decisions. */
+  client: InboxItem[];
 }
 
 export interface CompareAnswer {
-  shot: { id: number; code: string; showCode: string | null; firstFrame: number; lastFrame: number; plateWidth: number; plateHeight: number; metresPerPixel: number | null; plateAssetId: number | null };
+  shot: { id: number; code: string; showCode: string | null; firstFrame: number; lastFrame: number; plateFirstFrame: number | null; plateWidth: number; plateHeight: number; metresPerPixel: number | null; plateAssetId: number | null };
   a: ReviewVersion & { scene: unknown; plateAssetId: number | null };
   b: ReviewVersion & { scene: unknown; plateAssetId: number | null };
   changes: SceneChange[];

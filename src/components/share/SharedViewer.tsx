@@ -23,6 +23,8 @@ type ClipMedia = {
   plateSize: { width: number; height: number };
   metresPerPixel: number | null;
   firstFrame: number;
+  /** Shot frame number of the plate's first picture (null: the cut in). */
+  plateFirstFrame: number | null;
 };
 type ExportMedia = { kind: 'export'; format: string; contentType: string; url: string; downloadUrl: string; width: number | null; height: number | null };
 
@@ -56,7 +58,7 @@ function ClipPlayer({ token, frameRate, tcShot, bakedRange, onFrame }: { token: 
       if (first.plate) {
         try {
           const { openPlate } = await import('~/lib/plate');
-          plate = await openPlate({ url: first.plate.url, contentType: first.plate.contentType, firstFrame: first.firstFrame, fps: rateInfo(frameRate).fps });
+          plate = await openPlate({ url: first.plate.url, contentType: first.plate.contentType, shot: first, fps: rateInfo(frameRate).fps });
           destroyPlate = () => plate?.destroy();
         } catch {
           plate = null; // the splash alone still plays

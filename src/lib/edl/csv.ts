@@ -1,6 +1,7 @@
-// Reads a shot list as CSV: header `code,first,last[,handles,description]` (frame numbers) or
+// Reads a shot list as CSV: header `code,first,last[,handles,description]` (frame numbers: the cut in and out) or
 // `code,tc_in,tc_out[,handles,description]` (timecodes at the show's rate, out exclusive as in an edit list).
-// Optional columns either way: source_in (source timecode of the cut in), reel, clip_name.
+// Optional columns either way: handles (both ends) or head_handles and tail_handles, source_in (source timecode of
+// the cut in), reel, clip_name.
 import { framesToTimecode, timecodeToFrames, TimecodeError, type FrameRate } from '../timecode';
 import type { EdlLineError } from './cmx3600';
 
@@ -15,7 +16,9 @@ export interface CsvShotRow {
   recordOut?: string;
   recordInFrame?: number;
   recordOutFrame?: number;
-  handles?: number;
+  /** Frames before the cut in and after the cut out, when the row gives them. */
+  headHandles?: number;
+  tailHandles?: number;
   description?: string;
   /** Source timecode of the cut-in frame, normalised at the rate. */
   sourceIn?: string;
@@ -93,6 +96,10 @@ const HEADER_ALIASES: Record<string, string> = {
   record_out: 'tc_out',
   out: 'tc_out',
   handles: 'handles',
+  head_handles: 'head_handles',
+  head: 'head_handles',
+  tail_handles: 'tail_handles',
+  tail: 'tail_handles',
   description: 'description',
   source_in: 'source_in',
   src_in: 'source_in',
@@ -144,14 +151,19 @@ export function parseShotCsv(text: string, rate: FrameRate): ParsedCsv {
       fail('code is empty');
       continue;
     }
-    const handles = get('handles');
-    if (handles !== '') {
-      if (!INT.test(handles) || Number(handles) < 0) {
-        fail(`handles must be a whole number of frames, 0 or more, found "${handles}"`);
-        continue;
+    // "handles" gives both ends; head_handles / tail_handles give one end each (and win over "handles").
+    let badHandles = false;
+    for (const [name, ends] of [['handles', ['headHandles', 'tailHandles']], ['head_handles', ['headHandles']], ['tail_handles', ['tailHandles']]] as const) {
+      const value = get(name);
+      if (value === '') continue;
+      if (!INT.test(value) || Number(value) < 0) {
+        fail(`${name} must be a whole number of frames, 0 or more, found "${value}"`);
+        badHandles = true;
+        break;
       }
-      row.handles = Number(handles);
+      for (const end of ends) row[end] = Number(value);
     }
+    if (badHandles) continue;
     const description = get('description');
     if (description) row.description = description;
     const sourceIn = get('source_in');

@@ -4,18 +4,20 @@ import { CODE_PATTERN } from '../library/schemas';
 import { isPictureEvent, type EdlLineError, type ParsedEdl } from './cmx3600';
 import type { ParsedCsv } from './csv';
 import type { HandleConvention } from '../vocab';
+import { cutInFrame } from '../library/handles';
 
 export interface PlanOptions {
   codeFrom: 'clip' | 'pattern';
   /** e.g. "CNB_{n:03}0"; placeholders {n} (1, 2, 3… per shot), {event}, {reel}, {clip}; ":03" pads with zeros. */
   pattern?: string;
-  /** Handles in frames, added before the cut in and after the cut out. */
-  handles: number;
+  /** Head handles in frames, before the cut in, and tail handles, after the cut out. */
+  headHandles: number;
+  tailHandles: number;
   /** The studio's first frame number (1001, common practice (no source)). */
   startFrame: number;
   /**
    * Where startFrame falls: 'head-handle' (the default) puts it on the first head-handle frame, so the cut in is
-   * startFrame + handles; 'cut-in' puts it on the cut in, with the head handles before it.
+   * startFrame + head handles; 'cut-in' puts it on the cut in, with the head handles before it.
    */
   convention?: HandleConvention;
 }
@@ -25,7 +27,8 @@ export interface PlannedShot {
   code: string;
   firstFrame: number;
   lastFrame: number;
-  handles: number;
+  headHandles: number;
+  tailHandles: number;
   description: string | null;
   /** Where it came from in the edit, when it came from one. */
   source?: ShotSource;
@@ -47,19 +50,22 @@ export interface ExistingShot {
   code: string;
   firstFrame: number;
   lastFrame: number;
-  handles: number;
+  headHandles: number;
+  tailHandles: number;
 }
 
+/** A cut range (cut in, cut out) with its head and tail handles. */
 export interface FrameRange {
   first: number;
   last: number;
-  handles: number;
+  headHandles: number;
+  tailHandles: number;
 }
 
 export interface ImportPreview {
   create: PlannedShot[];
   update: { id: number; line: number; code: string; from: FrameRange; to: FrameRange; source?: ShotSource }[];
-  unchanged: { id: number; line: number; code: string; firstFrame: number; lastFrame: number }[];
+  unchanged: { id: number; line: number; code: string; firstFrame: number; lastFrame: number; headHandles: number; tailHandles: number; source?: ShotSource }[];
   errors: EdlLineError[];
 }
 
@@ -82,9 +88,9 @@ export function fillPattern(pattern: string, values: { n: number; event?: string
   });
 }
 
-function rangeFromRecord(inFrame: number, outFrame: number, options: PlanOptions, handles: number) {
+function rangeFromRecord(inFrame: number, outFrame: number, options: PlanOptions, headHandles: number) {
   // Record out is exclusive in an edit list: the cut holds out − in frames.
-  const firstFrame = options.convention === 'cut-in' ? options.startFrame : options.startFrame + handles;
+  const firstFrame = cutInFrame(options.convention, headHandles, options.startFrame);
   return { firstFrame, lastFrame: firstFrame + (outFrame - inFrame) - 1 };
 }
 
@@ -114,8 +120,9 @@ export function planFromEdl(parsed: ParsedEdl, options: PlanOptions): { shots: P
     shots.push({
       line: ev.line,
       code,
-      ...rangeFromRecord(ev.recordInFrame, ev.recordOutFrame, options, options.handles),
-      handles: options.handles,
+      ...rangeFromRecord(ev.recordInFrame, ev.recordOutFrame, options, options.headHandles),
+      headHandles: options.headHandles,
+      tailHandles: options.tailHandles,
       description: null,
       source: { event: ev.event, reel: ev.reel, clipName: ev.clipName, sourceIn: ev.sourceIn, recordIn: ev.recordIn, recordOut: ev.recordOut },
     });
@@ -126,16 +133,18 @@ export function planFromEdl(parsed: ParsedEdl, options: PlanOptions): { shots: P
 /** Plans one shot per CSV row: frame rows keep their numbers; timecode rows are placed like edit events. */
 export function planFromCsv(parsed: ParsedCsv, options: PlanOptions): { shots: PlannedShot[]; errors: EdlLineError[] } {
   const shots = parsed.rows.map((row): PlannedShot => {
-    const handles = row.handles ?? options.handles;
+    const headHandles = row.headHandles ?? options.headHandles;
+    const tailHandles = row.tailHandles ?? options.tailHandles;
     const range =
       row.first !== undefined && row.last !== undefined
         ? { firstFrame: row.first, lastFrame: row.last }
-        : rangeFromRecord(row.recordInFrame!, row.recordOutFrame!, options, handles);
+        : rangeFromRecord(row.recordInFrame!, row.recordOutFrame!, options, headHandles);
     return {
       line: row.line,
       code: row.code,
       ...range,
-      handles,
+      headHandles,
+      tailHandles,
       description: row.description ?? null,
       ...(row.recordIn || row.sourceIn || row.reel || row.clipName
         ? { source: { recordIn: row.recordIn ?? null, recordOut: row.recordOut ?? null, sourceIn: row.sourceIn ?? null, reel: row.reel ?? null, clipName: row.clipName ?? null } }
@@ -174,17 +183,26 @@ export function previewImport(existing: ExistingShot[], planned: PlannedShot[], 
     const old = byCode.get(key);
     if (!old) {
       result.create.push(shot);
-    } else if (old.firstFrame !== shot.firstFrame || old.lastFrame !== shot.lastFrame || old.handles !== shot.handles) {
+    } else if (old.firstFrame !== shot.firstFrame || old.lastFrame !== shot.lastFrame || old.headHandles !== shot.headHandles || old.tailHandles !== shot.tailHandles) {
       result.update.push({
         id: old.id,
         line: shot.line,
         code: old.code,
-        from: { first: old.firstFrame, last: old.lastFrame, handles: old.handles },
-        to: { first: shot.firstFrame, last: shot.lastFrame, handles: shot.handles },
+        from: { first: old.firstFrame, last: old.lastFrame, headHandles: old.headHandles, tailHandles: old.tailHandles },
+        to: { first: shot.firstFrame, last: shot.lastFrame, headHandles: shot.headHandles, tailHandles: shot.tailHandles },
         ...(shot.source ? { source: shot.source } : {}),
       });
     } else {
-      result.unchanged.push({ id: old.id, line: shot.line, code: old.code, firstFrame: old.firstFrame, lastFrame: old.lastFrame });
+      result.unchanged.push({
+        id: old.id,
+        line: shot.line,
+        code: old.code,
+        firstFrame: old.firstFrame,
+        lastFrame: old.lastFrame,
+        headHandles: old.headHandles,
+        tailHandles: old.tailHandles,
+        ...(shot.source ? { source: shot.source } : {}),
+      });
     }
   }
   result.errors.sort((a, b) => a.line - b.line);

@@ -6,7 +6,7 @@ import type { PlateFrameSource } from '../plate';
 import { rateInfo } from '../timecode';
 import { FrameRenderer } from './frames';
 import { loadExportFont } from './font';
-import { GIF_SLATE_DELAY_CS, exportFileName, ffmpegRate, gifDelays, zipEntryName, FORMAT_TYPES, type ExportFormat, type ExportLabels } from './layout';
+import { GIF_SLATE_DELAY_CS, exportFileName, ffmpegRate, gifDelays, mp4StartTimecode, zipEntryName, FORMAT_TYPES, type ExportFormat, type ExportLabels } from './layout';
 import { ProgressTracker, type ProgressReport } from './progress';
 import type { ParticleSource } from './source';
 import { yieldToPage } from './cancel';
@@ -120,7 +120,11 @@ export async function runExport(req: ExportRequest, onProgress: (r: ProgressRepo
       signal,
     );
   } else if (req.format === 'mp4') {
-    bytes = await mp4!.encodeMp4({ frames: pngs.map((p) => p.png), rate: ffmpegRate(req.labels.rateId) }, encodeProgress, signal);
+    bytes = await mp4!.encodeMp4(
+      { frames: pngs.map((p) => p.png), rate: ffmpegRate(req.labels.rateId), startTimecode: mp4StartTimecode(req.labels, req.first, req.slate) },
+      encodeProgress,
+      signal,
+    );
   } else {
     const { zipFrames } = await import('./zip');
     encodeProgress(0);

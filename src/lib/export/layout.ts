@@ -2,6 +2,7 @@
 // size, with which GIF delays, and where every slate and burn-in text sits (what it says included).
 import { rateInfo, rateText, sourceTimecodeAt } from '../timecode';
 import { versionLabel } from '../vocab';
+import { rangeWithHandles, type StoredHandles } from '../library/handles';
 
 export const EXPORT_FORMATS = ['gif', 'mp4', 'zip'] as const;
 export type ExportFormat = (typeof EXPORT_FORMATS)[number];
@@ -15,16 +16,13 @@ export const CAUTION =
 
 export type RangeChoice =
   | { kind: 'shot' } // the shot's cut range
-  | { kind: 'handles' } // the cut range plus handles on both ends
+  | { kind: 'handles' } // the cut range with its head and tail handles
   | { kind: 'custom'; first: number; last: number };
 
 export type SizeChoice = { kind: 'full' } | { kind: 'half' } | { kind: 'width'; width: number };
 
-export interface ShotRange {
-  firstFrame: number;
-  lastFrame: number;
-  handles: number;
-}
+/** The shot's cut in and cut out with its head and tail handles (a tail never stored apart equals the head). */
+export type ShotRange = StoredHandles & { firstFrame: number; lastFrame: number };
 
 /** Returns the inclusive shot frames to export for a range choice; throws RangeError for an empty or reversed range. */
 export function resolveRange(choice: RangeChoice, shot: ShotRange): { first: number; last: number } {
@@ -32,7 +30,7 @@ export function resolveRange(choice: RangeChoice, shot: ShotRange): { first: num
     choice.kind === 'shot'
       ? { first: shot.firstFrame, last: shot.lastFrame }
       : choice.kind === 'handles'
-        ? { first: shot.firstFrame - shot.handles, last: shot.lastFrame + shot.handles }
+        ? rangeWithHandles(shot)
         : { first: Math.round(choice.first), last: Math.round(choice.last) };
   if (!Number.isFinite(r.first) || !Number.isFinite(r.last) || r.last < r.first) throw new RangeError('The out frame must not be before the in frame');
   if (r.first < 0) throw new RangeError('Frames before 0 have no timecode');
@@ -78,8 +76,11 @@ export function ffmpegRate(rateId: string): string {
   return Number.isInteger(r.fps) ? String(r.fps) : `${r.nominal * 1000}/1001`;
 }
 
-/** The ffmpeg arguments: the PNG sequence at the shot's rate → H.264 yuv420p at the same rate, fast start. */
-export function mp4Args(rate: string): string[] {
+/**
+ * The ffmpeg arguments: the PNG sequence at the shot's rate → H.264 yuv420p at the same rate, fast start; with a start
+ * timecode, the MP4 carries it as its timecode track (QuickTime 'tmcd', which editing tools read to line the file up).
+ */
+export function mp4Args(rate: string, startTimecode?: string): string[] {
   // prettier-ignore
   return [
     '-framerate', rate,
@@ -89,9 +90,19 @@ export function mp4Args(rate: string): string[] {
     '-crf', '20',
     '-pix_fmt', 'yuv420p',
     '-r', rate,
+    ...(startTimecode ? ['-timecode', startTimecode] : []),
     '-movflags', '+faststart',
     'out.mp4',
   ];
+}
+
+/**
+ * The source timecode of an MP4's first picture, for its timecode track: the first frame's source timecode, or the
+ * frame before it when a slate leads (the slate holds the frame before the first, so every later picture's track
+ * timecode equals the source timecode burnt into it).
+ */
+export function mp4StartTimecode(labels: ExportLabels, first: number, slate: boolean): string {
+  return exportTimecode(labels, slate ? first - 1 : first);
 }
 
 /** What a slate and the burn-ins say. */

@@ -39,6 +39,8 @@ export interface Mp4Input {
   frames: Uint8Array[];
   /** ffmpeg rate expression, e.g. '24' or '24000/1001' (ffmpegRate()). */
   rate: string;
+  /** Source timecode of the first picture, written as the MP4's timecode track (mp4StartTimecode()). */
+  startTimecode?: string;
 }
 
 /** Encodes the frames; resolves to the MP4 bytes. Aborting the signal terminates ffmpeg's worker. */
@@ -59,7 +61,7 @@ export async function encodeMp4(input: Mp4Input, onProgress: (fraction: number) 
   const names = input.frames.map((_, i) => `frame${String(i).padStart(5, '0')}.png`);
   try {
     for (let i = 0; i < total; i++) await ffmpeg.writeFile(names[i], input.frames[i]);
-    const code = await ffmpeg.exec(mp4Args(input.rate));
+    const code = await ffmpeg.exec(mp4Args(input.rate, input.startTimecode));
     if (signal.aborted) throw new CancelledError();
     if (code !== 0) throw new Error(`The video encoder failed (exit code ${code})`);
     const out = await ffmpeg.readFile('out.mp4');

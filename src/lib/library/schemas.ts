@@ -3,6 +3,9 @@
 import { z } from 'zod';
 import { HANDLE_CONVENTIONS, SHOT_STATUSES, type ShotStatus } from '../vocab';
 import { FRAME_RATES } from '../timecode';
+import { DEFAULT_FIRST_FRAME, DEFAULT_HANDLES } from './handles';
+
+export { DEFAULT_FIRST_FRAME } from './handles';
 
 const req = { required_error: 'is required', invalid_type_error: 'must be text' };
 const num = { required_error: 'is required', invalid_type_error: 'must be a number' };
@@ -61,15 +64,15 @@ export const archiveBody = z.object({ archived: z.boolean({ required_error: 'is 
 
 // ── Shots ────────────────────────────────────────────────────────────────────────────────────────────────────────
 
-/** The first frame of a new shot when none is given: 1001, common practice (no source). */
-export const DEFAULT_FIRST_FRAME = 1001;
-
 const shotFields = {
   code: shotCode,
   description: description.nullish(),
   firstFrame: frame,
   lastFrame: frame,
-  handles,
+  /** Frames before the cut in. */
+  headHandles: handles,
+  /** Frames after the cut out. */
+  tailHandles: handles,
   frameRate,
   plateWidth: pixels,
   plateHeight: pixels,
@@ -92,7 +95,8 @@ export const shotCreate = z
     description: shotFields.description,
     firstFrame: frame.default(DEFAULT_FIRST_FRAME),
     lastFrame: frame,
-    handles: handles.default(8),
+    headHandles: handles.default(DEFAULT_HANDLES),
+    tailHandles: handles.default(DEFAULT_HANDLES),
     /** Defaults to the show's rate on the server. */
     frameRate: frameRate.optional(),
     plateWidth: pixels.default(1920),
@@ -105,7 +109,7 @@ export const shotCreate = z
     sourceTimecodeIn: shotFields.sourceTimecodeIn.optional(),
     plateFirstFrame: shotFields.plateFirstFrame.optional(),
   })
-  .refine(lastNotBeforeFirst, { message: 'must not be before the first frame', path: ['lastFrame'] });
+  .refine(lastNotBeforeFirst, { message: 'must not be before the cut in', path: ['lastFrame'] });
 export type ShotCreate = z.infer<typeof shotCreate>;
 
 /** Partial edit of a shot; the server checks lastFrame ≥ firstFrame against the merged values too. */
@@ -115,7 +119,8 @@ export const shotPatch = z
     description: shotFields.description,
     firstFrame: shotFields.firstFrame,
     lastFrame: shotFields.lastFrame,
-    handles: shotFields.handles,
+    headHandles: shotFields.headHandles,
+    tailHandles: shotFields.tailHandles,
     frameRate: shotFields.frameRate,
     plateWidth: shotFields.plateWidth,
     plateHeight: shotFields.plateHeight,
@@ -129,7 +134,7 @@ export const shotPatch = z
   .partial()
   .strict('unknown field')
   .refine((v) => Object.keys(v).length > 0, { message: 'send at least one field to change', path: ['(body)'] })
-  .refine(lastNotBeforeFirst, { message: 'must not be before the first frame', path: ['lastFrame'] });
+  .refine(lastNotBeforeFirst, { message: 'must not be before the cut in', path: ['lastFrame'] });
 export type ShotPatch = z.infer<typeof shotPatch>;
 
 /** Inline table edit (artists too): status and/or assignee. */
@@ -210,7 +215,9 @@ export const importOptions = z
     codeFrom: z.enum(['clip', 'pattern'], { errorMap: () => ({ message: 'must be clip or pattern' }) }).default('clip'),
     /** e.g. "CNB_{n:03}0" → CNB_0010, CNB_0020… Placeholders: {n} (shot count), {event}, {reel}, {clip}; ":03" pads with zeros. */
     pattern: z.string(req).trim().min(1, 'is required').max(64, 'is too long (64 characters at most)').optional(),
-    handles: handles.default(8),
+    /** Head handles before each cut in and tail handles after each cut out, in frames (a CSV row may carry its own). */
+    headHandles: handles.default(DEFAULT_HANDLES),
+    tailHandles: handles.default(DEFAULT_HANDLES),
     startFrame: frame.default(DEFAULT_FIRST_FRAME),
   })
   .refine((o) => o.codeFrom !== 'pattern' || o.pattern, { message: 'is required when codes come from a pattern', path: ['pattern'] });

@@ -1,13 +1,13 @@
 // Turnover to editorial: which approval a turnover takes, in our own words, and the shape of its plan. Shared by
-// the API route (zod on the query) and the show page's panel. A client sign-off filter is added here as one more
-// option once client approval exists; the server maps each option to its version filter.
+// the API route (zod on the query) and the show page's panel; the server maps each option to its version filter.
 import { z } from 'zod';
 
-export const TURNOVER_APPROVALS = ['internal'] as const;
+export const TURNOVER_APPROVALS = ['internal', 'client'] as const;
 export type TurnoverApproval = (typeof TURNOVER_APPROVALS)[number];
 
 export const TURNOVER_APPROVAL_WORDS: Record<TurnoverApproval, string> = {
-  internal: 'Approved internally (supervisor)',
+  internal: 'Approved by us (supervisor)',
+  client: 'Client signed off (and approved by us)',
 };
 
 export const turnoverQuery = z.object({

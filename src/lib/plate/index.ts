@@ -1,5 +1,6 @@
-// The plate under the player: the picture of a shot frame, from a still image or a video read with an HTML <video>
-// seeked to the frame's time, (frame − firstFrame)/fps, and copied into a canvas. Browser only; free of React.
+// The plate under the player, the share page, compare and exports: the picture of a shot frame, from a still image or
+// a video read with an HTML <video> seeked to the frame's time, (frame − the plate's first frame)/fps, and copied into
+// a canvas. Browser only; free of React.
 
 export type PlateImage = HTMLImageElement | HTMLCanvasElement;
 
@@ -16,11 +17,24 @@ export interface PlateFrameSource {
   destroy(): void;
 }
 
+/** Where a plate sits on the shot's frames: the cut in and, for a plate delivered with handles, the plate's first frame. */
+export interface PlatePlacement {
+  /** Shot frame number of the cut in. */
+  firstFrame: number;
+  /** Shot frame number of the plate's first picture; null or absent: the cut in. */
+  plateFirstFrame?: number | null;
+}
+
+/** Returns the shot frame number shown by the plate's first picture: its first frame when set, else the cut in. */
+export function plateStartFrame(shot: PlatePlacement): number {
+  return shot.plateFirstFrame ?? shot.firstFrame;
+}
+
 export interface PlateOpenOptions {
   url: string;
   contentType: string;
-  /** The shot's first frame: the plate's first picture. */
-  firstFrame: number;
+  /** Where the plate's first picture falls on the shot's frames (a video is seeked by it). */
+  shot: PlatePlacement;
   /** Real frames per second of the shot (30000/1001 for 29.97). */
   fps: number;
 }
@@ -87,7 +101,7 @@ async function openVideoPlate(o: PlateOpenOptions): Promise<PlateFrameSource> {
   async function drain(): Promise<PlateImage> {
     while (wanted !== null && wanted !== drawnFrame) {
       const frame = wanted;
-      await seekTo(videoTimeOf(frame, o.firstFrame, o.fps, video.duration));
+      await seekTo(videoTimeOf(frame, plateStartFrame(o.shot), o.fps, video.duration));
       ctx.drawImage(video, 0, 0, canvas.width, canvas.height);
       drawnFrame = frame;
     }

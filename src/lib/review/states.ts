@@ -1,6 +1,6 @@
 // The review state machine of a version, as pure functions shared by the server and the browser:
 // who may move a version from which state to which, and what the shot's status becomes.
-import type { ReviewState, Role, ShotStatus } from '../vocab';
+import type { ClientState, ReviewState, Role, ShotStatus } from '../vocab';
 
 /** What a person (or the system, for `supersede`) asks to do to a version's review state. */
 export type ReviewAction = 'submit' | 'approve' | 'return' | 'supersede';
@@ -108,5 +108,87 @@ export function availableActions(role: Role, from: ReviewState, bakeState: strin
   return (['submit', 'approve', 'return'] as const).filter((action) => {
     const r = decideTransition({ actor: role, action, from, bakeState, comment: 'x' });
     return r.ok;
+  });
+}
+
+// ── The client's sign-off ────────────────────────────────────────────────────────────────────────────────────────
+// Kept apart from the review state above: the studio's review decides "approved by us"; only then may a supervisor
+// ask the client to sign off, and the client (an account of the studio, or a guest holding the share link) signs off
+// or asks for changes. The review state machine is not touched by any of it.
+
+/** What a person asks to do to a version's client state. */
+export type ClientStep = 'send' | 'sign-off' | 'ask-changes';
+export const CLIENT_STEPS: readonly ClientStep[] = ['send', 'sign-off', 'ask-changes'];
+/** The client's two decisions (the API's `decision` values). */
+export type ClientDecision = Exclude<ClientStep, 'send'>;
+export const CLIENT_DECISIONS = ['sign-off', 'ask-changes'] as const satisfies readonly ClientDecision[];
+
+/** Who asks: a studio role, or 'guest' for someone holding a share link. */
+export type ClientActor = Role | 'guest';
+
+export interface ClientStepRequest {
+  actor: ClientActor;
+  step: ClientStep;
+  reviewState: ReviewState;
+  clientState: ClientState;
+  /** What to change (needed to ask for changes). */
+  comment?: string | null;
+}
+
+/** `unchanged`: the version was already in `to` (a repeated request answers with the state already reached). */
+export type ClientStepResult = { ok: true; to: ClientState; unchanged: boolean } | TransitionRefusal;
+
+const CLIENT_STEP_TO: Record<ClientStep, ClientState> = { send: 'waiting', 'sign-off': 'signed off', 'ask-changes': 'changes asked' };
+const CLIENT_STEP_ACTORS: Record<ClientStep, readonly ClientActor[]> = {
+  send: ['supervisor', 'owner'],
+  'sign-off': ['client', 'guest'],
+  'ask-changes': ['client', 'guest'],
+};
+
+/** Decides one step of the client's sign-off: the new client state, or why it is refused (and which HTTP answer fits). */
+export function decideClientStep(req: ClientStepRequest): ClientStepResult {
+  const to = CLIENT_STEP_TO[req.step];
+  if (!to) return { ok: false, code: 'validation_failed', message: `decision: unknown step ${String(req.step)}`, field: 'decision' };
+  if (!CLIENT_STEP_ACTORS[req.step].includes(req.actor)) {
+    return {
+      ok: false,
+      code: 'forbidden',
+      message: req.step === 'send' ? 'Only a supervisor or an owner can ask the client to sign off' : 'Only the client can sign off or ask for changes',
+    };
+  }
+  if (req.reviewState !== 'approved') {
+    const why =
+      req.reviewState === 'superseded'
+        ? 'This version was replaced by a newer version'
+        : `This version is not approved by us yet (it is ${STATE_WORDS[req.reviewState]})`;
+    return {
+      ok: false,
+      code: 'conflict',
+      message: req.step === 'send' ? `${why}: approve it in the studio before asking the client to sign off` : `${why}, so it cannot be signed off by the client now`,
+    };
+  }
+  if (req.clientState === to) return { ok: true, to, unchanged: true };
+  if (req.step === 'send') return { ok: true, to, unchanged: false };
+  if (req.clientState === 'not sent') {
+    return { ok: false, code: 'conflict', message: 'The studio has not asked for your sign-off on this version yet' };
+  }
+  if (req.clientState !== 'waiting') {
+    return {
+      ok: false,
+      code: 'conflict',
+      message: `This version is already decided (${req.clientState === 'signed off' ? 'signed off' : 'changes asked for'}): ask the studio to send it to you again to change the decision`,
+    };
+  }
+  if (req.step === 'ask-changes' && !(req.comment ?? '').trim()) {
+    return { ok: false, code: 'validation_failed', message: 'comment: say what should change', field: 'comment' };
+  }
+  return { ok: true, to, unchanged: false };
+}
+
+/** The client steps the actor may offer now (for buttons; the server decides again). */
+export function availableClientSteps(actor: ClientActor, reviewState: ReviewState, clientState: ClientState): ClientStep[] {
+  return CLIENT_STEPS.filter((step) => {
+    const r = decideClientStep({ actor, step, reviewState, clientState, comment: 'x' });
+    return r.ok && !r.unchanged;
   });
 }

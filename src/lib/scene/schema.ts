@@ -192,9 +192,26 @@ const sceneObject = z
   })
   .strict();
 
-/** Cells per side of the tank interior (the solver adds a one-cell border). */
+/**
+ * How a tank side of `length` m lies on cells of `cellSize` m: `cover` cells cover it (the last one partly
+ * outside when the length is not a whole number of cells), `whole` of them lie entirely inside. A length
+ * within 1e-6 (relative) of a whole number of cells counts as whole, so typed values such as 0.3 at 1/64
+ * that are whole up to rounding get no sliver cell.
+ */
+export function cellFit(length: number, cellSize: number): { cover: number; whole: number } {
+  const n = length / cellSize, r = Math.round(n);
+  if (Math.abs(n - r) <= 1e-6 * Math.max(1, n)) return { cover: r, whole: r };
+  return { cover: Math.ceil(n), whole: Math.floor(n) };
+}
+
+/**
+ * Cells per side of the grid covering the tank interior (the solver adds a one-cell border). A tank need not
+ * be a whole number of cells: the last column (row) then reaches past the tank's edge, and on a closed side
+ * the solver makes that partial cell solid (see FlipState), so the liquid's wall is the last whole cell's face,
+ * less than one cell inside the drawn edge.
+ */
 export function tankCells(tank: { width: number; height: number; cellSize: number }): { nx: number; ny: number } {
-  return { nx: Math.round(tank.width / tank.cellSize), ny: Math.round(tank.height / tank.cellSize) };
+  return { nx: cellFit(tank.width, tank.cellSize).cover, ny: cellFit(tank.height, tank.cellSize).cover };
 }
 
 /** Upper estimate of the particles a scene can hold at once: pours plus every spout's emission. */
@@ -231,16 +248,11 @@ export function spoutEmissionEstimate(
 }
 
 const refinedScene = sceneObject.superRefine((s, ctx) => {
-  const { width, height, cellSize } = s.tank;
-  for (const [key, len] of [['width', width], ['height', height]] as const) {
-    const n = len / cellSize;
-    if (Math.abs(n - Math.round(n)) > 1e-6 * Math.max(1, n)) {
-      ctx.addIssue({ code: z.ZodIssueCode.custom, path: ['tank', key], message: `must be a whole number of cells (${key} / cellSize = ${n.toFixed(4)})` });
-    }
-  }
+  // Any tank size is accepted (see tankCells); it must hold at least 2 whole cells each way.
   const { nx, ny } = tankCells(s.tank);
-  if (nx < 2 || ny < 2) {
-    ctx.addIssue({ code: z.ZodIssueCode.custom, path: ['tank', 'cellSize'], message: `tank must be at least 2 × 2 cells (is ${nx} × ${ny})` });
+  const wholeX = cellFit(s.tank.width, s.tank.cellSize).whole, wholeY = cellFit(s.tank.height, s.tank.cellSize).whole;
+  if (wholeX < 2 || wholeY < 2) {
+    ctx.addIssue({ code: z.ZodIssueCode.custom, path: ['tank', 'cellSize'], message: `tank must be at least 2 × 2 cells (is ${(s.tank.width / s.tank.cellSize).toFixed(2)} × ${(s.tank.height / s.tank.cellSize).toFixed(2)})` });
   }
   if (nx > SCENE_LIMITS.maxCellsPerSide || ny > SCENE_LIMITS.maxCellsPerSide) {
     ctx.addIssue({

@@ -167,6 +167,11 @@ export async function setShowArchived(access: StudioAccess, showId: number, arch
 
 // ── Shots ────────────────────────────────────────────────────────────────────────────────────────────────────────
 
+/** The shot's tail handles as a select column: the head's count where the tail was never stored apart (null). */
+function tailHandlesColumn() {
+  return sql<number>`coalesce(${shots.tailHandles}, ${shots.headHandles})`.mapWith(Number);
+}
+
 const shotColumns = {
   id: shots.id,
   showId: shots.showId,
@@ -175,7 +180,8 @@ const shotColumns = {
   description: shots.description,
   firstFrame: shots.firstFrame,
   lastFrame: shots.lastFrame,
-  handles: shots.handles,
+  headHandles: shots.headHandles,
+  tailHandles: tailHandlesColumn(),
   frameRate: shots.frameRate,
   plateWidth: shots.plateWidth,
   plateHeight: shots.plateHeight,
@@ -289,6 +295,7 @@ export async function getShot(access: StudioAccess, shotId: number) {
         bakeState: versions.bakeState,
         reviewState: versions.reviewState,
         sharedWithClient: versions.sharedWithClient,
+        clientState: versions.clientState,
         plateAssetId: versions.plateAssetId,
         clipAssetId: versions.clipAssetId,
       })
@@ -352,7 +359,8 @@ export async function createShot(access: StudioAccess, body: ShotCreate) {
         description: body.description ?? null,
         firstFrame: body.firstFrame,
         lastFrame: body.lastFrame,
-        handles: body.handles,
+        headHandles: body.headHandles,
+        tailHandles: body.tailHandles,
         frameRate: body.frameRate ?? (isFrameRate(show.frameRate) ? show.frameRate : '24'),
         plateWidth: body.plateWidth,
         plateHeight: body.plateHeight,
@@ -394,7 +402,7 @@ export async function updateShot(access: StudioAccess, shotId: number, body: Sho
   const first = body.firstFrame ?? before.firstFrame;
   const last = body.lastFrame ?? before.lastFrame;
   if (last < first) {
-    throw new HttpError('validation_failed', `lastFrame: must not be before the first frame (${first})`, { lastFrame: `must not be before the first frame (${first})` });
+    throw new HttpError('validation_failed', `lastFrame: must not be before the cut in (${first})`, { lastFrame: `must not be before the cut in (${first})` });
   }
   if (body.assigneeId !== undefined) await checkAssignee(access.studioId, body.assigneeId);
   if (body.sourceTimecodeIn !== undefined || body.frameRate !== undefined) {
@@ -409,6 +417,8 @@ export async function updateShot(access: StudioAccess, shotId: number, body: Sho
     if (taken) throw shotCodeTaken(body.code);
   }
   const changes = Object.fromEntries(Object.entries(body).filter(([, v]) => v !== undefined)) as Partial<typeof shots.$inferInsert>;
+  // A tail never stored apart follows the head: keep its count when only the head changes.
+  if (changes.headHandles !== undefined && changes.tailHandles === undefined) changes.tailHandles = before.tailHandles;
   try {
     await db()
       .update(shots)
@@ -519,11 +529,16 @@ export async function setHandleConvention(access: StudioAccess, convention: Hand
   return { handleConvention: convention };
 }
 
+/** What an import compares a show's shots by: code, cut range, head and tail handles. */
+function existingShotColumns() {
+  return { id: shots.id, code: shots.code, firstFrame: shots.firstFrame, lastFrame: shots.lastFrame, headHandles: shots.headHandles, tailHandles: tailHandlesColumn() };
+}
+
 /** Previews an import into a show; writes nothing. Existing shots (archived ones too) are matched by code. */
 export async function previewShowImport(access: StudioAccess, showId: number, body: ImportBody) {
   const show = await getShowRow(access, showId);
   const existing = await db()
-    .select({ id: shots.id, code: shots.code, firstFrame: shots.firstFrame, lastFrame: shots.lastFrame, handles: shots.handles })
+    .select(existingShotColumns())
     .from(shots)
     .where(and(eq(shots.showId, showId), eq(shots.studioId, access.studioId)));
   const preview = previewText(body.format, body.text, showRate(show), existing, { ...body.options, convention: await handleConventionOf(access.studioId) });
@@ -545,7 +560,7 @@ export async function confirmShowImport(access: StudioAccess, showId: number, bo
     if (!show) throw new HttpError('not_found', 'No such show');
     if (show.archivedAt) throw new HttpError('conflict', 'This show is archived: unarchive it before importing shots');
     const existing = await tx
-      .select({ id: shots.id, code: shots.code, firstFrame: shots.firstFrame, lastFrame: shots.lastFrame, handles: shots.handles })
+      .select(existingShotColumns())
       .from(shots)
       .where(and(eq(shots.showId, showId), eq(shots.studioId, access.studioId)))
       .for('update');
@@ -568,7 +583,8 @@ export async function confirmShowImport(access: StudioAccess, showId: number, bo
         description: s.description,
         firstFrame: s.firstFrame,
         lastFrame: s.lastFrame,
-        handles: s.handles,
+        headHandles: s.headHandles,
+        tailHandles: s.tailHandles,
         frameRate: showRate(show),
         ...sourceColumns(s.source),
       });
@@ -577,7 +593,7 @@ export async function confirmShowImport(access: StudioAccess, showId: number, bo
     for (const u of preview.update) {
       await tx
         .update(shots)
-        .set({ firstFrame: u.to.first, lastFrame: u.to.last, handles: u.to.handles, ...(u.source ? sourceColumns(u.source) : {}) })
+        .set({ firstFrame: u.to.first, lastFrame: u.to.last, headHandles: u.to.headHandles, tailHandles: u.to.tailHandles, ...(u.source ? sourceColumns(u.source) : {}) })
         .where(and(eq(shots.id, u.id), eq(shots.studioId, access.studioId)));
     }
     await tx.update(shows).set({ updatedAt: new Date() }).where(eq(shows.id, showId));

@@ -1,15 +1,17 @@
 // Review e-mails: supervisors and owners hear when a version is submitted, its author hears when it is approved or
-// returned (with the comment and a link to each note's frame), and people who opted in get a daily digest.
+// returned (with the comment and a link to each note's frame), the show's clients hear when their sign-off is asked
+// for, supervisors, owners and the author hear the client's decision, and people who opted in get a daily digest.
 // Every link points at a page of the app, which sends a signed-out reader through sign-in first.
 import { and, asc, desc, eq, gte, inArray, isNull, ne } from 'drizzle-orm';
 import { db } from './db';
-import { memberships, notes, reviewEvents, shots, shows, studios, users, versions } from './db/schema';
+import { clientShows, memberships, notes, reviewEvents, shots, shows, studios, users, versions } from './db/schema';
 import { sendMail } from './mail';
 import { config } from './config';
 import { clientVersionIds } from './access';
 import type { StudioAccess } from './authz';
 import type { Role } from '../vocab';
-import { reviewStateWord, versionLabel } from '../vocab';
+import { clientStateWord, reviewStateWord, versionLabel } from '../vocab';
+import { frameWithTimecode } from '../timecode';
 
 /** The version page, optionally opened at a frame. */
 export function versionUrl(studioSlug: string, versionId: number, frame?: number): string {
@@ -34,6 +36,11 @@ export async function versionContext(versionId: number) {
       studioId: versions.studioId,
       authorId: versions.authorId,
       shotCode: shots.code,
+      // The shot's cut in, rate and source timecode at the cut in: a note's frame is written with its source timecode.
+      firstFrame: shots.firstFrame,
+      frameRate: shots.frameRate,
+      sourceTimecodeIn: shots.sourceTimecodeIn,
+      showId: shows.id,
       showCode: shows.code,
       studioSlug: studios.slug,
       studioName: studios.name,
@@ -112,7 +119,7 @@ export async function notifyDecision(versionId: number, actorId: string, comment
     ...(open.length
       ? [
           `${open.length === 1 ? 'One note is' : `${open.length} notes are`} pinned to frames of this version. Each link opens the version at that frame:`,
-          ...open.map((n) => `Frame ${n.frame} — ${n.authorName ?? 'a reviewer'}: ${short(n.body)}\n${versionUrl(c.studioSlug, versionId, n.frame)}`),
+          ...open.map((n) => `Frame ${frameWithTimecode(c, n.frame)} — ${n.authorName ?? 'a reviewer'}: ${short(n.body)}\n${versionUrl(c.studioSlug, versionId, n.frame)}`),
         ]
       : []),
     approved ? 'The shot is marked approved.' : 'Save a new version of the shot when you have made the changes, bake it and submit it again.',
@@ -121,9 +128,71 @@ export async function notifyDecision(versionId: number, actorId: string, comment
     to: c.authorEmail,
     subject: approved ? `Approved: ${label(c)}` : `Back for changes: ${label(c)}`,
     paragraphs,
-    action: { label: open.length ? `Open frame ${open[0].frame}` : `Open ${c.shotCode} ${versionLabel(c.number)}`, url: versionUrl(c.studioSlug, versionId, open[0]?.frame) },
+    action: { label: open.length ? `Open frame ${frameWithTimecode(c, open[0].frame)}` : `Open ${c.shotCode} ${versionLabel(c.number)}`, url: versionUrl(c.studioSlug, versionId, open[0]?.frame) },
   });
   return true;
+}
+
+// ── Client sign-off ──────────────────────────────────────────────────────────────────────────────────────────────
+
+/** Asks the client accounts of the version's show (client_shows) to sign it off. Returns how many were written to. */
+export async function notifyClientsAsked(versionId: number, actorId: string, message: string | null): Promise<number> {
+  const c = await versionContext(versionId);
+  if (!c) return 0;
+  const [actor, people] = await Promise.all([
+    nameOf(actorId),
+    db()
+      .select({ id: users.id, email: users.email, name: users.name })
+      .from(memberships)
+      .innerJoin(users, eq(users.id, memberships.userId))
+      .innerJoin(clientShows, and(eq(clientShows.userId, memberships.userId), eq(clientShows.studioId, memberships.studioId)))
+      .where(and(eq(memberships.studioId, c.studioId), eq(memberships.role, 'client'), eq(clientShows.showId, c.showId))),
+  ]);
+  for (const p of people) {
+    await sendMail({
+      to: p.email,
+      subject: `Your sign-off, please: ${label(c)}`,
+      paragraphs: [
+        `Hello ${p.name},`,
+        `${actor} at ${c.studioName} approved ${versionLabel(c.number)} of shot ${c.shotCode} (${c.showCode}) and asks for your sign-off.`,
+        ...(message ? [`Their words: “${message}”`] : []),
+        'Open it to play the previs, then choose Sign off, or Ask for changes and say what should change.',
+      ],
+      action: { label: `Open ${c.shotCode} ${versionLabel(c.number)}`, url: versionUrl(c.studioSlug, versionId) },
+    });
+  }
+  return people.length;
+}
+
+/** Tells the studio's supervisors and owners, and the version's author, that the client signed off or asked for changes. */
+export async function notifyClientDecision(versionId: number): Promise<number> {
+  const c = await versionContext(versionId);
+  if (!c) return 0;
+  const [v] = await db()
+    .select({ clientState: versions.clientState, by: versions.clientDecidedBy, name: versions.clientDeciderName, comment: versions.clientComment })
+    .from(versions)
+    .where(eq(versions.id, versionId));
+  if (!v || (v.clientState !== 'signed off' && v.clientState !== 'changes asked')) return 0;
+  const people = await membersWithRoles(c.studioId, ['supervisor', 'owner']);
+  if (c.authorId && c.authorEmail && !people.some((p) => p.id === c.authorId)) people.push({ id: c.authorId, email: c.authorEmail, name: c.authorName ?? '', role: 'artist' });
+  const signedOff = v.clientState === 'signed off';
+  const who = v.name ?? 'The client';
+  for (const p of people) {
+    await sendMail({
+      to: p.email,
+      subject: `${clientStateWord(v.clientState)}: ${label(c)}`,
+      paragraphs: [
+        `Hello ${p.name},`.replace(' ,', ','),
+        signedOff
+          ? `${who} signed off ${versionLabel(c.number)} of shot ${c.shotCode} (${c.showCode}).`
+          : `${who} asked for changes to ${versionLabel(c.number)} of shot ${c.shotCode} (${c.showCode}).`,
+        ...(v.comment ? [`What to change: “${v.comment}”`] : []),
+        signedOff ? 'The version now counts as signed off by the client, for the turnover to editorial too.' : 'Save a new version of the shot with the changes, get it approved and ask the client again.',
+      ],
+      action: { label: `Open ${c.shotCode} ${versionLabel(c.number)}`, url: versionUrl(c.studioSlug, versionId) },
+    });
+  }
+  return people.length;
 }
 
 // ── Daily digest ─────────────────────────────────────────────────────────────────────────────────────────────────
@@ -183,10 +252,26 @@ export async function sendDigests(opts: { now?: Date; hours?: number; dryRun?: b
             .from(notes)
             .innerJoin(versions, eq(versions.id, notes.versionId))
             .where(and(eq(notes.studioId, m.studioId), eq(versions.authorId, m.userId), ne(notes.authorId, m.userId), gte(notes.createdAt, since)));
-      if (!events.length && !waiting.length && !newNotes.length) continue;
+      // the client's sign-off: a client reads what was sent to them; the studio reads the client's decisions
+      const signOff = await db()
+        .select({ versionId: versions.id, number: versions.number, shotCode: shots.code, showCode: shows.code, clientState: versions.clientState, by: versions.clientDeciderName })
+        .from(versions)
+        .innerJoin(shots, eq(shots.id, versions.shotId))
+        .innerJoin(shows, eq(shows.id, shots.showId))
+        .where(
+          client
+            ? and(eq(versions.clientState, 'waiting'), gte(versions.clientSentAt, since), inArray(versions.id, clientVersionIds({ studioId: m.studioId, userId: m.userId, role: m.role } as StudioAccess)))
+            : and(eq(versions.studioId, m.studioId), inArray(versions.clientState, ['signed off', 'changes asked']), gte(versions.clientDecidedAt, since)),
+        )
+        .orderBy(asc(versions.id))
+        .limit(100);
+      if (!events.length && !waiting.length && !newNotes.length && !signOff.length) continue;
       paragraphs.push(`In ${m.studioName}:`);
       for (const e of events) {
         paragraphs.push(`• ${e.showCode} / ${e.shotCode} ${versionLabel(e.number)} — ${reviewStateWord(e.toState)}${e.actorName ? ` (${e.actorName})` : ''} — ${versionUrl(m.slug, e.versionId)}`);
+      }
+      for (const v of signOff) {
+        paragraphs.push(`• ${v.showCode} / ${v.shotCode} ${versionLabel(v.number)} — ${clientStateWord(v.clientState)}${v.by ? ` (${v.by})` : ''} — ${versionUrl(m.slug, v.versionId)}`);
       }
       if (waiting.length) paragraphs.push(`• ${waiting.length === 1 ? 'One version waits' : `${waiting.length} versions wait`} for your decision.`);
       if (newNotes.length) {

@@ -15,6 +15,7 @@ import { diffScenes, countChanges } from '../review/diff';
 import type { NoteCreate, NoteView, NotePoint } from '../review/notes';
 import type { ReviewState, Role } from '../vocab';
 import { notifyDecision, notifySubmitted } from './notify';
+import { clientSignOffView } from './client-signoff';
 
 type Locals = APIContext['locals'];
 type Tx = Parameters<Parameters<Db['transaction']>[0]>[0];
@@ -34,6 +35,7 @@ export function reviewVersionView(v: VersionRow) {
     reviewState: v.reviewState,
     bakeState: v.bakeState,
     sharedWithClient: v.sharedWithClient,
+    ...clientSignOffView(v),
     createdAt: v.createdAt.toISOString(),
     updatedAt: v.updatedAt.toISOString(),
   };
@@ -352,6 +354,10 @@ function versionRowsQuery() {
       number: versions.number,
       reviewState: versions.reviewState,
       sharedWithClient: versions.sharedWithClient,
+      clientState: versions.clientState,
+      clientDeciderName: versions.clientDeciderName,
+      clientComment: versions.clientComment,
+      clientDecidedAt: versions.clientDecidedAt,
       updatedAt: versions.updatedAt,
       shotId: shots.id,
       shotCode: shots.code,
@@ -413,7 +419,29 @@ export interface InboxCounts {
   toReview: number;
   returned: number;
   newNotes: number;
+  /** Client: versions waiting for their sign-off. Studio: the client's recent decisions (see clientInboxWhere). */
+  client: number;
   total: number;
+}
+
+/** How long a client's decision stays in the studio's inbox. */
+const CLIENT_DECISION_DAYS = 14;
+
+/**
+ * The versions of the inbox's client section: for a client, those waiting for their sign-off; for supervisors and
+ * owners, every version the client signed off or asked changes on in the last two weeks (not replaced since); for an
+ * artist, the same on their own versions.
+ */
+function clientInboxWhere(access: StudioAccess): SQL {
+  const { studioId, userId, role } = access;
+  if (role === 'client') return and(eq(versions.studioId, studioId), eq(versions.clientState, 'waiting'), inArray(versions.id, clientVersionIds(access)))!;
+  return and(
+    eq(versions.studioId, studioId),
+    inArray(versions.clientState, ['signed off', 'changes asked']),
+    ne(versions.reviewState, 'superseded'),
+    gt(versions.clientDecidedAt, new Date(Date.now() - CLIENT_DECISION_DAYS * 86_400_000)),
+    ...(role === 'artist' ? [eq(versions.authorId, userId)] : []),
+  )!;
 }
 
 /** The counts for the navigation: cheap count queries only. */
@@ -425,22 +453,24 @@ export async function inboxCounts(studioId: number, userId: string, role: Role):
       : role === 'artist'
         ? undefined
         : and(eq(versions.studioId, studioId), eq(versions.reviewState, 'submitted'));
-  const [toReview, returned, newNotes] = await Promise.all([
+  const [toReview, returned, newNotes, client] = await Promise.all([
     reviewWhere ? db().select({ n: count }).from(versions).where(reviewWhere) : Promise.resolve([{ n: 0 }]),
     role === 'client'
       ? Promise.resolve([{ n: 0 }])
       : db().select({ n: count }).from(versions).where(and(eq(versions.studioId, studioId), eq(versions.authorId, userId), eq(versions.reviewState, 'returned'))),
     role === 'client' ? Promise.resolve([{ n: 0 }]) : newNotesCount().where(newNotesWhere(studioId, userId)),
+    db().select({ n: count }).from(versions).where(clientInboxWhere({ studioId, userId, role } as StudioAccess)),
   ]);
-  const c = { toReview: Number(toReview[0]?.n ?? 0), returned: Number(returned[0]?.n ?? 0), newNotes: Number(newNotes[0]?.n ?? 0) };
-  return { ...c, total: c.toReview + c.returned + c.newNotes };
+  const c = { toReview: Number(toReview[0]?.n ?? 0), returned: Number(returned[0]?.n ?? 0), newNotes: Number(newNotes[0]?.n ?? 0), client: Number(client[0]?.n ?? 0) };
+  return { ...c, total: c.toReview + c.returned + c.newNotes + c.client };
 }
 
 /**
  * What waits for the user in this studio:
  * - toReview: supervisors and owners get every submitted version; a client gets submitted versions shared with them;
  * - returned: the user's own versions that came back (artist and above);
- * - newNotes: the user's own versions with notes by others since they last read them, with the notes.
+ * - newNotes: the user's own versions with notes by others since they last read them, with the notes;
+ * - client: a client's versions waiting for their sign-off, or the studio's recent client decisions (clientInboxWhere).
  */
 export async function inboxFor(access: StudioAccess) {
   const { studioId, userId, role } = access;
@@ -451,7 +481,7 @@ export async function inboxFor(access: StudioAccess) {
       : role === 'artist'
         ? null
         : and(eq(versions.studioId, studioId), eq(versions.reviewState, 'submitted'))!;
-  const [toReview, returned, fresh] = await Promise.all([
+  const [toReview, returned, fresh, clientRows] = await Promise.all([
     reviewWhere ? versionRowsQuery().where(reviewWhere).orderBy(asc(versions.updatedAt)).limit(200) : Promise.resolve([]),
     role === 'client'
       ? Promise.resolve([])
@@ -465,6 +495,7 @@ export async function inboxFor(access: StudioAccess) {
           .where(newNotesWhere(studioId, userId))
           .orderBy(asc(notes.versionId), asc(notes.frame), asc(notes.id))
           .limit(500),
+    versionRowsQuery().where(clientInboxWhere(access)).orderBy(desc(versions.clientDecidedAt), desc(versions.clientSentAt)).limit(200),
   ]);
   const freshNotes = fresh.map((r) => noteView(r));
   const noteVersionIds = [...new Set(freshNotes.map((n) => n.versionId))];
@@ -485,6 +516,10 @@ export async function inboxFor(access: StudioAccess) {
       author: role === 'client' ? { id: null, name: 'The studio' } : { id: r.authorId, name: r.authorName ?? 'A former member' },
       updatedAt: r.updatedAt.toISOString(),
       lastEvent: e ? { comment: role === 'client' ? null : e.comment, actorName: e.actorName, at: e.createdAt.toISOString() } : null,
+      clientState: r.clientState,
+      clientDecidedByName: r.clientDeciderName,
+      clientComment: r.clientComment,
+      clientDecidedAt: r.clientDecidedAt?.toISOString() ?? null,
     };
   };
   return {
@@ -492,6 +527,7 @@ export async function inboxFor(access: StudioAccess) {
     toReview: toReview.map(item),
     returned: returned.map(item),
     newNotes: noteVersions.map((r) => ({ ...item(r), notes: freshNotes.filter((n) => n.versionId === r.versionId) })),
+    client: clientRows.map(item),
   };
 }
 
@@ -512,6 +548,7 @@ export async function compareVersions(locals: Locals, studioId: number, aId: num
       showCode: show?.code ?? null,
       firstFrame: shot.firstFrame,
       lastFrame: shot.lastFrame,
+      plateFirstFrame: shot.plateFirstFrame,
       plateWidth: shot.plateWidth,
       plateHeight: shot.plateHeight,
       metresPerPixel: shot.metresPerPixel,

@@ -255,7 +255,8 @@ export async function seedDemo(): Promise<number> {
           description: shot.description,
           firstFrame: shot.first,
           lastFrame: shot.last,
-          handles: 8,
+          headHandles: 8,
+          tailHandles: 8,
           frameRate: s.frameRate,
           // Source timecode of the plate at the cut in (fictional camera timecode).
           sourceTimecodeIn: shot.source,

@@ -19,7 +19,10 @@ import { exportFileNameOf, readyExportOf } from './exports';
 import { clipOf } from './versions';
 import { CAUTION } from '../export/layout';
 import { versionLabel } from '../vocab';
+import { availableClientSteps } from '../review/states';
+import { clientSignOffView } from './client-signoff';
 import type { ShareCreateBody } from '../export/schemas';
+import { rangeWithHandles } from '../library/handles';
 
 type LinkRow = typeof shareLinks.$inferSelect;
 type VersionRow = typeof versions.$inferSelect;
@@ -278,6 +281,9 @@ export async function publicShareInfo(opened: OpenedShare) {
     versionNumber: version.number,
     artist: row.artist ?? null,
     reviewState: version.reviewState,
+    // the client's sign-off through this link, and the decisions a guest may take now
+    ...clientSignOffView(version),
+    clientSteps: availableClientSteps('guest', version.reviewState, version.clientState),
     frameRate: row.shot.frameRate,
     sourceTimecodeIn: row.shot.sourceTimecodeIn,
     shotRange: { first: row.shot.firstFrame, last: row.shot.lastFrame },
@@ -326,6 +332,7 @@ export async function publicShareMedia(opened: OpenedShare) {
     plateSize: { width: shot.plateWidth, height: shot.plateHeight },
     metresPerPixel: shot.metresPerPixel,
     firstFrame: shot.firstFrame,
+    plateFirstFrame: shot.plateFirstFrame,
     expiresInSeconds: MEDIA_SECONDS,
   };
 }
@@ -335,8 +342,9 @@ export async function addGuestNote(opened: OpenedShare, body: { name: string; bo
   const { link, version } = opened;
   const [shot] = await db().select().from(shots).where(eq(shots.id, version.shotId));
   const scene = (typeof version.scene === 'string' ? JSON.parse(version.scene) : version.scene) as { timing?: { startFrame?: number; endFrame?: number } };
-  const lo = Math.min(shot.firstFrame - shot.handles, scene.timing?.startFrame ?? shot.firstFrame);
-  const hi = Math.max(shot.lastFrame + shot.handles, scene.timing?.endFrame ?? shot.lastFrame);
+  const withHandles = rangeWithHandles(shot);
+  const lo = Math.min(withHandles.first, scene.timing?.startFrame ?? shot.firstFrame);
+  const hi = Math.max(withHandles.last, scene.timing?.endFrame ?? shot.lastFrame);
   if (body.frame < lo || body.frame > hi) throw new HttpError('validation_failed', `frame: must be between ${lo} and ${hi}`, { frame: `must be between ${lo} and ${hi}` });
   const [res] = await db().insert(notes).values({
     studioId: link.studioId,

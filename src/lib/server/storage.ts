@@ -57,6 +57,12 @@ export async function getObject(key: string, range?: [number, number]): Promise<
   return new Uint8Array(await res.Body!.transformToByteArray());
 }
 
+/** Opens the object as a byte stream (for responses that pass a large object through without holding it whole). */
+export async function getObjectStream(key: string): Promise<ReadableStream<Uint8Array>> {
+  const res = await s3().send(new GetObjectCommand({ Bucket: bucket(), Key: key }));
+  return res.Body!.transformToWebStream() as ReadableStream<Uint8Array>;
+}
+
 /** Returns the object's size and type, or null when it does not exist. */
 export async function headObject(key: string): Promise<{ size: number; contentType?: string } | null> {
   try {

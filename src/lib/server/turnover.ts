@@ -1,22 +1,24 @@
 // Turnover to editorial: the approved version of each shot of a show, at its original record timecode, as a CMX 3600
 // EDL whose clip names are the MP4 exports' file names, zipped with those MP4s and a contents list.
-import { zipSync, strToU8, type Zippable } from 'fflate';
-import { and, desc, eq, inArray, isNull } from 'drizzle-orm';
+import { strToU8 } from 'fflate';
+import { and, desc, eq, inArray, isNull, type SQL } from 'drizzle-orm';
 import { db } from './db';
 import { assets, shots, versions } from './db/schema';
 import { HttpError } from './http';
 import type { StudioAccess } from './authz';
 import { audit } from './audit';
-import { getObject } from './storage';
+import { getObjectStream } from './storage';
+import { zipStream } from './zip-stream';
 import { getShowRow } from './library';
 import { writeCmx3600 } from '../edl';
-import { isTimecode, timecodeToFrames, type FrameRate } from '../timecode';
+import { isTimecode, rateText, timecodeToFrames, type FrameRate } from '../timecode';
 import { versionLabel } from '../vocab';
 import { TURNOVER_APPROVAL_WORDS, type TurnoverApproval, type TurnoverItem, type TurnoverMissing, type TurnoverPlan } from '../library/turnover';
 
-/** The version filter of each approval option (a client sign-off option adds its own condition here). */
-const approvalFilter: Record<TurnoverApproval, ReturnType<typeof eq>> = {
+/** The version filter of each approval option: approved by us, or also signed off by the client (still current). */
+const approvalFilter: Record<TurnoverApproval, SQL> = {
   internal: eq(versions.reviewState, 'approved'),
+  client: and(eq(versions.reviewState, 'approved'), eq(versions.clientState, 'signed off'))!,
 };
 
 const safeName = (s: string) => s.replace(/[^A-Za-z0-9._-]+/g, '_');
@@ -145,7 +147,7 @@ export function turnoverEdl(p: TurnoverPlan): string {
 /** The contents list written into the ZIP beside the EDL. */
 export function turnoverContents(p: TurnoverPlan): string {
   const lines = [
-    `Turnover of show ${p.show.code} (${p.show.name}) at ${p.show.frameRate} fps timecode`,
+    `Turnover of show ${p.show.code} (${p.show.name}), timecode at ${rateText(p.show.frameRate)}`,
     `Versions: ${TURNOVER_APPROVAL_WORDS[p.approval]}`,
     '',
     `${p.edlFileName}  CMX 3600 edit list, one event per shot at its original record timecode; clip names are the MP4 files below`,
@@ -156,20 +158,20 @@ export function turnoverContents(p: TurnoverPlan): string {
   return lines.join('\r\n') + '\r\n';
 }
 
-/** The ZIP: the EDL, each MP4 (stored, not compressed again) and contents.txt. 409 when nothing can go in it. */
-export async function turnoverZip(access: StudioAccess, showId: number, approval: TurnoverApproval): Promise<{ fileName: string; bytes: Uint8Array }> {
+/**
+ * The ZIP as a stream: the EDL, contents.txt and each MP4 (stored, not compressed again), each MP4 read from the store
+ * only when the download reaches it. 409 (before any byte is sent) when nothing can go in it.
+ */
+export async function turnoverZip(access: StudioAccess, showId: number, approval: TurnoverApproval): Promise<{ fileName: string; stream: ReadableStream<Uint8Array> }> {
   const p = await plan(access, showId, approval);
   if (!p.items.length) {
     throw new HttpError('conflict', 'No approved shot of this show has an MP4 export and a record timecode yet: nothing to turn over', { approval: 'no shot passes this filter with an MP4 export' }, { missing: p.missing });
   }
-  const files: Zippable = {
-    [p.edlFileName]: strToU8(turnoverEdl(p)),
-    'contents.txt': strToU8(turnoverContents(p)),
-  };
-  for (const item of p.items) {
-    files[item.fileName] = [await getObject(p.storageKeys.get(item.assetId)!), { level: 0 }];
-  }
-  const bytes = zipSync(files);
+  const stream = zipStream([
+    { name: p.edlFileName, data: strToU8(turnoverEdl(p)) },
+    { name: 'contents.txt', data: strToU8(turnoverContents(p)) },
+    ...p.items.map((item) => ({ name: item.fileName, stored: true, data: () => getObjectStream(p.storageKeys.get(item.assetId)!) })),
+  ]);
   await audit({ studioId: access.studioId, actorId: access.userId, action: 'show.turnover', targetType: 'show', targetId: showId, detail: { approval, shots: p.items.length, missing: p.missing.length } });
-  return { fileName: p.zipFileName, bytes };
+  return { fileName: p.zipFileName, stream };
 }

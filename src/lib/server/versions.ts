@@ -6,6 +6,7 @@ import { HttpError } from './http';
 import { clientVersionIds, isClient, type Access } from './access';
 import { audit } from './audit';
 import { supersedeOlderVersions } from './review';
+import { clientSignOffView } from './client-signoff';
 import { parseScene, sceneHash, type Scene } from '../scene';
 import { checkBakeCost, DEFAULT_BAKE_COST_LIMIT } from '../scene/cost';
 
@@ -77,6 +78,7 @@ export function versionView(v: typeof versions.$inferSelect, withScene = true) {
     reviewState: v.reviewState,
     bakeState: v.bakeState,
     sharedWithClient: v.sharedWithClient,
+    ...clientSignOffView(v),
     frozenAt: v.frozenAt,
     createdAt: v.createdAt,
     ...(withScene ? { scene: v.scene } : {}),

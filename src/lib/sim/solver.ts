@@ -12,6 +12,7 @@ import { liquidArea } from './area';
 import { createRigidBodies, type PropState } from './rigid';
 import { freeSurface } from './surface';
 import { validateAfter } from './validate';
+import { createViscousStep, sceneIsViscous } from './viscosity';
 
 export type { SolverOptions } from './stages';
 export type { PropState } from './rigid';
@@ -143,6 +144,8 @@ export function createSolver(scene: Scene, options: SolverOptions = {}): Solver 
   depositDensity(S);
   const rigid = createRigidBodies(S, scene);
   const hasFree = scene.props.some((p) => p.motion === 'free');
+  // implicit viscosity (viscosity.ts): only for scenes where some liquid's ν·dt/h² is not negligible
+  const viscous = sceneIsViscous(scene) ? createViscousStep(S, scene) : null;
 
   function project(dt: number): number {
     // warm start for CG: q scales with dt (q = p·dt/(ρh))
@@ -169,6 +172,8 @@ export function createSolver(scene: Scene, options: SolverOptions = {}): Solver 
     { name: 'particles to grid', run: () => particlesToGrid(S) },
     { name: 'density and drift', run: (dt) => densityAndDrift(S, dt) },
     { name: 'free surface', run: () => freeSurface(S) },
+    // after the transfer to the grid (and the densities its liquid fractions read), before the projection
+    ...(viscous ? [{ name: 'viscosity', run: (dt: number) => viscous.run(dt) }] : []),
     { name: 'pressure', run: (dt) => { lastResidual = project(dt); } },
     ...(hasFree ? [{ name: 'prop forces', run: () => rigid.measureForces() }] : []),
     { name: 'grid to particles', run: () => gridToParticles(S) },

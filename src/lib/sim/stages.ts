@@ -4,12 +4,13 @@
 // Grid: MAC, nx × ny cells including a one-cell border; cell (i, j) covers x ∈ [(i−1)h, i·h],
 // y ∈ [(j−1)h, j·h]; u[c] lives on its left face, v[c] on its bottom face, c = i + nx·j.
 import type { Scene, ShapeDoc } from '../scene/schema';
-import { tankCells, spoutEmissionEstimate, SCENE_LIMITS } from '../scene/schema';
+import { tankCells, cellFit, spoutEmissionEstimate, SCENE_LIMITS } from '../scene/schema';
 import { shapeSignedDistance, pointInShape, shapeBounds, shapeCentroid } from '../scene/shapes';
 import { type Key, type Pose } from '../scene/keys';
 import { propPoseInto, type PropLike } from '../scene/pose';
 import { mulberry32 } from './prng';
 import { FLUID, AIR, SOLID, type ProjectionGrid } from './pressure';
+import { Bilinear, U_FACES, V_FACES, CENTRES } from './kernel';
 
 /** Density of water, kg/m³ (handbook value at about 20 °C is 998; 1000 is the customary round value). */
 export const WATER_DENSITY = 1000;
@@ -56,7 +57,13 @@ export class FlipState implements ProjectionGrid {
   // constants
   readonly h: number; readonly invH: number;
   readonly nx: number; readonly ny: number; readonly nc: number;
+  /**
+   * Extent of the liquid's room, m: particles stay in [0, width] × [0, height] (closed sides clamp, open sides
+   * remove beyond). The tank's own size when it is a whole number of cells; otherwise see the constructor.
+   */
   readonly width: number; readonly height: number;
+  /** A closed right side (top side) whose last grid column (row) is only partly inside the tank: made solid. */
+  private readonly partialRight: boolean; private readonly partialTop: boolean;
   readonly radius: number; readonly ppc: number;
   readonly gx: number; readonly gy: number;
   readonly flipRatio: number; readonly drift: number;
@@ -109,13 +116,25 @@ export class FlipState implements ProjectionGrid {
   private readonly jitter: number;
   private readonly pose: Pose = { dx: 0, dy: 0, angle: 0 };
   readonly normal = new Float64Array(2);
+  /** The bilinear kernel of every particle ↔ grid transfer (kernel.ts). */
+  readonly kernel: Bilinear;
 
   constructor(scene: Scene, opts: SolverOptions = {}) {
     const { tank, physics } = scene;
     this.h = tank.cellSize; this.invH = 1 / this.h;
     const cells = tankCells(tank);
     this.nx = cells.nx + 2; this.ny = cells.ny + 2; this.nc = this.nx * this.ny;
-    this.width = cells.nx * this.h; this.height = cells.ny * this.h;
+    this.kernel = new Bilinear(this.nx, this.ny, this.invH);
+    // A tank that is not a whole number of cells (0.6 m at 1/256 m): the grid covers it (tankCells rounds up)
+    // and the last column (row), partly beyond the tank's edge, is solid on a closed side, so the wall the
+    // pressure, density and particles all see is the last whole cell's face, less than one cell inside the
+    // drawn edge (like every wall, which is rasterised by cell centres). On an open side that cell stays open
+    // and particles leave at the drawn edge. Whole-cell tanks are unchanged.
+    const fitX = cellFit(tank.width, this.h), fitY = cellFit(tank.height, this.h);
+    this.partialRight = tank.sides.right && fitX.whole < fitX.cover;
+    this.partialTop = tank.sides.top && fitY.whole < fitY.cover;
+    this.width = fitX.whole === fitX.cover ? cells.nx * this.h : this.partialRight ? fitX.whole * this.h : tank.width;
+    this.height = fitY.whole === fitY.cover ? cells.ny * this.h : this.partialTop ? fitY.whole * this.h : tank.height;
     this.radius = physics.particleRadius * this.h;
     this.ppc = physics.particlesPerCell;
     this.gx = physics.gravity[0]; this.gy = physics.gravity[1];
@@ -189,6 +208,7 @@ export class FlipState implements ProjectionGrid {
         if (i === nx - 1 && sides.right) s = 1;
         if (j === 0 && sides.bottom) s = 1;
         if (j === ny - 1 && sides.top) s = 1;
+        if ((i === nx - 2 && this.partialRight) || (j === ny - 2 && this.partialTop)) s = 1;
         const cx = (i - 0.5) * h, cy = (j - 0.5) * h;
         for (const w of this.walls) if (pointInShape(w, cx, cy)) s = 1;
         staticSolid[c] = s;
@@ -258,6 +278,7 @@ export class FlipState implements ProjectionGrid {
         for (let b = 0; b < k; b++) {
           for (let a = 0; a < k; a++) {
             const px = i * h + (a + 0.5) * sub, py = j * h + (b + 0.5) * sub;
+            if (px > this.width || py > this.height) continue; // in a partial cell beyond the liquid's room
             let which = -1;
             for (let s = 0; s < scene.pours.length; s++) {
               const bb = bounds[s];
@@ -294,6 +315,7 @@ export class FlipState implements ProjectionGrid {
         const before = sx.length;
         for (let bb = 0; bb < k; bb++) for (let a = 0; a < k; a++) {
           const px = i * h + (a + 0.5) * sub, py = j * h + (bb + 0.5) * sub;
+          if (px > this.width || py > this.height) continue; // in a partial cell beyond the liquid's room
           if (pointInShape(s.shape, px, py) && !this.walls.some((w) => pointInShape(w, px, py))) { sx.push(px); sy.push(py); }
         }
         if (sx.length > before) { cells.push(i + 1 + this.nx * (j + 1)); starts.push(before); }
@@ -566,7 +588,7 @@ export function emit(S: FlipState, frameNow: number): void {
  * Faces touching a solid cell take the solid's velocity. A copy is kept for the FLIP update.
  */
 export function particlesToGrid(S: FlipState): void {
-  const { n, nx, ny, nc, invH, type, solid, gu, gv, wu, wv, prevU, prevV, open, solidU, solidV } = S;
+  const { n, nx, ny, nc, type, solid, gu, gv, wu, wv, prevU, prevV, open, solidU, solidV, kernel: K } = S;
   const x = S.x, y = S.y, u = S.u, v = S.v;
   for (let c = 0; c < nc; c++) {
     const s = solid[c];
@@ -574,34 +596,11 @@ export function particlesToGrid(S: FlipState): void {
     open[c] = s !== 0 ? 0 : 1;
   }
   gu.fill(0); gv.fill(0); wu.fill(0); wv.fill(0);
-  const xMax = nx - 1, yMax = ny - 1, iMax = nx - 2, jMax = ny - 2;
   for (let p = 0; p < n; p++) {
-    // grid coordinates in cells: X = x/h + 1, clamped to the inner grid [1, n − 1]
-    let X = x[p] * invH + 1, Y = y[p] * invH + 1;
-    X = X < 1 ? 1 : X > xMax ? xMax : X;
-    Y = Y < 1 ? 1 : Y > yMax ? yMax : Y;
-    const cell = (X | 0) + nx * (Y | 0);
+    const cell = K.at(x[p], y[p]);
     if (type[cell] === AIR) type[cell] = FLUID;
-    // u nodes at (i, j + ½): fx = X, fy = Y − ½
-    let i0 = X | 0; if (i0 > iMax) i0 = iMax;
-    let fy = Y - 0.5, j0 = fy | 0; if (j0 > jMax) j0 = jMax;
-    let tx = X - i0, ty = fy - j0;
-    let n0 = i0 + nx * j0;
-    const up = u[p];
-    let w = (1 - tx) * (1 - ty); gu[n0] += up * w; wu[n0] += w;
-    w = tx * (1 - ty); gu[n0 + 1] += up * w; wu[n0 + 1] += w;
-    w = tx * ty; gu[n0 + nx + 1] += up * w; wu[n0 + nx + 1] += w;
-    w = (1 - tx) * ty; gu[n0 + nx] += up * w; wu[n0 + nx] += w;
-    // v nodes at (i + ½, j): fx = X − ½, fy = Y
-    const fx = X - 0.5; i0 = fx | 0; if (i0 > iMax) i0 = iMax;
-    j0 = Y | 0; if (j0 > jMax) j0 = jMax;
-    tx = fx - i0; ty = Y - j0;
-    n0 = i0 + nx * j0;
-    const vp = v[p];
-    w = (1 - tx) * (1 - ty); gv[n0] += vp * w; wv[n0] += w;
-    w = tx * (1 - ty); gv[n0 + 1] += vp * w; wv[n0 + 1] += w;
-    w = tx * ty; gv[n0 + nx + 1] += vp * w; wv[n0 + nx + 1] += w;
-    w = (1 - tx) * ty; gv[n0 + nx] += vp * w; wv[n0 + nx] += w;
+    K.nodes(U_FACES[0], U_FACES[1]); K.splat(gu, wu, u[p]);
+    K.nodes(V_FACES[0], V_FACES[1]); K.splat(gv, wv, v[p]);
   }
   for (let j = 0; j < ny; j++) {
     for (let i = 0, c = nx * j; i < nx; i++, c++) {
@@ -630,23 +629,12 @@ export function densityAndDrift(S: FlipState, dt: number): void {
 
 /** ρ_c = Σ_p w_pc at cell centres (bilinear weights; particles per cell) into S.dens. */
 export function depositDensity(S: FlipState): void {
-  const { n, nx, ny, invH, dens } = S;
+  const { n, dens, kernel: K } = S;
   const x = S.x, y = S.y;
   dens.fill(0);
-  const xMax = nx - 1, yMax = ny - 1, iMax = nx - 2, jMax = ny - 2;
   for (let p = 0; p < n; p++) {
-    let X = x[p] * invH + 1, Y = y[p] * invH + 1;
-    X = X < 1 ? 1 : X > xMax ? xMax : X;
-    Y = Y < 1 ? 1 : Y > yMax ? yMax : Y;
-    // centre nodes at (i + ½, j + ½)
-    const fx = X - 0.5, fy = Y - 0.5;
-    let i0 = fx | 0; if (i0 > iMax) i0 = iMax;
-    let j0 = fy | 0; if (j0 > jMax) j0 = jMax;
-    const tx = fx - i0, ty = fy - j0, n0 = i0 + nx * j0;
-    dens[n0] += (1 - tx) * (1 - ty);
-    dens[n0 + 1] += tx * (1 - ty);
-    dens[n0 + nx + 1] += tx * ty;
-    dens[n0 + nx] += (1 - tx) * ty;
+    K.at(x[p], y[p]);
+    K.nodes(CENTRES[0], CENTRES[1]); K.splatWeight(dens);
   }
   foldSolidDensity(S);
 }
@@ -695,15 +683,11 @@ function foldSolidDensity(S: FlipState): void {
 
 /** Cell types from the current particles: solid, fluid (a particle inside) or air; what particlesToGrid marks. */
 export function classifyCells(S: FlipState): void {
-  const { n, nx, nc, invH, type, solid } = S;
+  const { n, nc, type, solid, kernel: K } = S;
   const x = S.x, y = S.y;
   for (let c = 0; c < nc; c++) type[c] = solid[c] !== 0 ? SOLID : AIR;
-  const xMax = nx - 1, yMax = S.ny - 1;
   for (let p = 0; p < n; p++) {
-    let X = x[p] * invH + 1, Y = y[p] * invH + 1;
-    X = X < 1 ? 1 : X > xMax ? xMax : X;
-    Y = Y < 1 ? 1 : Y > yMax ? yMax : Y;
-    const cell = (X | 0) + nx * (Y | 0);
+    const cell = K.at(x[p], y[p]);
     if (type[cell] === AIR) type[cell] = FLUID;
   }
 }
@@ -766,7 +750,7 @@ export function driftTarget(S: FlipState, dt: number): void {
  * undefined and never used). Also records the maximum particle speed (m/s).
  */
 export function gridToParticles(S: FlipState): void {
-  const { n, nx, ny, invH, type, gu, gv, wu, wv, prevU, prevV, flipRatio } = S;
+  const { n, nx, ny, type, gu, gv, wu, wv, prevU, prevV, flipRatio, kernel: K } = S;
   const x = S.x, y = S.y, u = S.u, v = S.v;
   // per face: wu = 1 if usable, gu = u·wu, prevU = (u − u_old)·wu
   for (let j = 0; j < ny; j++) {
@@ -779,40 +763,25 @@ export function gridToParticles(S: FlipState): void {
     }
   }
   const pic = 1 - flipRatio;
-  const xMax = nx - 1, yMax = ny - 1, iMax = nx - 2, jMax = ny - 2;
   let max2 = 0;
   for (let p = 0; p < n; p++) {
-    let X = x[p] * invH + 1, Y = y[p] * invH + 1;
-    X = X < 1 ? 1 : X > xMax ? xMax : X;
-    Y = Y < 1 ? 1 : Y > yMax ? yMax : Y;
-    // u
-    let i0 = X | 0; if (i0 > iMax) i0 = iMax;
-    let fy = Y - 0.5, j0 = fy | 0; if (j0 > jMax) j0 = jMax;
-    let tx = X - i0, ty = fy - j0, n0 = i0 + nx * j0;
-    let w0 = (1 - tx) * (1 - ty), w1 = tx * (1 - ty), w2 = tx * ty, w3 = (1 - tx) * ty;
-    let n1 = n0 + 1, n2 = n0 + nx + 1, n3 = n0 + nx;
-    let ws = w0 * wu[n0] + w1 * wu[n1] + w2 * wu[n2] + w3 * wu[n3];
+    K.at(x[p], y[p]);
+    // u: weights restricted to usable faces (wu = 0 or 1)
+    K.nodes(U_FACES[0], U_FACES[1]);
+    let ws = K.gather(wu);
     let up = u[p];
     if (ws > 0) {
       const inv = 1 / ws;
-      const vPic = (w0 * gu[n0] + w1 * gu[n1] + w2 * gu[n2] + w3 * gu[n3]) * inv;
-      const dv = (w0 * prevU[n0] + w1 * prevU[n1] + w2 * prevU[n2] + w3 * prevU[n3]) * inv;
-      up = pic * vPic + flipRatio * (up + dv);
+      up = pic * (K.gather(gu) * inv) + flipRatio * (up + K.gather(prevU) * inv);
       u[p] = up;
     }
     // v
-    const fx = X - 0.5; i0 = fx | 0; if (i0 > iMax) i0 = iMax;
-    j0 = Y | 0; if (j0 > jMax) j0 = jMax;
-    tx = fx - i0; ty = Y - j0; n0 = i0 + nx * j0;
-    w0 = (1 - tx) * (1 - ty); w1 = tx * (1 - ty); w2 = tx * ty; w3 = (1 - tx) * ty;
-    n1 = n0 + 1; n2 = n0 + nx + 1; n3 = n0 + nx;
-    ws = w0 * wv[n0] + w1 * wv[n1] + w2 * wv[n2] + w3 * wv[n3];
+    K.nodes(V_FACES[0], V_FACES[1]);
+    ws = K.gather(wv);
     let vp = v[p];
     if (ws > 0) {
       const inv = 1 / ws;
-      const vPic = (w0 * gv[n0] + w1 * gv[n1] + w2 * gv[n2] + w3 * gv[n3]) * inv;
-      const dv = (w0 * prevV[n0] + w1 * prevV[n1] + w2 * prevV[n2] + w3 * prevV[n3]) * inv;
-      vp = pic * vPic + flipRatio * (vp + dv);
+      vp = pic * (K.gather(gv) * inv) + flipRatio * (vp + K.gather(prevV) * inv);
       v[p] = vp;
     }
     const s2 = up * up + vp * vp;

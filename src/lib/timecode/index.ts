@@ -157,6 +157,12 @@ export function sourceTimecodeLabel(shot: SourceTimecodeShot, frame: number, fal
   }
 }
 
+/** A frame as people read it, its number paired with its source timecode: "1009 · 01:00:10:00" (the number alone when the shot's source timecode cannot label it). */
+export function frameWithTimecode(shot: SourceTimecodeShot, frame: number): string {
+  const tc = sourceTimecodeLabel(shot, frame);
+  return tc ? `${frame} · ${tc}` : String(frame);
+}
+
 /** A rate as people read it: "24 fps", "25 fps", but "29.97 DF" / "59.94 NDF" (the counting mode says it is a rate). */
 export function rateText(rate: FrameRate | string): string {
   if (!isFrameRate(rate)) return String(rate);

@@ -27,8 +27,8 @@ const updatedAt = () =>
     .default(sql`CURRENT_TIMESTAMP(3)`)
     .$onUpdate(() => new Date());
 
-export { ROLES, SHOT_STATUSES, REVIEW_STATES, BAKE_STATES, JOB_STATES, ASSET_KINDS, HANDLE_CONVENTIONS, type Role } from '../../vocab';
-import { ROLES, SHOT_STATUSES, REVIEW_STATES, BAKE_STATES, JOB_STATES, ASSET_KINDS, HANDLE_CONVENTIONS } from '../../vocab';
+export { ROLES, SHOT_STATUSES, REVIEW_STATES, CLIENT_STATES, BAKE_STATES, JOB_STATES, ASSET_KINDS, HANDLE_CONVENTIONS, type Role } from '../../vocab';
+import { ROLES, SHOT_STATUSES, REVIEW_STATES, CLIENT_STATES, BAKE_STATES, JOB_STATES, ASSET_KINDS, HANDLE_CONVENTIONS } from '../../vocab';
 
 export const studios = mysqlTable('studios', {
   id: id(),
@@ -233,7 +233,10 @@ export const shots = mysqlTable(
     description: text('description'),
     firstFrame: int('first_frame').notNull().default(1001),
     lastFrame: int('last_frame').notNull(),
-    handles: int('handles').notNull().default(8),
+    /** Head handles in frames, before the cut in (the column keeps its first name, from when one count served both ends). */
+    headHandles: int('handles').notNull().default(8),
+    /** Tail handles in frames, after the cut out; null (shots made before the two were stored apart) = as many as the head. */
+    tailHandles: int('tail_handles'),
     frameRate: varchar('frame_rate', { length: 12 }).notNull().default('24'),
     plateWidth: int('plate_width').notNull().default(1920),
     plateHeight: int('plate_height').notNull().default(1080),
@@ -284,6 +287,17 @@ export const versions = mysqlTable(
     bakeState: mysqlEnum('bake_state', BAKE_STATES).notNull().default('none'),
     clipAssetId: ref('clip_asset_id').references(() => assets.id, { onDelete: 'set null' }),
     sharedWithClient: boolean('shared_with_client').notNull().default(false),
+    /**
+     * The client's sign-off, apart from the studio's review state: 'not sent' until a supervisor asks for it (only once
+     * approved by us), then 'waiting', then the client's decision. Who decided: a client account (client_decided_by) or
+     * a guest with the share link (only the name they gave); the comment says what to change.
+     */
+    clientState: mysqlEnum('client_state', CLIENT_STATES).notNull().default('not sent'),
+    clientSentAt: datetime('client_sent_at', { mode: 'date' }),
+    clientDecidedAt: datetime('client_decided_at', { mode: 'date' }),
+    clientDecidedBy: varchar('client_decided_by', { length: 40 }).references(() => users.id, { onDelete: 'set null' }),
+    clientDeciderName: varchar('client_decider_name', { length: 120 }),
+    clientComment: text('client_comment'),
     frozenAt: datetime('frozen_at', { mode: 'date' }),
     createdAt: createdAt(),
     updatedAt: updatedAt(),
@@ -291,6 +305,7 @@ export const versions = mysqlTable(
   (t) => [
     uniqueIndex('versions_shot_number_uq').on(t.shotId, t.number),
     index('versions_studio_review_idx').on(t.studioId, t.reviewState),
+    index('versions_studio_client_idx').on(t.studioId, t.clientState),
     index('versions_scene_hash_idx').on(t.sceneHash),
   ],
 );
