@@ -120,4 +120,20 @@ describe('bake queue', () => {
     expect(r.job.attempts).toBe(1);
     expect(r.job.error).toMatch(/The scene is not valid: .*tank/);
   });
+
+  it('a bake thread past its heap limit fails the job with that message, without retrying, and the worker lives on', async () => {
+    const versionId = await makeVersion(slowScene(10));
+    await t.m.queue.enqueueBake(versionId, t.studioId, t.userId);
+    // 2 MB of V8 heap is too little for the thread to load the solver. (The solver's typed arrays live outside
+    // the V8 heap, so resourceLimits bounds the thread's JavaScript objects, not the grid and particle arrays.)
+    const worker = startWorker({ BAKE_THREAD_MEMORY_MB: '2' });
+    const r = await waitFor('the job to fail', async () => {
+      const x = await jobOf(versionId);
+      return x.job.state === 'failed' || x.job.state === 'done' ? x : null;
+    });
+    expect(r.job.state).toBe('failed');
+    expect(r.job.attempts).toBe(1);
+    expect(r.job.error).toMatch(/more memory than a bake thread may use \(2 MB\)/);
+    expect(worker.exitCode).toBeNull();
+  });
 });

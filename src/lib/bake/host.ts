@@ -49,6 +49,10 @@ export class BakeThread {
     worker.on('exit', () => {
       if (this.worker === worker) this.worker = null;
     });
+    // A thread that dies while idle must not take the process with it (an 'error' nobody listens to would).
+    worker.on('error', (err) => {
+      if (worker.listenerCount('error') === 1) this.log(`idle bake thread stopped: ${err.message}`);
+    });
     return worker;
   }
 
