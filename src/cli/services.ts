@@ -325,3 +325,35 @@ export async function startApp(env: Record<string, string>, log: (s: string) => 
     },
   };
 }
+
+/**
+ * Starts a bake worker process (src/cli/worker.ts) beside the web server, so bakes never run inside it.
+ * Resolves once its slots are polling the queue; stop() sends SIGTERM (running jobs go back to the queue).
+ */
+export async function startBakeWorker(env: Record<string, string>, log: (s: string) => void): Promise<Service & { child: ChildProcess }> {
+  // Node itself with tsx's loader (not the tsx launcher), so the child's pid is the worker's.
+  const child = spawn(process.execPath, ['--import', 'tsx', path.join(root, 'src', 'cli', 'worker.ts')], {
+    cwd: root,
+    env: { ...process.env, ...env },
+    stdio: ['ignore', 'pipe', 'inherit'],
+  });
+  await new Promise<void>((resolve, reject) => {
+    const onData = (d: Buffer) => {
+      process.stdout.write(d);
+      if (/bake worker thread\(s\) started/.test(d.toString())) resolve();
+    };
+    child.stdout!.on('data', onData);
+    child.once('exit', (code) => reject(new Error(`the bake worker exited (code ${code})`)));
+  });
+  child.stdout!.removeAllListeners('data');
+  child.stdout!.pipe(process.stdout);
+  log(`bake worker process ${child.pid} started`);
+  return {
+    name: 'bake worker',
+    child,
+    stop: async () => {
+      child.kill('SIGTERM');
+      if (!(await waitForExit(child, 15_000))) child.kill('SIGKILL');
+    },
+  };
+}

@@ -1,4 +1,5 @@
-// `npm start`: private MariaDB, S3 stand-in, mail catcher, migrations, demo data, then the app on :4321.
+// `npm start`: private MariaDB, S3 stand-in, mail catcher, migrations, demo data, then the app on :4321 and a
+// bake worker process beside it.
 // `npm run dev` does the same but serves with `astro dev`. Ctrl-C stops everything this started.
 import { randomBytes } from 'node:crypto';
 import { existsSync, mkdirSync, readFileSync, writeFileSync } from 'node:fs';
@@ -10,6 +11,7 @@ import {
   migrate,
   projectRoot as root,
   startApp,
+  startBakeWorker,
   startMailCatcher,
   startMariaDB,
   startS3,
@@ -76,6 +78,9 @@ async function main() {
   await closeDb();
   log('demo studio ready');
 
+  // The web server bakes nothing itself (BAKE_WORKERS sizes the worker process): a bake cannot take the site down.
+  const bakeWorkers = process.env.BAKE_WORKERS;
+  delete process.env.BAKE_WORKERS;
   if (dev) {
     const child = spawn(path.join(root, 'node_modules', '.bin', 'astro'), ['dev', '--host', '127.0.0.1', '--port', String(port)], {
       cwd: root,
@@ -95,6 +100,15 @@ async function main() {
       }
     });
   }
+
+  const worker = await startBakeWorker(bakeWorkers ? { ...env, BAKE_WORKERS: bakeWorkers } : env, log);
+  started.push(worker);
+  worker.child.on('exit', (code) => {
+    if (!stopping) {
+      console.error(`the bake worker exited (code ${code})`);
+      void stopAll(1);
+    }
+  });
 
   console.log(`
   Tidemark is running (${((Date.now() - t0) / 1000).toFixed(1)} s)

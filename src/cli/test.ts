@@ -11,6 +11,7 @@ import {
   migrate,
   projectRoot as root,
   startApp,
+  startBakeWorker,
   startMailCatcher,
   startMariaDB,
   startS3,
@@ -57,6 +58,9 @@ async function main(): Promise<number> {
   await buildIfStale(log, '.data/test-dist');
   const app = await startApp({ ...env, TIDEMARK_TEST: '1' }, log, '.data/test-dist');
   started.push(app);
+  // Bakes run beside the app in a worker process of their own, as under `npm start`.
+  const worker = await startBakeWorker({ ...env, BAKE_WORKERS: process.env.TEST_BAKE_WORKERS ?? '1' }, log);
+  started.push(worker);
 
   const args = ['run', '--config', 'tests/vitest.config.ts', ...process.argv.slice(2)];
   const code = await new Promise<number>((resolve) => {
@@ -67,6 +71,8 @@ async function main(): Promise<number> {
         ...process.env,
         ...env,
         TEST_APP_URL: appUrl,
+        TEST_APP_PID: String(app.child.pid),
+        TEST_BAKE_WORKER_PID: String(worker.child.pid),
         TEST_MAIL_URL: mail.webUrl,
         TEST_SCRATCH: scratch,
         TEST_DB_ROOT_SOCKET: path.join(scratch, 'mariadb', 'mariadb.sock'),

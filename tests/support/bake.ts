@@ -1,4 +1,4 @@
-// Test support: a version saved and baked for real through the API (the bake pool of the test app does the work).
+// Test support: a version saved and baked for real through the API (the test app's bake worker process does the work).
 import { expect } from 'vitest';
 import type { Client } from './app';
 import { tinyScene } from './scenes';

@@ -8,9 +8,12 @@ import { SOLVER_BUILD } from './build';
 export interface BakeHooks {
   /** Called after each frame (framesDone counts the initial frame); resolve to 'stop' to abandon the bake. */
   onFrame?: (framesDone: number, framesTotal: number) => Promise<'go' | 'stop'> | 'go' | 'stop';
+  /** Receives each compressed clip chunk as it is made (a streaming bake); the result's clip is then only its head. */
+  onChunk?: (chunk: Uint8Array) => void;
 }
 
 export interface BakeResult {
+  /** The whole clip, or with onChunk only the bytes before the first chunk (magic, header, index). */
   clip: Uint8Array;
   stats: FrameStats[];
   framesTotal: number;
@@ -42,6 +45,7 @@ export async function bakeScene(scene: Scene, sceneHash: string, hooks: BakeHook
     solverBuild: SOLVER_BUILD,
     sceneHash,
     look: clipLookOf(scene),
+    onChunk: hooks.onChunk,
   });
   const stats: FrameStats[] = [];
   const first = sim.stats();
@@ -54,5 +58,5 @@ export async function bakeScene(scene: Scene, sceneHash: string, hooks: BakeHook
     stats.push(s);
     if ((await hooks.onFrame?.(done + 1, framesTotal)) === 'stop') return null;
   }
-  return { clip: writer.finish(), stats, framesTotal, particleCapacity: sim.capacity };
+  return { clip: hooks.onChunk ? writer.finishHead() : writer.finish(), stats, framesTotal, particleCapacity: sim.capacity };
 }

@@ -1,9 +1,9 @@
-// A pool of bake worker threads (node:worker_threads). The app server runs one; so does `npm run worker`.
-import { Worker } from 'node:worker_threads';
+// Bake slots: each runs the claim-bake loop on this (the parent) thread, where its lease is renewed on a timer,
+// and its solver in a bake thread of its own (host.ts, with memory limits). `npm start` and `npm run worker` run
+// them in a bake worker process (src/cli/worker.ts); the web server runs none unless BAKE_WORKERS is set.
 import { availableParallelism } from 'node:os';
-import path from 'node:path';
-import { pathToFileURL } from 'node:url';
-import { defaultWorkerId } from './runner';
+import { defaultWorkerId, runBakeLoop } from './runner';
+import { BakeThread } from './host';
 
 /** Pool size: BAKE_WORKERS, else cores − 1, at least 1. 0 disables baking in this process. */
 export function poolSize(): number {
@@ -12,59 +12,49 @@ export function poolSize(): number {
   return Math.max(1, availableParallelism() - 1);
 }
 
-/** The project root: the worker threads load their TypeScript from src/lib/bake (run with the sources present). */
-function projectRoot(): string {
-  return process.env.TIDEMARK_ROOT ?? process.cwd();
-}
-
 export interface BakePool {
   size: number;
+  /** Hands running jobs back to the queue (lease released, attempt not counted) and ends the threads. */
   stop(): Promise<void>;
 }
 
-/** Starts `size` worker threads; a thread that crashes is replaced after a pause. */
+/** Starts `size` bake slots; a slot whose loop fails is started again after a pause. */
 export function startBakePool(size = poolSize(), log = (s: string) => console.log(`[bake pool] ${s}`)): BakePool {
-  const dir = path.join(projectRoot(), 'src', 'lib', 'bake');
-  const boot = pathToFileURL(path.join(dir, 'thread-boot.mjs'));
-  const entry = pathToFileURL(path.join(dir, 'thread.ts')).href;
-  let stopping = false;
-  const threads = new Set<Worker>();
-  const spawn = (slot: number) => {
-    const worker = new Worker(boot, { workerData: { entry, workerId: defaultWorkerId(slot) } });
-    threads.add(worker);
-    worker.on('error', (err) => log(`thread ${slot} crashed: ${err.message}`));
-    worker.on('exit', () => {
-      threads.delete(worker);
-      if (!stopping) setTimeout(() => !stopping && spawn(slot), 2000).unref();
-    });
+  const controller = new AbortController();
+  const slot = async (n: number) => {
+    const workerId = defaultWorkerId(n);
+    const slotLog = (s: string) => console.log(`[bake ${workerId}] ${s}`);
+    while (!controller.signal.aborted) {
+      try {
+        await runBakeLoop({ workerId, signal: controller.signal, thread: new BakeThread(slotLog), log: slotLog });
+      } catch (err) {
+        log(`slot ${n} stopped: ${err instanceof Error ? err.message : err}; starting again`);
+        await new Promise((r) => setTimeout(r, 2000));
+      }
+    }
   };
-  for (let i = 0; i < size; i++) spawn(i);
+  const running = Array.from({ length: size }, (_, n) => slot(n));
   if (size > 0) log(`${size} bake worker thread(s) started`);
   return {
     size,
     stop: async () => {
-      stopping = true;
-      await Promise.all(
-        [...threads].map(
-          (w) =>
-            new Promise<void>((resolve) => {
-              const timer = setTimeout(() => void w.terminate().then(() => resolve()), 10_000);
-              w.once('exit', () => {
-                clearTimeout(timer);
-                resolve();
-              });
-              w.postMessage('stop');
-            }),
-        ),
-      );
+      controller.abort();
+      await Promise.all(running);
     },
   };
 }
 
 let serverPool: BakePool | undefined;
 
-/** Starts the app server's own pool once (called from the middleware on the first request). */
+/**
+ * Starts the web server's own bake slots once (called from the middleware on the first request) — only when
+ * BAKE_WORKERS is set: by default bakes run in a separate worker process, so a bake cannot take the site down.
+ * On SIGTERM the slots hand their jobs back before the process exits.
+ */
 export function ensureServerBakePool(): void {
-  if (serverPool || process.env.TIDEMARK_NO_POOL === '1') return;
-  serverPool = startBakePool();
+  if (serverPool || process.env.TIDEMARK_NO_POOL === '1' || !process.env.BAKE_WORKERS) return;
+  serverPool = startBakePool(poolSize());
+  if (serverPool.size === 0) return;
+  const pool = serverPool;
+  process.once('SIGTERM', () => void pool.stop().finally(() => process.exit(0)));
 }

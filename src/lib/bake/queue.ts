@@ -1,9 +1,13 @@
 // The bake queue, kept in MariaDB so any number of app servers and bake machines can share it.
 // Workers claim jobs with SELECT … FOR UPDATE SKIP LOCKED and hold a lease they renew; a lease that runs out
 // puts the job back in the queue. For a queued job, lease_expires_at means "not before" (retry back-off).
-import { and, desc, eq, inArray, sql } from 'drizzle-orm';
+// Each claim is a row in bake_attempts with object keys of its own; the objects of attempts that did not finish
+// are deleted by whoever learns of them, so a lost attempt leaves nothing behind in the store.
+import { randomBytes } from 'node:crypto';
+import { and, desc, eq, inArray, notInArray, sql } from 'drizzle-orm';
 import { db } from '../server/db';
-import { assets, bakeJobs, versions } from '../server/db/schema';
+import { assets, bakeAttempts, bakeJobs, versions } from '../server/db/schema';
+import { deleteObject } from '../server/storage';
 import { audit } from '../server/audit';
 import { HttpError } from '../server/http';
 import { bakeCostLimitOf, requireBakeWithinLimit } from '../server/versions';
@@ -35,7 +39,25 @@ export interface ClaimedJob {
   studioId: number;
   sceneHash: string;
   attempt: number;
+  /** This claim's row in bake_attempts, and the object keys it writes. */
+  attemptId: number;
+  keys: AttemptKeys;
   scene: unknown;
+}
+
+export interface AttemptKeys {
+  clip: string;
+  stats: string;
+}
+
+/**
+ * Object-store keys of one attempt's outputs: by studio, scene and solver build, then job, attempt and a random
+ * tag, so no two claims ever write the same object.
+ */
+export function attemptKeys(studioId: number, sceneHash: string, jobId: number, attempt: number): AttemptKeys {
+  const tag = randomBytes(4).toString('hex');
+  const base = `studios/${studioId}/clips/${sceneHash}-${SOLVER_BUILD.replace(/[^a-z0-9]+/gi, '_')}-${jobId}-a${attempt}-${tag}`;
+  return { clip: `${base}.tdmclip`, stats: `${base}.stats.json` };
 }
 
 /**
@@ -100,7 +122,7 @@ export async function enqueueBake(versionId: number, studioId: number, actorId: 
 export async function claimNext(workerId: string): Promise<ClaimedJob | null> {
   const { leaseMs, maxAttempts } = queueSettings();
   for (;;) {
-    const outcome = await db().transaction(async (tx) => {
+    const outcome = await db().transaction(async (tx): Promise<ClaimedJob | { skip: number } | null> => {
       const [job] = await tx
         .select()
         .from(bakeJobs)
@@ -112,15 +134,30 @@ export async function claimNext(workerId: string): Promise<ClaimedJob | null> {
         .limit(1)
         .for('update', { skipLocked: true });
       if (!job) return null;
+      // A lapsed lease: the attempt that held it is lost (its objects are deleted once this transaction is committed).
+      if (job.state === 'running') {
+        await tx
+          .update(bakeAttempts)
+          .set({ state: 'lost', endedAt: sql`NOW(3)` as unknown as Date })
+          .where(and(eq(bakeAttempts.jobId, job.id), eq(bakeAttempts.state, 'running')));
+      }
       if (job.state === 'running' && job.cancelRequested) {
         await finishJob(tx, job.id, job.versionId, 'cancelled', null);
-        return 'skip' as const;
+        return { skip: job.id };
       }
       if (job.attempts >= Math.min(job.maxAttempts, maxAttempts)) {
         const error = job.error ?? `the bake worker stopped responding ${job.attempts} times`;
         await finishJob(tx, job.id, job.versionId, 'failed', `Bake failed after ${job.attempts} attempts: ${error}`);
-        return 'skip' as const;
+        return { skip: job.id };
       }
+      const keys = attemptKeys(job.studioId, job.sceneHash, job.id, job.attempts + 1);
+      const [attemptRow] = await tx.insert(bakeAttempts).values({
+        jobId: job.id,
+        attempt: job.attempts + 1,
+        workerId,
+        clipKey: keys.clip,
+        statsKey: keys.stats,
+      });
       await tx
         .update(bakeJobs)
         .set({
@@ -140,18 +177,59 @@ export async function claimNext(workerId: string): Promise<ClaimedJob | null> {
         studioId: job.studioId,
         sceneHash: job.sceneHash,
         attempt: job.attempts + 1,
+        attemptId: Number(attemptRow.insertId),
+        keys,
         scene: v?.scene,
       } satisfies ClaimedJob;
     });
-    if (outcome === 'skip') continue;
+    if (outcome && 'skip' in outcome) {
+      await clearEndedAttempts(outcome.skip);
+      continue;
+    }
     if (outcome) {
       await audit({ studioId: outcome.studioId, actorId: null, action: 'bake.claim', targetType: 'bake_job', targetId: outcome.jobId, detail: { workerId, attempt: outcome.attempt } });
+      await clearEndedAttempts(outcome.jobId);
     }
     return outcome;
   }
 }
 
 type Tx = Parameters<Parameters<ReturnType<typeof db>['transaction']>[0]>[0];
+type AttemptEnd = 'done' | 'lost' | 'released' | 'failed' | 'cancelled';
+
+async function endAttempt(tx: Tx, attemptId: number, state: AttemptEnd) {
+  await tx.update(bakeAttempts).set({ state, endedAt: sql`NOW(3)` as unknown as Date }).where(eq(bakeAttempts.id, attemptId));
+}
+
+/** Whether this claim is still the job's running attempt (under the job row's lock): the lease is still its own. */
+async function holdsLease(tx: Tx, job: ClaimedJob, workerId: string) {
+  const [row] = await tx.select().from(bakeJobs).where(eq(bakeJobs.id, job.jobId)).for('update');
+  if (!row || row.state !== 'running' || row.leaseOwner !== workerId) return null;
+  const [attempt] = await tx.select({ state: bakeAttempts.state }).from(bakeAttempts).where(eq(bakeAttempts.id, job.attemptId));
+  return attempt?.state === 'running' ? row : null;
+}
+
+/** Deletes one attempt's objects (missing ones are fine) and records that they are gone. */
+export async function clearAttemptObjects(attemptId: number, keys: AttemptKeys): Promise<void> {
+  await Promise.all([deleteObject(keys.clip), deleteObject(keys.stats)]);
+  await db()
+    .update(bakeAttempts)
+    .set({ objectsCleared: true })
+    .where(and(eq(bakeAttempts.id, attemptId), sql`${bakeAttempts.state} <> 'done'`));
+}
+
+/** Deletes the objects of the job's attempts that ended without finishing. Best effort: a store error is logged. */
+export async function clearEndedAttempts(jobId: number): Promise<void> {
+  const ended = await db()
+    .select()
+    .from(bakeAttempts)
+    .where(and(eq(bakeAttempts.jobId, jobId), notInArray(bakeAttempts.state, ['running', 'done']), eq(bakeAttempts.objectsCleared, false)));
+  for (const a of ended) {
+    await clearAttemptObjects(a.id, { clip: a.clipKey, stats: a.statsKey }).catch((err) =>
+      console.error(`[bake] could not delete the objects of attempt ${a.id}: ${err instanceof Error ? err.message : err}`),
+    );
+  }
+}
 
 async function finishJob(tx: Tx, jobId: number, versionId: number, state: 'failed' | 'cancelled', error: string | null) {
   await tx
@@ -173,18 +251,22 @@ export async function renewLease(jobId: number, workerId: string, framesDone: nu
   return row?.cancel ? 'cancel' : 'ok';
 }
 
-/** Records the baked clip and marks the job done — only if this worker still holds the lease. */
+/**
+ * Records the baked clip (its stored size and SHA-256) and marks the job done — only if this attempt still holds
+ * the lease. Refused (false) when another worker took the job or it was cancelled; the caller deletes its objects.
+ */
 export async function completeJob(
   job: ClaimedJob,
   workerId: string,
-  clip: { key: string; bytes: number; meta: Record<string, unknown> },
+  clip: { key: string; bytes: number; sha256: string; meta: Record<string, unknown> },
   stats: { key: string; bytes: number },
 ): Promise<boolean> {
-  return db().transaction(async (tx) => {
-    const [row] = await tx.select().from(bakeJobs).where(eq(bakeJobs.id, job.jobId)).for('update');
-    if (!row || row.state !== 'running' || row.leaseOwner !== workerId) return false;
+  const ok = await db().transaction(async (tx) => {
+    const row = await holdsLease(tx, job, workerId);
+    if (!row) return false;
     if (row.cancelRequested) {
       await finishJob(tx, row.id, row.versionId, 'cancelled', null);
+      await endAttempt(tx, job.attemptId, 'cancelled');
       return false;
     }
     const [clipRes] = await tx.insert(assets).values({
@@ -193,6 +275,7 @@ export async function completeJob(
       storageKey: clip.key,
       contentType: 'application/x-tidemark-clip',
       byteSize: clip.bytes,
+      sha256: clip.sha256,
       versionId: job.versionId,
       meta: { ...clip.meta, statsKey: stats.key, statsBytes: stats.bytes },
     });
@@ -201,16 +284,20 @@ export async function completeJob(
       .set({ state: 'done', framesDone: row.framesTotal, error: null, leaseOwner: null, leaseExpiresAt: null, finishedAt: sql`NOW(3)` as unknown as Date })
       .where(eq(bakeJobs.id, row.id));
     await tx.update(versions).set({ bakeState: 'baked', clipAssetId: Number(clipRes.insertId) }).where(eq(versions.id, row.versionId));
+    await endAttempt(tx, job.attemptId, 'done');
     return true;
   });
+  if (ok) await clearEndedAttempts(job.jobId);
+  return ok;
 }
 
 /** Records a failed attempt: back in the queue after a delay while attempts remain, else failed for good. */
 export async function failAttempt(job: ClaimedJob, workerId: string, error: string, retryable: boolean): Promise<'retry' | 'failed' | 'lost'> {
   const { retryDelayMs } = queueSettings();
   return db().transaction(async (tx) => {
-    const [row] = await tx.select().from(bakeJobs).where(eq(bakeJobs.id, job.jobId)).for('update');
-    if (!row || row.state !== 'running' || row.leaseOwner !== workerId) return 'lost';
+    const row = await holdsLease(tx, job, workerId);
+    if (!row) return 'lost';
+    await endAttempt(tx, job.attemptId, row.cancelRequested ? 'cancelled' : 'failed');
     if (retryable && row.attempts < row.maxAttempts && !row.cancelRequested) {
       await tx
         .update(bakeJobs)
@@ -227,8 +314,9 @@ export async function failAttempt(job: ClaimedJob, workerId: string, error: stri
 /** Hands a job back to the queue untouched (the worker is shutting down); the attempt does not count. */
 export async function releaseJob(job: ClaimedJob, workerId: string): Promise<void> {
   await db().transaction(async (tx) => {
-    const [row] = await tx.select().from(bakeJobs).where(eq(bakeJobs.id, job.jobId)).for('update');
-    if (!row || row.state !== 'running' || row.leaseOwner !== workerId) return;
+    const row = await holdsLease(tx, job, workerId);
+    if (!row) return;
+    await endAttempt(tx, job.attemptId, 'released');
     await tx
       .update(bakeJobs)
       .set({ state: 'queued', attempts: Math.max(0, row.attempts - 1), leaseOwner: null, leaseExpiresAt: null, framesDone: 0 })
@@ -240,8 +328,10 @@ export async function releaseJob(job: ClaimedJob, workerId: string): Promise<voi
 /** Marks a job cancelled by the worker that was running it. */
 export async function acknowledgeCancel(job: ClaimedJob, workerId: string): Promise<void> {
   await db().transaction(async (tx) => {
-    const [row] = await tx.select().from(bakeJobs).where(eq(bakeJobs.id, job.jobId)).for('update');
-    if (row && row.state === 'running' && row.leaseOwner === workerId) await finishJob(tx, row.id, row.versionId, 'cancelled', null);
+    const row = await holdsLease(tx, job, workerId);
+    if (!row) return;
+    await finishJob(tx, row.id, row.versionId, 'cancelled', null);
+    await endAttempt(tx, job.attemptId, 'cancelled');
   });
 }
 

@@ -1,14 +1,30 @@
-// One bake worker thread: runs the claim-bake loop until the parent asks it to stop.
-import { parentPort, workerData } from 'node:worker_threads';
-import { runBakeLoop } from './runner';
-import { closeDb } from '../server/db';
+// One bake thread: pure computation. It runs the solver and hands each encoded clip chunk to the parent as it is
+// made; the parent (host.ts) holds the lease, talks to the database and uploads, and ends this thread to stop a bake.
+import { parentPort } from 'node:worker_threads';
+import { bakeScene } from './bake';
+import type { Scene } from '../scene';
+import type { FromThread, ToThread } from './host';
 
-const controller = new AbortController();
-parentPort?.on('message', (m) => {
-  if (m === 'stop') controller.abort();
+const port = parentPort!;
+const send = (m: FromThread, transfer: ArrayBuffer[] = []) => port.postMessage(m, transfer);
+
+port.on('message', async (m: ToThread) => {
+  if (m.type !== 'bake') return;
+  try {
+    const result = await bakeScene(m.scene as Scene, m.sceneHash, {
+      onFrame: (done, total) => {
+        send({ type: 'frame', done, total });
+        return 'go';
+      },
+      onChunk: (chunk) => {
+        // Hand the bytes over without a copy when the chunk owns its whole buffer.
+        const own = chunk.byteOffset === 0 && chunk.byteLength === chunk.buffer.byteLength;
+        send({ type: 'chunk', bytes: chunk }, own ? [chunk.buffer as ArrayBuffer] : []);
+      },
+    });
+    if (!result) throw new Error('the bake stopped');
+    send({ type: 'baked', head: result.clip, stats: result.stats, framesTotal: result.framesTotal, particleCapacity: result.particleCapacity });
+  } catch (err) {
+    send({ type: 'failed', message: err instanceof Error ? err.message : String(err) });
+  }
 });
-
-await runBakeLoop({ workerId: workerData.workerId, signal: controller.signal });
-await closeDb();
-// The message listener would keep the thread alive: end it explicitly.
-process.exit(0);

@@ -1,4 +1,5 @@
-// Writes a clip (see format.ts): add frames in order, then finish() returns the bytes.
+// Writes a clip (see format.ts): add frames in order, then finish() returns the bytes (or, streaming, onChunk
+// receives each chunk as it is made and finishHead() returns what goes before them).
 import { deflateSync } from 'fflate';
 import {
   CLIP_FORMAT_VERSION, CLIP_MAGIC, INDEX_ENTRY_BYTES, PROP_ANGLE_STEP, PROP_POSITION_STEP,
@@ -34,11 +35,17 @@ export interface ClipWriterOptions {
   level?: 1 | 2 | 3 | 4 | 5 | 6 | 7 | 8 | 9;
   /** Liquids, walls and props to draw (default PLAIN_LOOK). */
   look?: ClipLook;
+  /**
+   * Receives each compressed chunk, in order, as soon as it is made; the writer then keeps only the index, and
+   * finishHead() returns the bytes that go before the chunks (a streaming bake uploads the chunks as they come).
+   */
+  onChunk?: (chunk: Uint8Array) => void;
 }
 
 export class ClipWriter {
   readonly header: ClipHeader;
   private level: NonNullable<ClipWriterOptions['level']>;
+  private onChunk?: (chunk: Uint8Array) => void;
   private chunks: Uint8Array[] = [];
   private index: ClipIndexEntry[] = [];
   private pending: Uint8Array[] = [];
@@ -58,6 +65,7 @@ export class ClipWriter {
     const binsY = Math.max(1, Math.ceil(o.tankHeight / binSize - 1e-9));
     const framesPerChunk = o.framesPerChunk ?? 8;
     this.level = o.level ?? 3;
+    this.onChunk = o.onChunk;
     this.header = {
       format: 'tidemark-clip',
       formatVersion: CLIP_FORMAT_VERSION,
@@ -222,12 +230,23 @@ export class ClipWriter {
     });
     const packed = deflateSync(raw, { level: this.level });
     this.index.push({ offset: 0, length: packed.length, firstFrame: this.pendingFirst, frameCount: frames.length });
-    this.chunks.push(packed);
+    if (this.onChunk) this.onChunk(packed);
+    else this.chunks.push(packed);
     this.pending = [];
   }
 
-  /** Returns the whole clip. All frames of the range must have been added. */
+  /** Returns the whole clip. All frames of the range must have been added (and no onChunk given). */
   finish(): Uint8Array {
+    if (this.onChunk) throw new Error('the chunks went to onChunk: use finishHead()');
+    const head = this.finishHead();
+    const out = new Uint8Array(head.length + this.chunks.reduce((a, c) => a + c.length, 0));
+    out.set(head, 0);
+    this.chunks.forEach((c, k) => out.set(c, this.index[k].offset));
+    return out;
+  }
+
+  /** Returns the bytes before the first chunk (magic, header, index); the chunks follow them in order. */
+  finishHead(): Uint8Array {
     const h = this.header;
     const total = h.endFrame - h.startFrame + 1;
     if (this.framesWritten !== total) throw new Error(`clip has ${this.framesWritten} of ${total} frames`);
@@ -238,7 +257,7 @@ export class ClipWriter {
       e.offset = offset;
       offset += e.length;
     }
-    const out = new Uint8Array(offset);
+    const out = new Uint8Array(indexStart + this.index.length * INDEX_ENTRY_BYTES);
     const dv = new DataView(out.buffer);
     for (let i = 0; i < 8; i++) out[i] = CLIP_MAGIC.charCodeAt(i);
     dv.setUint32(8, headerJson.length, true);
@@ -250,7 +269,6 @@ export class ClipWriter {
       dv.setUint32(at + 12, e.firstFrame, true);
       dv.setUint32(at + 16, e.frameCount, true);
     });
-    this.chunks.forEach((c, k) => out.set(c, this.index[k].offset));
     return out;
   }
 }

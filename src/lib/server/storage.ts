@@ -1,5 +1,17 @@
 // The object store: one S3 client factory for the app server and the bake workers (any S3-compatible store).
-import { S3Client, GetObjectCommand, PutObjectCommand, HeadObjectCommand, DeleteObjectCommand } from '@aws-sdk/client-s3';
+import {
+  S3Client,
+  GetObjectCommand,
+  PutObjectCommand,
+  HeadObjectCommand,
+  DeleteObjectCommand,
+  CreateMultipartUploadCommand,
+  UploadPartCommand,
+  CompleteMultipartUploadCommand,
+  AbortMultipartUploadCommand,
+} from '@aws-sdk/client-s3';
+import { createHash } from 'node:crypto';
+import type { Readable } from 'node:stream';
 import { Upload } from '@aws-sdk/lib-storage';
 import { getSignedUrl } from '@aws-sdk/s3-request-presigner';
 import { config } from './config';
@@ -64,6 +76,61 @@ export async function headObject(key: string): Promise<{ size: number; contentTy
 
 export async function deleteObject(key: string): Promise<void> {
   await s3().send(new DeleteObjectCommand({ Bucket: bucket(), Key: key }));
+}
+
+/** Stores bytes in one request that the signal can abort. */
+export async function putBytes(key: string, body: Uint8Array, contentType: string, signal?: AbortSignal): Promise<void> {
+  await s3().send(new PutObjectCommand({ Bucket: bucket(), Key: key, Body: body, ContentType: contentType }), { abortSignal: signal });
+}
+
+/** Smallest part of a multipart upload other than the last (S3's rule), bytes. */
+export const MIN_PART_BYTES = 5 * 1024 * 1024;
+
+/** A multipart upload driven part by part (parts may be sent in any order; numbers run from 1 to 10 000). */
+export class MultipartUpload {
+  private parts: { PartNumber: number; ETag: string }[] = [];
+  private constructor(
+    readonly key: string,
+    private readonly uploadId: string,
+  ) {}
+
+  static async start(key: string, contentType: string, signal?: AbortSignal): Promise<MultipartUpload> {
+    const res = await s3().send(new CreateMultipartUploadCommand({ Bucket: bucket(), Key: key, ContentType: contentType }), { abortSignal: signal });
+    return new MultipartUpload(key, res.UploadId!);
+  }
+
+  async part(partNumber: number, body: Uint8Array, signal?: AbortSignal): Promise<void> {
+    const res = await s3().send(
+      new UploadPartCommand({ Bucket: bucket(), Key: this.key, UploadId: this.uploadId, PartNumber: partNumber, Body: body }),
+      { abortSignal: signal },
+    );
+    this.parts.push({ PartNumber: partNumber, ETag: res.ETag! });
+  }
+
+  async complete(signal?: AbortSignal): Promise<void> {
+    const parts = [...this.parts].sort((a, b) => a.PartNumber - b.PartNumber);
+    await s3().send(
+      new CompleteMultipartUploadCommand({ Bucket: bucket(), Key: this.key, UploadId: this.uploadId, MultipartUpload: { Parts: parts } }),
+      { abortSignal: signal },
+    );
+  }
+
+  /** Discards the parts sent so far (best effort: the store also expires unfinished uploads by its own rules). */
+  async abort(): Promise<void> {
+    await s3().send(new AbortMultipartUploadCommand({ Bucket: bucket(), Key: this.key, UploadId: this.uploadId })).catch(() => {});
+  }
+}
+
+/** Reads the stored object as a stream and returns its SHA-256 (hex) and size in bytes. */
+export async function objectDigest(key: string, signal?: AbortSignal): Promise<{ sha256: string; size: number }> {
+  const res = await s3().send(new GetObjectCommand({ Bucket: bucket(), Key: key }), { abortSignal: signal });
+  const hash = createHash('sha256');
+  let size = 0;
+  for await (const piece of res.Body as Readable) {
+    hash.update(piece as Buffer);
+    size += (piece as Buffer).length;
+  }
+  return { sha256: hash.digest('hex'), size };
 }
 
 /** A short-lived URL the browser can GET (with Range requests). */

@@ -404,6 +404,34 @@ export const bakeJobs = mysqlTable(
   (t) => [index('bake_jobs_state_idx').on(t.state, t.leaseExpiresAt), index('bake_jobs_version_idx').on(t.versionId)],
 );
 
+/** How one claim of a bake job ended: still running, done, or not (its objects are then deleted). */
+export const BAKE_ATTEMPT_STATES = ['running', 'done', 'lost', 'released', 'failed', 'cancelled'] as const;
+
+/**
+ * One claim of a bake job by a worker, with the object keys that attempt writes (unique per attempt, so a late
+ * upload of a lost attempt never overwrites the winner's clip). Objects of attempts that did not finish are
+ * deleted by whoever learns of them (the attempt itself, the next claimer, the completer); objectsCleared records it.
+ */
+export const bakeAttempts = mysqlTable(
+  'bake_attempts',
+  {
+    id: id(),
+    jobId: ref('job_id')
+      .notNull()
+      .references(() => bakeJobs.id, { onDelete: 'cascade' }),
+    /** The job's attempt count at this claim (a handed-back attempt does not count, so a number can repeat). */
+    attempt: int('attempt').notNull(),
+    workerId: varchar('worker_id', { length: 100 }).notNull(),
+    state: mysqlEnum('state', BAKE_ATTEMPT_STATES).notNull().default('running'),
+    clipKey: varchar('clip_key', { length: 400 }).notNull(),
+    statsKey: varchar('stats_key', { length: 400 }).notNull(),
+    objectsCleared: boolean('objects_cleared').notNull().default(false),
+    claimedAt: datetime('claimed_at', { mode: 'date', fsp: 3 }).notNull().default(sql`CURRENT_TIMESTAMP(3)`),
+    endedAt: datetime('ended_at', { mode: 'date', fsp: 3 }),
+  },
+  (t) => [index('bake_attempts_job_idx').on(t.jobId, t.state)],
+);
+
 export const shareLinks = mysqlTable(
   'share_links',
   {
