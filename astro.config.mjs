@@ -3,6 +3,22 @@ import { defineConfig } from 'astro/config';
 import node from '@astrojs/node';
 import react from '@astrojs/react';
 import tailwindcss from '@tailwindcss/vite';
+import { fileURLToPath } from 'node:url';
+
+/**
+ * Puts src/lib/server/boot.ts ahead of the built server's entry, so its checks run when `node dist/server/entry.mjs`
+ * starts (Astro loads middleware and pages only on the first request).
+ */
+function tidemarkBoot() {
+  const boot = fileURLToPath(new URL('./src/lib/server/boot.ts', import.meta.url));
+  return {
+    name: 'tidemark-boot',
+    apply: 'build',
+    transform(code, id) {
+      if (id === '\0@astrojs-ssr-virtual-entry') return { code: `import ${JSON.stringify(boot)};\n${code}`, map: null };
+    },
+  };
+}
 
 // Host names the app answers as (checked against the Host header; the origin check compares with them).
 // Production: set TIDEMARK_HOSTS=previs.example.com (comma-separated) when building.
@@ -18,8 +34,11 @@ export default defineConfig({
   security: { checkOrigin: true, allowedDomains: hosts.map((hostname) => ({ hostname })) },
   devToolbar: { enabled: false },
   telemetry: false,
+  // Astro hashes the inline scripts and styles it emits (island loader, hydration) into the page's
+  // Content-Security-Policy header; src/middleware.ts adds the other directives.
+  experimental: { csp: { algorithm: 'SHA-256' } },
   vite: {
-    plugins: [tailwindcss()],
+    plugins: [tailwindcss(), tidemarkBoot()],
     optimizeDeps: { exclude: ['@ffmpeg/ffmpeg', '@ffmpeg/util'] },
     ssr: { external: ['@node-rs/argon2', 'mysql2', 's3rver', 'maildev'] },
   },

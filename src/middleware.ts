@@ -1,34 +1,14 @@
 // Validates the session cookie once per request and puts the user and session into Astro.locals.
 import { defineMiddleware } from 'astro:middleware';
 import { eq, and, or, isNull, lt } from 'drizzle-orm';
-import { lucia } from './lib/server/auth';
+import { lucia, validateSessionCookie } from './lib/server/auth';
 import { db } from './lib/server/db';
 import { users } from './lib/server/db/schema';
 import { errorResponse, HttpError } from './lib/server/http';
 import { ensureServerBakePool } from './lib/bake/pool';
-import { config } from './lib/server/config';
+import { withSecurityHeaders } from './lib/server/headers';
 
 const ACTIVE_EVERY_MS = 5 * 60_000;
-
-/** Headers on every answer: no framing by other sites, no content sniffing, HSTS when the app is served over HTTPS. */
-function withSecurityHeaders(res: Response): Response {
-  const set = (h: Headers) => {
-    h.set('x-content-type-options', 'nosniff');
-    h.set('content-security-policy', "frame-ancestors 'none'");
-    h.set('x-frame-options', 'DENY');
-    h.set('referrer-policy', 'same-origin');
-    if (config.secureCookies) h.set('strict-transport-security', 'max-age=31536000; includeSubDomains');
-  };
-  try {
-    set(res.headers);
-    return res;
-  } catch {
-    // Some answers (redirects) have immutable headers: copy them into a new answer.
-    const copy = new Response(res.body, { status: res.status, statusText: res.statusText, headers: new Headers(res.headers) });
-    set(copy.headers);
-    return copy;
-  }
-}
 
 export const onRequest = defineMiddleware(async (ctx, next) => {
   ensureServerBakePool();
@@ -40,7 +20,7 @@ export const onRequest = defineMiddleware(async (ctx, next) => {
   const auth = lucia();
   const sessionId = ctx.cookies.get(auth.sessionCookieName)?.value ?? null;
   if (sessionId) {
-    const { session, user } = await auth.validateSession(sessionId);
+    const { session, user } = await validateSessionCookie(sessionId);
     if (session?.fresh) {
       const c = auth.createSessionCookie(session.id);
       ctx.cookies.set(c.name, c.value, c.attributes);

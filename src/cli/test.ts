@@ -56,7 +56,8 @@ async function main(): Promise<number> {
   const appUrl = `http://127.0.0.1:${appPort}`;
   const env = appEnvironment({ databaseUrl: mariadb.url, s3Endpoint: s3.endpoint, bucket, smtpPort, appUrl, port: appPort });
   await buildIfStale(log, '.data/test-dist');
-  const app = await startApp({ ...env, TIDEMARK_TEST: '1' }, log, '.data/test-dist');
+  // The tests are the app's proxy: they send X-Forwarded-For from loopback, so loopback is a trusted hop.
+  const app = await startApp({ ...env, TIDEMARK_TEST: '1', TRUSTED_PROXIES: 'loopback' }, log, '.data/test-dist');
   started.push(app);
   // Bakes run beside the app in a worker process of their own, as under `npm start`.
   const worker = await startBakeWorker({ ...env, BAKE_WORKERS: process.env.TEST_BAKE_WORKERS ?? '1' }, log);

@@ -19,6 +19,9 @@ const ARGS = [
 ];
 
 /** Opens a fresh Chromium profile; close() removes it. */
+/** Content-Security-Policy refusals Chromium reported in any page opened by these tests (also logged). */
+export const cspViolations: string[] = [];
+
 export async function openBrowser(): Promise<{ context: BrowserContext; page: Page; close: () => Promise<void> }> {
   const dir = mkdtempSync(path.join(tmpdir(), 'tidemark-chromium-'));
   const context = await chromium.launchPersistentContext(dir, {
@@ -26,6 +29,12 @@ export async function openBrowser(): Promise<{ context: BrowserContext; page: Pa
     args: ARGS,
     viewport: { width: 1280, height: 800 },
     baseURL: APP,
+  });
+  context.on('console', (msg) => {
+    if (/Content Security Policy/i.test(msg.text())) {
+      cspViolations.push(msg.text());
+      console.error(`[csp] ${msg.text()}`);
+    }
   });
   const page = context.pages()[0] ?? (await context.newPage());
   return {

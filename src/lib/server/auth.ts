@@ -6,7 +6,7 @@ import { db } from './db';
 import { sessions, users, signInAttempts } from './db/schema';
 import { config } from './config';
 
-let instance: Lucia<Record<never, never>, { email: string; name: string }> | undefined;
+let instance: Lucia<{ createdAt: Date }, { email: string; name: string }> | undefined;
 
 /** Returns the session manager (created on first use, after the database is configured). */
 export function lucia() {
@@ -19,15 +19,37 @@ export function lucia() {
         attributes: { secure: config.secureCookies, sameSite: 'lax', path: '/' },
       },
       getUserAttributes: (a) => ({ email: a.email, name: a.name }),
+      getSessionAttributes: (a) => ({ createdAt: a.createdAt ? new Date(a.createdAt) : new Date() }),
     });
   }
   return instance;
+}
+
+/** However often a session slides (14 days past the last use), it ends this long after sign-in. */
+export const SESSION_ABSOLUTE_DAYS = 30;
+
+/** Whether a session began longer ago than the absolute lifetime. */
+export const pastAbsoluteLifetime = (createdAt: Date, now = Date.now()) => now - createdAt.getTime() > SESSION_ABSOLUTE_DAYS * 86_400_000;
+
+/**
+ * Validates a session cookie value: lucia's sliding expiry, then the absolute lifetime (an old session is deleted).
+ * Returns the session and user, or nulls.
+ */
+export async function validateSessionCookie(sessionId: string) {
+  const auth = lucia();
+  const result = await auth.validateSession(sessionId);
+  if (result.session && pastAbsoluteLifetime(result.session.createdAt)) {
+    await auth.invalidateSession(result.session.id);
+    return { session: null, user: null } as const;
+  }
+  return result;
 }
 
 declare module 'lucia' {
   interface Register {
     Lucia: ReturnType<typeof lucia>;
     DatabaseUserAttributes: { email: string; name: string };
+    DatabaseSessionAttributes: { createdAt?: Date };
   }
 }
 

@@ -20,6 +20,14 @@ export const config = {
   get secureCookies() {
     return this.appUrl.startsWith('https://');
   },
+  /** Proxies whose X-Forwarded-For entry is believed (addresses, CIDR ranges or `loopback`); empty = none. */
+  get trustedProxies() {
+    return env('TRUSTED_PROXIES', '');
+  },
+  /** Set when a proxy in front terminates HTTPS although APP_URL says http (see productionProblem). */
+  get behindProxy() {
+    return env('BEHIND_PROXY', 'false') === 'true';
+  },
   s3: {
     get endpoint() {
       return process.env.S3_ENDPOINT || undefined;
@@ -61,3 +69,21 @@ export const config = {
     },
   },
 };
+
+/**
+ * Returns why a production server must not start, or null: the public URL must be https (cookies get the Secure flag,
+ * HSTS is sent) unless it is a loopback address (a trial on this machine) or BEHIND_PROXY=true says a proxy in front
+ * terminates HTTPS.
+ */
+export function productionProblem(e: Record<string, string | undefined> = process.env): string | null {
+  let url: URL;
+  try {
+    url = new URL(e.APP_URL || 'http://127.0.0.1:4321');
+  } catch {
+    return `APP_URL "${e.APP_URL}" is not a URL`;
+  }
+  if (url.protocol === 'https:') return null;
+  if (['127.0.0.1', 'localhost', '[::1]'].includes(url.hostname)) return null;
+  if (e.BEHIND_PROXY === 'true') return null;
+  return `APP_URL must be https:// in production (got ${url.origin}); set BEHIND_PROXY=true if a proxy in front terminates HTTPS`;
+}

@@ -7,6 +7,7 @@ import { db } from '~/lib/server/db';
 import { users } from '~/lib/server/db/schema';
 import { verifyPassword, hashPassword } from '~/lib/server/password';
 import { email } from '~/lib/server/validation';
+import { clientAddressOf } from '~/lib/server/client-address';
 
 const Body = z.object({ email, password: z.string({ required_error: 'is required' }).min(1, 'is required').max(200, 'is too long') });
 
@@ -14,8 +15,8 @@ let dummyHash: Promise<string> | undefined;
 
 export const POST = endpoint(async ({ request, cookies, clientAddress }) => {
   const body = await readJson(request, Body);
-  // The column holds 64 characters: a longer (forged) forwarded address must not turn into a 500.
-  const ip = (clientAddress ?? 'unknown').slice(0, 64);
+  // The column holds 64 characters: a longer address must not turn into a 500.
+  const ip = clientAddressOf(request, clientAddress).slice(0, 64);
   const wait = await signInWait(body.email, ip);
   if (wait > 0) {
     throw new HttpError('too_many_requests', `Too many failed sign-ins. Try again in ${Math.ceil(wait / 60)} minute(s).`, undefined, { retryAfterSeconds: wait }, { 'retry-after': String(wait) });
