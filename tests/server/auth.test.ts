@@ -1,10 +1,10 @@
 // Sign-in, throttling, sign-out and session expiry against the running app and the real MariaDB.
 import { describe, it, expect, afterAll } from 'vitest';
-import { eq } from 'drizzle-orm';
+import { and, eq, sql } from 'drizzle-orm';
 import { Client, makeUser } from '../support/app';
 import { db, closeDb } from '../../src/lib/server/db';
-import { sessions } from '../../src/lib/server/db/schema';
-import { THROTTLE } from '../../src/lib/server/auth';
+import { sessions, throttleHits } from '../../src/lib/server/db/schema';
+import { RULES, keyHash } from '../../src/lib/server/throttle';
 
 afterAll(closeDb);
 
@@ -40,9 +40,9 @@ describe('sign-in', () => {
     expect(res.body.error.message).toBe('Wrong e-mail or password');
   });
 
-  it(`throttles an account after ${THROTTLE.failures} failures, even with the right password, from any address`, async () => {
+  it(`after ${RULES.signInAccount.limit} failures from any addresses an account waits (429), then the right password works`, async () => {
     const u = await makeUser();
-    for (let i = 0; i < THROTTLE.failures; i++) {
+    for (let i = 0; i < RULES.signInAccount.limit; i++) {
       const res = await new Client().post('/api/auth/sign-in', { email: u.email, password: `wrong-${i}-password` });
       expect(res.status).toBe(401);
     }
@@ -50,6 +50,13 @@ describe('sign-in', () => {
     expect(blocked.status).toBe(429);
     expect(Number(blocked.headers.get('retry-after'))).toBeGreaterThan(0);
     expect(blocked.body.error.message).toMatch(/Too many failed sign-ins/);
+    // The delay is a delay, not a lock: once it has passed, the right password signs in.
+    await db()
+      .update(throttleHits)
+      .set({ createdAt: sql`${throttleHits.createdAt} - INTERVAL ${Math.ceil(RULES.signInAccount.firstDelayMs / 1000) + 1} SECOND` })
+      .where(and(eq(throttleHits.bucket, RULES.signInAccount.bucket), eq(throttleHits.keyHash, keyHash(u.email))));
+    const after = await new Client().post('/api/auth/sign-in', { email: u.email, password: u.password });
+    expect(after.status).toBe(200);
   });
 
   it('signs out: the session stops working and the cookie is cleared', async () => {

@@ -9,6 +9,7 @@ import { sendMail } from './mail';
 import { config } from './config';
 import { audit } from './audit';
 import { lucia } from './auth';
+import { RULES, recordAttempt } from './throttle';
 
 export const INVITATION_HOURS = 72;
 export const RESET_HOURS = 1;
@@ -230,14 +231,30 @@ export async function acceptInvitation(token: string, signedInUserId: string | n
   return { userId, studioSlug: inv.studioSlug };
 }
 
-/** Starts a password reset: e-mails a single-use link when the account exists; says nothing either way. */
-export async function requestPasswordReset(email: string) {
+/**
+ * Starts a password reset for the client at `address`. The caller answers the same whatever happens here, and in the
+ * same time: after the throttle and the account lookup (done for every address) the rest — voiding older links,
+ * the new link, the e-mail — runs after the answer, so neither a known account nor a slow or down SMTP server shows.
+ * At most RULES.resetEmail.limit mails per e-mail address and RULES.resetAddress.limit requests per client an hour.
+ */
+export async function requestPasswordReset(email: string, address: string): Promise<void> {
+  const attempt = await recordAttempt([
+    { rule: RULES.resetEmail, key: email },
+    { rule: RULES.resetAddress, key: address },
+  ]);
   const [user] = await db().select({ id: users.id, name: users.name }).from(users).where(eq(users.email, email));
-  if (!user) return;
+  if (!attempt.allowed || !user) return;
+  void sendPasswordReset(user, email).catch((err) => console.error('[password reset] could not send the link:', err));
+}
+
+async function sendPasswordReset(user: { id: string; name: string }, email: string) {
   const token = newToken();
-  await db()
-    .insert(passwordResets)
-    .values({ userId: user.id, tokenHash: hashToken(token), expiresAt: new Date(Date.now() + RESET_HOURS * 3600_000) });
+  await db().transaction(async (tx) => {
+    // A new link voids every older one still unused.
+    await tx.update(passwordResets).set({ usedAt: new Date() }).where(and(eq(passwordResets.userId, user.id), isNull(passwordResets.usedAt)));
+    await tx.insert(passwordResets).values({ userId: user.id, tokenHash: hashToken(token), expiresAt: new Date(Date.now() + RESET_HOURS * 3600_000) });
+  });
+  await audit({ studioId: null, actorId: user.id, action: 'password.reset_requested' });
   await sendMail({
     to: email,
     subject: 'Choose a new Tidemark password',
@@ -248,7 +265,6 @@ export async function requestPasswordReset(email: string) {
     ],
     action: { label: 'Choose a new password', url: `${config.appUrl}/reset-password/${token}` },
   });
-  await audit({ studioId: null, actorId: user.id, action: 'password.reset_requested' });
 }
 
 /** Completes a reset: sets the password, uses up the token and signs the account out everywhere. */

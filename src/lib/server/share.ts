@@ -14,6 +14,7 @@ import { hashToken, newToken } from './tokens';
 import { hashPassword, verifyPassword } from './password';
 import { sendMail } from './mail';
 import { config } from './config';
+import { RULES, forgive, recordAttempt, throttled } from './throttle';
 import { presignGet } from './storage';
 import { exportFileNameOf, readyExportOf } from './exports';
 import { clipOf } from './versions';
@@ -28,9 +29,6 @@ type LinkRow = typeof shareLinks.$inferSelect;
 type VersionRow = typeof versions.$inferSelect;
 
 const MEDIA_SECONDS = 900;
-/** Wrong passwords allowed per link in a window before 429 (per app server; Argon2id already costs ~50 ms each). */
-const PASSWORD_TRIES = 10;
-const PASSWORD_WINDOW_MS = 15 * 60_000;
 
 export const shareUrl = (token: string) => `${config.appUrl}/share/${token}`;
 
@@ -202,7 +200,6 @@ export async function findShare(token: string): Promise<OpenedShare> {
 }
 
 // Password: checked with Argon2id; a success leaves an HttpOnly cookie so the page and its API calls stay open.
-const failures = new Map<number, { count: number; since: number }>();
 
 export const unlockCookieName = (link: LinkRow) => `tm_share_${link.tokenHash.slice(0, 16)}`;
 /** The cookie's value: derived from the salted password hash, so it cannot be made without the database. */
@@ -214,27 +211,26 @@ export function isUnlocked(link: LinkRow, cookies: AstroCookies): boolean {
   return !!value && sameHash(value, unlockValue(link));
 }
 
-/** Checks a password; sets the unlock cookie on success; 401 when wrong, 429 after too many wrong tries. */
-export async function unlockShare(opened: OpenedShare, password: string, cookies: AstroCookies, path: string): Promise<void> {
+/**
+ * Checks a password from the client at `address`; sets the unlock cookie on success; 401 when wrong, 429 while the
+ * link or the address must wait (counted in the database: every app server and restart sees the same count).
+ */
+export async function unlockShare(opened: OpenedShare, password: string, cookies: AstroCookies, path: string, address: string): Promise<void> {
   const { link } = opened;
   if (!link.passwordHash) return;
-  const now = Date.now();
-  const f = failures.get(link.id);
-  if (f && now - f.since < PASSWORD_WINDOW_MS && f.count >= PASSWORD_TRIES) {
-    throw new HttpError('too_many_requests', 'Too many wrong passwords for this link. Wait a quarter of an hour and try again.');
-  }
+  const perLink = { rule: RULES.sharePasswordLink, key: `link:${link.id}` };
+  const attempt = await recordAttempt([perLink, { rule: RULES.sharePasswordAddress, key: address }]);
+  if (!attempt.allowed) throw throttled(attempt, 'Too many wrong passwords for this link');
   if (!(await verifyPassword(link.passwordHash, password))) {
-    const fresh = !f || now - f.since >= PASSWORD_WINDOW_MS;
-    failures.set(link.id, { count: fresh ? 1 : f!.count + 1, since: fresh ? now : f!.since });
     throw new HttpError('unauthenticated', 'That password is not right for this link.', { password: 'is not right' }, { passwordRequired: true });
   }
-  failures.delete(link.id);
+  await forgive(attempt, [perLink]);
   cookies.set(unlockCookieName(link), unlockValue(link), {
     path,
     httpOnly: true,
     sameSite: 'lax',
     secure: config.secureCookies,
-    expires: new Date(Math.min(link.expiresAt.getTime(), now + 12 * 3600_000)),
+    expires: new Date(Math.min(link.expiresAt.getTime(), Date.now() + 12 * 3600_000)),
   });
 }
 

@@ -1,5 +1,5 @@
 // The database handle: one mysql2 pool per process, opened on first use.
-import { createPool, type Pool } from 'mysql2';
+import { createPool, type Pool, type PoolConnection } from 'mysql2';
 import { drizzle, type MySql2Database } from 'drizzle-orm/mysql2';
 import * as schema from './schema';
 import { config } from '../config';
@@ -18,6 +18,20 @@ export function db(): Db {
     handle = drizzle(pool, { schema, mode: 'planetscale' });
   }
   return handle;
+}
+
+/**
+ * Runs `fn` on one connection of the pool held for the whole call (named locks and multi-statement work that must
+ * not hop connections), then gives the connection back.
+ */
+export async function withConnection<T>(fn: (conn: Db) => Promise<T>): Promise<T> {
+  db();
+  const conn = await new Promise<PoolConnection>((resolve, reject) => pool!.getConnection((err, c) => (err ? reject(err) : resolve(c))));
+  try {
+    return await fn(drizzle(conn, { schema, mode: 'planetscale' }));
+  } finally {
+    conn.release();
+  }
 }
 
 /** Closes the pool (scripts and tests call this before exiting). */

@@ -3,9 +3,11 @@ import { z } from 'zod';
 import { endpoint, json, readJson } from '~/lib/server/http';
 import { email } from '~/lib/server/validation';
 import { requestPasswordReset } from '~/lib/server/members';
+import { clientAddressOf } from '~/lib/server/client-address';
 
-export const POST = endpoint(async ({ request }) => {
+export const POST = endpoint(async ({ request, clientAddress }) => {
   const body = await readJson(request, z.object({ email }));
-  await requestPasswordReset(body.email);
+  // The same answer for known and unknown addresses, throttled or not, with SMTP up or down.
+  await requestPasswordReset(body.email, clientAddressOf(request, clientAddress));
   return json({ message: 'If that address has an account, a reset link is on its way.' }, 202);
 });

@@ -3,10 +3,11 @@
 import { endpoint, json, readJson } from '~/lib/server/http';
 import { findShare, unlockShare } from '~/lib/server/share';
 import { shareUnlockBody } from '~/lib/export/schemas';
+import { clientAddressOf } from '~/lib/server/client-address';
 
-export const POST = endpoint(async ({ params, cookies, request }) => {
+export const POST = endpoint(async ({ params, cookies, request, clientAddress }) => {
   const { password } = await readJson(request, shareUnlockBody);
   const opened = await findShare(params.token ?? '');
-  await unlockShare(opened, password, cookies, '/');
+  await unlockShare(opened, password, cookies, '/', clientAddressOf(request, clientAddress));
   return json({ unlocked: true });
 });
