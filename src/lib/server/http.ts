@@ -73,6 +73,8 @@ export function fromZod(error: ZodError): HttpError {
 }
 
 const MAX_JSON_BYTES = 1_000_000;
+/** Limit of the small public forms (sign-in, password reset, invitation, share password, guest note): 16 KB. */
+export const PUBLIC_FORM_BYTES = 16_384;
 
 /**
  * Reads the request body as UTF-8 text, stopping with 413 as soon as more than `maxBytes` arrive — the same for a
@@ -91,12 +93,37 @@ export async function readBodyText(request: Request, maxBytes: number): Promise<
     if (done) break;
     size += value.byteLength;
     if (size > maxBytes) {
-      await reader.cancel().catch(() => {});
+      void discardRest(reader);
       throw tooLarge();
     }
     chunks.push(value);
   }
   return Buffer.concat(chunks).toString('utf8');
+}
+
+/** Past this much more, or this long, an oversized body is cut off instead of read and thrown away. */
+const DISCARD_BYTES = 64 * 1024 * 1024;
+const DISCARD_MS = 15_000;
+
+/**
+ * Reads and drops the rest of a refused body while the 413 goes out, so the client gets its answer instead of a reset
+ * connection (closing a socket with unread data resets it); nothing is kept. A body that goes on past DISCARD_BYTES
+ * or DISCARD_MS is cut off.
+ */
+async function discardRest(reader: ReadableStreamDefaultReader<Uint8Array>): Promise<void> {
+  const until = Date.now() + DISCARD_MS;
+  let dropped = 0;
+  try {
+    for (;;) {
+      const { done, value } = await reader.read();
+      if (done) return;
+      dropped += value.byteLength;
+      if (dropped > DISCARD_BYTES || Date.now() > until) break;
+    }
+  } catch {
+    return;
+  }
+  await reader.cancel().catch(() => {});
 }
 
 /** Reads the request body as JSON and parses it with the schema; throws HttpError on bad input (413 past `maxBytes`). */

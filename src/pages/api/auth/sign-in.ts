@@ -2,7 +2,7 @@
 // address (src/lib/server/throttle.ts): the attempt is recorded before the password is checked; past the limit 429.
 import { z } from 'zod';
 import { eq } from 'drizzle-orm';
-import { endpoint, json, readJson, HttpError } from '~/lib/server/http';
+import { endpoint, json, readJson, HttpError, PUBLIC_FORM_BYTES } from '~/lib/server/http';
 import { lucia } from '~/lib/server/auth';
 import { db } from '~/lib/server/db';
 import { users } from '~/lib/server/db/schema';
@@ -16,7 +16,7 @@ const Body = z.object({ email, password: z.string({ required_error: 'is required
 let dummyHash: Promise<string> | undefined;
 
 export const POST = endpoint(async ({ request, cookies, clientAddress }) => {
-  const body = await readJson(request, Body);
+  const body = await readJson(request, Body, PUBLIC_FORM_BYTES);
   const account = { rule: RULES.signInAccount, key: body.email };
   const attempt = await recordAttempt([account, { rule: RULES.signInAddress, key: clientAddressOf(request, clientAddress) }]);
   if (!attempt.allowed) throw throttled(attempt, 'Too many failed sign-ins');
