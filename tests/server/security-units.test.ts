@@ -73,3 +73,14 @@ describe('session absolute lifetime', () => {
     expect(pastAbsoluteLifetime(new Date(now - 31 * 86_400_000), now)).toBe(true);
   });
 });
+
+describe('e-mail text', () => {
+  it('a URL a person typed stays text; links into the app become anchors', async () => {
+    const { render } = await import('../../src/lib/server/mail');
+    const { config } = await import('../../src/lib/server/config');
+    const { html } = render({ to: 'a@b.example', subject: 's', paragraphs: ['Look at https://evil.example/login now', `Frame: ${config.appUrl}/studios/x/versions/1?frame=1004`] });
+    expect(html).not.toContain('href="https://evil.example');
+    expect(html).toContain('https://evil.example/login');
+    expect(html).toContain(`href="${config.appUrl}/studios/x/versions/1?frame=1004"`);
+  });
+});

@@ -75,6 +75,12 @@ describe('share links', () => {
     const rows = await db().select().from(notes).where(eq(notes.versionId, versionId));
     expect(rows).toHaveLength(1);
     expect(rows[0]).toMatchObject({ guestName: 'Dana (agency)', internal: false, frame: 1004, body: 'Bigger splash please', authorId: null, studioId: studio.id });
+    // The studio sees it as a guest's comment, never as one of its members.
+    const list = await studio.members.supervisor.client.get(`/api/versions/${versionId}/notes`);
+    expect(list.status).toBe(200);
+    const shown = JSON.stringify(list.body);
+    expect(shown).toContain('Dana (agency) (guest)');
+    expect(shown).toContain('"guest":true');
   });
 
   it('expired → 410 and a clear page; turned off → 410 at once', async () => {

@@ -150,3 +150,16 @@ describe('password reset', () => {
     }
   });
 });
+
+describe('guest notes', () => {
+  it(`a share-link viewer can leave ${RULES.guestNoteAddress.limit} comments an hour from one address, then 429`, async () => {
+    const studio = await makeStudio();
+    const { token } = await shareLink(studio);
+    const statuses: number[] = [];
+    for (let i = 0; i <= RULES.guestNoteAddress.limit; i++) {
+      statuses.push((await post(APP, `/api/shared/${token}/notes`, { name: 'Dana', body: `note ${i}`, frame: 1004 }, '192.0.2.77')).status);
+    }
+    expect(statuses.slice(0, RULES.guestNoteAddress.limit).every((s) => s === 201)).toBe(true);
+    expect(statuses[RULES.guestNoteAddress.limit]).toBe(429);
+  });
+});

@@ -39,7 +39,8 @@ export interface NoteView {
   stroke: NotePoint[] | null;
   body: string;
   internal: boolean;
-  author: { id: string | null; name: string };
+  /** `guest`: written by a share-link viewer under the name they typed. */
+  author: { id: string | null; name: string; guest?: boolean };
   resolvedAt: string | null;
   resolvedBy: string | null;
   createdAt: string;

@@ -29,11 +29,15 @@ export interface Message {
 
 const escape = (s: string) => s.replace(/[&<>"']/g, (c) => `&#${c.charCodeAt(0)};`);
 
-/** Escapes a paragraph for HTML and turns the links in it (e.g. a note's frame link) into anchors. */
+/**
+ * Escapes a paragraph for HTML. Only links into this app (a note's frame link, a digest line) become anchors: text a
+ * person typed (a share message, a guest's note or name) never turns into a link, whatever URL it holds.
+ */
 function paragraphHtml(p: string): string {
+  const app = `${config.appUrl}/`;
   return p
     .split(/(https?:\/\/[^\s<>"]+)/g)
-    .map((part, i) => (i % 2 === 1 ? `<a href="${escape(part)}" style="color:#0d7a78">${escape(part)}</a>` : escape(part)))
+    .map((part, i) => (i % 2 === 1 && part.startsWith(app) ? `<a href="${escape(part)}" style="color:#0d7a78">${escape(part)}</a>` : escape(part)))
     .join('');
 }
 

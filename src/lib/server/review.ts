@@ -220,7 +220,12 @@ function noteView(r: NoteRow): NoteView {
     stroke,
     body: r.body,
     internal: r.internal,
-    author: { id: r.authorId ?? null, name: r.authorName ?? r.guestName ?? 'A former member' },
+    // A share-link viewer's comment says so: the name is what the viewer typed, not a member of the studio.
+    author: r.authorId
+      ? { id: r.authorId, name: r.authorName ?? 'A former member', guest: false }
+      : r.guestName
+        ? { id: null, name: `${r.guestName} (guest)`, guest: true }
+        : { id: null, name: 'A former member', guest: false },
     resolvedAt: r.resolvedAt ? r.resolvedAt.toISOString() : null,
     resolvedBy: r.resolvedBy ?? null,
     createdAt: r.createdAt.toISOString(),
