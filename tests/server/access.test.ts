@@ -9,7 +9,7 @@ import path from 'node:path';
 import { Client, grantClientShow, linkIn, makeStudio, makeUser, membershipId, unique, waitForMail, type TestStudio } from '../support/app';
 import { ENDPOINTS } from './endpoints';
 import { db, closeDb } from '../../src/lib/server/db';
-import { memberships, notes, shots, shows, users, versions } from '../../src/lib/server/db/schema';
+import { assets, clientShows, memberships, notes, reviewEvents, shots, shows, users, versions } from '../../src/lib/server/db/schema';
 import { parseScene, sceneHash } from '../../src/lib/scene';
 import { tinyScene } from '../support/scenes';
 import { eq } from 'drizzle-orm';
@@ -83,8 +83,29 @@ async function makeBrand(name: string, assigneeId: string): Promise<Brand> {
   const archived = await addShot(studio, showId, archivedCode, { archivedAt: new Date() });
   await addVersion(studio, archived, 1, { sharedWithClient: true, reviewState: 'approved', comment: secret('c') });
 
+  // Who moved the version in review is the studio's: the event's actor carries a sentinel name.
+  await db().insert(reviewEvents).values({ studioId: studio.id, versionId: sharedVersionId, actorId: studio.members.supervisor.id, fromState: 'draft', toState: 'submitted' });
+  // The clip's meta and the bake's health verdict are the studio's.
+  const [clip] = await db().insert(assets).values({
+    studioId: studio.id,
+    kind: 'clip',
+    storageKey: `studios/${studio.id}/clips/${randomBytes(6).toString('hex')}.tdmclip`,
+    contentType: 'application/octet-stream',
+    byteSize: 64,
+    versionId: sharedVersionId,
+    meta: { statsKey: secret('statskey'), solverNote: secret('meta') },
+  });
+  await db().update(versions).set({ clipAssetId: Number(clip.insertId) }).where(eq(versions.id, sharedVersionId));
+
   const u = await makeUser(`Client of ${name}`);
   await db().insert(memberships).values({ studioId: studio.id, userId: u.id, role: 'client' });
+  // An archived show the membership names, with a shared version: hidden like an archived shot.
+  const [ash] = await db().insert(shows).values({ studioId: studio.id, code: secret('ashow'), name: secret('archivedshow'), frameRate: '24', archivedAt: new Date() });
+  const archivedShowId = Number(ash.insertId);
+  ids.show.push(archivedShowId);
+  const inArchivedShow = await addShot(studio, archivedShowId, secret('ashot'));
+  await addVersion(studio, inArchivedShow, 1, { sharedWithClient: true, reviewState: 'submitted' });
+  await db().insert(clientShows).values({ studioId: studio.id, userId: u.id, showId: archivedShowId });
   const client = await new Client().signIn(u.email, u.password);
   return { showId, sharedShotId, sharedVersionId, client, userId: u.id, codes: [sharedCode, unsharedCode, archivedCode] };
 }
@@ -93,6 +114,7 @@ beforeAll(async () => {
   [studio, other] = await Promise.all([makeStudio(), makeStudio()]);
   const assigneeName = secret('assignee');
   await db().update(users).set({ name: assigneeName }).where(eq(users.id, studio.members.artist.id));
+  await db().update(users).set({ name: secret('actor') }).where(eq(users.id, studio.members.supervisor.id));
   brands.push(await makeBrand('Larkspur Tea', studio.members.artist.id));
   brands.push(await makeBrand('Quillfin Bikes', studio.members.artist.id));
   for (const b of brands) await grantClientShow(studio, b.showId, b.userId);
@@ -169,6 +191,21 @@ describe('client visibility: two brands in one studio', () => {
       expect((await b.client.get(`/api/versions/${them.sharedVersionId}`)).status).toBe(404);
       expect((await b.client.get(`/api/shots/${them.sharedShotId}/versions`)).status).toBe(404);
       expect((await b.client.get(`/api/studios/${studio.id}/shows/${them.showId}`)).status).toBe(404);
+    }
+  });
+
+  it("a client is not shown the shot's status, the bake's health verdict or the clip's meta", async () => {
+    for (const b of brands) {
+      const shot = await b.client.get(`/api/studios/${studio.id}/shots/${b.sharedShotId}`);
+      expect(shot.status).toBe(200);
+      expect(JSON.stringify(shot.body)).not.toMatch(/"status":"(blocking|in review|approved|on hold|omitted)"/);
+      const clip = await b.client.get(`/api/versions/${b.sharedVersionId}/clip`);
+      expect(clip.status).toBe(200);
+      expect(clip.body.health).toBeNull();
+      expect(clip.body.meta).toEqual({});
+      const history = await b.client.get(`/api/versions/${b.sharedVersionId}/review`);
+      expect(history.status).toBe(200);
+      expect(JSON.stringify(history.body)).toContain('The studio');
     }
   });
 

@@ -59,7 +59,9 @@ export function StatusIcon({ status, className = '' }: { status: ShotStatus; cla
 }
 
 /** A read-only status: mark and word. */
-export function StatusBadge({ status }: { status: ShotStatus }) {
+export function StatusBadge({ status }: { status: ShotStatus | null }) {
+  // A client is not shown the studio's shot status (null).
+  if (!status) return null;
   return (
     <span className={`inline-flex items-center gap-1.5 text-sm font-medium ${STATUS_TONE[status]}`} data-status={status}>
       <StatusIcon status={status} />

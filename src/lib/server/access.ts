@@ -1,7 +1,7 @@
 // The one access policy. An access object (studio, user, role) comes from the signed-in membership; domain code takes
 // it, never Astro's locals. The client-visibility rule lives here and nowhere else:
 //   a client sees exactly the versions shared with clients (past draft) of live shots in the shows its membership
-//   names (client_shows); a shot or show is visible to a client only through such a version. Anything else: 404.
+//   names (client_shows) and that are not archived; a shot or show is visible to a client only through such a version. Anything else: 404.
 import type { APIContext, AstroGlobal } from 'astro';
 import { and, eq, inArray, isNull, ne, type SQL } from 'drizzle-orm';
 import { db } from './db';
@@ -18,12 +18,13 @@ type ShowRow = typeof shows.$inferSelect;
 
 export const isClient = (access: Access) => access.role === 'client';
 
-/** The show ids a client membership names (a subquery). */
+/** The ids of the live (not archived) shows a client membership names (a subquery). */
 export function clientShowIds(access: Access) {
   return db()
     .select({ id: clientShows.showId })
     .from(clientShows)
-    .where(and(eq(clientShows.userId, access.userId), eq(clientShows.studioId, access.studioId)));
+    .innerJoin(shows, eq(shows.id, clientShows.showId))
+    .where(and(eq(clientShows.userId, access.userId), eq(clientShows.studioId, access.studioId), isNull(shows.archivedAt)));
 }
 
 /** Conditions on a `versions ⨝ shots` row for a client to see the version. */
@@ -122,7 +123,7 @@ export async function shotAccess(locals: Locals, shotId: number, role: Role) {
 // A client gets the fields needed to play and discuss a shared version (code, frame range, timecodes, rate, plate
 // for playback); studio-internal fields are blanked, keeping the answer's shape the same for every role.
 
-const hiddenFromClients: Record<string, string | null> = {
+const hiddenFromClients: Record<string, unknown> = {
   description: '',
   assigneeId: null,
   assigneeName: null,
@@ -132,7 +133,15 @@ const hiddenFromClients: Record<string, string | null> = {
   comment: null,
   authorId: null,
   authorName: null,
+  // The studio's own workflow: the shot's status and who did what in review.
+  status: null,
+  statusCounts: {},
+  actorId: null,
+  actorName: null,
 };
+
+/** How a client is told who in the studio did something (review events, the inbox). */
+export const STUDIO_ACTOR = 'The studio';
 
 /** The row as `access` may see it: unchanged for the studio, internal fields blanked for a client. */
 export function asSeenBy<T extends object>(access: Access, row: T): T {

@@ -96,7 +96,7 @@ export async function getShow(access: StudioAccess, showId: number) {
     .from(shots)
     .where(and(eq(shots.showId, showId), eq(shots.studioId, access.studioId), isNull(shots.archivedAt)))
     .groupBy(shots.status);
-  return { ...show, statusCounts: Object.fromEntries(counts.map((c) => [c.status, c.n])) as Partial<Record<ShotStatus, number>> };
+  return asSeenBy(access, { ...show, statusCounts: Object.fromEntries(counts.map((c) => [c.status, c.n])) as Partial<Record<ShotStatus, number>> });
 }
 
 const showCodeTaken = (code: string) => new HttpError('conflict', `A show with code ${code} already exists in this studio`, { code: 'is already used by another show' });

@@ -8,7 +8,7 @@ import { db, type Db } from './db';
 import { assets, auditLog, noteReads, notes, reviewEvents, shots, shows, users, versions } from './db/schema';
 import { HttpError } from './http';
 import { requireRole, type StudioAccess } from './authz';
-import { asSeenBy, clientVersionIds, loadVersion } from './access';
+import { asSeenBy, clientVersionIds, loadVersion, STUDIO_ACTOR } from './access';
 import { decideTransition, shotStatusAfter, type ReviewAction } from '../review/states';
 import { healthOf } from '../sim/health';
 import { diffScenes, countChanges } from '../review/diff';
@@ -164,7 +164,7 @@ export async function reviewHistory(access: StudioAccess, versionId: number) {
     fromState: r.fromState,
     toState: r.toState,
     comment: isClient(access) ? null : r.comment,
-    actor: { id: r.actorId, name: r.actorName ?? 'Tidemark' },
+    actor: isClient(access) ? { id: null, name: STUDIO_ACTOR } : { id: r.actorId, name: r.actorName ?? 'Tidemark' },
     createdAt: r.createdAt.toISOString(),
   }));
 }
@@ -520,7 +520,7 @@ export async function inboxFor(access: StudioAccess) {
       // A client is not told who in the studio made the version.
       author: role === 'client' ? { id: null, name: 'The studio' } : { id: r.authorId, name: r.authorName ?? 'A former member' },
       updatedAt: r.updatedAt.toISOString(),
-      lastEvent: e ? { comment: role === 'client' ? null : e.comment, actorName: e.actorName, at: e.createdAt.toISOString() } : null,
+      lastEvent: e ? { comment: role === 'client' ? null : e.comment, actorName: role === 'client' ? STUDIO_ACTOR : e.actorName, at: e.createdAt.toISOString() } : null,
       clientState: r.clientState,
       clientDecidedByName: r.clientDeciderName,
       clientComment: r.clientComment,

@@ -16,8 +16,9 @@ export const GET = endpoint(async ({ params, locals }) => {
     // Solver statistics are the studio's: a client gets the clip only.
     statsUrl: access.role !== 'client' && typeof meta.statsKey === 'string' ? await presignGet(meta.statsKey, 900) : null,
     bytes: clip.byteSize,
-    health: healthOf(meta),
-    meta,
+    // The bake's health verdict and the clip's meta are the studio's too.
+    health: access.role !== 'client' ? healthOf(meta) : null,
+    meta: access.role !== 'client' ? meta : {},
     expiresInSeconds: 900,
   });
 });
