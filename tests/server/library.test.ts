@@ -215,6 +215,19 @@ describe('shots', () => {
     expect(ok.status).toBe(200);
     expect(ok.body.updated).toBe(2);
     expect([await statusOf(a.id), await statusOf(b.id)]).toEqual(['on hold', 'on hold']);
+    // The activity feed credits every shot of a bulk change, however many (their ids joined run past 64 characters),
+    // and no shot that was not in it.
+    const many: number[] = [];
+    for (let i = 0; i < 30; i++) many.push((await newShot(show.id)).id);
+    expect(many.join(',').length).toBeGreaterThan(64);
+    expect((await supervisor().post(`${api()}/shots/bulk-status`, { ids: many, status: 'approved' })).status).toBe(200);
+    for (const id of [many[0], many[29]]) {
+      const feed = await supervisor().get(`${api()}/shots/${id}/activity`);
+      expect(feed.status).toBe(200);
+      expect(JSON.stringify(feed.body)).toContain('shot.bulk_status');
+    }
+    const outside = await supervisor().get(`${api()}/shots/${a.id}/activity`);
+    expect(outside.body.activity.filter((e: { action: string; detail: { status?: string } }) => e.action === 'shot.bulk_status' && e.detail?.status === 'approved')).toEqual([]);
     const bad = await supervisor().post(`${api()}/shots/bulk-status`, { ids: [], status: 'wet' });
     expect(bad.status).toBe(400);
     expect(Object.keys(bad.body.error.fields).sort()).toEqual(['ids', 'status']);

@@ -476,8 +476,9 @@ export async function bulkSetStatus(access: StudioAccess, ids: number[], status:
     studioId: access.studioId,
     actorId: access.userId,
     action: 'shot.bulk_status',
+    // The shots are named in the detail's JSON array (every one of them); a target id column cannot hold a list.
     targetType: 'shot',
-    targetId: ids.join(',').slice(0, 64),
+    targetId: undefined,
     detail: { status, shots: changed.map((r) => ({ id: r.id, from: r.status })) },
   });
   return { updated: changed.length, status, ids };
@@ -647,7 +648,7 @@ export async function listShotActivity(access: StudioAccess, shotId: number, lim
         eq(auditLog.studioId, access.studioId),
         or(
           and(eq(auditLog.targetType, 'shot'), eq(auditLog.targetId, id)),
-          and(eq(auditLog.action, 'shot.bulk_status'), sql`find_in_set(${id}, ${auditLog.targetId})`),
+          and(eq(auditLog.action, 'shot.bulk_status'), sql`JSON_CONTAINS(${auditLog.detail}, ${JSON.stringify({ id: shotId })}, '$.shots')`),
         ),
       ),
     )
