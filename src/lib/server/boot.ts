@@ -4,6 +4,7 @@
 import { NodeApp } from 'astro/app/node';
 import { productionProblem } from './config';
 import { PEER_ADDRESS } from './client-address';
+import { schedulePurge } from './housekeeping';
 
 const problem = productionProblem();
 if (problem) {
@@ -19,3 +20,6 @@ NodeApp.createRequest = ((req: Parameters<CreateRequest>[0], options?: Parameter
   if (peer) Reflect.set(request, PEER_ADDRESS, peer);
   return request;
 }) as CreateRequest;
+
+// Old throttle hits, sign-in attempts and finished bake jobs go on a schedule.
+schedulePurge();
