@@ -261,14 +261,14 @@ export default function ExportPanel(p: ExportPanelProps) {
       <fieldset className="mt-4" disabled={running || passes}>
         <legend className="field-label">Size</legend>
         <div className="flex flex-wrap items-center gap-3">
-          <select className="field-input w-auto" aria-label="Size" value={sizeKind} onChange={(e) => setSizeKind(e.target.value as SizeKind)}>
+          <select className="field-input w-auto" aria-label="Size" value={passes ? 'full' : sizeKind} onChange={(e) => setSizeKind(e.target.value as SizeKind)}>
             <option value="full">
               Plate resolution {outputSize({ kind: 'full' }, p.plateWidth, p.plateHeight).width}×{outputSize({ kind: 'full' }, p.plateWidth, p.plateHeight).height}
             </option>
             <option value="half">Half</option>
             <option value="width">Width…</option>
           </select>
-          {sizeKind === 'width' && (
+          {sizeKind === 'width' && !passes && (
             <input className="field-input w-28" type="number" min={64} max={3840} step={2} aria-label="Width in pixels" value={width} onChange={(e) => setWidth(Number(e.target.value))} />
           )}
           <span className="text-sm text-ink-muted" data-testid="export-size">
