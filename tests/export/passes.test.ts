@@ -8,7 +8,7 @@ import { createSolver, type FrameStats } from '../../src/lib/sim/solver';
 import { LookRenderer, type ParticleFrame } from '../../src/lib/render/looks';
 import { layoutView } from '../../src/lib/render/view';
 import { lookOptionsFromStats } from '../../src/lib/export/source';
-import { encodeRgbaPng, liquidCoverage, matteRgba, passEntryName, passesReadme, straightRgba, zipPasses, PASSES } from '../../src/lib/export/passes';
+import { encodeMattePng, encodeRgbaPng, liquidCoverage, matteRgba, passEntryName, passesReadme, straightRgba, zipPasses, PASSES } from '../../src/lib/export/passes';
 import type { ExportLabels } from '../../src/lib/export/layout';
 import { sceneFrom } from '../sim/helpers/scenes';
 
@@ -80,13 +80,13 @@ describe('passes ZIP', () => {
     for (const f of [1001, 1002]) {
       if (f > 1001) sim.stepFrame();
       const frame = frameOf(sim);
-      const matte = matteRgba(liquidCoverage(looks.densityField(frame, layout.toView, options), plate.width, plate.height));
+      const coverage = liquidCoverage(looks.densityField(frame, layout.toView, options), plate.width, plate.height);
       const rgba = straightRgba(looks.render('surface', frame, layout.toView, options));
-      for (const [pass, px] of [['rgba', rgba], ['matte', matte]] as const) {
-        const name = passEntryName(labels, pass, f);
-        files.push({ name, png: encodeRgbaPng(plate.width, plate.height, px) });
-        expected.set(name, px);
-      }
+      files.push({ name: passEntryName(labels, 'rgba', f), png: encodeRgbaPng(plate.width, plate.height, rgba) });
+      expected.set(passEntryName(labels, 'rgba', f), rgba);
+      // the matte is a grey PNG: pngjs gives it back as opaque RGBA with grey = coverage
+      files.push({ name: passEntryName(labels, 'matte', f), png: encodeMattePng(plate.width, plate.height, coverage) });
+      expected.set(passEntryName(labels, 'matte', f), matteRgba(coverage));
     }
     const zip = zipPasses(passesReadme(labels, 1001, 1002, plate.width, plate.height), files);
     const out = unzipSync(zip);

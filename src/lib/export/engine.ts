@@ -169,7 +169,7 @@ async function runPasses(req: ExportRequest, tracker: ProgressTracker, onProgres
     const particles = await req.source.frameAt(f);
     if (particles.count > 0) passes.liquidCoverage(looks.densityField(particles, toView, options), req.width, req.height, coverage);
     else coverage.fill(0);
-    files.push({ name: passes.passEntryName(req.labels, 'matte', f), png: passes.encodeRgbaPng(req.width, req.height, passes.matteRgba(coverage)) });
+    files.push({ name: passes.passEntryName(req.labels, 'matte', f), png: passes.encodeMattePng(req.width, req.height, coverage) });
     const rgba = passes.straightRgba(looks.render(req.look, particles, toView, options));
     files.push({ name: passes.passEntryName(req.labels, 'rgba', f), png: passes.encodeRgbaPng(req.width, req.height, rgba) });
     onProgress(tracker.report('rendering', (f - req.first + 1) / total, `frame ${f - req.first + 1} of ${total}`));

@@ -48,7 +48,7 @@ export function liquidCoverage(field: DensityField, width: number, height: numbe
   return out;
 }
 
-/** The matte pass as opaque RGBA: grey = coverage. */
+/** The matte pass as opaque RGBA: grey = coverage (what a PNG decoder gives back for the grey PNG). */
 export function matteRgba(coverage: Uint8Array): Uint8Array {
   const out = new Uint8Array(coverage.length * 4);
   for (let p = 0; p < coverage.length; p++) {
@@ -77,9 +77,14 @@ export function straightRgba(img: PixelImage): Uint8Array {
   return out;
 }
 
-/** RGBA bytes → PNG bytes (8 bits a channel, with alpha). */
+/** RGBA bytes → PNG bytes (8 bits a channel, with alpha; fast deflate: the ZIP time is mostly PNG encoding). */
 export function encodeRgbaPng(width: number, height: number, rgba: Uint8Array): Uint8Array {
-  return encode({ width, height, data: rgba, channels: 4, depth: 8 });
+  return encode({ width, height, data: rgba, channels: 4, depth: 8 }, { zlib: { level: 1 } });
+}
+
+/** The matte pass as a greyscale PNG (grey = coverage, 8 bits): a quarter of the RGBA bytes to encode. */
+export function encodeMattePng(width: number, height: number, coverage: Uint8Array): Uint8Array {
+  return encode({ width, height, data: coverage, channels: 1, depth: 8 }, { zlib: { level: 1 } });
 }
 
 /** The README.txt of a passes ZIP: which passes it holds, how the files are named, the frames and size. */
