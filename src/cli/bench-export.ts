@@ -78,10 +78,10 @@ async function main() {
     await page.goto(`${ORIGIN}${BASE}index.html`);
     await page.waitForFunction(() => typeof window.tidemarkExportBench === 'function');
     const results: Record<string, unknown>[] = [];
-    for (const format of ['gif', 'mp4'] as const) {
+    for (const format of ['gif', 'mp4', 'passes'] as const) {
       const r = await page.evaluate((o) => window.tidemarkExportBench(o), { format, width: WIDTH, height: HEIGHT, frames: FRAMES, look: 'surface' as const });
       console.log(
-        `${format.toUpperCase()}: ${r.frameCount} frames ${WIDTH}×${HEIGHT} in ${r.totalSeconds.toFixed(1)} s ` +
+        `${format === 'passes' ? 'Comp passes ZIP' : format.toUpperCase()}: ${r.frameCount} frames ${WIDTH}×${HEIGHT} in ${r.totalSeconds.toFixed(1)} s ` +
           `(rendering ${r.renderingSeconds.toFixed(1)} s = ${((r.renderingSeconds * 1000) / r.frameCount).toFixed(0)} ms/frame, encoding ${r.encodingSeconds.toFixed(1)} s), ` +
           `${(r.bytes / 1e6).toFixed(2)} MB; font and encoder start-up ${(r.totalSeconds - r.renderingSeconds - r.encodingSeconds).toFixed(1)} s`,
       );

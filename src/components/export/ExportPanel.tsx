@@ -107,8 +107,10 @@ export default function ExportPanel(p: ExportPanelProps) {
   }
   const withHandles = rangeWithHandles(p);
   const sizeChoice: SizeChoice = sizeKind === 'width' ? { kind: 'width', width } : { kind: sizeKind };
-  const size = outputSize(sizeChoice, p.plateWidth, p.plateHeight);
-  const frameCount = range.last - range.first + 1 + (slate ? 1 : 0);
+  // Comp passes go out at plate resolution, without plate, slate or burn-ins (they are laid over the plate in comp).
+  const passes = format === 'passes';
+  const size = outputSize(passes ? { kind: 'full' } : sizeChoice, p.plateWidth, p.plateHeight);
+  const frameCount = range.last - range.first + 1 + (slate && !passes ? 1 : 0);
   const running = run.kind === 'running';
 
   async function start() {
@@ -125,7 +127,7 @@ export default function ExportPanel(p: ExportPanelProps) {
         if (!res.ok) throw new Error(body?.error?.message ?? `Could not open the baked clip (${res.status})`);
         return body;
       });
-      if (plateOn && p.plate) {
+      if (plateOn && p.plate && !passes) {
         const { openPlate } = await import('~/lib/plate');
         const res = await fetch(`/api/studios/${p.studioId}/plates/${p.plate.assetId}`);
         const body = await res.json();
@@ -156,8 +158,8 @@ export default function ExportPanel(p: ExportPanelProps) {
           width: size.width,
           height: size.height,
           look,
-          slate,
-          burnIns,
+          slate: slate && !passes,
+          burnIns: burnIns && !passes,
           loop,
           source,
           plate: plateSource,
@@ -180,7 +182,7 @@ export default function ExportPanel(p: ExportPanelProps) {
             format,
             bytes: result.bytes,
             fileName: result.fileName,
-            options: { first: range.first, last: range.last, width: size.width, height: size.height, look, slate, burnIns, plate: !!plateSource, ...(format === 'gif' ? { loop } : {}), frameCount: result.frameCount },
+            options: { first: range.first, last: range.last, width: size.width, height: size.height, look, slate: slate && !passes, burnIns: burnIns && !passes, plate: !!plateSource, ...(format === 'gif' ? { loop } : {}), frameCount: result.frameCount },
           },
           (f) => setRun({ kind: 'running', report: { stage: 'uploading', stageFraction: f, fraction: 0.97 + 0.03 * f, etaSeconds: null, detail: `${Math.round(f * 100)} %` } }),
           controller.signal,
@@ -249,17 +251,24 @@ export default function ExportPanel(p: ExportPanelProps) {
         {rangeError && <p className="field-error">{rangeError}</p>}
       </fieldset>
 
-      <fieldset className="mt-4" disabled={running}>
+      {passes && (
+        <p className="mt-2 text-sm text-ink-muted" data-testid="passes-note">
+          Two PNGs a frame at plate resolution, named by frame number: the splash over transparency and a white-on-black liquid
+          matte, with a README.txt naming them. No plate, slate or burn-ins.
+        </p>
+      )}
+
+      <fieldset className="mt-4" disabled={running || passes}>
         <legend className="field-label">Size</legend>
         <div className="flex flex-wrap items-center gap-3">
-          <select className="field-input w-auto" aria-label="Size" value={sizeKind} onChange={(e) => setSizeKind(e.target.value as SizeKind)}>
+          <select className="field-input w-auto" aria-label="Size" value={passes ? 'full' : sizeKind} onChange={(e) => setSizeKind(e.target.value as SizeKind)}>
             <option value="full">
               Plate resolution {outputSize({ kind: 'full' }, p.plateWidth, p.plateHeight).width}×{outputSize({ kind: 'full' }, p.plateWidth, p.plateHeight).height}
             </option>
             <option value="half">Half</option>
             <option value="width">Width…</option>
           </select>
-          {sizeKind === 'width' && (
+          {sizeKind === 'width' && !passes && (
             <input className="field-input w-28" type="number" min={64} max={3840} step={2} aria-label="Width in pixels" value={width} onChange={(e) => setWidth(Number(e.target.value))} />
           )}
           <span className="text-sm text-ink-muted" data-testid="export-size">
@@ -281,13 +290,13 @@ export default function ExportPanel(p: ExportPanelProps) {
           </select>
         </label>
         <label className="flex items-center gap-1.5">
-          <input type="checkbox" checked={plateOn} disabled={!p.plate} onChange={(e) => setPlateOn(e.target.checked)} /> Plate underlay
+          <input type="checkbox" checked={plateOn && !passes} disabled={!p.plate || passes} onChange={(e) => setPlateOn(e.target.checked)} /> Plate underlay
         </label>
         <label className="flex items-center gap-1.5">
-          <input type="checkbox" checked={slate} onChange={(e) => setSlate(e.target.checked)} /> Slate first
+          <input type="checkbox" checked={slate && !passes} disabled={passes} onChange={(e) => setSlate(e.target.checked)} /> Slate first
         </label>
         <label className="flex items-center gap-1.5">
-          <input type="checkbox" checked={burnIns} onChange={(e) => setBurnIns(e.target.checked)} /> Burn-ins
+          <input type="checkbox" checked={burnIns && !passes} disabled={passes} onChange={(e) => setBurnIns(e.target.checked)} /> Burn-ins
         </label>
         {format === 'gif' && (
           <label className="flex items-center gap-1.5">
@@ -298,7 +307,7 @@ export default function ExportPanel(p: ExportPanelProps) {
 
       <div className="mt-5 flex items-center gap-3">
         <button type="button" className="btn-primary" disabled={running || !!rangeError} onClick={() => void start()}>
-          Export {format === 'zip' ? 'PNG ZIP' : format.toUpperCase()}
+          Export {format === 'zip' ? 'PNG ZIP' : passes ? 'comp passes' : format.toUpperCase()}
         </button>
         {running && (
           <button type="button" className="btn-quiet" onClick={() => abortRef.current?.abort()}>
@@ -352,7 +361,7 @@ export default function ExportPanel(p: ExportPanelProps) {
           {stored.map((e) => (
             <li key={e.id} className="flex flex-wrap items-baseline justify-between gap-2 py-2">
               <span>
-                <span className="font-medium">{e.format.toUpperCase()}</span> {e.width}×{e.height} · {bytesLabel(e.byteSize)}
+                <span className="font-medium">{e.format === 'passes' ? 'Comp passes' : e.format.toUpperCase()}</span> {e.width}×{e.height} · {bytesLabel(e.byteSize)}
                 <span className="block text-ink-muted">
                   {e.createdBy ?? 'Someone'} · {whenLabel(e.createdAt)}
                 </span>

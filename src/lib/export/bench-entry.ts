@@ -1,4 +1,4 @@
-// Browser entry of `npm run bench` (src/cli/bench-export.ts): exports a clip served at ./clip.bin as GIF and MP4 with
+// Browser entry of `npm run bench` (src/cli/bench-export.ts): exports a clip served at ./clip.bin as GIF, MP4 and comp passes, with
 // slate and burn-ins, and returns the timings. Not part of the app bundle.
 import { ClipReader } from '../clip/decode';
 import { runExport } from './engine';

@@ -49,11 +49,13 @@ const STAGE_WEIGHTS: Record<ExportFormat, { rendering: number; encoding: number 
   gif: { rendering: 0.3, encoding: 0.67 },
   mp4: { rendering: 0.35, encoding: 0.62 },
   zip: { rendering: 0.9, encoding: 0.07 },
+  passes: { rendering: 0.9, encoding: 0.07 },
 };
 
 /** Runs one export; `onProgress` gets a report after every frame and encoder step. */
 export async function runExport(req: ExportRequest, onProgress: (r: ProgressReport) => void, signal: AbortSignal): Promise<ExportResult> {
   const tracker = new ProgressTracker({ preparing: 0.03, ...STAGE_WEIGHTS[req.format], uploading: 0 });
+  if (req.format === 'passes') return runPasses(req, tracker, onProgress, signal);
   onProgress(tracker.report('preparing', 0, 'Loading the font'));
   if (req.slate || req.burnIns) await loadExportFont();
   let mp4: typeof import('./mp4') | null = null;
@@ -138,5 +140,50 @@ export async function runExport(req: ExportRequest, onProgress: (r: ProgressRepo
     fileName: exportFileName(req.labels, req.first, req.last, req.format),
     frameCount: total,
     seconds: { rendering: (t1 - t0) / 1000, encoding: (t2 - t1) / 1000 },
+  };
+}
+
+/**
+ * The comp passes (passes.ts): every frame's splash with alpha and its liquid matte at the request's size (the panel
+ * asks for plate resolution), with no plate, slate or burn-ins: a compositor lays them over the plate themselves.
+ */
+async function runPasses(req: ExportRequest, tracker: ProgressTracker, onProgress: (r: ProgressReport) => void, signal: AbortSignal): Promise<ExportResult> {
+  const [{ LookRenderer }, { layoutView }, passes] = await Promise.all([import('../render/looks'), import('../render/view'), import('./passes')]);
+  const h = req.source.header;
+  const { toView } = layoutView({
+    viewWidth: req.width,
+    viewHeight: req.height,
+    tankWidth: h.tankWidth,
+    tankHeight: h.tankHeight,
+    plate: req.plateSize,
+    metresPerPixel: req.plateSize ? req.metresPerPixel : null,
+  });
+  const options = { ...req.source.lookOptions, tank: { width: h.tankWidth, height: h.tankHeight } };
+  const looks = new LookRenderer(req.width, req.height);
+  const coverage = new Uint8Array(req.width * req.height);
+  const files: { name: string; png: Uint8Array }[] = [];
+  const total = req.last - req.first + 1;
+  const t0 = performance.now();
+  for (let f = req.first; f <= req.last; f++) {
+    await yieldToPage(signal);
+    const particles = await req.source.frameAt(f);
+    if (particles.count > 0) passes.liquidCoverage(looks.densityField(particles, toView, options), req.width, req.height, coverage);
+    else coverage.fill(0);
+    files.push({ name: passes.passEntryName(req.labels, 'matte', f), png: passes.encodeMattePng(req.width, req.height, coverage) });
+    const rgba = passes.straightRgba(looks.render(req.look, particles, toView, options));
+    files.push({ name: passes.passEntryName(req.labels, 'rgba', f), png: passes.encodeRgbaPng(req.width, req.height, rgba) });
+    onProgress(tracker.report('rendering', (f - req.first + 1) / total, `frame ${f - req.first + 1} of ${total}`));
+  }
+  const t1 = performance.now();
+  await yieldToPage(signal);
+  onProgress(tracker.report('encoding', 0, 'zipping'));
+  const bytes = passes.zipPasses(passes.passesReadme(req.labels, req.first, req.last, req.width, req.height), files);
+  onProgress(tracker.report('encoding', 1, 'done'));
+  return {
+    bytes,
+    contentType: FORMAT_TYPES.passes,
+    fileName: exportFileName(req.labels, req.first, req.last, 'passes'),
+    frameCount: total,
+    seconds: { rendering: (t1 - t0) / 1000, encoding: (performance.now() - t1) / 1000 },
   };
 }

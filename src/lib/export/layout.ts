@@ -4,11 +4,18 @@ import { rateInfo, rateText, sourceTimecodeAt } from '../timecode';
 import { versionLabel } from '../vocab';
 import { rangeWithHandles, type StoredHandles } from '../library/handles';
 
-export const EXPORT_FORMATS = ['gif', 'mp4', 'zip'] as const;
+export const EXPORT_FORMATS = ['gif', 'mp4', 'zip', 'passes'] as const;
 export type ExportFormat = (typeof EXPORT_FORMATS)[number];
 
-export const FORMAT_LABELS: Record<ExportFormat, string> = { gif: 'Animated GIF', mp4: 'MP4 (H.264)', zip: 'PNG frames (ZIP)' };
-export const FORMAT_TYPES: Record<ExportFormat, string> = { gif: 'image/gif', mp4: 'video/mp4', zip: 'application/zip' };
+export const FORMAT_LABELS: Record<ExportFormat, string> = {
+  gif: 'Animated GIF',
+  mp4: 'MP4 (H.264)',
+  zip: 'PNG frames (ZIP)',
+  passes: 'Comp passes: splash with alpha + liquid matte (PNG ZIP)',
+};
+export const FORMAT_TYPES: Record<ExportFormat, string> = { gif: 'image/gif', mp4: 'video/mp4', zip: 'application/zip', passes: 'application/zip' };
+/** The file name extension of each format (the comp passes are a ZIP too). */
+export const FORMAT_EXTENSIONS: Record<ExportFormat, string> = { gif: 'gif', mp4: 'mp4', zip: 'zip', passes: 'zip' };
 
 /** The caution shown wherever a preview could be taken for a plan (DEVELOPERS.md, Safety). */
 export const CAUTION =
@@ -270,8 +277,8 @@ export function slateLayout(labels: ExportLabels, first: number, last: number, w
 /** A file name for an export: SHOW_SHOT_v003_1001-1048.gif (only letters, digits, '-', '_' and '.'). */
 export function exportFileName(labels: Pick<ExportLabels, 'showCode' | 'shotCode' | 'versionNumber'>, first: number, last: number, format: ExportFormat): string {
   const clean = (s: string) => s.replace(/[^A-Za-z0-9_-]+/g, '-').replace(/^-+|-+$/g, '');
-  const parts = [labels.showCode ? clean(labels.showCode) : '', clean(labels.shotCode), versionLabel(labels.versionNumber), `${first}-${last}`].filter(Boolean);
-  return `${parts.join('_')}.${format}`;
+  const parts = [labels.showCode ? clean(labels.showCode) : '', clean(labels.shotCode), versionLabel(labels.versionNumber), `${first}-${last}`, format === 'passes' ? 'passes' : ''].filter(Boolean);
+  return `${parts.join('_')}.${FORMAT_EXTENSIONS[format]}`;
 }
 
 /** The name of one PNG in a frame ZIP: SHOT_v003.1001.png (the slate is SHOT_v003.slate.png). */

@@ -9,7 +9,7 @@ import { HttpError } from './http';
 import type { StudioAccess } from './authz';
 import { audit } from './audit';
 import { deleteObject, getObject, headObject, presignGet, presignPut } from './storage';
-import { FORMAT_TYPES, type ExportFormat } from '../export/layout';
+import { FORMAT_EXTENSIONS, FORMAT_TYPES, type ExportFormat } from '../export/layout';
 import { MAX_EXPORT_BYTES, MB, type ExportStartBody } from '../export/schemas';
 
 const UPLOAD_SECONDS = 900;
@@ -43,7 +43,7 @@ export async function startExport(access: StudioAccess, version: VersionRow, bod
       byteSize: `must be at most ${MAX_EXPORT_BYTES} bytes`,
     });
   }
-  const ext = body.format;
+  const ext = FORMAT_EXTENSIONS[body.format];
   if (!body.fileName.toLowerCase().endsWith(`.${ext}`)) throw new HttpError('validation_failed', `fileName: must end with .${ext}`, { fileName: `must end with .${ext}` });
   const contentType = FORMAT_TYPES[body.format];
   const storageKey = `studios/${access.studioId}/versions/${version.id}/exports/${randomBytes(12).toString('hex')}.${ext}`;
@@ -95,7 +95,7 @@ export async function completeExport(access: StudioAccess, version: VersionRow, 
   };
   if (head.size !== meta.declaredSize) throw await refuse(`The stored file is ${head.size} bytes, not the ${meta.declaredSize} declared: export again`, { byteSize: 'does not match the uploaded file' });
   const first = await getObject(asset.storageKey, [0, Math.min(head.size, 16) - 1]);
-  if (!magicMatches(format, first)) throw await refuse(`The uploaded file is not a ${format.toUpperCase()} file`, { file: `content is not ${format.toUpperCase()}` });
+  if (!magicMatches(format, first)) throw await refuse(`The uploaded file is not a ${FORMAT_EXTENSIONS[format].toUpperCase()} file`, { file: `content is not ${FORMAT_EXTENSIONS[format].toUpperCase()}` });
   await db()
     .update(assets)
     .set({ byteSize: head.size, meta: { ...meta, state: 'ready' } })
@@ -166,4 +166,4 @@ export async function readyExportOf(studioId: number, versionId: number, assetId
   return row && metaOf(row)?.state === 'ready' ? row : null;
 }
 
-export const exportFileNameOf = (a: AssetRow) => metaOf(a)?.fileName ?? `export.${a.format}`;
+export const exportFileNameOf = (a: AssetRow) => metaOf(a)?.fileName ?? `export.${FORMAT_EXTENSIONS[a.format as ExportFormat] ?? a.format}`;
