@@ -36,7 +36,7 @@ export default defineConfig({
   telemetry: false,
   // Astro hashes the inline scripts and styles it emits (island loader, hydration) into the page's
   // Content-Security-Policy header; src/middleware.ts adds the other directives.
-  experimental: { csp: { algorithm: 'SHA-256' } },
+
   vite: {
     plugins: [tailwindcss(), tidemarkBoot()],
     optimizeDeps: { exclude: ['@ffmpeg/ffmpeg', '@ffmpeg/util'] },

@@ -34,8 +34,9 @@ export async function openBrowser(): Promise<{ context: BrowserContext; page: Pa
     if (/Content Security Policy/i.test(msg.text())) {
       cspViolations.push(msg.text());
       console.error(`[csp] ${msg.text()}`);
-    }
+    } else if (msg.type() === 'error') console.error(`[browser] ${msg.text()}`);
   });
+  context.on('weberror', (e) => console.error(`[browser] uncaught: ${e.error().message}`));
   const page = context.pages()[0] ?? (await context.newPage());
   return {
     context,

@@ -3,6 +3,8 @@
 // guides and the live preview's particles (one image a frame, never a sprite per particle). Pointer input goes to the
 // active tool in tank metres; wheel zooms, middle button or Space-drag pans. Pixi only draws: all state is elsewhere.
 import { useEffect, useRef, useState } from 'react';
+// Pixi's shader code without eval, so the page's Content-Security-Policy needs no 'unsafe-eval'.
+import 'pixi.js/unsafe-eval';
 import { Application, BufferImageSource, Container, Graphics, Sprite, Text, Texture } from 'pixi.js';
 import type { EditorStore } from '~/lib/editor/store';
 import type { PreviewController } from './preview-controller';

@@ -4,6 +4,8 @@
 // canvas the compositor scales up), so software WebGL never uploads a full-size image. The plate is a DOM element (the plate's own image or
 // canvas) under the transparent WebGL canvas, as in the editor: the browser composites it, so software WebGL never
 // draws a full-view textured quad for it (≈ 60 ms at 1920×1080 on SwiftShader) nor re-uploads a video plate's frame.
+// Pixi's shader code without eval, so the page's Content-Security-Policy needs no 'unsafe-eval'.
+import 'pixi.js/unsafe-eval';
 import { Application } from 'pixi.js';
 import type { LookOptions, ParticleFrame, RenderLook } from '~/lib/render/looks';
 import { GpuLooks } from './gpuLooks';

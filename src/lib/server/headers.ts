@@ -1,5 +1,6 @@
 // Security headers on every answer: a Content-Security-Policy (scripts only from this origin or with the hashes Astro
 // computed for its own inline scripts), no framing anywhere, no content sniffing, HSTS when the app is on https.
+import { createHash } from 'node:crypto';
 import { config } from './config';
 import { presignGet } from './storage';
 
@@ -55,17 +56,42 @@ function objectStoreOrigin(): Promise<string> {
   return storeOrigin;
 }
 
+function setHeaders(h: Headers, policy: string) {
+  h.set('content-security-policy', policy);
+  h.set('x-content-type-options', 'nosniff');
+  h.set('x-frame-options', 'DENY');
+  if (!h.has('referrer-policy')) h.set('referrer-policy', 'same-origin');
+  if (config.secureCookies) h.set('strict-transport-security', 'max-age=31536000; includeSubDomains');
+}
+
+const sha256 = (text: string) => `'sha256-${createHash('sha256').update(text).digest('base64')}'`;
+
+/** `script-src`/`style-src` hashes of a page's inline scripts and style elements, in the form pagePolicy reads. */
+export function inlineHashPolicy(html: string): string {
+  const scripts = [...html.matchAll(/<script(?![^>]*\bsrc=)[^>]*>([\s\S]*?)<\/script>/g)].map((m) => m[1]).filter((c) => c.trim());
+  const styles = [...html.matchAll(/<style[^>]*>([\s\S]*?)<\/style>/g)].map((m) => m[1]);
+  return `script-src ${[...new Set(scripts.map(sha256))].join(' ')}; style-src ${[...new Set(styles.map(sha256))].join(' ')}`;
+}
+
 /** Sets the security headers on an answer (copying it first when its headers are immutable, as on redirects). */
 export async function withSecurityHeaders(res: Response): Promise<Response> {
-  const isPage = (res.headers.get('content-type') ?? '').startsWith('text/html');
-  const policy = isPage ? pagePolicy(res.headers.get('content-security-policy'), await objectStoreOrigin()) : NON_PAGE_POLICY;
-  const set = (h: Headers) => {
-    h.set('content-security-policy', policy);
-    h.set('x-content-type-options', 'nosniff');
-    h.set('x-frame-options', 'DENY');
-    if (!h.has('referrer-policy')) h.set('referrer-policy', 'same-origin');
-    if (config.secureCookies) h.set('strict-transport-security', 'max-age=31536000; includeSubDomains');
-  };
+  const type = res.headers.get('content-type') ?? '';
+  const isPage = type.startsWith('text/html');
+  // A dedicated worker runs under the policy of its own script's answer, not the page's: the preview worker
+  // fetches nothing itself today, but a worker script gets the page policy (without inline hashes: it has none).
+  const isScript = /^(text|application)\/javascript/.test(type);
+  if (isPage && res.body) {
+    // The page's own inline scripts and styles (Astro's island loader and hydration scripts) are allowed by their
+    // SHA-256 hashes, computed here from the page as sent: nothing else inline runs.
+    const html = await res.text();
+    const policy = pagePolicy(inlineHashPolicy(html), await objectStoreOrigin());
+    const copy = new Response(html, { status: res.status, statusText: res.statusText, headers: new Headers(res.headers) });
+    copy.headers.delete('content-length');
+    setHeaders(copy.headers, policy);
+    return copy;
+  }
+  const policy = isPage || isScript ? pagePolicy(null, await objectStoreOrigin()) : NON_PAGE_POLICY;
+  const set = (h: Headers) => setHeaders(h, policy);
   try {
     set(res.headers);
     return res;
