@@ -6,6 +6,7 @@ import { eq } from 'drizzle-orm';
 import type { Page } from 'playwright-core';
 import { openBrowser, screenshot, signInAs } from '../support/browser';
 import { makeStudio, unique, type TestStudio } from '../support/app';
+import { uploadPngPlate } from '../support/plates';
 import { db, closeDb } from '../../src/lib/server/db';
 import { shots, shows } from '../../src/lib/server/db/schema';
 import { rooftopPoolPlate, encodePng } from '../../src/lib/server/demo-plates';
@@ -23,12 +24,7 @@ beforeAll(async () => {
   // A plate, uploaded the way the app does it, and its scale: 1.6 m across the plate's 960 px.
   const bytes = rooftopPoolPlate(960, 540);
   const artist = studio.members.artist.client;
-  const start = await artist.post(`/api/studios/${studio.id}/shots/${shotId}/plates`, { fileName: 'plate.png', contentType: 'image/png', byteSize: bytes.length });
-  expect(start.status, JSON.stringify(start.body)).toBe(201);
-  const put = await fetch(start.body.upload.url, { method: 'PUT', body: Buffer.from(bytes), headers: start.body.upload.headers });
-  expect(put.status).toBe(200);
-  const done = await artist.post(`/api/studios/${studio.id}/plates/${start.body.assetId}/complete`, {});
-  expect(done.status, JSON.stringify(done.body)).toBeLessThan(300);
+  await uploadPngPlate(studio, shotId, bytes, 'plate.png');
   await db().update(shots).set({ metresPerPixel: 1.6 / 960 }).where(eq(shots.id, shotId));
 });
 afterAll(closeDb);

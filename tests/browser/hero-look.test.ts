@@ -2,9 +2,10 @@
 // baked and opened on its version page at a mid-clip frame. The screenshot in test-results/screenshots/ is what a
 // client would judge: the can drawn where the solver put it, the pool water in its own colour over the plate.
 import { describe, it, expect, beforeAll, afterAll } from 'vitest';
-import { PNG } from 'pngjs';
-import { openBrowser, screenshot, signInAs } from '../support/browser';
+import { countPixels, openBrowser, openPlayerAt, screenshot, signInAs } from '../support/browser';
+import { bakeAndWait } from '../support/bake';
 import { makeStudio, unique, type TestStudio } from '../support/app';
+import { uploadPngPlate } from '../support/plates';
 import { closeDb, db } from '../../src/lib/server/db';
 import { shots, shows } from '../../src/lib/server/db/schema';
 import { demoScene } from '../../src/lib/server/seed';
@@ -26,36 +27,16 @@ beforeAll(async () => {
   const demo = demoScene('CNB_020', 25, FIRST, LAST)!;
 
   const png = rooftopPoolPlate(PLATE.width, PLATE.height);
-  const start = await artist.post(`/api/studios/${studio.id}/shots/${shotId}/plates`, { fileName: 'rooftop-pool.png', contentType: 'image/png', byteSize: png.length });
-  expect(start.status, JSON.stringify(start.body)).toBe(201);
-  const put = await fetch(start.body.upload.url, { method: 'PUT', body: Buffer.from(png), headers: start.body.upload.headers });
-  expect(put.status).toBe(200);
-  expect((await artist.post(`/api/studios/${studio.id}/plates/${start.body.assetId}/complete`, {})).status).toBe(200);
+  await uploadPngPlate(studio, shotId, png, 'rooftop-pool.png');
   expect((await artist.post(`/api/studios/${studio.id}/shots/${shotId}/scale`, { pixels: PLATE.width, metres: demo.tankWidth })).status).toBe(200);
 
   const saved = await artist.post(`/api/shots/${shotId}/versions`, { scene: demo.scene, comment: 'Hero drop' });
   expect(saved.status, JSON.stringify(saved.body)).toBe(201);
   versionId = saved.body.version.id;
-  const bake = await artist.post(`/api/versions/${versionId}/bake`, {});
-  expect([200, 202]).toContain(bake.status);
-  const until = Date.now() + 420_000;
-  for (;;) {
-    const p = await artist.get(`/api/versions/${versionId}/bake`);
-    if (p.body.bakeState === 'baked') break;
-    if (p.body.bakeState === 'failed') throw new Error(`bake failed: ${JSON.stringify(p.body)}`);
-    if (Date.now() > until) throw new Error(`bake not done: ${JSON.stringify(p.body)}`);
-    await new Promise((r) => setTimeout(r, 1000));
-  }
+  await bakeAndWait(artist, versionId, 420_000);
 }, 480_000);
 afterAll(closeDb);
 
-/** Pixels of a PNG screenshot that pass a colour test. */
-function countPixels(png: Buffer, test: (r: number, g: number, b: number) => boolean): number {
-  const img = PNG.sync.read(png);
-  let n = 0;
-  for (let p = 0; p < img.data.length; p += 4) if (test(img.data[p], img.data[p + 1], img.data[p + 2])) n++;
-  return n;
-}
 
 // The demo can's red (#D23C32, src/lib/server/seed.ts) and its darker rim; nothing on the painted plate is that red.
 const canRed = (r: number, g: number, b: number) => r > 150 && g < 90 && b < 90;
@@ -69,9 +50,7 @@ describe('the hero demo shot on its version page', () => {
       page.on('pageerror', (e) => errors.push(e.message));
       await signInAs(page, studio.members.artist.email, studio.members.artist.password);
       await page.waitForURL((url) => !url.pathname.startsWith('/sign-in'));
-      await page.goto(`/studios/${studio.slug}/versions/${versionId}?frame=${MID}`);
-      await page.locator('[data-testid="player"][data-status="ready"]').waitFor({ timeout: 60_000 });
-      await expect.poll(async () => page.getByTestId('player').getAttribute('data-drawn-frame'), { timeout: 30_000 }).toBe(String(MID));
+      await openPlayerAt(page, studio.slug, versionId, MID);
 
       // The looks say what they show; the liquid look is the one open.
       const looks = page.getByRole('group', { name: 'Render look' });

@@ -2,8 +2,8 @@
 // demo seed) baked and opened in the player: the two liquids keep their colours on the GPU path, the steps (walls)
 // are outlined, and the player's wall button hides them for a plate that already shows them.
 import { describe, it, expect, beforeAll, afterAll } from 'vitest';
-import { PNG } from 'pngjs';
-import { openBrowser, screenshot, signInAs } from '../support/browser';
+import { countPixels, openBrowser, openPlayerAt, screenshot, signInAs } from '../support/browser';
+import { bakeAndWait } from '../support/bake';
 import { makeStudio, unique, type TestStudio } from '../support/app';
 import { closeDb, db } from '../../src/lib/server/db';
 import { shots, shows } from '../../src/lib/server/db/schema';
@@ -23,23 +23,10 @@ beforeAll(async () => {
   const saved = await artist.post(`/api/shots/${Number(shot.insertId)}/versions`, { scene: demoScene('LHK_0300', 24, FIRST, LAST)!.scene, comment: 'Paint down the steps' });
   expect(saved.status, JSON.stringify(saved.body)).toBe(201);
   versionId = saved.body.version.id;
-  expect([200, 202]).toContain((await artist.post(`/api/versions/${versionId}/bake`, {})).status);
-  const until = Date.now() + 420_000;
-  for (;;) {
-    const p = await artist.get(`/api/versions/${versionId}/bake`);
-    if (p.body.bakeState === 'baked') break;
-    if (p.body.bakeState === 'failed' || Date.now() > until) throw new Error(`bake: ${JSON.stringify(p.body)}`);
-    await new Promise((r) => setTimeout(r, 1000));
-  }
+  await bakeAndWait(artist, versionId, 420_000);
 }, 480_000);
 afterAll(closeDb);
 
-function countPixels(png: Buffer, test: (r: number, g: number, b: number) => boolean): number {
-  const img = PNG.sync.read(png);
-  let n = 0;
-  for (let p = 0; p < img.data.length; p += 4) if (test(img.data[p], img.data[p + 1], img.data[p + 2])) n++;
-  return n;
-}
 // Paint (#C8341E shaded) is red over blue; the water (#3A8FB7 shaded) blue over red; the wall line is a pale sand.
 const paint = (r: number, g: number, b: number) => r > 90 && r > 2 * b && r > 1.8 * g;
 const water = (r: number, g: number, b: number) => b > 80 && b > r + 40;
@@ -54,11 +41,7 @@ describe('two liquids and walls in the player', () => {
       page.on('pageerror', (e) => errors.push(e.message));
       await signInAs(page, studio.members.artist.email, studio.members.artist.password);
       await page.waitForURL((url) => !url.pathname.startsWith('/sign-in'));
-      await page.goto(`/studios/${studio.slug}/versions/${versionId}?frame=${SHOWN}`);
-      await page.locator('[data-testid="player"][data-status="ready"]').waitFor({ timeout: 60_000 });
-      await expect.poll(async () => page.getByTestId('player').getAttribute('data-drawn-frame'), { timeout: 30_000 }).toBe(String(SHOWN));
-      await page.evaluate(() => window.scrollTo(0, 0));
-      await page.waitForTimeout(300);
+      await openPlayerAt(page, studio.slug, versionId, SHOWN);
       await screenshot(page, 'liquids-look-two-liquids');
       const view = await page.getByTestId('player-view').screenshot({ path: 'test-results/screenshots/liquids-look-two-liquids-view.png' });
       const box = (await page.getByTestId('player-view').boundingBox())!;

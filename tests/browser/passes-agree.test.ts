@@ -4,15 +4,15 @@
 // the README and one splash-with-alpha and one matte PNG at plate resolution; the player's liquid coverage is within
 // 1 % of the frame of the matte's, and the liquid interior has the same colour in both.
 import { describe, it, expect, beforeAll, afterAll } from 'vitest';
-import { mkdirSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
-import { mkdtempSync } from 'node:fs';
+import { mkdirSync, mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import path from 'node:path';
 import { eq } from 'drizzle-orm';
 import { unzipSync } from 'fflate';
 import { PNG } from 'pngjs';
 import { makeStudio, unique, type TestStudio } from '../support/app';
-import { SHOTS_DIR, openBrowser, screenshot, signInAs } from '../support/browser';
+import { SHOTS_DIR, openBrowser, openPlayerAt, screenshot, signInAs } from '../support/browser';
+import { bakeAndWait } from '../support/bake';
 import { closeDb, db } from '../../src/lib/server/db';
 import { shots, shows } from '../../src/lib/server/db/schema';
 import { layoutView } from '../../src/lib/render/view';
@@ -43,14 +43,7 @@ beforeAll(async () => {
   const saved = await artist.post(`/api/shots/${Number(shot.insertId)}/versions`, { scene, comment: 'dam break for passes' });
   expect(saved.status, JSON.stringify(saved.body)).toBe(201);
   versionId = saved.body.version.id;
-  expect([200, 202]).toContain((await artist.post(`/api/versions/${versionId}/bake`, {})).status);
-  const until = Date.now() + 300_000;
-  for (;;) {
-    const p = await artist.get(`/api/versions/${versionId}/bake`);
-    if (p.body.bakeState === 'baked') break;
-    if (p.body.bakeState === 'failed' || Date.now() > until) throw new Error(`bake: ${JSON.stringify(p.body)}`);
-    await new Promise((r) => setTimeout(r, 500));
-  }
+  await bakeAndWait(artist, versionId, 300_000);
   const [row] = await db().select().from(shots).where(eq(shots.id, Number(shot.insertId)));
   expect([row.plateWidth, row.plateHeight]).toEqual([PLATE.width, PLATE.height]);
 }, 360_000);
@@ -68,11 +61,7 @@ describe('comp passes and the player agree', () => {
       page.on('pageerror', (e) => errors.push(e.message));
       await signInAs(page, studio.members.artist.email, studio.members.artist.password);
       await page.waitForURL((url) => !url.pathname.startsWith('/sign-in'));
-      await page.goto(`/studios/${studio.slug}/versions/${versionId}?frame=${SHOWN}`);
-      await page.locator('[data-testid="player"][data-status="ready"]').waitFor({ timeout: 60_000 });
-      await expect.poll(async () => page.getByTestId('player').getAttribute('data-drawn-frame'), { timeout: 30_000 }).toBe(String(SHOWN));
-      await page.evaluate(() => window.scrollTo(0, 0));
-      await page.waitForTimeout(300);
+      await openPlayerAt(page, studio.slug, versionId, SHOWN);
       mkdirSync(SHOTS_DIR, { recursive: true });
       const viewPng = await page.getByTestId('player-view').screenshot({ path: path.join(SHOTS_DIR, 'passes-agree-player-view.png') });
       const view = PNG.sync.read(viewPng);

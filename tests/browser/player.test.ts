@@ -4,6 +4,7 @@
 import { describe, it, expect, beforeAll, afterAll } from 'vitest';
 import { openBrowser, screenshot, signInAs } from '../support/browser';
 import { makeStudio, unique, type TestStudio } from '../support/app';
+import { uploadPngPlate } from '../support/plates';
 import { closeDb, db } from '../../src/lib/server/db';
 import { shots, shows } from '../../src/lib/server/db/schema';
 import { rooftopPoolPlate } from '../../src/lib/server/demo-plates';
@@ -44,12 +45,7 @@ beforeAll(async () => {
 
   // The plate: the painted rooftop pool, uploaded like an artist's file; the tank spans its width.
   const png = rooftopPoolPlate(PLATE.width, PLATE.height);
-  const start = await artist.post(`/api/studios/${studio.id}/shots/${shotId}/plates`, { fileName: 'rooftop-pool.png', contentType: 'image/png', byteSize: png.length });
-  expect(start.status, JSON.stringify(start.body)).toBe(201);
-  const put = await fetch(start.body.upload.url, { method: 'PUT', body: Buffer.from(png), headers: start.body.upload.headers });
-  expect(put.status).toBe(200);
-  const complete = await artist.post(`/api/studios/${studio.id}/plates/${start.body.assetId}/complete`, {});
-  expect(complete.status, JSON.stringify(complete.body)).toBe(200);
+  await uploadPngPlate(studio, shotId, png, 'rooftop-pool.png');
   const scale = await artist.post(`/api/studios/${studio.id}/shots/${shotId}/scale`, { pixels: PLATE.width, metres: TANK.width });
   expect(scale.status, JSON.stringify(scale.body)).toBe(200);
 

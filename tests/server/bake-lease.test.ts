@@ -79,11 +79,12 @@ describe('bake leases', () => {
     const a = startWorker();
     const b = startWorker();
     await Promise.all([workerReady(a), workerReady(b)]);
-    // One step of 80 substeps on a 128 × 128 grid: several seconds of solver work between two frames.
+    // One frame of 200 substeps (the schema's most) on a 160 × 160 grid: about 10 s of solver work between two
+    // frames on a quiet machine (80 substeps at 128² took 2.8 s, under the three leases this test needs).
     const doc = {
       ...tinyScene(2),
-      tank: { width: 1, height: 1, cellSize: 1 / 128 },
-      timing: { fps: 24, startFrame: 1001, endFrame: 1002, substeps: 80 },
+      tank: { width: 1, height: 1, cellSize: 1 / 160 },
+      timing: { fps: 24, startFrame: 1001, endFrame: 1002, substeps: 200 },
       pours: [{ id: 'block', shape: { type: 'rect', x: 0, y: 0, width: 0.5, height: 0.8 }, velocity: [0, 0] }],
     };
     const versionId = await makeVersion(doc);

@@ -8,12 +8,19 @@ export async function bakedVersion(artist: Client, shotId: number, seed: number)
   const saved = await artist.post(`/api/shots/${shotId}/versions`, { scene: tinyScene(12, seed), comment: `pass ${seed}` });
   expect(saved.status, JSON.stringify(saved.body)).toBe(201);
   const id: number = saved.body.version.id;
-  await artist.post(`/api/versions/${id}/bake`);
-  for (let i = 0; i < 600; i++) {
-    const res = await artist.get(`/api/versions/${id}/bake`);
-    if (res.body.bakeState === 'baked') return id;
-    if (res.body.bakeState === 'failed') throw new Error('bake failed');
-    await new Promise((r) => setTimeout(r, 200));
+  await bakeAndWait(artist, id, 120_000, 200);
+  return id;
+}
+
+/** Starts the version's bake and waits until it is baked; throws with the bake's answer if it fails or times out. */
+export async function bakeAndWait(artist: Client, versionId: number, timeoutMs: number, pollMs = 1000): Promise<void> {
+  const started = await artist.post(`/api/versions/${versionId}/bake`, {});
+  expect([200, 202], JSON.stringify(started.body)).toContain(started.status);
+  const until = Date.now() + timeoutMs;
+  for (;;) {
+    const res = await artist.get(`/api/versions/${versionId}/bake`);
+    if (res.body.bakeState === 'baked') return;
+    if (res.body.bakeState === 'failed' || Date.now() > until) throw new Error(`bake not baked: ${JSON.stringify(res.body)}`);
+    await new Promise((r) => setTimeout(r, pollMs));
   }
-  throw new Error('bake did not finish');
 }

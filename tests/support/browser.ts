@@ -3,6 +3,7 @@ import { chromium, type BrowserContext, type Page } from 'playwright-core';
 import { mkdtempSync, mkdirSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import path from 'node:path';
+import { PNG } from 'pngjs';
 import { APP } from './app';
 
 export const SHOTS_DIR = path.resolve(__dirname, '../../test-results/screenshots');
@@ -37,6 +38,10 @@ export async function openBrowser(): Promise<{ context: BrowserContext; page: Pa
     } else if (msg.type() === 'error') console.error(`[browser] ${msg.text()}`);
   });
   context.on('weberror', (e) => console.error(`[browser] uncaught: ${e.error().message}`));
+  // Each browser is its own visitor: its API calls carry their own client address (the test app trusts its loopback
+  // proxy hop, as a studio's server trusts its proxy), so one test's wrong passwords never throttle another's sign-in.
+  const ip = `10.8.${Math.floor(Math.random() * 250)}.${Math.floor(Math.random() * 250)}`;
+  await context.route(`${APP}/api/**`, (route) => route.continue({ headers: { ...route.request().headers(), 'x-forwarded-for': ip } }));
   const page = context.pages()[0] ?? (await context.newPage());
   return {
     context,
@@ -85,4 +90,25 @@ export async function answerCors(context: BrowserContext) {
       return route.fulfill({ response, headers: { ...response.headers(), ...cors } });
     },
   );
+}
+
+/** Opens a version page at a frame and waits until the player has drawn that frame, scrolled to the top. */
+export async function openPlayerAt(page: Page, studioSlug: string, versionId: number, frame: number) {
+  await page.goto(`/studios/${studioSlug}/versions/${versionId}?frame=${frame}`);
+  await page.locator('[data-testid="player"][data-status="ready"]').waitFor({ timeout: 60_000 });
+  await page.waitForFunction(
+    (f) => document.querySelector('[data-testid="player"]')?.getAttribute('data-drawn-frame') === String(f),
+    frame,
+    { timeout: 30_000 },
+  );
+  await page.evaluate(() => window.scrollTo(0, 0));
+  await page.waitForTimeout(300);
+}
+
+/** Pixels of a PNG screenshot that pass a colour test. */
+export function countPixels(png: Buffer, test: (r: number, g: number, b: number) => boolean): number {
+  const img = PNG.sync.read(png);
+  let n = 0;
+  for (let p = 0; p < img.data.length; p += 4) if (test(img.data[p], img.data[p + 1], img.data[p + 2])) n++;
+  return n;
 }
