@@ -135,6 +135,8 @@ describe('shot library in Chromium', () => {
       await page.getByRole('link', { name: 'See the shots' }).click();
       const table = page.getByTestId('shots-table');
       await table.locator('tbody tr[data-row]').nth(2).waitFor();
+      // The table's island hydrated (a change before that reaches no handler and saves nothing).
+      await page.locator('astro-island:not([ssr]) [data-testid="shots-table"]').waitFor();
       // BW_0030 (1009–1080, 72 frames) cuts in at source 12:00:00:00 (the dissolve's incoming side).
       expect(await table.getByTestId('cut-range-BW_0030-source').textContent()).toBe('1009 · 12:00:00:00 – 1080 · 12:00:02:23');
       await page.getByLabel('Status of BW_0020').selectOption('in review');
