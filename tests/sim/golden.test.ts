@@ -42,7 +42,7 @@ describe('golden bake', () => {
     let st = sim.stepFrame();
     for (let f = 1; f < GOLDEN_FRAMES; f++) st = sim.stepFrame();
     expect(Object.keys(st.stageMs)).toEqual([
-      'free props', 'solids', 'gravity and advection', 'spatial hash', 'separation', 'collision', 'emission',
+      'free props', 'solids', 'gravity and advection', 'spatial hash', 'foam and spray', 'separation', 'collision', 'emission',
       'particles to grid', 'density and drift', 'free surface', 'pressure', 'prop contacts', 'grid to particles',
       'position correction',
     ]);

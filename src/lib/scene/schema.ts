@@ -119,9 +119,20 @@ export const DEFAULT_PROP_COLOUR = '#E3A83C';
 /** How walls are drawn over the plate: an outline, filled, or not at all (the plate already shows them). */
 export const WALL_STYLES = ['outline', 'fill', 'hidden'] as const;
 export type WallStyle = (typeof WALL_STYLES)[number];
-/** How the scene is drawn (never changes the bake): `walls` defaults to 'outline'. */
+/** Range of look.foam: 0 turns foam and spray off, 1 is the default amount, 2 twice as much. */
+export const FOAM_RANGE = { min: 0, max: 2 } as const;
+/**
+ * How the scene is drawn: `walls` defaults to 'outline' (never changes the bake); `foam` scales the foam and
+ * spray the bake computes beside the liquid (sim/diffuse.ts; default 1, 0 = none; the liquid is unchanged).
+ */
 const lookSchema = z
-  .object({ walls: z.enum(WALL_STYLES, { errorMap: () => ({ message: "must be 'outline', 'fill' or 'hidden'" }) }).default('outline') })
+  .object({
+    walls: z.enum(WALL_STYLES, { errorMap: () => ({ message: "must be 'outline', 'fill' or 'hidden'" }) }).default('outline'),
+    foam: finite
+      .min(FOAM_RANGE.min, `must be between ${FOAM_RANGE.min} and ${FOAM_RANGE.max}`)
+      .max(FOAM_RANGE.max, `must be between ${FOAM_RANGE.min} and ${FOAM_RANGE.max}`)
+      .optional(),
+  })
   .strict();
 
 const liquidSchema = z

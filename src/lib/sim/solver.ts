@@ -13,10 +13,12 @@ import { createRigidBodies, type PropState } from './rigid';
 import { freeSurface } from './surface';
 import { validateAfter } from './validate';
 import { createViscousStep, sceneIsViscous } from './viscosity';
+import { createDiffuse, foamScale, NO_DIFFUSE, type DiffuseView } from './diffuse';
 
 export type { SolverOptions } from './stages';
 export type { PropState } from './rigid';
 export { WATER_DENSITY } from './stages';
+export type { DiffuseView } from './diffuse';
 
 /** Statistics of one shot frame. */
 export interface FrameStats {
@@ -108,6 +110,8 @@ export interface Solver {
   readonly restDensity: number;
   /** Particles that could not be emitted because the capacity was reached. */
   readonly emissionDropped: number;
+  /** Foam and spray (diffuse.ts) at the current time; empty when the scene's look.foam is 0. */
+  readonly diffuse: DiffuseView;
 }
 
 /** Creates a solver for a parsed scene (see parseScene); the state is allocated here, once. */
@@ -132,6 +136,8 @@ export function createSolver(scene: Scene, options: SolverOptions = {}): Solver 
   const hasFree = scene.props.some((p) => p.motion === 'free');
   // implicit viscosity (viscosity.ts): only for scenes where some liquid's ν·dt/h² is not negligible
   const viscous = sceneIsViscous(scene) ? createViscousStep(S, scene) : null;
+  // foam and spray (diffuse.ts): read-only, right after the hash sorted the particles; off at look.foam 0
+  const diffuse = foamScale(scene) > 0 ? createDiffuse(S, scene) : null;
 
   function project(dt: number): number {
     // warm start for CG: q scales with dt (q = p·dt/(ρh))
@@ -154,6 +160,7 @@ export function createSolver(scene: Scene, options: SolverOptions = {}): Solver 
     { name: 'solids', run: (dt, f0, f1) => placeSolids(S, f0, f1, dt) },
     { name: 'gravity and advection', run: (dt) => integrate(S, dt) },
     { name: 'spatial hash', run: () => S.sortByHashCell() },
+    ...(diffuse ? [{ name: 'foam and spray', run: (dt: number, f0: number, f1: number) => diffuse.run(dt, f0, f1) }] : []),
     { name: 'separation', run: () => separate(S, physics.separationIterations) },
     { name: 'collision', run: () => collide(S) },
     { name: 'emission', run: (_dt, f0) => emit(S, f0) },
@@ -277,6 +284,7 @@ export function createSolver(scene: Scene, options: SolverOptions = {}): Solver 
     stepFrame, step, stats, pressureField, pressureAt, solidDistance,
     get restDensity() { return S.restDensity; },
     get emissionDropped() { return S.emissionDropped; },
+    get diffuse() { return diffuse ? diffuse.view : NO_DIFFUSE; },
   };
 }
 
