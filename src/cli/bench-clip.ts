@@ -2,7 +2,8 @@
 // the worst position error (as a fraction of the tank size), encode and decode speed, and random-seek time.
 // A second clip of the same frames marks each particle with one of two liquids (the left and right halves of the
 // column at the start; the mark follows the particle's id) and carries one prop pose a frame: the size of the
-// version 2 additions where they are not free.
+// version 2 additions where they are not free. A third clip adds the bake's foam and spray section (the solver's
+// diffuse particles, sim/diffuse.ts): its extra bytes are counted per diffuse particle per frame, apart from the liquid.
 import { createSolver } from '../lib/sim/solver';
 import { referenceDamBreak } from '../lib/sim/reference';
 import { ClipWriter } from '../lib/clip/encode';
@@ -34,6 +35,8 @@ const twoLiquids = new ClipWriter({
     props: [{ id: 'box', shape: { type: 'rect', x: 0.4, y: 0.4, width: 0.1, height: 0.1 }, centroid: [0.45, 0.45], colour: '#E3A83C' }],
   },
 });
+const withFoam = new ClipWriter({ ...writer.header, solverBuild: 'bench', sceneHash: 'bench', diffuse: true });
+let diffuseFrames = 0;
 const liquidOfId = new Map<number, number>();
 let liquidScratch = new Uint8Array(0);
 
@@ -48,6 +51,8 @@ for (let f = startFrame; f <= endFrame; f++) {
   writer.addFrame(sim.count, sim.x, sim.y, sim.u, sim.v);
   encodeMs += performance.now() - t;
   particleFrames += sim.count;
+  withFoam.addFrame(sim.count, sim.x, sim.y, sim.u, sim.v, { diffuse: sim.diffuse });
+  diffuseFrames += sim.diffuse.count;
   if (f === startFrame) {
     let mid = 0;
     for (let i = 0; i < sim.count; i++) mid = Math.max(mid, sim.x[i]);
@@ -59,6 +64,7 @@ for (let f = startFrame; f <= endFrame; f++) {
   twoLiquids.addFrame(sim.count, sim.x, sim.y, sim.u, sim.v, { liquid: liquidScratch, props: [{ x: 0.45 + 0.001 * k, y: 0.45, angle: 3 * k }] });
 }
 const twoLiquidBytes = twoLiquids.finish();
+const foamBytes = withFoam.finish();
 let t = performance.now();
 const bytes = writer.finish();
 encodeMs += performance.now() - t;
@@ -118,6 +124,9 @@ const figures = {
   format_version: reader.header.formatVersion,
   bytes_per_particle_frame: +(bytes.length / particleFrames).toFixed(3),
   two_liquids_and_a_prop_bytes_per_particle_frame: +(twoLiquidBytes.length / particleFrames).toFixed(3),
+  diffuse_particle_frames: diffuseFrames,
+  foam_section_bytes: foamBytes.length - bytes.length,
+  foam_bytes_per_diffuse_particle_frame: diffuseFrames > 0 ? +((foamBytes.length - bytes.length) / diffuseFrames).toFixed(3) : 0,
   max_error_fraction_of_tank: +(worst / tank).toExponential(3),
   error_bound_fraction_of_tank: +(positionErrorBound(reader.header) / tank).toExponential(3),
   encode_ms_per_frame: +(encodeMs / frames).toFixed(3),
@@ -127,5 +136,6 @@ const figures = {
   random_seek_ms_p90: +seeks[Math.floor(seeks.length * 0.9)].toFixed(3),
 };
 console.log(`clip: ${figures.bytes_per_particle_frame} bytes/particle/frame (target ≤ 2.5; ${figures.two_liquids_and_a_prop_bytes_per_particle_frame} with two liquids side by side and a prop), worst error ${figures.max_error_fraction_of_tank} of the tank (target ≤ ${(1 / 4000).toExponential(2)})`);
+console.log(`clip: foam and spray ${figures.foam_bytes_per_diffuse_particle_frame} bytes/diffuse particle/frame (${figures.diffuse_particle_frames} diffuse particle-frames, ${figures.foam_section_bytes} bytes, apart from the liquid's figure above)`);
 console.log(`clip: encode ${figures.encode_ms_per_frame} ms/frame, inflate ${figures.inflate_ms_per_frame} + decode ${figures.decode_ms_per_frame} ms/frame, random seek median ${figures.random_seek_ms_median} ms (p90 ${figures.random_seek_ms_p90})`);
 console.log(JSON.stringify(figures));

@@ -46,15 +46,16 @@ export async function bakeScene(scene: Scene, sceneHash: string, hooks: BakeHook
     sceneHash,
     look: clipLookOf(scene),
     onChunk: hooks.onChunk,
+    diffuse: true,
   });
   const stats: FrameStats[] = [];
   const first = sim.stats();
-  writer.addFrame(sim.count, sim.x, sim.y, sim.u, sim.v, { liquid: sim.liquid, props: first.props });
+  writer.addFrame(sim.count, sim.x, sim.y, sim.u, sim.v, { liquid: sim.liquid, props: first.props, diffuse: sim.diffuse });
   stats.push(first);
   if ((await hooks.onFrame?.(1, framesTotal)) === 'stop') return null;
   for (let done = 1; done < framesTotal; done++) {
     const s = sim.stepFrame();
-    writer.addFrame(sim.count, sim.x, sim.y, sim.u, sim.v, { liquid: sim.liquid, props: s.props });
+    writer.addFrame(sim.count, sim.x, sim.y, sim.u, sim.v, { liquid: sim.liquid, props: s.props, diffuse: sim.diffuse });
     stats.push(s);
     if ((await hooks.onFrame?.(done + 1, framesTotal)) === 'stop') return null;
   }

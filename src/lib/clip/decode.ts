@@ -1,6 +1,6 @@
 // Reads a clip a chunk at a time: open() fetches the header and index, frameAt() fetches and inflates one chunk.
 import { inflateSync } from 'fflate';
-import { CLIP_FORMAT_VERSIONS, CLIP_MAGIC, INDEX_ENTRY_BYTES, type ClipFrame, type ClipHeader, type ClipIndexEntry, type PropPose } from './format';
+import { CLIP_FORMAT_VERSIONS, CLIP_MAGIC, INDEX_ENTRY_BYTES, type ClipFrame, type ClipHeader, type ClipIndexEntry, type DiffuseFrame, type PropPose } from './format';
 
 /** Fetches bytes [start, endInclusive] of the clip (an HTTP Range request in the browser, a slice in tests). */
 export type RangeFetcher = (start: number, endInclusive: number) => Promise<Uint8Array>;
@@ -78,6 +78,7 @@ export function decodeFrame(header: ClipHeader, chunk: Uint8Array, k: number, fr
   }
   if (i !== n) throw new Error(`clip frame ${frame} is damaged (${i} of ${n} particles)`);
   const props: PropPose[] = [];
+  let diffuse: DiffuseFrame = NO_DIFFUSE;
   if (header.formatVersion >= 2) {
     if (hasLiquids) {
       let l = 0;
@@ -89,8 +90,23 @@ export function decodeFrame(header: ClipHeader, chunk: Uint8Array, k: number, fr
     for (let k = 0; k < (header.look?.props.length ?? 0); k++, q += 12) {
       props.push({ x: dv.getInt32(q, true) * posStep, y: dv.getInt32(q + 4, true) * posStep, angle: dv.getInt32(q + 8, true) * angleStep });
     }
+    if (header.diffuse) diffuse = decodeDiffuse(chunk, q, header.diffuseStep!);
   }
-  return { frame, count: n, x, y, speed, maxSpeed, liquid, props };
+  return { frame, count: n, x, y, speed, maxSpeed, liquid, props, diffuse };
+}
+
+const NO_DIFFUSE: DiffuseFrame = { count: 0, x: new Float32Array(0), y: new Float32Array(0), kind: new Uint8Array(0) };
+
+/** The foam and spray section at byte p of an inflated chunk (format.ts). */
+function decodeDiffuse(chunk: Uint8Array, p: number, step: number): DiffuseFrame {
+  const n = new DataView(chunk.buffer, chunk.byteOffset, chunk.byteLength).getUint32(p, true);
+  const x = new Float32Array(n), y = new Float32Array(n);
+  const xs = p + 4, ys = xs + 2 * n, ks = ys + 2 * n;
+  for (let i = 0; i < n; i++) {
+    x[i] = ((chunk[xs + i] << 8) + chunk[xs + n + i] + 0.5) * step;
+    y[i] = ((chunk[ys + i] << 8) + chunk[ys + n + i] + 0.5) * step;
+  }
+  return { count: n, x, y, kind: chunk.slice(ks, ks + n) };
 }
 
 /** Random access to a clip's frames; keeps the last few inflated chunks. */

@@ -2,7 +2,7 @@
 // receives each chunk as it is made and finishHead() returns what goes before them).
 import { deflateSync } from 'fflate';
 import {
-  CLIP_FORMAT_VERSION, CLIP_MAGIC, INDEX_ENTRY_BYTES, PROP_ANGLE_STEP, PROP_POSITION_STEP,
+  CLIP_FORMAT_VERSION, CLIP_MAGIC, DIFFUSE_LEVELS, INDEX_ENTRY_BYTES, PROP_ANGLE_STEP, PROP_POSITION_STEP,
   type ClipHeader, type ClipIndexEntry, type ClipLook, type PropPose,
 } from './format';
 
@@ -12,6 +12,8 @@ export interface FrameExtras {
   liquid?: ArrayLike<number>;
   /** One pose per prop of look.props, in that order (centroid m, angle deg). */
   props?: readonly PropPose[];
+  /** Foam and spray particles (only when the writer was made with `diffuse: true`): positions (m) and kinds. */
+  diffuse?: { count: number; x: ArrayLike<number>; y: ArrayLike<number>; kind: ArrayLike<number> };
 }
 
 /** The look of a clip whose writer was given none: one liquid in the default colour, nothing else drawn. */
@@ -40,6 +42,8 @@ export interface ClipWriterOptions {
    * finishHead() returns the bytes that go before the chunks (a streaming bake uploads the chunks as they come).
    */
   onChunk?: (chunk: Uint8Array) => void;
+  /** Frames carry a foam and spray section (format.ts). Default false. */
+  diffuse?: boolean;
 }
 
 export class ClipWriter {
@@ -87,6 +91,7 @@ export class ClipWriter {
       look: o.look ?? PLAIN_LOOK,
       propPositionStep: PROP_POSITION_STEP,
       propAngleStep: PROP_ANGLE_STEP,
+      ...(o.diffuse ? { diffuse: true, diffuseStep: Math.max(o.tankWidth, o.tankHeight) / DIFFUSE_LEVELS } : {}),
     };
     if (this.header.look!.liquids.length > 256) throw new Error('a clip holds at most 256 liquids');
     this.binStart = new Int32Array(binsX * binsY + 1);
@@ -108,7 +113,8 @@ export class ClipWriter {
     const total = h.endFrame - h.startFrame + 1;
     if (this.framesWritten >= total) throw new Error(`clip already has its ${total} frames`);
     if (this.pending.length === 0) this.pendingFirst = h.startFrame + this.framesWritten;
-    this.pending.push(this.encodeFrame(count, x, y, u, v, extras));
+    const frame = this.encodeFrame(count, x, y, u, v, extras);
+    this.pending.push(h.diffuse ? concat(frame, this.encodeDiffuse(extras.diffuse)) : frame);
     this.framesWritten++;
     if (this.pending.length === h.framesPerChunk || this.framesWritten === total) this.flushChunk();
   }
@@ -214,6 +220,27 @@ export class ClipWriter {
     return body;
   }
 
+  /** The diffuse section of a frame (format.ts): count, x and y as high/low byte planes of u16 steps, kinds. */
+  private encodeDiffuse(d: FrameExtras['diffuse']): Uint8Array {
+    const n = d?.count ?? 0;
+    const out = new Uint8Array(4 + 5 * n);
+    new DataView(out.buffer).setUint32(0, n, true);
+    if (!d) return out;
+    const inv = 1 / this.header.diffuseStep!;
+    const axis = (a: ArrayLike<number>, at: number) => {
+      for (let i = 0; i < n; i++) {
+        let q = Math.floor(a[i] * inv);
+        q = q < 0 ? 0 : q > DIFFUSE_LEVELS - 1 ? DIFFUSE_LEVELS - 1 : q;
+        out[at + i] = q >>> 8;
+        out[at + n + i] = q & 0xff;
+      }
+    };
+    axis(d.x, 4);
+    axis(d.y, 4 + 2 * n);
+    for (let i = 0; i < n; i++) out[4 + 4 * n + i] = d.kind[i];
+    return out;
+  }
+
   private flushChunk(): void {
     const frames = this.pending;
     const tableBytes = 4 + 4 * frames.length;
@@ -278,4 +305,11 @@ function toStep(value: number, step: number): number {
   const k = Math.round(value / step);
   if (!Number.isFinite(k)) throw new Error('a prop pose is not a finite number');
   return Math.max(-0x80000000, Math.min(0x7fffffff, k));
+}
+
+function concat(a: Uint8Array, b: Uint8Array): Uint8Array {
+  const out = new Uint8Array(a.length + b.length);
+  out.set(a);
+  out.set(b, a.length);
+  return out;
 }

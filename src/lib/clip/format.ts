@@ -24,6 +24,10 @@
 // fill colours, the wall style) plus the two pose steps. A particle keeps its liquid for life (the solver's ids follow
 // particles), but a frame stores positions in bin order without ids, so the liquid travels with each position: in
 // bin order neighbours share a liquid and the plane deflates to almost nothing (one liquid: no plane at all).
+// Foam and spray (optional, version 2): when the header's `diffuse` is true, every frame ends, after the prop poses,
+// with its diffuse particles (sim/diffuse.ts): u32 count D, then the x positions as two byte planes (high bytes of all
+// D, then low bytes) of u16 steps of `diffuseStep` m, the same for y, then D kind bytes (0 spray, 1 foam). Steps
+// decode to the step's centre (error ≤ diffuseStep / 2); clips without the flag decode with no diffuse particles.
 // Version 1 clips (no liquids, no poses, no look) still decode: every particle is of liquid 0 and there are no props.
 //
 // Positions are binned on a square grid of side `binSize` (the tank's longer side / binsAcross) and stored as the
@@ -82,6 +86,9 @@ export interface ClipHeader {
   look?: ClipLook;
   propPositionStep?: number;
   propAngleStep?: number;
+  /** Version 2, optional: frames carry foam and spray particles, positions in steps of diffuseStep (m). */
+  diffuse?: boolean;
+  diffuseStep?: number;
 }
 
 export interface ClipIndexEntry {
@@ -110,6 +117,26 @@ export interface ClipFrame {
   liquid: Uint8Array;
   /** One pose per prop of look.props (empty in a version 1 clip). */
   props: PropPose[];
+  /** Foam and spray particles (none when the clip has no diffuse section). */
+  diffuse: DiffuseFrame;
+}
+
+/** A frame's diffuse particles: positions (tank m) and kind (DIFFUSE_SPRAY or DIFFUSE_FOAM). */
+export interface DiffuseFrame {
+  count: number;
+  x: Float32Array;
+  y: Float32Array;
+  kind: Uint8Array;
+}
+
+export const DIFFUSE_SPRAY = 0;
+export const DIFFUSE_FOAM = 1;
+/** Steps of a u16 diffuse position across the tank's longer side. */
+export const DIFFUSE_LEVELS = 65536;
+
+/** Largest diffuse position error of a clip, metres (half a step), or null when it has no diffuse section. */
+export function diffuseErrorBound(h: Pick<ClipHeader, 'diffuse' | 'diffuseStep'>): number | null {
+  return h.diffuse && h.diffuseStep ? h.diffuseStep / 2 : null;
 }
 
 /** Largest position error, in metres, of a clip with this header (half a quantization step). */
