@@ -14,6 +14,7 @@ import {
   SPEED_DOT_ALPHA,
   SPEED_RAMP,
   SPRAY_ALPHA,
+  DIFFUSE_LOOK,
   SURFACE_SHADING,
   lifted,
   liquidColours,
@@ -112,6 +113,12 @@ export class GpuLooks {
   private tintSource: BufferImageSource | null = null;
   private tintBytes = new Uint8Array(0);
   private sprayWhich = new Int32Array(0);
+  private diffuseDots = new Int32Array(0);
+  /** ImageData (not premultiplied) words of spray and foam dots, by kind. */
+  private readonly diffuseColours = [
+    ((Math.round(DIFFUSE_LOOK.SPRAY_ALPHA * 255) << 24) | (DIFFUSE_LOOK.SPRAY[2] << 16) | (DIFFUSE_LOOK.SPRAY[1] << 8) | DIFFUSE_LOOK.SPRAY[0]) >>> 0,
+    ((Math.round(DIFFUSE_LOOK.FOAM_ALPHA * 255) << 24) | (DIFFUSE_LOOK.FOAM[2] << 16) | (DIFFUSE_LOOK.FOAM[1] << 8) | DIFFUSE_LOOK.FOAM[0]) >>> 0,
+  ];
   /** Walls and props, over the liquid: built once per look and view, then props only move (no geometry a frame). */
   private readonly solids = new Container();
   private solidsFor: { look: ClipLook; key: string } | null = null;
@@ -366,6 +373,17 @@ export class GpuLooks {
     for (let k = 0; k < n; k++) {
       const spray = sprayWords[liquid ? Math.min(liquid[this.sprayWhich[k]], sprayWords.length - 1) : 0];
       this.paintDot(words, Math.floor(this.sprayXY[2 * k] / texel), Math.floor(this.sprayXY[2 * k + 1] / texel), side, spray);
+    }
+    // Foam and spray of the bake (the CPU look's DIFFUSE_LOOK), over the droplets.
+    const dn = frame.diffuse?.count ?? 0;
+    if (dn > 0) {
+      if (this.diffuseDots.length < 4 * dn) this.diffuseDots = new Int32Array(4 * dn);
+      const m = this.cpu.diffuseDots(frame, t, this.diffuseDots);
+      const dd = this.diffuseDots;
+      for (let k = 0; k < m; k++) {
+        const sideT = Math.max(1, Math.round(dd[4 * k + 2] / texel));
+        this.paintDot(words, Math.floor(dd[4 * k] / texel), Math.floor(dd[4 * k + 1] / texel), sideT, this.diffuseColours[dd[4 * k + 3]]);
+      }
     }
     this.showDots();
   }

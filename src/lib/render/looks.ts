@@ -8,7 +8,7 @@ import { createImage, packPremultiplied, rampColour, type PixelImage } from './i
 import type { TankToView } from './view';
 import type { ClipLook, PropPose } from '../clip/format';
 import { DEFAULT_LIQUID } from '../scene/schema';
-import { drawSolids, hexColour, outlineBounds, outlinePairs, solidOutlines } from './solids';
+import { blendOver, drawSolids, hexColour, outlineBounds, outlinePairs, solidOutlines } from './solids';
 import { pointInPolygon } from '../scene/shapes';
 
 export const RENDER_LOOKS = ['surface', 'speed'] as const;
@@ -33,6 +33,8 @@ export interface ParticleFrame {
   liquid?: ArrayLike<number>;
   /** Pose of each prop of the scene look (omitted: props are not drawn). */
   props?: readonly PropPose[];
+  /** Foam and spray of the bake (clip format's diffuse section): positions (m) and kind (0 spray, 1 foam). */
+  diffuse?: { count: number; x: ArrayLike<number>; y: ArrayLike<number>; kind: ArrayLike<number> };
 }
 
 export interface LookOptions {
@@ -138,6 +140,12 @@ export const SPEED_DOT_ALPHA = SPEED_ALPHA;
 export const SPRAY_ALPHA = 0.85;
 
 /**
+ * Foam and spray of the surface look (our own look): foam as near-white dots a pixel larger than the liquid's spray
+ * droplets, almost opaque, so crests and churned water read white; spray from the bake as smaller pale droplets.
+ */
+export const DIFFUSE_LOOK = { FOAM: [246, 250, 252], FOAM_ALPHA: 0.92, SPRAY: [214, 234, 246], SPRAY_ALPHA: 0.8 } as const;
+
+/**
  * Draws particle frames into one reusable image of the view's size, and computes the per-frame inputs (density field,
  * spray droplets, dot sizes) that the player's GPU path draws with shaders instead.
  */
@@ -165,6 +173,7 @@ export class LookRenderer {
   private shades = new Uint8Array(0);
   private shadeLutFor = 0;
   private rowScratch = new Float32Array(0);
+  private diffuseScratch = new Int32Array(0);
 
   constructor(width: number, height: number) {
     this.viewWidth = Math.max(1, Math.round(width));
@@ -484,6 +493,29 @@ export class LookRenderer {
   }
 
   /**
+   * Foam and spray dots of the frame's diffuse particles: per dot its top-left view pixel x, y, its side (px) and its
+   * kind, four entries each, into `out` (room for 4 × diffuse count); returns how many. Call after `densityField`.
+   */
+  diffuseDots(frame: ParticleFrame, t: TankToView, out: Int32Array): number {
+    const d = frame.diffuse;
+    if (!d) return 0;
+    const spray = LookRenderer.sprayDot(this.cellPx || 4);
+    const width = this.viewWidth, height = this.viewHeight;
+    const { ox, oy, sx, sy } = t;
+    let n = 0;
+    for (let i = 0; i < d.count; i++) {
+      const kind = d.kind[i] === 1 ? 1 : 0;
+      const side = kind === 1 ? spray + 1 : spray;
+      const px = Math.round(ox + d.x[i] * sx - side / 2);
+      const py = Math.round(oy - d.y[i] * sy - side / 2);
+      if (px < 0 || py < 0 || px + side > width || py + side > height) continue;
+      out[4 * n] = px; out[4 * n + 1] = py; out[4 * n + 2] = side; out[4 * n + 3] = kind;
+      n++;
+    }
+    return n;
+  }
+
+  /**
    * The density field, coloured: every pixel from the bilinearly sampled ratio r = ρ/ρ₀, liquid where r > ½ (the
    * same iso-level as the solver's liquid area), anti-aliased over about a pixel, in the liquid's colour shaded by its
    * depth (SURFACE_SHADING), with a lit edge line along r = ½; then the spray droplets, each in its liquid's edge
@@ -566,6 +598,20 @@ export class LookRenderer {
       const py = at[2 * s + 1];
       const spray = sprayWords[liquid ? Math.min(liquid[this.sprayWhich[s]], sprayWords.length - 1) : 0];
       for (let dy = 0; dy < dot; dy++) for (let dx = 0; dx < dot; dx++) pixels[(py + dy) * width + px + dx] = spray;
+    }
+
+    // Foam and spray of the bake, over the liquid and its droplets.
+    const dn = frame.diffuse?.count ?? 0;
+    if (dn === 0) return;
+    if (this.diffuseScratch.length < 4 * dn) this.diffuseScratch = new Int32Array(4 * dn);
+    const m = this.diffuseDots(frame, t, this.diffuseScratch);
+    const dd = this.diffuseScratch;
+    const D = DIFFUSE_LOOK;
+    for (let s = 0; s < m; s++) {
+      const px = dd[4 * s], py = dd[4 * s + 1], side = dd[4 * s + 2];
+      const [r, g, b] = dd[4 * s + 3] === 1 ? D.FOAM : D.SPRAY;
+      const a = dd[4 * s + 3] === 1 ? D.FOAM_ALPHA : D.SPRAY_ALPHA;
+      for (let dy = 0; dy < side; dy++) for (let dx = 0; dx < side; dx++) blendOver(pixels, (py + dy) * width + px + dx, r, g, b, a);
     }
   }
 }

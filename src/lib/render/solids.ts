@@ -116,7 +116,7 @@ export function outlinePairs(pts: Float64Array): [number, number][] {
 }
 
 /** Blends a colour (0–255, alpha 0–1) over a premultiplied pixel ("over"). */
-function blendOver(pixels: Uint32Array, p: number, r: number, g: number, b: number, a: number) {
+export function blendOver(pixels: Uint32Array, p: number, r: number, g: number, b: number, a: number) {
   const d = pixels[p];
   const k = 1 - a;
   const dr = d & 255, dg = (d >> 8) & 255, db = (d >> 16) & 255, da = d >>> 24;
