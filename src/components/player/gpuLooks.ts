@@ -14,7 +14,7 @@ import {
   SPEED_DOT_ALPHA,
   SPEED_RAMP,
   SPRAY_ALPHA,
-  DIFFUSE_LOOK,
+  diffuseColour,
   SURFACE_SHADING,
   lifted,
   liquidColours,
@@ -115,10 +115,10 @@ export class GpuLooks {
   private sprayWhich = new Int32Array(0);
   private diffuseDots = new Int32Array(0);
   /** ImageData (not premultiplied) words of spray and foam dots, by kind. */
-  private readonly diffuseColours = [
-    ((Math.round(DIFFUSE_LOOK.SPRAY_ALPHA * 255) << 24) | (DIFFUSE_LOOK.SPRAY[2] << 16) | (DIFFUSE_LOOK.SPRAY[1] << 8) | DIFFUSE_LOOK.SPRAY[0]) >>> 0,
-    ((Math.round(DIFFUSE_LOOK.FOAM_ALPHA * 255) << 24) | (DIFFUSE_LOOK.FOAM[2] << 16) | (DIFFUSE_LOOK.FOAM[1] << 8) | DIFFUSE_LOOK.FOAM[0]) >>> 0,
-  ];
+  private readonly diffuseColours = [0, 1, 2].map((kind) => {
+    const { rgb: [r, g, b], alpha } = diffuseColour(kind);
+    return ((Math.round(alpha * 255) << 24) | (b << 16) | (g << 8) | r) >>> 0;
+  });
   /** Walls and props, over the liquid: built once per look and view, then props only move (no geometry a frame). */
   private readonly solids = new Container();
   private solidsFor: { look: ClipLook; key: string } | null = null;
@@ -374,7 +374,7 @@ export class GpuLooks {
       const spray = sprayWords[liquid ? Math.min(liquid[this.sprayWhich[k]], sprayWords.length - 1) : 0];
       this.paintDot(words, Math.floor(this.sprayXY[2 * k] / texel), Math.floor(this.sprayXY[2 * k + 1] / texel), side, spray);
     }
-    // Foam and spray of the bake (the CPU look's DIFFUSE_LOOK), over the droplets.
+    // Foam, spray and bubbles of the bake (the CPU look's DIFFUSE_LOOK), over the droplets.
     const dn = frame.diffuse?.count ?? 0;
     if (dn > 0) {
       if (this.diffuseDots.length < 4 * dn) this.diffuseDots = new Int32Array(4 * dn);

@@ -26,7 +26,7 @@
 // bin order neighbours share a liquid and the plane deflates to almost nothing (one liquid: no plane at all).
 // Foam and spray (optional, version 2): when the header's `diffuse` is true, every frame ends, after the prop poses,
 // with its diffuse particles (sim/diffuse.ts): u32 count D, then the x positions as two byte planes (high bytes of all
-// D, then low bytes) of u16 steps of `diffuseStep` m, the same for y, then D kind bytes (0 spray, 1 foam). Steps
+// D, then low bytes) of u16 steps of `diffuseStep` m, the same for y, then D kind bytes (0 spray, 1 foam, 2 bubble). Steps
 // decode to the step's centre (error ≤ diffuseStep / 2); clips without the flag decode with no diffuse particles.
 // Version 1 clips (no liquids, no poses, no look) still decode: every particle is of liquid 0 and there are no props.
 //
@@ -121,7 +121,7 @@ export interface ClipFrame {
   diffuse: DiffuseFrame;
 }
 
-/** A frame's diffuse particles: positions (tank m) and kind (DIFFUSE_SPRAY or DIFFUSE_FOAM). */
+/** A frame's diffuse particles: positions (tank m) and kind (DIFFUSE_SPRAY, DIFFUSE_FOAM or DIFFUSE_BUBBLE). */
 export interface DiffuseFrame {
   count: number;
   x: Float32Array;
@@ -131,6 +131,7 @@ export interface DiffuseFrame {
 
 export const DIFFUSE_SPRAY = 0;
 export const DIFFUSE_FOAM = 1;
+export const DIFFUSE_BUBBLE = 2;
 /** Steps of a u16 diffuse position across the tank's longer side. */
 export const DIFFUSE_LEVELS = 65536;
 

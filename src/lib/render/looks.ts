@@ -141,9 +141,18 @@ export const SPRAY_ALPHA = 0.85;
 
 /**
  * Foam and spray of the surface look (our own look): foam as near-white dots a pixel larger than the liquid's spray
- * droplets, almost opaque, so crests and churned water read white; spray from the bake as smaller pale droplets.
+ * droplets, almost opaque, so crests and churned water read white; spray from the bake as smaller pale droplets;
+ * bubbles under the surface as faint specks.
  */
-export const DIFFUSE_LOOK = { FOAM: [246, 250, 252], FOAM_ALPHA: 0.92, SPRAY: [214, 234, 246], SPRAY_ALPHA: 0.8 } as const;
+export const DIFFUSE_LOOK = {
+  FOAM: [246, 250, 252], FOAM_ALPHA: 0.92, SPRAY: [214, 234, 246], SPRAY_ALPHA: 0.8, BUBBLE: [220, 238, 248], BUBBLE_ALPHA: 0.35,
+} as const;
+
+/** Colour and alpha of a diffuse particle of `kind` (0 spray, 1 foam, 2 bubble). */
+export function diffuseColour(kind: number): { rgb: readonly [number, number, number]; alpha: number } {
+  const D = DIFFUSE_LOOK;
+  return kind === 1 ? { rgb: D.FOAM, alpha: D.FOAM_ALPHA } : kind === 2 ? { rgb: D.BUBBLE, alpha: D.BUBBLE_ALPHA } : { rgb: D.SPRAY, alpha: D.SPRAY_ALPHA };
+}
 
 /**
  * Draws particle frames into one reusable image of the view's size, and computes the per-frame inputs (density field,
@@ -504,7 +513,7 @@ export class LookRenderer {
     const { ox, oy, sx, sy } = t;
     let n = 0;
     for (let i = 0; i < d.count; i++) {
-      const kind = d.kind[i] === 1 ? 1 : 0;
+      const kind = d.kind[i] === 1 || d.kind[i] === 2 ? d.kind[i] : 0;
       const side = kind === 1 ? spray + 1 : spray;
       const px = Math.round(ox + d.x[i] * sx - side / 2);
       const py = Math.round(oy - d.y[i] * sy - side / 2);
@@ -606,11 +615,10 @@ export class LookRenderer {
     if (this.diffuseScratch.length < 4 * dn) this.diffuseScratch = new Int32Array(4 * dn);
     const m = this.diffuseDots(frame, t, this.diffuseScratch);
     const dd = this.diffuseScratch;
-    const D = DIFFUSE_LOOK;
+    const colours = [0, 1, 2].map(diffuseColour);
     for (let s = 0; s < m; s++) {
       const px = dd[4 * s], py = dd[4 * s + 1], side = dd[4 * s + 2];
-      const [r, g, b] = dd[4 * s + 3] === 1 ? D.FOAM : D.SPRAY;
-      const a = dd[4 * s + 3] === 1 ? D.FOAM_ALPHA : D.SPRAY_ALPHA;
+      const { rgb: [r, g, b], alpha: a } = colours[dd[4 * s + 3]];
       for (let dy = 0; dy < side; dy++) for (let dx = 0; dx < side; dx++) blendOver(pixels, (py + dy) * width + px + dx, r, g, b, a);
     }
   }

@@ -3,8 +3,9 @@
 // trapped air (relative velocity of neighbours moving towards it), wave crest (surface curvature where the
 // liquid moves outwards) and kinetic energy — each clamped to [0, 1] by Φ(I, τmin, τmax); the particle then
 // emits n = Φk·(k_ta·Φta + k_wc·Φwc)·Δt diffuse particles near itself. A diffuse particle with few liquid
-// neighbours is spray (ballistic, gravity only); with more it is foam (carried with its neighbours' mean
-// velocity) and ages until its lifetime is spent. Bubbles (the paper's third class) are drawn as foam here.
+// neighbours is spray (ballistic, gravity only); with about a surface's worth it is foam (carried with its
+// neighbours' mean velocity) and ages until its lifetime is spent; deep inside the liquid it is a bubble (buoyant,
+// dragged towards the liquid's velocity: v += Δt·(−k_b·g) + k_d·(ṽ − v)), which rises to the surface to become foam.
 //
 // A read-only stage: it reads the liquid's positions and velocities and the spatial hash right after the
 // solver's 'spatial hash' stage sorted them, and writes only its own arrays, so the liquid bakes exactly as
@@ -19,8 +20,9 @@ import { mulberry32 } from './prng';
 
 export const SPRAY = 0;
 export const FOAM = 1;
+export const BUBBLE = 2;
 
-/** Diffuse particles now: positions (m), velocities (m/s), kind (SPRAY or FOAM), views valid until the next step. */
+/** Diffuse particles now: positions (m), velocities (m/s), kind (SPRAY, FOAM or BUBBLE), views valid until the next step. */
 export interface DiffuseView {
   readonly count: number;
   readonly x: Float32Array;
@@ -43,13 +45,18 @@ const TA = [1.5, 8] as const; // trapped air, m/s (kernel-weighted relative spee
 const WC = [0.4, 2.5] as const; // wave crest, kernel-weighted (1 − n̂i·n̂j)
 const KE = [0.6, 6] as const; // kinetic energy per unit mass, J/kg (speeds ≈ 1.1 to 3.5 m/s)
 // Emission rates per liquid particle per second at full potential.
-const K_TA = 120;
-const K_WC = 160;
+const K_TA = 200;
+const K_WC = 300;
 /** Foam lifetime, s: uniform in [LIFE_MIN, LIFE_MIN + LIFE_SPAN]. */
 const LIFE_MIN = 0.6;
 const LIFE_SPAN = 1.2;
 /** Neighbour fraction of a full bulk neighbourhood below which a diffuse particle is spray. */
 const SPRAY_FRACTION = 0.15;
+/** Neighbour fraction above which it is a bubble (a particle at a flat surface has about half a neighbourhood). */
+const BUBBLE_FRACTION = 0.9;
+/** Bubble buoyancy k_b (multiples of −g) and drag k_d per step (the paper's form; our values). */
+const K_BUOYANCY = 1.5;
+const K_DRAG = 0.5;
 /** Surface indicator: |Σ x̂ij·W| / Σ W above this marks a surface particle (its normal is used for crests). */
 const SURFACE_INDICATOR = 0.25;
 /** Alignment v̂·n̂ a crest needs (the paper's δ_vn cut-off of 0.6). */
@@ -77,6 +84,7 @@ export function createDiffuse(S: FlipState, scene: Scene): DiffuseStage {
   // holds ρ·πR²/3 (∫ (1 − r/R) 2πr dr) particles' worth at ρ = ppc/h² particles per m²
   const bulkWeight = (S.ppc / (S.h * S.h)) * (Math.PI * R2) / 3;
   const sprayBelow = SPRAY_FRACTION * bulkWeight;
+  const bubbleAbove = BUBBLE_FRACTION * bulkWeight;
   const frameDt = 1 / scene.timing.fps;
   const tiny = 1e-12;
 
@@ -112,6 +120,10 @@ export function createDiffuse(S: FlipState, scene: Scene): DiffuseStage {
       let du = u[d], dv = v[d], l = life[d];
       if (gW < sprayBelow) {
         kind[k] = SPRAY; du += gx * dt; dv += gy * dt; // spray: ballistic, does not age
+      } else if (gW > bubbleAbove) {
+        kind[k] = BUBBLE; // bubble: rises against gravity, dragged towards the liquid's velocity, does not age
+        du += -K_BUOYANCY * gx * dt + K_DRAG * (gU - du);
+        dv += -K_BUOYANCY * gy * dt + K_DRAG * (gV - dv);
       } else {
         kind[k] = FOAM; du = gU; dv = gV; l -= dt; // foam: carried by the liquid, ages
       }
