@@ -1,7 +1,7 @@
 // Player benchmark: the player's drawing engine with 50k particles in headless Chromium on software WebGL
 // (SwiftShader), for each render look at the on-page size and at full 1920×1080. Bundles the real engine and playback
 // (src/components/player/) with esbuild, feeds them synthetic splash frames over a painted plate, and prints per look
-// and size (two liquids, a wall and a turning prop drawn, as a version 2 clip asks): frame time mean/p95 (CPU + upload + GPU, waited for), the most frames rAF can draw, the fps the player's
+// and size (two liquids, a wall, a turning prop, foam and spray drawn, as a version 2 clip asks): frame time mean/p95 (CPU + upload + GPU, waited for), the most frames rAF can draw, the fps the player's
 // Playback holds at 25 and 30 fps, and the browser's own no-op redraw rate; then a JSON line.
 // Run: npx tsx src/cli/bench-player.ts (BENCH_QUICK=1: 960×540 only; BENCH_PREVIEW=dir: pictures of each look).
 import { build } from 'esbuild';
@@ -52,8 +52,20 @@ function splashFrames(n, frames) {
       }
       if (speed[i] > maxSpeed) maxSpeed = speed[i];
     }
+    // Foam on the pool's surface around the crown's foot (two thirds) and spray thrown wider than the crown (one
+    // third): 6 % of the liquid's count, as a bake's diffuse section would carry.
+    const dn = Math.round(n * 0.06), dx = new Float32Array(dn), dy = new Float32Array(dn), kind = new Uint8Array(dn);
+    for (let i = 0; i < dn; i++) {
+      const [a, b, c] = base[i];
+      if (i < dn * 0.67) {
+        kind[i] = 1; dx[i] = 1.6 + (a - 0.5) * (0.6 + 1.2 * t); dy[i] = 0.5 + 0.02 * Math.sin(a * 20 + t * 6) - 0.02 * b;
+      } else {
+        const ang = Math.PI * (0.1 + 0.8 * a), v0 = 2.5 + 3 * b;
+        dx[i] = 1.6 + Math.cos(ang) * v0 * t + 0.08 * c; dy[i] = Math.max(0.5, 0.5 + Math.sin(ang) * v0 * t - 4.905 * t * t + 0.08 * c);
+      }
+    }
     // A can riding the crown, turning.
-    out.push({ count: n, x, y, speed, maxSpeed, liquid, props: [{ x: 1.2 + 0.3 * t, y: 0.7 + 0.4 * t, angle: 90 * t }] });
+    out.push({ count: n, x, y, speed, maxSpeed, liquid, props: [{ x: 1.2 + 0.3 * t, y: 0.7 + 0.4 * t, angle: 90 * t }], diffuse: { count: dn, x: dx, y: dy, kind } });
   }
   return out;
 }
