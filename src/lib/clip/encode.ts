@@ -59,6 +59,7 @@ export class ClipWriter {
   private binOf = new Int32Array(0);
   private order = new Int32Array(0);
   private binStart: Int32Array;
+  private diffuseStart: Int32Array | undefined;
 
   constructor(o: ClipWriterOptions) {
     const binsAcross = o.binsAcross ?? 128;
@@ -220,24 +221,33 @@ export class ClipWriter {
     return body;
   }
 
-  /** The diffuse section of a frame (format.ts): count, x and y as high/low byte planes of u16 steps, kinds. */
+  /**
+   * The diffuse section of a frame (format.ts): count, x and y as high/low byte planes of u16 steps, kinds. The
+   * particles are stored sorted by the 256 × 256 block their high bytes name (their order carries nothing), so the
+   * high-byte planes come in runs and deflate to little.
+   */
   private encodeDiffuse(d: FrameExtras['diffuse']): Uint8Array {
     const n = d?.count ?? 0;
     const out = new Uint8Array(4 + 5 * n);
     new DataView(out.buffer).setUint32(0, n, true);
-    if (!d) return out;
+    if (!d || n === 0) return out;
     const inv = 1 / this.header.diffuseStep!;
-    const axis = (a: ArrayLike<number>, at: number) => {
-      for (let i = 0; i < n; i++) {
-        let q = Math.floor(a[i] * inv);
-        q = q < 0 ? 0 : q > DIFFUSE_LEVELS - 1 ? DIFFUSE_LEVELS - 1 : q;
-        out[at + i] = q >>> 8;
-        out[at + n + i] = q & 0xff;
-      }
-    };
-    axis(d.x, 4);
-    axis(d.y, 4 + 2 * n);
-    for (let i = 0; i < n; i++) out[4 + 4 * n + i] = d.kind[i];
+    const qx = new Uint16Array(n), qy = new Uint16Array(n);
+    const quantize = (v: number) => { const q = Math.floor(v * inv); return q < 0 ? 0 : q > DIFFUSE_LEVELS - 1 ? DIFFUSE_LEVELS - 1 : q; };
+    const start = (this.diffuseStart ??= new Int32Array(65537));
+    start.fill(0);
+    for (let i = 0; i < n; i++) {
+      qx[i] = quantize(d.x[i]); qy[i] = quantize(d.y[i]);
+      start[((qy[i] >>> 8) << 8) + (qx[i] >>> 8) + 1]++;
+    }
+    for (let b = 0; b < 65536; b++) start[b + 1] += start[b];
+    const xs = 4, ys = 4 + 2 * n, ks = 4 + 4 * n;
+    for (let i = 0; i < n; i++) {
+      const k = start[((qy[i] >>> 8) << 8) + (qx[i] >>> 8)]++;
+      out[xs + k] = qx[i] >>> 8; out[xs + n + k] = qx[i] & 0xff;
+      out[ys + k] = qy[i] >>> 8; out[ys + n + k] = qy[i] & 0xff;
+      out[ks + k] = d.kind[i];
+    }
     return out;
   }
 

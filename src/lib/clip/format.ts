@@ -26,7 +26,7 @@
 // bin order neighbours share a liquid and the plane deflates to almost nothing (one liquid: no plane at all).
 // Foam and spray (optional, version 2): when the header's `diffuse` is true, every frame ends, after the prop poses,
 // with its diffuse particles (sim/diffuse.ts): u32 count D, then the x positions as two byte planes (high bytes of all
-// D, then low bytes) of u16 steps of `diffuseStep` m, the same for y, then D kind bytes (0 spray, 1 foam, 2 bubble). Steps
+// D, then low bytes) of u16 steps of `diffuseStep` m, the same for y, then D kind bytes (0 spray, 1 foam, 2 bubble), sorted by the block of their high bytes. Steps
 // decode to the step's centre (error ≤ diffuseStep / 2); clips without the flag decode with no diffuse particles.
 // Version 1 clips (no liquids, no poses, no look) still decode: every particle is of liquid 0 and there are no props.
 //
