@@ -1,6 +1,6 @@
 // The editor's document: a parsed scene (version 2, every default filled in), the groups of items it holds,
 // and the starting scene for a shot (sized to the plate at its scale, or a 1.6 m × 0.9 m default).
-import { DEFAULT_LIQUID, type Scene, type ShapeDoc } from '../scene/schema';
+import { DEFAULT_LIQUID, cellFit, type Scene, type ShapeDoc } from '../scene/schema';
 import { rateInfo, isFrameRate } from '../timecode';
 
 /** The document the editor edits: exactly the scene format, defaults filled in. */
@@ -61,7 +61,7 @@ export function fpsOf(rateId: string): number {
   return isFrameRate(rateId) ? rateInfo(rateId).fps : 24;
 }
 
-/** Cell sizes (m) the editor offers; the tank is always a whole number of them. */
+/** Round cell sizes (m) the editor suggests for a new scene (niceCellSize); any size in range may be typed. */
 export const CELL_SIZES = [0.002, 0.0025, 0.004, 0.005, 0.008, 0.01, 0.0125, 0.02, 0.025, 0.04, 0.05, 0.08, 0.1, 0.125, 0.2, 0.25] as const;
 
 /** The offered cell size closest (in ratio) to `target` metres. */
@@ -75,6 +75,22 @@ export function niceCellSize(target: number): number {
 export function toWholeCells(length: number, cellSize: number): number {
   const n = Math.max(2, Math.round(length / cellSize));
   return Number((n * cellSize).toFixed(10));
+}
+
+/**
+ * The tank with a new cell size: width and height stay as the artist typed them (the solver's grid covers a tank
+ * that is not a whole number of cells, tankCells), so changing the cell size never moves the tank's walls.
+ */
+export function withCellSize<T extends { width: number; height: number; cellSize: number }>(tank: T, cellSize: number): T {
+  return { ...tank, cellSize };
+}
+
+/** The Tank panel's line for one side: "120 cells" or "120 cells, the last 0.4 of one partly inside". */
+export function cellsNote(length: number, cellSize: number): string {
+  const fit = cellFit(length, cellSize);
+  if (fit.cover === fit.whole) return `${fit.cover} cells.`;
+  const part = length / cellSize - fit.whole;
+  return `${fit.cover} cells; the last is ${part.toFixed(2)} of a cell inside the tank (solid on a closed side).`;
 }
 
 export const DEFAULT_TANK = { width: 1.6, height: 0.9 } as const;
