@@ -14,6 +14,7 @@ import { sceneFrom } from './helpers/scenes';
 /** Checksum of GOLDEN_FRAMES frames of goldenScene(), per solver build id. */
 const GOLDEN: Record<string, string> = {
   'tidemark-flip/3': 'd1686591c8a05d67ca38f5afcb822ae2a18de045bd869c188ef1cb5597dd9b8e',
+  'tidemark-flip/4': '64951bc41313127cf009c457970c3aa65b53bb5c4547574f5da94279cd95bee6',
 };
 const GOLDEN_FRAMES = 8;
 

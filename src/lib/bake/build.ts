@@ -4,4 +4,6 @@
 // 3: trapezoidal position update and the drift correction as a displacement outside the velocities
 //    (stages.ts, correctPositions); the projection solves the divergence alone; free props coupled into the
 //    projection (rigid.ts); densities beside walls and props compared with the share of ρ₀ they read at rest.
-export const SOLVER_BUILD = 'tidemark-flip/3';
+// 4: free props take the opposite of the collision stage's push on the particles they overtake (stages.ts
+//    collide, Newton's third law) and the viscous stage's stress on their faces (viscosity.ts reaction).
+export const SOLVER_BUILD = 'tidemark-flip/4';

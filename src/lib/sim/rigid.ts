@@ -18,6 +18,11 @@
 // its true outline p − ρ·g·δ carries its weight: Archimedes' draft, continuous in the prop's position (a
 // rasterised outline alone gives a buoyancy in steps of ρ·g·h·w, and a prop rests on a step's edge jittering
 // at several cm/s).
+// Two more pushes of the liquid reach the prop as impulses taken before the projection (jx, jy, jw), each the
+// opposite of what the liquid gained, so liquid + prop momentum is kept (Newton's third law): the collision
+// stage's push on particles that a prop overtook (stages.ts collide), and the viscous stress on the prop's faces
+// (viscosity.ts reaction: the no-slip faces of Batty & Bridson 2008 hold the prop's velocity, and the momentum
+// the liquid takes from them is the drag the prop feels).
 // Units per unit depth (the solver is 2D): mass kg/m, force N/m, moment of inertia kg·m.
 // Contacts (tank sides, walls, keyed props, other free props): boundary sample points pushed out along the
 // obstacle's normal, with inelastic impulses (restitution 0) and Coulomb friction, so props come to rest.
@@ -105,6 +110,8 @@ export interface RigidBodies {
   prepareCoupling(): void;
   /** The coupling term of the projection's matrix; its finish() gives the props their new velocities. */
   readonly coupling: Coupling;
+  /** After the viscous stage: its stress on every free prop (taken with prepareCoupling). */
+  viscousDrag(reactionU: Float64Array, reactionV: Float64Array): void;
   /** After the projection: contacts stop what the liquid pushed into an obstacle; props at rest are stopped. */
   settle(): void;
   /** Pose and velocity of every prop (keyed and free), in scene order. */
@@ -286,8 +293,65 @@ export function createRigidBodies(S: FlipState, scene: Scene): RigidBodies {
   const slot = new Int32Array(S.nc).fill(-1);
   const bodyCells: number[][] = bodies.map(() => []);
 
+  /** The grid cells of a placed prop: solid cells whose centre lies inside it (as placeSolids rasterised it). */
+  function ownCells(p: PropRuntime, out: number[]): void {
+    const { nx, ny, h, solid } = S;
+    const wx = p.cx + p.dx, wy = p.cy + p.dy, R = p.reach;
+    const i0 = Math.max(1, Math.floor((wx - R) / h) + 1), i1 = Math.min(nx - 2, Math.floor((wx + R) / h) + 1);
+    const j0 = Math.max(1, Math.floor((wy - R) / h) + 1), j1 = Math.min(ny - 2, Math.floor((wy + R) / h) + 1);
+    out.length = 0;
+    for (let j = j0; j <= j1; j++) {
+      for (let i = i0; i <= i1; i++) {
+        const c = i + nx * j;
+        if (solid[c] !== 0 && S.propDistance(p, (i - 0.5) * h, (j - 0.5) * h) < 0) out.push(c);
+      }
+    }
+  }
+
+  /**
+   * The viscous stage's stress on each free prop (viscosity.ts reactionU/V, per unit density): added, with its
+   * moment, to the impulse the prop takes before the projection (prepareCoupling). Each face of the prop's cells counts once.
+   */
+  const mine = new Uint8Array(S.nc);
+  function viscousDrag(ru: Float64Array, rv: Float64Array): void {
+    const { nx, h } = S;
+    bodies.forEach((b, bi) => {
+      const p = b.prop;
+      if (!p.free) return;
+      const own = bodyCells[bi];
+      ownCells(p, own);
+      for (const c of own) mine[c] = 1;
+      const wx = p.cx + p.dx, wy = p.cy + p.dy;
+      let jx = 0, jy = 0, jw = 0;
+      for (const c of own) {
+        const i = c % nx, j = (c - i) / nx;
+        // left and bottom faces always; right and top faces when the neighbour is not the prop's (else counted there)
+        const faces = [c, mine[c + 1] ? -1 : c + 1];
+        for (const f of faces) if (f >= 0 && ru[f] !== 0) { jx += ru[f]; jw -= ((j - 0.5) * h - wy) * ru[f]; }
+        const vf = [c, mine[c + nx] ? -1 : c + nx];
+        for (const f of vf) if (f >= 0 && rv[f] !== 0) { jy += rv[f]; jw += ((i - 0.5) * h - wx) * rv[f]; }
+      }
+      for (const c of own) mine[c] = 0;
+      p.jx += WATER_DENSITY * jx; p.jy += WATER_DENSITY * jy; p.jw += WATER_DENSITY * jw;
+    });
+  }
+
+  /** The faces of a free prop's cells beside liquid or air take its rigid velocity at their centre. */
+  function writeFaces(p: PropRuntime, own: number[]): void {
+    const { nx, h, gu, gv, solid } = S;
+    const wx = p.cx + p.dx, wy = p.cy + p.dy;
+    for (const c of own) {
+      const i = c % nx, j = (c - i) / nx;
+      const su = p.vx - p.omega * ((j - 0.5) * h - wy), sv = p.vy + p.omega * ((i - 0.5) * h - wx);
+      if (solid[c - 1] === 0) gu[c] = su;
+      if (solid[c + 1] === 0) gu[c + 1] = su;
+      if (solid[c - nx] === 0) gv[c] = sv;
+      if (solid[c + nx] === 0) gv[c + nx] = sv;
+    }
+  }
+
   function prepareCoupling(): void {
-    const { nx, ny, h, type, solid } = S;
+    const { nx, h, type } = S;
     const layer = WATER_DENSITY * h; // kg/m per metre of liquid between a liquid cell's centre and the prop
     bodies.forEach((b, bi) => {
       const p = b.prop;
@@ -296,33 +360,34 @@ export function createRigidBodies(S: FlipState, scene: Scene): RigidBodies {
       own.length = 0;
       let mx = b.m, my = b.m, ii = b.I, tg = 0;
       if (p.free) {
-        const wx = p.cx + p.dx, wy = p.cy + p.dy, R = p.reach;
-        const i0 = Math.max(1, Math.floor((wx - R) / h) + 1), i1 = Math.min(nx - 2, Math.floor((wx + R) / h) + 1);
-        const j0 = Math.max(1, Math.floor((wy - R) / h) + 1), j1 = Math.min(ny - 2, Math.floor((wy + R) / h) + 1);
-        for (let j = j0; j <= j1; j++) {
-          for (let i = i0; i <= i1; i++) {
-            const c = i + nx * j;
-            if (solid[c] === 0) continue;
-            const rx = (i - 0.5) * h - wx, ry = (j - 0.5) * h - wy;
-            if (S.propDistance(p, rx + wx, ry + wy) >= 0) continue; // a cell of this prop (as placeSolids rasterised it)
-            own.push(c);
-            for (let d = 0; d < 4; d++) {
-              const ox = d === 0 ? -1 : d === 1 ? 1 : 0, oy = d === 2 ? -1 : d === 3 ? 1 : 0;
-              const n = c + ox + nx * oy;
-              if (type[n] !== FLUID) continue;
-              // the face's direction from liquid cell n into the prop is −(ox, oy)
-              let k = slot[n];
-              if (k < 0) { k = b.cells.length; slot[n] = k; b.cells.push(n); b.bx.push(0); b.by.push(0); b.bw.push(0); }
-              // the liquid between n's centre and the prop's outline moves with the prop (see the file's head)
-              const dl = S.propDistance(p, rx + wx + ox * h, ry + wy + oy * h);
-              const ml = layer * (dl < 0 ? 0 : dl > h ? h : dl);
-              if (ox !== 0) { b.bx[k] -= ox; b.bw[k] += ox * ry; mx += ml; ii += ml * ry * ry; tg -= ry * ml * S.gx; }
-              else { b.by[k] -= oy; b.bw[k] -= oy * rx; my += ml; ii += ml * rx * rx; tg += rx * ml * S.gy; }
-            }
+        const wx = p.cx + p.dx, wy = p.cy + p.dy;
+        ownCells(p, own);
+        // this substep's impulses from the collision and viscous stages (the opposite of what the liquid gained
+        // there), with the prop's faces, so the projection solves against the velocity the prop now has
+        if (p.jx !== 0 || p.jy !== 0 || p.jw !== 0) {
+          p.vx += p.jx / b.m; p.vy += p.jy / b.m; p.omega += p.jw / b.I;
+          writeFaces(p, own);
+        }
+        for (const c of own) {
+          const i = c % nx, j = (c - i) / nx;
+          const rx = (i - 0.5) * h - wx, ry = (j - 0.5) * h - wy;
+          for (let d = 0; d < 4; d++) {
+            const ox = d === 0 ? -1 : d === 1 ? 1 : 0, oy = d === 2 ? -1 : d === 3 ? 1 : 0;
+            const n = c + ox + nx * oy;
+            if (type[n] !== FLUID) continue;
+            // the face's direction from liquid cell n into the prop is −(ox, oy)
+            let k = slot[n];
+            if (k < 0) { k = b.cells.length; slot[n] = k; b.cells.push(n); b.bx.push(0); b.by.push(0); b.bw.push(0); }
+            // the liquid between n's centre and the prop's outline moves with the prop (see the file's head)
+            const dl = S.propDistance(p, rx + wx + ox * h, ry + wy + oy * h);
+            const ml = layer * (dl < 0 ? 0 : dl > h ? h : dl);
+            if (ox !== 0) { b.bx[k] -= ox; b.bw[k] += ox * ry; mx += ml; ii += ml * ry * ry; tg -= ry * ml * S.gx; }
+            else { b.by[k] -= oy; b.bw[k] -= oy * rx; my += ml; ii += ml * rx * rx; tg += rx * ml * S.gy; }
           }
         }
         for (const c of b.cells) slot[c] = -1;
       }
+      p.jx = 0; p.jy = 0; p.jw = 0;
       b.imx = 1 / mx; b.imy = 1 / my; b.iI = 1 / ii; b.tg = tg;
     });
   }
@@ -343,8 +408,7 @@ export function createRigidBodies(S: FlipState, scene: Scene): RigidBodies {
       return xCx;
     },
     finish(q) {
-      const { nx, h, gu, gv, solid } = S;
-      const k = WATER_DENSITY * h * h;
+      const k = WATER_DENSITY * S.h * S.h;
       bodies.forEach((b, bi) => {
         const p = b.prop;
         if (!p.free) return;
@@ -352,15 +416,7 @@ export function createRigidBodies(S: FlipState, scene: Scene): RigidBodies {
         for (let i = 0; i < b.cells.length; i++) { const qc = q[b.cells[i]]; sx += b.bx[i] * qc; sy += b.by[i] * qc; sw += b.bw[i] * qc; }
         p.vx += k * b.imx * sx; p.vy += k * b.imy * sy; p.omega += k * b.iI * sw;
         // the prop's faces beside liquid or air carry its new velocity (the liquid was solved against it)
-        const wx = p.cx + p.dx, wy = p.cy + p.dy;
-        for (const c of bodyCells[bi]) {
-          const i = c % nx, j = (c - i) / nx;
-          const su = p.vx - p.omega * ((j - 0.5) * h - wy), sv = p.vy + p.omega * ((i - 0.5) * h - wx);
-          if (solid[c - 1] === 0) gu[c] = su;
-          if (solid[c + 1] === 0) gu[c + 1] = su;
-          if (solid[c - nx] === 0) gv[c] = sv;
-          if (solid[c + nx] === 0) gv[c + nx] = sv;
-        }
+        writeFaces(p, bodyCells[bi]);
       });
     },
   };
@@ -372,5 +428,5 @@ export function createRigidBodies(S: FlipState, scene: Scene): RigidBodies {
     });
   }
 
-  return { advance, prepareCoupling, coupling, settle, states };
+  return { advance, prepareCoupling, viscousDrag, coupling, settle, states };
 }

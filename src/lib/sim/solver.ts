@@ -168,7 +168,7 @@ export function createSolver(scene: Scene, options: SolverOptions = {}): Solver 
     { name: 'density and drift', run: (dt) => densityAndDrift(S, dt) },
     { name: 'free surface', run: () => freeSurface(S) },
     // after the transfer to the grid (and the densities its liquid fractions read), before the projection
-    ...(viscous ? [{ name: 'viscosity', run: (dt: number) => viscous.run(dt) }] : []),
+    ...(viscous ? [{ name: 'viscosity', run: (dt: number) => { viscous.run(dt); if (hasFree) rigid.viscousDrag(viscous.reactionU, viscous.reactionV); } }] : []),
     { name: 'pressure', run: (dt) => { lastResidual = project(dt); } },
     ...(hasFree ? [{ name: 'prop contacts', run: () => rigid.settle() }] : []),
     { name: 'grid to particles', run: () => gridToParticles(S) },

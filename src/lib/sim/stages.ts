@@ -40,6 +40,11 @@ export interface PropRuntime {
   vx: number; vy: number; omega: number;
   /** True once a free prop is released: rigid.ts moves it, its keys no longer do. */
   free: boolean;
+  /**
+   * Impulse (N·s per unit depth) and its moment about the centroid (N·s·m) that this substep's collision stage
+   * gave the particles it pushed out of the prop, with the opposite sign: what they give the prop (rigid.ts).
+   */
+  jx: number; jy: number; jw: number;
 }
 
 interface SpoutRuntime {
@@ -172,7 +177,7 @@ export class FlipState implements ProjectionGrid {
       const b = shapeBounds(p.shape);
       const reach = Math.max(Math.hypot(b.minX - cx, b.minY - cy), Math.hypot(b.maxX - cx, b.minY - cy),
         Math.hypot(b.minX - cx, b.maxY - cy), Math.hypot(b.maxX - cx, b.maxY - cy));
-      return { shape: p.shape, keys: p.keys, doc: p, cx, cy, reach, dx: 0, dy: 0, cos: 1, sin: 0, angle: 0, vx: 0, vy: 0, omega: 0, free: false };
+      return { shape: p.shape, keys: p.keys, doc: p, cx, cy, reach, dx: 0, dy: 0, cos: 1, sin: 0, angle: 0, vx: 0, vy: 0, omega: 0, free: false, jx: 0, jy: 0, jw: 0 };
     });
     this.buildStaticSolids();
     const startFrame = scene.timing.startFrame;
@@ -513,6 +518,8 @@ export function collide(S: FlipState): void {
   const { width: W, height: H, radius: r, sides, nearSolid, drainCell, walls, props, drains, normal } = S;
   const lo = r, hiX = W - r, hiY = H - r;
   const testShapes = walls.length + props.length > 0, testDrains = drains.length > 0;
+  // mass of a particle per unit depth, kg/m: ρ_water·h²/ρ₀ (ρ₀ in particles per cell; the seeding's before it is fixed)
+  const mp = (WATER_DENSITY * S.h * S.h) / (S.restDensity > 0 ? S.restDensity : S.ppc);
   const x = S.x, y = S.y, u = S.u, v = S.v;
   let p = 0;
   while (p < S.n) {
@@ -543,7 +550,11 @@ export function collide(S: FlipState): void {
             const wx = pr.cx + pr.dx, wy = pr.cy + pr.dy;
             const sx = pr.vx - pr.omega * (py - wy), sy = pr.vy + pr.omega * (px - wx);
             const vn = (u[p] - sx) * nx + (v[p] - sy) * ny;
-            if (vn < 0) { u[p] -= vn * nx; v[p] -= vn * ny; }
+            if (vn < 0) {
+              u[p] -= vn * nx; v[p] -= vn * ny;
+              // Newton's third law: the particle's momentum change −vn·n·m_p is taken from a free prop
+              if (pr.free) { const jx = vn * nx * mp, jy = vn * ny * mp; pr.jx += jx; pr.jy += jy; pr.jw += (px - wx) * jy - (py - wy) * jx; }
+            }
           }
         }
         // a solid may have pushed the particle through a closed side: clamp again

@@ -69,6 +69,13 @@ export function sceneIsViscous(scene: Scene): boolean {
 export interface ViscousStep {
   /** Applies one implicit viscous step of dt seconds to S.gu, S.gv. */
   run(dt: number): void;
+  /**
+   * After run: per known face (a face touching a solid; u faces in `u`, v faces in `v`, indexed like gu/gv), the
+   * viscous impulse the liquid gave that face's solid over the step, per unit liquid density (m²·m/s per unit depth;
+   * × ρ gives N·s/m). 0 elsewhere. See reaction() for why it is exactly what the liquid's momentum lost.
+   */
+  readonly reactionU: Float64Array;
+  readonly reactionV: Float64Array;
   /** CG iterations of the last step. */
   readonly lastIterations: number;
   /** Relative residual reached by the last step. */
@@ -90,6 +97,7 @@ export function createViscousStep(S: ViscosityGrid, scene: Scene): ViscousStep {
   const cellList = new Int32Array(nc), nodeList = new Int32Array(nc), uList = new Int32Array(nc), vList = new Int32Array(nc);
   let nCells = 0, nNodes = 0, nU = 0, nV = 0;
   let lastIterations = 0, lastResidual = 0;
+  const reactionU = f64(), reactionV = f64();
 
   /** ν at cell centres: deposit-weighted mean of the particles' liquids (tent weights, as the density). */
   function depositViscosity(): void {
@@ -243,10 +251,30 @@ export function createViscousStep(S: ViscosityGrid, scene: Scene): ViscousStep {
     }
     lastIterations = it;
     lastResidual = bb > 0 ? Math.sqrt(rr / bb) : 0;
+    reaction();
+  }
+
+  /**
+   * The solids' share of the step (Newton's third law, what free props feel as viscous drag): K annihilates a
+   * uniform velocity (no strain), so Σ over all faces of (K·u)_f = 0 and the liquid's momentum change,
+   * h²·Σ_unknown V_f (u_f − u*_f) = −h²·Σ_unknown (K·u)_f, equals h²·Σ_known (K·u)_f: the stress the known
+   * (solid) faces exert. Each solid takes the opposite, −h²·(K·u)_f on its faces (up to the CG tolerance).
+   */
+  function reaction(): void {
+    reactionU.fill(0); reactionV.fill(0);
+    if (nU + nV === 0) return;
+    stress(S.gu, S.gv);
+    const h2 = S.h * S.h, { solid } = S;
+    for (let j = 1; j < ny - 1; j++) {
+      for (let i = 1, c = 1 + nx * j; i < nx - 1; i++, c++) {
+        if (unkU[c] === 0 && (solid[c] !== 0 || solid[c - 1] !== 0)) reactionU[c] = -h2 * kxU(c);
+        if (unkV[c] === 0 && (solid[c] !== 0 || solid[c - nx] !== 0)) reactionV[c] = -h2 * kxV(c);
+      }
+    }
   }
 
   return {
-    run,
+    run, reactionU, reactionV,
     get lastIterations() { return lastIterations; },
     get lastResidual() { return lastResidual; },
   };
