@@ -181,4 +181,22 @@ describe('free props float (Archimedes)', () => {
     }
     expect(fastest).toBeLessThan(limit);
   }, 90_000);
+
+  it('ρ = 750 kg/m³ comes to rest within 10 s: speed below 1 % of √(g·height) over the following 2 s', () => {
+    // Same bound as above (the acceptance). The heavier float sits deeper and bobs at about the closed
+    // tank's first sloshing period (1.1 s measured; linear theory for this 1 m tank, ω² = g·k·tanh(k·d),
+    // k = π/L: 1.23 s — Lamb, Hydrodynamics, 1932, §227), so it trades energy with the sloshing for longer.
+    // It used to stay above the bound past 10 s: the collision stage pushed the particles the bobbing prop
+    // overtook without taking that push from the prop (stages.ts collide), so nothing the prop gave the liquid
+    // slowed it. With Newton's third law there, measured 0.41 of the bound over 10–12 s (tidemark-flip/4; with
+    // seeds 2 and 3 of the seeding jitter 0.82 and 0.85: it rests, but not by a wide margin).
+    const sim = floating(750);
+    const limit = 0.01 * Math.sqrt(G * H);
+    let fastest = 0;
+    for (let f = 1; f <= 288; f++) {
+      const p = sim.stepFrame().props[0];
+      if (f > 240) fastest = Math.max(fastest, speed(p));
+    }
+    expect(fastest).toBeLessThan(limit);
+  }, 120_000);
 });
