@@ -119,6 +119,19 @@ describe('blocking editor in Chromium', () => {
       await page.keyboard.press('Escape');
       await page.getByRole('tab', { name: 'Parameters' }).click();
       await screenshot(page, 'editor-3b-parameters');
+      // Any cell size in range is taken as typed, and the tank keeps its size (no snapping to whole cells)
+      const tankBefore = (await docOf(page)).tank;
+      const cellField = page.getByTestId('param-tank.cellSize');
+      await cellField.fill('0.0137');
+      await cellField.press('Enter');
+      await page.waitForFunction(() => (window as any).tidemarkEditor.doc().tank.cellSize === 0.0137);
+      const tankAfter = (await docOf(page)).tank;
+      expect(tankAfter.width).toBe(tankBefore.width);
+      expect(tankAfter.height).toBe(tankBefore.height);
+      await screenshot(page, 'editor-3c-cell-size');
+      await cellField.fill(String(tankBefore.cellSize));
+      await cellField.press('Enter');
+      await page.waitForFunction((c) => (window as any).tidemarkEditor.doc().tank.cellSize === c, tankBefore.cellSize);
       await page.getByRole('tab', { name: 'Inspector' }).click();
 
       // Unsaved work survives a reload and is offered back.
