@@ -58,6 +58,7 @@ uniform vec2 uTexSize;
 uniform vec2 uTintSize;
 uniform float uCellPx;
 uniform float uRange;
+uniform float uPx;  // view px per drawn pixel (2 when the canvas is drawn at half size, see viewPxPerTexel)
 out vec4 finalColor;
 void main() {
   // Grid coordinate of the pixel centre (cell k centred on pixel (k − 1 + ½)·cellPx; one guard cell), then the
@@ -66,9 +67,12 @@ void main() {
   vec4 t = texture(uDensity, (g + 0.5) / uTexSize);
   float r = (t.r * 65280.0 + t.g * 255.0) * (uRange / 65535.0);
   float dist = (r - 0.5) * 2.5 * uCellPx;
-  if (dist < -1.5) discard;
-  float cover = clamp(dist + 0.5, 0.0, 1.0);
-  float edge = clamp(1.5 - abs(dist), 0.0, 1.0);
+  // At full size (uPx = 1) the CPU look's cover and 2-px edge line; at half size the same areas, anti-aliased over a
+  // drawn pixel: the line keeps its 2 view px of ink.
+  float reach = 1.0 + 0.5 * uPx;
+  if (dist < -reach) discard;
+  float cover = clamp(dist / uPx + 0.5, 0.0, 1.0);
+  float edge = clamp((reach - abs(dist)) / uPx, 0.0, 1.0);
   // Liquid colour and depth shade s of the cell grid (SURFACE_SHADING in src/lib/render/looks.ts).
   vec4 tint = texture(uTint, (g + 0.5) / uTintSize);
   vec3 base = tint.rgb;
@@ -84,6 +88,15 @@ void main() {
 }`;
 
 
+/**
+ * View pixels per drawn pixel for a view size: 1 up to about 0.64 megapixels, 2 above (1920×1080 → 960×540). The dot
+ * canvas and the WebGL canvas are both drawn at that size and scaled up by the browser's compositor: SwiftShader pays
+ * per fragment, and for every pixel of a WebGL canvas it hands to the compositor.
+ */
+export function viewPxPerTexel(width: number, height: number): number {
+  return Math.max(1, Math.ceil(Math.sqrt((width * height) / 640_000)));
+}
+
 /** Draws one look of a particle frame: a pixi container (the surface) and a canvas over it (dots), view-sized. */
 export class GpuLooks {
   /** The WebGL part (surface and spray), for the pixi stage. */
@@ -93,6 +106,9 @@ export class GpuLooks {
   private readonly dotContext: CanvasRenderingContext2D;
   private dotImage: ImageData | null = null;
   private dotWords = new Uint32Array(0);
+  /** Texels painted this frame and last ([x0, y0, x1, y1), empty when x1 ≤ x0): only they are cleared and put. */
+  private dirty = [0, 0, 0, 0];
+  private lastDirty = [0, 0, 0, 0];
   private readonly speedLut = new Uint32Array(256);
   private sprayXY = new Int32Array(0);
   private readonly cpu: LookRenderer;
@@ -102,6 +118,7 @@ export class GpuLooks {
     uTintSize: { value: new Float32Array([1, 1]), type: 'vec2<f32>' },
     uCellPx: { value: 1, type: 'f32' },
     uRange: { value: DENSITY_RANGE, type: 'f32' },
+    uPx: { value: 1, type: 'f32' },
   });
   private readonly surfaceShader: Shader;
   private readonly quad: Float32Array;
@@ -211,7 +228,7 @@ export class GpuLooks {
    * same pixels as in the CPU look), 2 at 1920×1080, so putImageData never moves more than ~2.5 MB a frame.
    */
   private get texelPx(): number {
-    return Math.max(1, Math.ceil(Math.sqrt((this.width * this.height) / 640_000)));
+    return viewPxPerTexel(this.width, this.height);
   }
 
   /** Sizes the dot canvas for `texelPx` view pixels a texel and clears it; returns its words (0xAABBGGRR). */
@@ -225,14 +242,24 @@ export class GpuLooks {
       this.dotCanvasEl.style.height = `${ch * texelPx}px`;
       this.dotImage = new ImageData(cw, ch);
       this.dotWords = new Uint32Array(this.dotImage.data.buffer);
+      this.lastDirty = [0, 0, cw, ch];
+    } else {
+      // Clear what the last frame painted (a splash covers a part of the view; 1920×1080 has 0.5 M texels to clear).
+      const [x0, y0, x1, y1] = this.lastDirty;
+      if (x1 > x0) for (let y = y0; y < y1; y++) this.dotWords.fill(0, y * cw + x0, y * cw + x1);
     }
-    this.dotWords.fill(0);
+    this.dirty = [cw, ch, 0, 0];
     return this.dotWords;
   }
 
   /** Paints a square of `side` texels with its top-left texel at (tx, ty), clipped to the canvas. */
   private paintDot(words: Uint32Array, tx: number, ty: number, side: number, colour: number) {
     const { width: cw, height: ch } = this.dotImage!;
+    const d = this.dirty;
+    if (tx < d[0]) d[0] = Math.max(0, tx);
+    if (ty < d[1]) d[1] = Math.max(0, ty);
+    if (tx + side > d[2]) d[2] = Math.min(cw, tx + side);
+    if (ty + side > d[3]) d[3] = Math.min(ch, ty + side);
     if (side === 1) {
       if (tx >= 0 && ty >= 0 && tx < cw && ty < ch) words[ty * cw + tx] = colour;
       return;
@@ -243,7 +270,12 @@ export class GpuLooks {
   }
 
   private showDots() {
-    this.dotContext.putImageData(this.dotImage!, 0, 0);
+    // Put the texels painted now or last frame (those were cleared): the rest of the canvas is unchanged.
+    const [a0, b0, a1, b1] = this.dirty, [c0, d0, c1, d1] = this.lastDirty;
+    const x0 = Math.min(a0, c1 > c0 ? c0 : a0), y0 = Math.min(b0, d1 > d0 ? d0 : b0);
+    const x1 = Math.max(a1, c1), y1 = Math.max(b1, d1);
+    if (x1 > x0 && y1 > y0) this.dotContext.putImageData(this.dotImage!, 0, 0, x0, y0, x1 - x0, y1 - y0);
+    this.lastDirty = a1 > a0 && b1 > b0 ? this.dirty : [0, 0, 0, 0];
     this.dotCanvasEl.style.display = 'block';
   }
 
@@ -315,9 +347,9 @@ export class GpuLooks {
     const source = this.ensureDensityTexture(texWidth, gh);
     const bytes = this.densityBytes;
     const toWord = 65535 / DENSITY_RANGE;
-    // The shader discards pixels with r < ½ − 1.5/(2.5·cellPx); only cells at or above that level can colour a pixel,
+    // The shader discards pixels with r < ½ − (1 + ½·uPx)/(2.5·cellPx); only cells at or above that level can colour a pixel,
     // so the quad covers just their bounding box (software GL pays for every fragment of a full-view quad).
-    const low = 0.5 - 1.5 / (2.5 * cellPx);
+    const low = 0.5 - (1 + 0.5 * this.texelPx) / (2.5 * cellPx);
     let iMin = gw, iMax = -1, jMin = gh, jMax = -1;
     for (let j = 0; j < gh; j++) {
       let p = j * texWidth * 2;
@@ -352,6 +384,7 @@ export class GpuLooks {
     (u.uTintSize as Float32Array)[0] = gw;
     (u.uTintSize as Float32Array)[1] = gh;
     u.uCellPx = cellPx;
+    u.uPx = this.texelPx;
     this.surfaceUniforms.update();
     this.surface.visible = iMax >= 0;
 
