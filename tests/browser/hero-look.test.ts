@@ -1,6 +1,7 @@
 // Browser: the hero demo shot (the free soda can dropped into the rooftop pool, CNB_020's scene from the demo seed)
 // baked and opened on its version page at a mid-clip frame. The screenshot in test-results/screenshots/ is what a
-// client would judge: the can drawn where the solver put it, the pool water in its own colour over the plate.
+// client would judge: the can drawn where the solver put it, the pool water in its own colour over the plate, and the
+// foam and spray the splash throws up (white on the water and droplets in the air) that the first frame does not have.
 import { describe, it, expect, beforeAll, afterAll } from 'vitest';
 import { countPixels, openBrowser, openPlayerAt, screenshot, signInAs } from '../support/browser';
 import { bakeAndWait } from '../support/bake';
@@ -50,6 +51,9 @@ describe('the hero demo shot on its version page', () => {
       page.on('pageerror', (e) => errors.push(e.message));
       await signInAs(page, studio.members.artist.email, studio.members.artist.password);
       await page.waitForURL((url) => !url.pathname.startsWith('/sign-in'));
+      // The first frame, before the can meets the water: the plate's own near-white pixels, to compare foam against.
+      await openPlayerAt(page, studio.slug, versionId, FIRST);
+      const before = await page.getByTestId('player-view').screenshot({ path: 'test-results/screenshots/hero-look-first-frame-view.png' });
       await openPlayerAt(page, studio.slug, versionId, MID);
 
       // The looks say what they show; the liquid look is the one open.
@@ -72,6 +76,14 @@ describe('the hero demo shot on its version page', () => {
       // The pool water (#3A8FB7 shaded) covers much of the lower half: blue well over red.
       const water = countPixels(view, (r, g, bl) => bl > r + 50 && bl > 90);
       expect(water).toBeGreaterThan(box.width * box.height * 0.15);
+      // Foam and spray: near-white dots (DIFFUSE_LOOK in src/lib/render/looks.ts: foam #F6FAFC at 0.92, spray #D6EAF6 at
+      // 0.8; the liquid's lit edge, #3A8FB7 lifted 70 % toward white, stays below these levels). The plate is the same
+      // in both frames, so what the mid-clip frame has more of is the splash's foam and spray.
+      const whiteish = (r: number, g: number, bl: number) => r > 200 && g > 225 && bl > 235;
+      const foamBefore = countPixels(before, whiteish);
+      const foamMid = countPixels(view, whiteish);
+      console.log(`hero look: ${foamMid} foam/spray pixels at frame ${MID}, ${foamBefore} at ${FIRST}`);
+      expect(foamMid - foamBefore).toBeGreaterThan(40);
 
       // The particle-speed look still draws the can.
       await looks.getByRole('button', { name: 'Particle speed' }).click();
