@@ -8,7 +8,7 @@ import { createImage, packPremultiplied, rampColour, type PixelImage } from './i
 import type { TankToView } from './view';
 import type { ClipLook, PropPose } from '../clip/format';
 import { DEFAULT_LIQUID } from '../scene/schema';
-import { blendOver, drawSolids, hexColour, outlineBounds, outlinePairs, solidOutlines } from './solids';
+import { blendOver, drawSolids, hexColour, outlineBounds, outlinePairs, solidOutlines, type PropImage } from './solids';
 import { pointInPolygon } from '../scene/shapes';
 
 export const RENDER_LOOKS = ['surface', 'speed'] as const;
@@ -49,6 +49,8 @@ export interface LookOptions {
   tank?: { width: number; height: number };
   /** The clip's drawing facts: liquid colours, walls and props (omitted: one liquid in the default colour, no solids). */
   scene?: ClipLook;
+  /** Per prop of `scene.props`, its picture when it has one (drawn inside its outline instead of its fill colour). */
+  propImages?: readonly (PropImage | null | undefined)[];
 }
 
 /** Speed ramp, slow → fast: deep blue, cyan, pale yellow, coral. Stops are [position, r, g, b]. */
@@ -208,7 +210,7 @@ export class LookRenderer {
       if (look === 'speed') this.drawSpeed(frame, toView, options);
       else this.drawSurface(frame, toView, options);
     }
-    if (options.scene) drawSolids(this.image, solidOutlines(options.scene, frame.props, toView));
+    if (options.scene) drawSolids(this.image, solidOutlines(options.scene, frame.props, toView, options.propImages));
     return this.image;
   }
 
