@@ -95,7 +95,10 @@ window.preview = async ({ particles, frames, width, height, look, frame }) => {
   const plateCanvas = platePicture(1920, 1080);
   const plate = { kind: 'still', width: 1920, height: 1080, frameAt: async () => plateCanvas, destroy() {} };
   const source = { startFrame: 1001, endFrame: 1000 + frames, tankWidth: 3.2, tankHeight: 1.8, look: LOOK, frameAt: async (f) => data[f - 1001] };
-  const engine = await PlayerEngine.create({ host, frames: source, plate, metresPerPixel: 3.2 / 1920, look, lookOptions: { restDensity: particles * 0.8 / (3.2 * 0.5), speedScale: 6 } });
+  // The can as a picture with alpha (yellow top half, a white band, transparent bottom half), to look at.
+  const pw = 24, ph = 48, picture = { width: pw, height: ph, data: new Uint8Array(pw * ph * 4) };
+  for (let v = 0; v < ph / 2; v++) for (let u = 0; u < pw; u++) picture.data.set(v % 12 < 3 ? [250, 250, 250, 255] : [240, 200, 20, 255], 4 * (v * pw + u));
+  const engine = await PlayerEngine.create({ host, frames: source, plate, metresPerPixel: 3.2 / 1920, look, lookOptions: { restDensity: particles * 0.8 / (3.2 * 0.5), speedScale: 6, propImages: [picture] } });
   await engine.show(frame);
   window.previewEngine = engine;
 };

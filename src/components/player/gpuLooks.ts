@@ -7,7 +7,7 @@
 // a 2D canvas over the WebGL one, at the view's size up to ~0.64 megapixels and at half size above (1920×1080 →
 // 960×540, scaled up by the browser's compositor with image-rendering: pixelated); 50k GL points cost SwiftShader
 // 30–55 ms a frame, this a few ms. (At half size dots land on even pixels: the one difference from the CPU look.)
-import { Buffer, BufferImageSource, BufferUsage, Container, Geometry, GlProgram, Graphics, Mesh, Shader, UniformGroup } from 'pixi.js';
+import { Buffer, BufferImageSource, BufferUsage, Container, Geometry, GlProgram, Graphics, Mesh, Shader, Sprite, Texture, UniformGroup } from 'pixi.js';
 import { rampColour } from '~/lib/render/image';
 import {
   LookRenderer,
@@ -22,7 +22,8 @@ import {
   type ParticleFrame,
   type RenderLook,
 } from '~/lib/render/looks';
-import { solidOutlines, type SolidOutline } from '~/lib/render/solids';
+import { solidOutlines, type PropImage, type SolidOutline } from '~/lib/render/solids';
+import { shapeBounds } from '~/lib/scene/shapes';
 import type { ClipLook } from '~/lib/clip/format';
 import type { TankToView } from '~/lib/render/view';
 
@@ -138,8 +139,9 @@ export class GpuLooks {
   });
   /** Walls and props, over the liquid: built once per look and view, then props only move (no geometry a frame). */
   private readonly solids = new Container();
-  private solidsFor: { look: ClipLook; key: string } | null = null;
-  private propGraphics: Graphics[] = [];
+  private solidsFor: { look: ClipLook; key: string; pictures: LookOptions['propImages'] } | null = null;
+  private propGraphics: Container[] = [];
+  private pictureTextures: Texture[] = [];
 
   constructor(
     readonly width: number,
@@ -188,7 +190,7 @@ export class GpuLooks {
     this.solids.visible = !!look;
     if (!look) return;
     const key = `${t.ox},${t.oy},${t.sx},${t.sy}`;
-    if (this.solidsFor?.look !== look || this.solidsFor.key !== key) this.buildSolids(look, t, key);
+    if (this.solidsFor?.look !== look || this.solidsFor.key !== key || this.solidsFor.pictures !== options.propImages) this.buildSolids(look, t, key, options.propImages);
     // A prop is built in its drawn pose about its drawn centroid: place that centroid at the pose and turn it
     // (view y points down, so a counter-clockwise angle is a negative pixi rotation).
     look.props.forEach((p, k) => {
@@ -201,8 +203,10 @@ export class GpuLooks {
     });
   }
 
-  private buildSolids(look: ClipLook, t: TankToView, key: string) {
-    for (const c of this.solids.removeChildren()) c.destroy();
+  private buildSolids(look: ClipLook, t: TankToView, key: string, pictures: LookOptions['propImages']) {
+    for (const c of this.solids.removeChildren()) c.destroy({ children: true });
+    for (const tex of this.pictureTextures) tex.destroy(true);
+    this.pictureTextures = [];
     const colour = (c: readonly number[]) => (Math.round(c[0]) << 16) | (Math.round(c[1]) << 8) | Math.round(c[2]);
     const paint = (g: Graphics, s: SolidOutline) => {
       g.poly(Array.from(s.points), true);
@@ -212,15 +216,45 @@ export class GpuLooks {
     const walls = new Graphics();
     for (const s of solidOutlines({ ...look, props: [] }, [], t)) paint(walls, s);
     this.solids.addChild(walls);
-    this.propGraphics = look.props.map((p) => {
-      const g = new Graphics();
+    this.propGraphics = look.props.map((p, k) => {
       const [cx, cy] = p.centroid;
-      paint(g, solidOutlines({ ...look, walls: [], props: [p] }, [{ x: cx, y: cy, angle: 0 }], t)[0]);
+      const outline = solidOutlines({ ...look, walls: [], props: [p] }, [{ x: cx, y: cy, angle: 0 }], t)[0];
+      const picture = pictures?.[k];
+      let g: Container;
+      if (picture) {
+        // The picture over the drawn shape's bounds, masked by the outline (inside only, as the CPU look), then the rim.
+        g = new Container();
+        const sprite = new Sprite(this.pictureTexture(picture));
+        const b = shapeBounds(p.shape);
+        sprite.position.set(t.ox + b.minX * t.sx, t.oy - b.maxY * t.sy);
+        sprite.width = (b.maxX - b.minX) * t.sx;
+        sprite.height = (b.maxY - b.minY) * t.sy;
+        const mask = new Graphics().poly(Array.from(outline.points), true).fill({ color: 0xffffff });
+        sprite.mask = mask;
+        const rim = new Graphics();
+        paint(rim, { ...outline, fill: null });
+        g.addChild(sprite, mask, rim);
+      } else {
+        const graphics = new Graphics();
+        paint(graphics, outline);
+        g = graphics;
+      }
       g.pivot.set(t.ox + cx * t.sx, t.oy - cy * t.sy);
       this.solids.addChild(g);
       return g;
     });
-    this.solidsFor = { look, key };
+    this.solidsFor = { look, key, pictures };
+  }
+
+  /** A texture of a prop's picture (straight-alpha RGBA; premultiplied as it is uploaded). */
+  private pictureTexture(picture: PropImage): Texture {
+    const source = new BufferImageSource({
+      resource: new Uint8Array(picture.data.buffer, picture.data.byteOffset, picture.data.byteLength), width: picture.width, height: picture.height,
+      format: 'rgba8unorm', alphaMode: 'premultiply-alpha-on-upload', scaleMode: 'linear', addressMode: 'clamp-to-edge', autoGenerateMipmaps: false,
+    });
+    const texture = new Texture({ source });
+    this.pictureTextures.push(texture);
+    return texture;
   }
 
   /**
@@ -426,5 +460,6 @@ export class GpuLooks {
     this.container.destroy({ children: true });
     this.densitySource?.destroy();
     this.tintSource?.destroy();
+    for (const tex of this.pictureTextures) tex.destroy(true);
   }
 }
