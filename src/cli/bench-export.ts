@@ -1,6 +1,6 @@
 // Export benchmark: bakes 96 frames of the reference dam break into a clip in Node, then exports it in headless
 // Chromium (Debian's, flags as in tests/support/browser.ts) as GIF and MP4 at 960×540 with burn-ins, the way the
-// Export panel does (gif.js workers, ffmpeg.wasm single-thread core). Prints figures, then one JSON line.
+// Export panel does (one NeuQuant palette + omggif on the page, ffmpeg.wasm single-thread core). Prints figures, then one JSON line.
 import { build } from 'vite';
 import { chromium } from 'playwright-core';
 import { mkdtempSync, readFileSync, rmSync, existsSync } from 'node:fs';

@@ -2,7 +2,7 @@
 // (SwiftShader), for each render look at the on-page size and at full 1920×1080. Bundles the real engine and playback
 // (src/components/player/) with esbuild, feeds them synthetic splash frames over a painted plate, and prints per look
 // and size (two liquids, a wall, a turning prop, foam and spray drawn, as a version 2 clip asks): frame time mean/p95 (CPU + upload + GPU, waited for), the most frames rAF can draw, the fps the player's
-// Playback holds at 25 and 30 fps, and the browser's own no-op redraw rate; then a JSON line.
+// Playback holds at 24 and 25 fps, and the browser's own no-op redraw rate; then a JSON line.
 // Run: npx tsx src/cli/bench-player.ts (BENCH_QUICK=1: 960×540 only; BENCH_PREVIEW=dir: pictures of each look).
 import { build } from 'esbuild';
 import path from 'node:path';
@@ -11,9 +11,9 @@ import { cpus, loadavg, tmpdir } from 'node:os';
 import { chromium } from 'playwright-core';
 
 const root = path.resolve(import.meta.dirname, '../..');
-const PARTICLES = Number(process.env.BENCH_PARTICLES ?? 50_000);
+const PARTICLES = Number(process.env.BENCH_PARTICLES ?? 100_000); // the issue's case: 100k liquid particles plus foam
 const FRAMES = 48;
-const PLAY_FPS = [25, 30];
+const PLAY_FPS = [24, 25]; // the issue's shot rates
 const PLAY_MS = Number(process.env.BENCH_PLAY_MS ?? 3000);
 const SIZES: [number, number][] = process.env.BENCH_QUICK ? [[960, 540]] : [
   [960, 540],
@@ -95,7 +95,10 @@ window.preview = async ({ particles, frames, width, height, look, frame }) => {
   const plateCanvas = platePicture(1920, 1080);
   const plate = { kind: 'still', width: 1920, height: 1080, frameAt: async () => plateCanvas, destroy() {} };
   const source = { startFrame: 1001, endFrame: 1000 + frames, tankWidth: 3.2, tankHeight: 1.8, look: LOOK, frameAt: async (f) => data[f - 1001] };
-  const engine = await PlayerEngine.create({ host, frames: source, plate, metresPerPixel: 3.2 / 1920, look, lookOptions: { restDensity: particles * 0.8 / (3.2 * 0.5), speedScale: 6 } });
+  // The can as a picture with alpha (yellow top half, a white band, transparent bottom half), to look at.
+  const pw = 24, ph = 48, picture = { width: pw, height: ph, data: new Uint8Array(pw * ph * 4) };
+  for (let v = 0; v < ph / 2; v++) for (let u = 0; u < pw; u++) picture.data.set(v % 12 < 3 ? [250, 250, 250, 255] : [240, 200, 20, 255], 4 * (v * pw + u));
+  const engine = await PlayerEngine.create({ host, frames: source, plate, metresPerPixel: 3.2 / 1920, look, lookOptions: { restDensity: particles * 0.8 / (3.2 * 0.5), speedScale: 6, propImages: [picture] } });
   await engine.show(frame);
   window.previewEngine = engine;
 };
@@ -244,13 +247,15 @@ async function main() {
       console.log(`  ${'(browser)'.padEnd(8)} ${`${width}×${height}`.padEnd(10)} no-op redraw ${out.noopFps.toFixed(0)} fps, rAF with nothing drawn ${out.idleFps.toFixed(0)} fps (the ceiling here)`);
       all.push({ look: 'browser', width, height, noopRedrawFps: +out.noopFps.toFixed(1), idleRafFps: +out.idleFps.toFixed(1) });
     }
-    // BENCH_PREVIEW=dir: a picture of frame 1012 in each look, to look at.
+    // BENCH_PREVIEW=dir: a picture of frame 1012 in each look at each size, to look at.
     if (process.env.BENCH_PREVIEW) {
-      for (const look of ['surface', 'speed']) {
-        await page.evaluate((a) => (window as any).preview(a), { particles: PARTICLES, frames: FRAMES, width: 960, height: 540, look, frame: 1012 });
-        await page.waitForTimeout(300);
-        await page.locator('#host').screenshot({ path: path.join(process.env.BENCH_PREVIEW, `bench-player-${look}.png`) });
-        await page.evaluate(() => (window as any).previewEngine.destroy());
+      for (const [width, height] of SIZES) {
+        for (const look of ['surface', 'speed']) {
+          await page.evaluate((a) => (window as any).preview(a), { particles: PARTICLES, frames: FRAMES, width, height, look, frame: 1012 });
+          await page.waitForTimeout(300);
+          await page.locator('#host').screenshot({ path: path.join(process.env.BENCH_PREVIEW, `bench-player-${look}-${width}.png`) });
+          await page.evaluate(() => (window as any).previewEngine.destroy());
+        }
       }
     }
   } finally {

@@ -10,7 +10,7 @@ const BENCHES: { name: string; file: string; args: string[]; what: string }[] = 
   { name: 'clip', file: 'src/cli/bench-clip.ts', args: [], what: 'clip size, error, encode/decode/seek' },
   { name: 'cost', file: 'src/cli/bench-cost.ts', args: ['48'], what: 'solver work units per second (sets the default bake cost limit)' },
   { name: 'bake', file: 'src/cli/bench-bake.ts', args: [], what: 'bake throughput with 1 and 2 worker threads' },
-  { name: 'player', file: 'src/cli/bench-player.ts', args: [], what: 'player frame time, 50k particles, headless Chromium' },
+  { name: 'player', file: 'src/cli/bench-player.ts', args: [], what: 'player frame time, 100k particles plus foam, headless Chromium' },
   { name: 'preview', file: 'src/cli/bench-preview.ts', args: [], what: 'live preview frames per second in headless Chromium' },
   { name: 'export', file: 'src/cli/bench-export.ts', args: [], what: 'GIF, MP4 and comp passes ZIP export of 96 frames at 960×540' },
 ];

@@ -301,6 +301,8 @@ describe('exports and share links in Chromium', () => {
       await v.getByLabel(/^Comment/).fill('Can the splash reach the railing?');
       await v.getByRole('button', { name: 'Send comment' }).click();
       await v.getByTestId('shared-sent').waitFor();
+      // The sent line pairs the frame with its source timecode (SMPTE ST 12-1 hh:mm:ss:ff), not the number alone.
+      expect(await v.getByTestId('shared-sent').textContent()).toMatch(new RegExp(`at frame ${FIRST} · \\d\\d:\\d\\d:\\d\\d[:;]\\d\\d\\.`));
       await screenshot(v, 'share-page-commented');
       const html = await v.content();
       expect(html).not.toContain(sup.email);

@@ -1,6 +1,7 @@
 // Browser: the hero demo shot (the free soda can dropped into the rooftop pool, CNB_020's scene from the demo seed)
 // baked and opened on its version page at a mid-clip frame. The screenshot in test-results/screenshots/ is what a
-// client would judge: the can drawn where the solver put it, the pool water in its own colour over the plate.
+// client would judge: the can drawn where the solver put it, the pool water in its own colour over the plate, and the
+// foam and spray the splash throws up (white on the water and droplets in the air) that the first frame does not have.
 import { describe, it, expect, beforeAll, afterAll } from 'vitest';
 import { countPixels, openBrowser, openPlayerAt, screenshot, signInAs } from '../support/browser';
 import { bakeAndWait } from '../support/bake';
@@ -14,6 +15,8 @@ import { rooftopPoolPlate } from '../../src/lib/server/demo-plates';
 let studio: TestStudio;
 let versionId: number;
 const FIRST = 1001, LAST = 1084, MID = 1042;
+/** Frames while the can splashes down, to find its foam and spray in. */
+const SPLASH = [1010, 1013, 1016, 1020];
 const PLATE = { width: 960, height: 540 };
 
 beforeAll(async () => {
@@ -50,6 +53,9 @@ describe('the hero demo shot on its version page', () => {
       page.on('pageerror', (e) => errors.push(e.message));
       await signInAs(page, studio.members.artist.email, studio.members.artist.password);
       await page.waitForURL((url) => !url.pathname.startsWith('/sign-in'));
+      // The first frame, before the can meets the water: the plate's own near-white pixels, to compare foam against.
+      await openPlayerAt(page, studio.slug, versionId, FIRST);
+      const before = await page.getByTestId('player-view').screenshot({ path: 'test-results/screenshots/hero-look-first-frame-view.png' });
       await openPlayerAt(page, studio.slug, versionId, MID);
 
       // The looks say what they show; the liquid look is the one open.
@@ -73,6 +79,24 @@ describe('the hero demo shot on its version page', () => {
       const water = countPixels(view, (r, g, bl) => bl > r + 50 && bl > 90);
       expect(water).toBeGreaterThan(box.width * box.height * 0.15);
 
+      // Foam and spray while the can splashes down (it meets the water about 0.24 s in, frame ~1007 at 25 fps):
+      // near-white dots (DIFFUSE_LOOK in src/lib/render/looks.ts: foam #F6FAFC at 0.92, spray #D6EAF6 at 0.8; the
+      // liquid's lit edge, #3A8FB7 lifted 70 % toward white, stays below these levels). The plate is the same in every
+      // frame, so what a splash frame has more of than the first frame is the splash's foam and spray.
+      const whiteish = (r: number, g: number, bl: number) => r > 200 && g > 225 && bl > 235;
+      const foamBefore = countPixels(before, whiteish);
+      let best = { frame: 0, foam: -1 };
+      for (const f of SPLASH) {
+        await openPlayerAt(page, studio.slug, versionId, f);
+        const shot = await page.getByTestId('player-view').screenshot({ path: `test-results/screenshots/hero-look-splash-${f}-view.png` });
+        const foam = countPixels(shot, whiteish) - foamBefore;
+        console.log(`hero look: ${foam} more foam/spray pixels at frame ${f} than at ${FIRST}`);
+        if (foam > best.foam) best = { frame: f, foam };
+      }
+      // Not asserted yet: see the todo below.
+      console.log(`hero look: most foam/spray at frame ${best.frame} (${best.foam} px)`);
+      await openPlayerAt(page, studio.slug, versionId, MID);
+
       // The particle-speed look still draws the can.
       await looks.getByRole('button', { name: 'Particle speed' }).click();
       await page.waitForTimeout(300);
@@ -83,4 +107,9 @@ describe('the hero demo shot on its version page', () => {
       await b.close();
     }
   }, 240_000);
+
+  // Headless, the hero bake's foam stage emits at most 6 diffuse particles a frame (frames 1002–1029, look.foam 1 and
+  // 2 alike): the splash-frame screenshots above show at most 8 foam pixels more than the first frame. Needs the
+  // foam stage's emission tuned for a light can's 2.4 m/s drop (src/lib/sim/diffuse.ts), then: > 40 pixels.
+  it.todo('shows foam and spray while the can splashes down (more than 40 near-white pixels beyond the first frame)');
 });

@@ -302,5 +302,5 @@ describe('shot library in Chromium', () => {
     } finally {
       await b.close();
     }
-  });
+  }, 180_000);
 });

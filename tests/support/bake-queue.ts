@@ -58,7 +58,9 @@ export function useQueueDatabase(workerEnv: Record<string, string>) {
 
   /** Starts a bake worker process with `threads` slots; its output goes to TEST_SCRATCH/worker-<pid>.log. */
   function startWorker(extraEnv: Record<string, string> = {}, threads = 1): ChildProcess {
-    const child = spawn(path.join(root, 'node_modules/.bin/tsx'), ['src/cli/worker.ts'], {
+    // Node with tsx's loader, as `npm start` runs it: the tsx launcher relays SIGTERM and, when the child does not
+    // acknowledge within 30 ms (a loaded machine), kills it and exits 143, which is not the worker's own hand-back.
+    const child = spawn(process.execPath, ['--import', 'tsx', 'src/cli/worker.ts'], {
       cwd: root,
       env: { ...process.env, ...env, BAKE_WORKERS: String(threads), ...extraEnv },
       stdio: ['ignore', 'pipe', 'pipe'],

@@ -35,7 +35,7 @@ export async function openBrowser(): Promise<{ context: BrowserContext; page: Pa
     if (/Content Security Policy/i.test(msg.text())) {
       cspViolations.push(msg.text());
       console.error(`[csp] ${msg.text()}`);
-    } else if (msg.type() === 'error') console.error(`[browser] ${msg.text()}`);
+    } else if (msg.type() === 'error') console.error(`[browser] ${msg.text()}${msg.location().url ? ` (${msg.location().url})` : ''}`);
   });
   context.on('weberror', (e) => console.error(`[browser] uncaught: ${e.error().message}`));
   // Each browser is its own visitor: its API calls carry their own client address (the test app trusts its loopback

@@ -276,7 +276,7 @@ export default function Editor({ boot }: { boot: EditorBoot }) {
             ))}
           </div>
           <div className="min-h-0 flex-1 overflow-y-auto">
-            {panel === 'inspector' ? <Inspector store={store} snap={snap} /> : panel === 'liquids' ? <LiquidsPanel store={store} snap={snap} /> : <ParamsPanel store={store} snap={snap} />}
+            {panel === 'inspector' ? <Inspector store={store} snap={snap} shot={boot.shot} /> : panel === 'liquids' ? <LiquidsPanel store={store} snap={snap} /> : <ParamsPanel store={store} snap={snap} />}
           </div>
           <p className="border-t border-sand-line px-3 py-1.5 text-[0.7rem] text-ink-muted" role="status" aria-live="polite" data-testid="editor-status">{snap.status || 'Ready'}</p>
         </aside>

@@ -13,10 +13,12 @@ import type { ShapeDoc } from '~/lib/scene/schema';
 import { jumpWarning } from '~/lib/editor/key-jump';
 import { FIRST_FREE_DENSITY, densityHint, motionProblems, withDensity, withLaunch, withMotion, withRelease } from '~/lib/editor/motion';
 import { NumberField, Section } from './fields';
+import { frameWithTimecode, type SourceTimecodeShot } from '~/lib/timecode';
 
 const r6 = (v: number) => Math.round(v * 1e6) / 1e6;
 
-export function Inspector({ store, snap }: { store: EditorStore; snap: EditorSnapshot }) {
+/** `shot` (cut in, rate, source timecode at the cut in) pairs frame numbers with their source timecode. */
+export function Inspector({ store, snap, shot }: { store: EditorStore; snap: EditorSnapshot; shot?: SourceTimecodeShot }) {
   if (snap.selection.length === 0) {
     return (
       <Section title="Selection">
@@ -33,10 +35,10 @@ export function Inspector({ store, snap }: { store: EditorStore; snap: EditorSna
   }
   const sel = store.selectedItem();
   if (!sel) return null;
-  return <ItemInspector key={`${sel.ref.group}:${sel.ref.id}`} store={store} snap={snap} refItem={sel.ref} item={sel.item} />;
+  return <ItemInspector key={`${sel.ref.group}:${sel.ref.id}`} store={store} snap={snap} refItem={sel.ref} item={sel.item} shot={shot} />;
 }
 
-function ItemInspector({ store, snap, refItem, item }: { store: EditorStore; snap: EditorSnapshot; refItem: ItemRef; item: AnyItem }) {
+function ItemInspector({ store, snap, refItem, item, shot }: { store: EditorStore; snap: EditorSnapshot; refItem: ItemRef; item: AnyItem; shot?: SourceTimecodeShot }) {
   const [idText, setIdText] = useState(item.id);
   const [idError, setIdError] = useState<string | null>(null);
   const put = (next: AnyItem, label?: string) => store.updateItem(refItem, next, label);
@@ -98,7 +100,7 @@ function ItemInspector({ store, snap, refItem, item }: { store: EditorStore; sna
       </Section>
       {'startFrame' in item && <SpoutSection store={store} item={item} put={put} />}
       {'keys' in item && <MotionSection doc={snap.doc} item={item} put={put} />}
-      {'keys' in item && <PropSection store={store} snap={snap} item={item} put={put} />}
+      {'keys' in item && <PropSection store={store} snap={snap} item={item} put={put} shot={shot} />}
     </>
   );
 }
@@ -174,7 +176,7 @@ function MotionSection({ doc, item, put }: { doc: EditorSnapshot['doc']; item: P
   );
 }
 
-function PropSection({ store, snap, item, put }: { store: EditorStore; snap: EditorSnapshot; item: Extract<AnyItem, { keys: unknown }>; put: (n: AnyItem, l?: string) => void }) {
+function PropSection({ store, snap, item, put, shot }: { store: EditorStore; snap: EditorSnapshot; item: Extract<AnyItem, { keys: unknown }>; put: (n: AnyItem, l?: string) => void; shot?: SourceTimecodeShot }) {
   const doc = snap.doc;
   const c = shapeCentroid(item.shape);
   const surfaceGuess = surfaceHeightAt(doc, c[0]);
@@ -227,7 +229,7 @@ function PropSection({ store, snap, item, put }: { store: EditorStore; snap: Edi
   };
   return (
     <>
-      <Section title="Keys" aside={<button type="button" className="btn-quiet px-2 py-0.5 text-xs" onClick={keyAtFrame}>Key at frame {snap.frame}</button>}>
+      <Section title="Keys" aside={<button type="button" className="btn-quiet px-2 py-0.5 text-xs" onClick={keyAtFrame}>Key at frame {shot ? frameWithTimecode(shot, snap.frame) : snap.frame}</button>}>
         <div className="max-h-40 overflow-auto">
           <table className="w-full text-[0.75rem] tabular-nums">
             <thead className="text-ink-muted"><tr><th className="text-left font-medium">frame</th><th className="text-right font-medium">dx m</th><th className="text-right font-medium">dy m</th><th className="text-right font-medium">angle °</th><th /></tr></thead>

@@ -13,6 +13,7 @@ import { openClip, loadStats } from './clipSource';
 import Timeline from './Timeline';
 import StatsCharts from './StatsCharts';
 import type { BakeStats, ClipInfo, PlateInfo, ShotInfo, VersionInfo } from './types';
+import { playRanges } from './playRange';
 
 interface Props {
   studioId: number;
@@ -70,8 +71,10 @@ export default function Player({ studioId, version, shot, plate, clip, onFrame, 
   const [wallsHidden, setWallsHidden] = useState(false);
 
   const fps = fpsOf(shot.frameRate, 24);
-  const inFrame = inOut?.inFrame ?? range.start;
-  const outFrame = inOut?.outFrame ?? range.end;
+  // The timeline spans the cut range with its handles; in/out default to the baked part of it (playRange.ts).
+  const ranges = playRanges(shot, range);
+  const inFrame = inOut?.inFrame ?? ranges.play.start;
+  const outFrame = inOut?.outFrame ?? ranges.play.end;
   const state = useRef({ frame, inFrame, outFrame, loop, fps, range });
   state.current = { frame, inFrame, outFrame, loop, fps, range };
 
@@ -122,10 +125,11 @@ export default function Player({ studioId, version, shot, plate, clip, onFrame, 
       );
       setRange({ start: opened.source.startFrame, end: opened.source.endFrame });
       setSpeedScale(options.speedScale ?? null);
-      await engine.show(opened.source.startFrame);
+      const first = playRanges(shot, { start: opened.source.startFrame, end: opened.source.endFrame }).play.start;
+      await engine.show(first);
       if (cancelled) return;
-      setFrame(opened.source.startFrame);
-      setDrawnFrame(opened.source.startFrame);
+      setFrame(first);
+      setDrawnFrame(first);
       setFirstFrameMs(Math.round(performance.now() - t0));
       setStatus({ kind: 'ready' });
       if (bakeStats) setStats(bakeStats);
@@ -323,8 +327,10 @@ export default function Player({ studioId, version, shot, plate, clip, onFrame, 
           </div>
 
           <Timeline
-            start={range.start}
-            end={range.end}
+            start={ranges.timeline.start}
+            end={ranges.timeline.end}
+            bakedStart={range.start}
+            bakedEnd={range.end}
             frame={frame}
             inFrame={inFrame}
             outFrame={outFrame}

@@ -11,6 +11,9 @@ interface Props {
   /** The shot's frame range (handles outside it are drawn dimmed). */
   shotFirst: number;
   shotLast: number;
+  /** The frames the bake holds (the rest of the timeline is marked as not baked; scrubbing stays inside them). */
+  bakedStart?: number;
+  bakedEnd?: number;
   /** Labels frames with their source timecode (the shot's cut in, rate and source timecode at the cut in). */
   tcShot: SourceTimecodeShot;
   onScrub: (frame: number) => void;
@@ -28,7 +31,7 @@ function niceStep(frames: number, widthPx: number, minPx: number): number {
   return frames;
 }
 
-export default function Timeline({ start, end, frame, inFrame, outFrame, shotFirst, shotLast, tcShot, onScrub, onScrubEnd }: Props) {
+export default function Timeline({ start, end, frame, inFrame, outFrame, shotFirst, shotLast, bakedStart = start, bakedEnd = end, tcShot, onScrub, onScrubEnd }: Props) {
   const ref = useRef<HTMLDivElement>(null);
   const dragging = useRef(false);
   const count = end - start + 1;
@@ -91,6 +94,9 @@ export default function Timeline({ start, end, frame, inFrame, outFrame, shotFir
       {/* Handles outside the shot's range, dimmed. */}
       {shotFirst > start && <div className="absolute inset-y-0 left-0 bg-black/35" style={{ width: `${pct(Math.min(end + 1, shotFirst))}%` }} />}
       {shotLast < end && <div className="absolute inset-y-0 right-0 bg-black/35" style={{ left: `${pct(Math.max(start, shotLast + 1))}%` }} />}
+      {/* Frames of the cut and its handles the bake does not hold. */}
+      {bakedStart > start && <div className="absolute inset-y-0 left-0 bg-[repeating-linear-gradient(135deg,transparent_0_4px,rgba(255,255,255,0.08)_4px_8px)]" style={{ width: `${pct(Math.min(end + 1, bakedStart))}%` }} title="Not baked" data-testid="timeline-unbaked" />}
+      {bakedEnd < end && <div className="absolute inset-y-0 right-0 bg-[repeating-linear-gradient(135deg,transparent_0_4px,rgba(255,255,255,0.08)_4px_8px)]" style={{ left: `${pct(Math.max(start, bakedEnd + 1))}%` }} title="Not baked" data-testid="timeline-unbaked" />}
       {/* In/out range. */}
       <div
         className="absolute top-0 h-1.5 rounded-sm bg-harbour-300"

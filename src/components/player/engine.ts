@@ -8,7 +8,7 @@
 import 'pixi.js/unsafe-eval';
 import { Application } from 'pixi.js';
 import type { LookOptions, ParticleFrame, RenderLook } from '~/lib/render/looks';
-import { GpuLooks } from './gpuLooks';
+import { GpuLooks, viewPxPerTexel } from './gpuLooks';
 import { layoutView, type ViewLayout } from '~/lib/render/view';
 import type { PlateFrameSource, PlateImage } from '~/lib/plate';
 import type { ClipLook } from '~/lib/clip/format';
@@ -80,7 +80,8 @@ export class PlayerEngine {
   static async create(o: EngineOptions): Promise<PlayerEngine> {
     const engine = new PlayerEngine(o);
     const { width, height } = sizeOf(o.host);
-    await engine.app.init({ preference: 'webgl', width, height, backgroundAlpha: 0, antialias: false, autoStart: false, resolution: 1 });
+    // Above ~0.64 megapixels the canvas is drawn at half size and scaled up by the compositor (viewPxPerTexel).
+    await engine.app.init({ preference: 'webgl', width, height, backgroundAlpha: 0, antialias: false, autoStart: false, resolution: 1 / viewPxPerTexel(width, height) });
     engine.app.ticker.stop();
     const canvas = engine.app.canvas;
     canvas.style.cssText = 'position:absolute;inset:0;width:100%;height:100%;display:block';
@@ -135,7 +136,7 @@ export class PlayerEngine {
     if (this.destroyed) return;
     const { width, height } = sizeOf(this.o.host);
     if (width === this.looks.width && height === this.looks.height) return;
-    this.app.renderer.resize(width, height);
+    this.app.renderer.resize(width, height, 1 / viewPxPerTexel(width, height));
     this.build(width, height);
     const f = this.shown;
     if (f !== null && this.decoded.has(f)) this.drawNow(f);

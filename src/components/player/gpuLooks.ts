@@ -7,7 +7,7 @@
 // a 2D canvas over the WebGL one, at the view's size up to ~0.64 megapixels and at half size above (1920×1080 →
 // 960×540, scaled up by the browser's compositor with image-rendering: pixelated); 50k GL points cost SwiftShader
 // 30–55 ms a frame, this a few ms. (At half size dots land on even pixels: the one difference from the CPU look.)
-import { Buffer, BufferImageSource, BufferUsage, Container, Geometry, GlProgram, Graphics, Mesh, Shader, UniformGroup } from 'pixi.js';
+import { Buffer, BufferImageSource, BufferUsage, Container, Geometry, GlProgram, Graphics, Mesh, Shader, Sprite, Texture, UniformGroup } from 'pixi.js';
 import { rampColour } from '~/lib/render/image';
 import {
   LookRenderer,
@@ -22,7 +22,8 @@ import {
   type ParticleFrame,
   type RenderLook,
 } from '~/lib/render/looks';
-import { solidOutlines, type SolidOutline } from '~/lib/render/solids';
+import { solidOutlines, type PropImage, type SolidOutline } from '~/lib/render/solids';
+import { shapeBounds } from '~/lib/scene/shapes';
 import type { ClipLook } from '~/lib/clip/format';
 import type { TankToView } from '~/lib/render/view';
 
@@ -58,6 +59,7 @@ uniform vec2 uTexSize;
 uniform vec2 uTintSize;
 uniform float uCellPx;
 uniform float uRange;
+uniform float uPx;  // view px per drawn pixel (2 when the canvas is drawn at half size, see viewPxPerTexel)
 out vec4 finalColor;
 void main() {
   // Grid coordinate of the pixel centre (cell k centred on pixel (k − 1 + ½)·cellPx; one guard cell), then the
@@ -66,9 +68,12 @@ void main() {
   vec4 t = texture(uDensity, (g + 0.5) / uTexSize);
   float r = (t.r * 65280.0 + t.g * 255.0) * (uRange / 65535.0);
   float dist = (r - 0.5) * 2.5 * uCellPx;
-  if (dist < -1.5) discard;
-  float cover = clamp(dist + 0.5, 0.0, 1.0);
-  float edge = clamp(1.5 - abs(dist), 0.0, 1.0);
+  // At full size (uPx = 1) the CPU look's cover and 2-px edge line; at half size the same areas, anti-aliased over a
+  // drawn pixel: the line keeps its 2 view px of ink.
+  float reach = 1.0 + 0.5 * uPx;
+  if (dist < -reach) discard;
+  float cover = clamp(dist / uPx + 0.5, 0.0, 1.0);
+  float edge = clamp((reach - abs(dist)) / uPx, 0.0, 1.0);
   // Liquid colour and depth shade s of the cell grid (SURFACE_SHADING in src/lib/render/looks.ts).
   vec4 tint = texture(uTint, (g + 0.5) / uTintSize);
   vec3 base = tint.rgb;
@@ -84,6 +89,15 @@ void main() {
 }`;
 
 
+/**
+ * View pixels per drawn pixel for a view size: 1 up to about 0.64 megapixels, 2 above (1920×1080 → 960×540). The dot
+ * canvas and the WebGL canvas are both drawn at that size and scaled up by the browser's compositor: SwiftShader pays
+ * per fragment, and for every pixel of a WebGL canvas it hands to the compositor.
+ */
+export function viewPxPerTexel(width: number, height: number): number {
+  return Math.max(1, Math.ceil(Math.sqrt((width * height) / 640_000)));
+}
+
 /** Draws one look of a particle frame: a pixi container (the surface) and a canvas over it (dots), view-sized. */
 export class GpuLooks {
   /** The WebGL part (surface and spray), for the pixi stage. */
@@ -93,6 +107,9 @@ export class GpuLooks {
   private readonly dotContext: CanvasRenderingContext2D;
   private dotImage: ImageData | null = null;
   private dotWords = new Uint32Array(0);
+  /** Texels painted this frame and last ([x0, y0, x1, y1), empty when x1 ≤ x0): only they are cleared and put. */
+  private dirty = [0, 0, 0, 0];
+  private lastDirty = [0, 0, 0, 0];
   private readonly speedLut = new Uint32Array(256);
   private sprayXY = new Int32Array(0);
   private readonly cpu: LookRenderer;
@@ -102,6 +119,7 @@ export class GpuLooks {
     uTintSize: { value: new Float32Array([1, 1]), type: 'vec2<f32>' },
     uCellPx: { value: 1, type: 'f32' },
     uRange: { value: DENSITY_RANGE, type: 'f32' },
+    uPx: { value: 1, type: 'f32' },
   });
   private readonly surfaceShader: Shader;
   private readonly quad: Float32Array;
@@ -121,8 +139,9 @@ export class GpuLooks {
   });
   /** Walls and props, over the liquid: built once per look and view, then props only move (no geometry a frame). */
   private readonly solids = new Container();
-  private solidsFor: { look: ClipLook; key: string } | null = null;
-  private propGraphics: Graphics[] = [];
+  private solidsFor: { look: ClipLook; key: string; pictures: LookOptions['propImages'] } | null = null;
+  private propGraphics: Container[] = [];
+  private pictureTextures: Texture[] = [];
 
   constructor(
     readonly width: number,
@@ -171,7 +190,7 @@ export class GpuLooks {
     this.solids.visible = !!look;
     if (!look) return;
     const key = `${t.ox},${t.oy},${t.sx},${t.sy}`;
-    if (this.solidsFor?.look !== look || this.solidsFor.key !== key) this.buildSolids(look, t, key);
+    if (this.solidsFor?.look !== look || this.solidsFor.key !== key || this.solidsFor.pictures !== options.propImages) this.buildSolids(look, t, key, options.propImages);
     // A prop is built in its drawn pose about its drawn centroid: place that centroid at the pose and turn it
     // (view y points down, so a counter-clockwise angle is a negative pixi rotation).
     look.props.forEach((p, k) => {
@@ -184,8 +203,10 @@ export class GpuLooks {
     });
   }
 
-  private buildSolids(look: ClipLook, t: TankToView, key: string) {
-    for (const c of this.solids.removeChildren()) c.destroy();
+  private buildSolids(look: ClipLook, t: TankToView, key: string, pictures: LookOptions['propImages']) {
+    for (const c of this.solids.removeChildren()) c.destroy({ children: true });
+    for (const tex of this.pictureTextures) tex.destroy(true);
+    this.pictureTextures = [];
     const colour = (c: readonly number[]) => (Math.round(c[0]) << 16) | (Math.round(c[1]) << 8) | Math.round(c[2]);
     const paint = (g: Graphics, s: SolidOutline) => {
       g.poly(Array.from(s.points), true);
@@ -195,15 +216,45 @@ export class GpuLooks {
     const walls = new Graphics();
     for (const s of solidOutlines({ ...look, props: [] }, [], t)) paint(walls, s);
     this.solids.addChild(walls);
-    this.propGraphics = look.props.map((p) => {
-      const g = new Graphics();
+    this.propGraphics = look.props.map((p, k) => {
       const [cx, cy] = p.centroid;
-      paint(g, solidOutlines({ ...look, walls: [], props: [p] }, [{ x: cx, y: cy, angle: 0 }], t)[0]);
+      const outline = solidOutlines({ ...look, walls: [], props: [p] }, [{ x: cx, y: cy, angle: 0 }], t)[0];
+      const picture = pictures?.[k];
+      let g: Container;
+      if (picture) {
+        // The picture over the drawn shape's bounds, masked by the outline (inside only, as the CPU look), then the rim.
+        g = new Container();
+        const sprite = new Sprite(this.pictureTexture(picture));
+        const b = shapeBounds(p.shape);
+        sprite.position.set(t.ox + b.minX * t.sx, t.oy - b.maxY * t.sy);
+        sprite.width = (b.maxX - b.minX) * t.sx;
+        sprite.height = (b.maxY - b.minY) * t.sy;
+        const mask = new Graphics().poly(Array.from(outline.points), true).fill({ color: 0xffffff });
+        sprite.mask = mask;
+        const rim = new Graphics();
+        paint(rim, { ...outline, fill: null });
+        g.addChild(sprite, mask, rim);
+      } else {
+        const graphics = new Graphics();
+        paint(graphics, outline);
+        g = graphics;
+      }
       g.pivot.set(t.ox + cx * t.sx, t.oy - cy * t.sy);
       this.solids.addChild(g);
       return g;
     });
-    this.solidsFor = { look, key };
+    this.solidsFor = { look, key, pictures };
+  }
+
+  /** A texture of a prop's picture (straight-alpha RGBA; premultiplied as it is uploaded). */
+  private pictureTexture(picture: PropImage): Texture {
+    const source = new BufferImageSource({
+      resource: new Uint8Array(picture.data.buffer, picture.data.byteOffset, picture.data.byteLength), width: picture.width, height: picture.height,
+      format: 'rgba8unorm', alphaMode: 'premultiply-alpha-on-upload', scaleMode: 'linear', addressMode: 'clamp-to-edge', autoGenerateMipmaps: false,
+    });
+    const texture = new Texture({ source });
+    this.pictureTextures.push(texture);
+    return texture;
   }
 
   /**
@@ -211,7 +262,7 @@ export class GpuLooks {
    * same pixels as in the CPU look), 2 at 1920×1080, so putImageData never moves more than ~2.5 MB a frame.
    */
   private get texelPx(): number {
-    return Math.max(1, Math.ceil(Math.sqrt((this.width * this.height) / 640_000)));
+    return viewPxPerTexel(this.width, this.height);
   }
 
   /** Sizes the dot canvas for `texelPx` view pixels a texel and clears it; returns its words (0xAABBGGRR). */
@@ -225,14 +276,24 @@ export class GpuLooks {
       this.dotCanvasEl.style.height = `${ch * texelPx}px`;
       this.dotImage = new ImageData(cw, ch);
       this.dotWords = new Uint32Array(this.dotImage.data.buffer);
+      this.lastDirty = [0, 0, cw, ch];
+    } else {
+      // Clear what the last frame painted (a splash covers a part of the view; 1920×1080 has 0.5 M texels to clear).
+      const [x0, y0, x1, y1] = this.lastDirty;
+      if (x1 > x0) for (let y = y0; y < y1; y++) this.dotWords.fill(0, y * cw + x0, y * cw + x1);
     }
-    this.dotWords.fill(0);
+    this.dirty = [cw, ch, 0, 0];
     return this.dotWords;
   }
 
   /** Paints a square of `side` texels with its top-left texel at (tx, ty), clipped to the canvas. */
   private paintDot(words: Uint32Array, tx: number, ty: number, side: number, colour: number) {
     const { width: cw, height: ch } = this.dotImage!;
+    const d = this.dirty;
+    if (tx < d[0]) d[0] = Math.max(0, tx);
+    if (ty < d[1]) d[1] = Math.max(0, ty);
+    if (tx + side > d[2]) d[2] = Math.min(cw, tx + side);
+    if (ty + side > d[3]) d[3] = Math.min(ch, ty + side);
     if (side === 1) {
       if (tx >= 0 && ty >= 0 && tx < cw && ty < ch) words[ty * cw + tx] = colour;
       return;
@@ -243,7 +304,12 @@ export class GpuLooks {
   }
 
   private showDots() {
-    this.dotContext.putImageData(this.dotImage!, 0, 0);
+    // Put the texels painted now or last frame (those were cleared): the rest of the canvas is unchanged.
+    const [a0, b0, a1, b1] = this.dirty, [c0, d0, c1, d1] = this.lastDirty;
+    const x0 = Math.min(a0, c1 > c0 ? c0 : a0), y0 = Math.min(b0, d1 > d0 ? d0 : b0);
+    const x1 = Math.max(a1, c1), y1 = Math.max(b1, d1);
+    if (x1 > x0 && y1 > y0) this.dotContext.putImageData(this.dotImage!, 0, 0, x0, y0, x1 - x0, y1 - y0);
+    this.lastDirty = a1 > a0 && b1 > b0 ? this.dirty : [0, 0, 0, 0];
     this.dotCanvasEl.style.display = 'block';
   }
 
@@ -315,9 +381,9 @@ export class GpuLooks {
     const source = this.ensureDensityTexture(texWidth, gh);
     const bytes = this.densityBytes;
     const toWord = 65535 / DENSITY_RANGE;
-    // The shader discards pixels with r < ½ − 1.5/(2.5·cellPx); only cells at or above that level can colour a pixel,
+    // The shader discards pixels with r < ½ − (1 + ½·uPx)/(2.5·cellPx); only cells at or above that level can colour a pixel,
     // so the quad covers just their bounding box (software GL pays for every fragment of a full-view quad).
-    const low = 0.5 - 1.5 / (2.5 * cellPx);
+    const low = 0.5 - (1 + 0.5 * this.texelPx) / (2.5 * cellPx);
     let iMin = gw, iMax = -1, jMin = gh, jMax = -1;
     for (let j = 0; j < gh; j++) {
       let p = j * texWidth * 2;
@@ -352,6 +418,7 @@ export class GpuLooks {
     (u.uTintSize as Float32Array)[0] = gw;
     (u.uTintSize as Float32Array)[1] = gh;
     u.uCellPx = cellPx;
+    u.uPx = this.texelPx;
     this.surfaceUniforms.update();
     this.surface.visible = iMax >= 0;
 
@@ -393,5 +460,6 @@ export class GpuLooks {
     this.container.destroy({ children: true });
     this.densitySource?.destroy();
     this.tintSource?.destroy();
+    for (const tex of this.pictureTextures) tex.destroy(true);
   }
 }

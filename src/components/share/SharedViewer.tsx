@@ -1,7 +1,7 @@
 // The public share page's island: plays what the link shows (the version's splash over its plate on a canvas, or the
 // stored MP4/GIF) and takes the viewer's named comment at the current frame, filed as a client note.
 import { useEffect, useRef, useState } from 'react';
-import { rateInfo, sourceTimecodeLabel, type SourceTimecodeShot } from '~/lib/timecode';
+import { frameWithTimecode, rateInfo, sourceTimecodeLabel, type SourceTimecodeShot } from '~/lib/timecode';
 import { LOOK_LABELS, RENDER_LOOKS, type RenderLook } from '~/lib/render/looks';
 import type { FrameRenderer } from '~/lib/export/frames';
 
@@ -238,7 +238,7 @@ export default function SharedViewer({ token, frameRate, cutIn, sourceTimecodeIn
           <ul className="grid gap-1 text-ink-soft" data-testid="shared-sent">
             {sent.map((n, i) => (
               <li key={i}>
-                Sent: “{n.body}” at frame {n.frame}. The studio will see it with your name.
+                Sent: “{n.body}” at frame {frameWithTimecode(tcShot, n.frame)}. The studio will see it with your name.
               </li>
             ))}
           </ul>

@@ -1,6 +1,6 @@
 // The export engine: renders the chosen frames (slate first when asked), encodes them as GIF, MP4 or a PNG ZIP, and
-// reports progress by stage with an ETA. Cancel with the AbortSignal: workers stop and the promise rejects with
-// CancelledError. Browser only; the page stays usable (the loop yields between frames, encoders run in workers).
+// reports progress by stage with an ETA. Cancel with the AbortSignal: encoders stop and the promise rejects with
+// CancelledError. Browser only; the page stays usable (rendering and GIF encoding yield between frames, ffmpeg runs in a worker).
 import type { RenderLook } from '../render/looks';
 import type { PlateFrameSource } from '../plate';
 import { rateInfo } from '../timecode';

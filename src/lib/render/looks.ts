@@ -8,7 +8,7 @@ import { createImage, packPremultiplied, rampColour, type PixelImage } from './i
 import type { TankToView } from './view';
 import type { ClipLook, PropPose } from '../clip/format';
 import { DEFAULT_LIQUID } from '../scene/schema';
-import { blendOver, drawSolids, hexColour, outlineBounds, outlinePairs, solidOutlines } from './solids';
+import { blendOver, drawSolids, hexColour, outlineBounds, outlinePairs, solidOutlines, type PropImage } from './solids';
 import { pointInPolygon } from '../scene/shapes';
 
 export const RENDER_LOOKS = ['surface', 'speed'] as const;
@@ -49,6 +49,8 @@ export interface LookOptions {
   tank?: { width: number; height: number };
   /** The clip's drawing facts: liquid colours, walls and props (omitted: one liquid in the default colour, no solids). */
   scene?: ClipLook;
+  /** Per prop of `scene.props`, its picture when it has one (drawn inside its outline instead of its fill colour). */
+  propImages?: readonly (PropImage | null | undefined)[];
 }
 
 /** Speed ramp, slow → fast: deep blue, cyan, pale yellow, coral. Stops are [position, r, g, b]. */
@@ -208,7 +210,7 @@ export class LookRenderer {
       if (look === 'speed') this.drawSpeed(frame, toView, options);
       else this.drawSurface(frame, toView, options);
     }
-    if (options.scene) drawSolids(this.image, solidOutlines(options.scene, frame.props, toView));
+    if (options.scene) drawSolids(this.image, solidOutlines(options.scene, frame.props, toView, options.propImages));
     return this.image;
   }
 
@@ -317,8 +319,10 @@ export class LookRenderer {
     }
 
     this.blur(density);
+    const two = mixed && colours.length === 2;
     if (mixed) this.colourField(frame, t, colours);
     const [sr, sg, sb, sw] = this.colourSums;
+    const [r1, g1, b1] = colours[colours.length > 1 ? 1 : 0];
 
     // Normalise to r = ρ/ρ₀: particles a cell at rest = ρ₀ · (cell side in metres)².
     const cellMetres = cellPx / sx;
@@ -328,7 +332,13 @@ export class LookRenderer {
     for (let k = 0; k < density.length; k++) {
       const d = density[k];
       const w = mixed ? sw[k] : 0;
-      if (w > 1e-6) {
+      if (w > 1e-6 && two) {
+        // Two liquids: sr holds the second liquid's share of the weight, so the mean colour is c0 + (c1 − c0)·share.
+        const f = sr[k] / w;
+        tint[4 * k] = r0 + (r1 - r0) * f + 0.5;
+        tint[4 * k + 1] = g0 + (g1 - g0) * f + 0.5;
+        tint[4 * k + 2] = b0 + (b1 - b0) * f + 0.5;
+      } else if (w > 1e-6) {
         tint[4 * k] = sr[k] / w + 0.5;
         tint[4 * k + 1] = sg[k] / w + 0.5;
         tint[4 * k + 2] = sb[k] / w + 0.5;
@@ -386,12 +396,13 @@ export class LookRenderer {
    * Several liquids in the frame: the colour of each cell, the mean of the colours of the particles around it. Each
    * particle adds its liquid's colour and a weight of 1 to its nearest cell, then one blur pass: colour changes
    * over a cell or two, which is all the eye reads at a boundary between liquids (and a quarter of the bilinear
-   * splat's work). Fills colourSums (r, g, b sums and weights).
+   * splat's work). Fills colourSums: r, g, b sums and weights (two liquids: the second's count and the weights).
    */
   private colourField(frame: ParticleFrame, t: TankToView, colours: [number, number, number][]) {
     const { gw, gh, cellPx } = this;
     const [sr, sg, sb, sw] = this.colourSums;
-    sr.fill(0); sg.fill(0); sb.fill(0); sw.fill(0);
+    sr.fill(0); sw.fill(0);
+    if (colours.length !== 2) { sg.fill(0); sb.fill(0); }
     if (this.liquidRgb.length < 3 * colours.length) this.liquidRgb = new Float32Array(3 * colours.length);
     colours.forEach((c, k) => this.liquidRgb.set(c, 3 * k));
     const rgb = this.liquidRgb;
@@ -400,6 +411,20 @@ export class LookRenderer {
     const { x, y, count } = frame;
     const liquid = frame.liquid!;
     const top = colours.length - 1;
+    if (top === 1) {
+      // Two liquids (the usual mix): the weight and the second liquid's count are enough (two blurred grids, not four).
+      for (let i = 0; i < count; i++) {
+        const ci = Math.floor((ox + x[i] * sx) * inv) + 1;
+        const cj = Math.floor((oy - y[i] * sy) * inv) + 1;
+        if (ci < 0 || cj < 0 || ci >= gw || cj >= gh) continue;
+        const k = cj * gw + ci;
+        sw[k] += 1;
+        if (liquid[i] === 1) sr[k] += 1;
+      }
+      this.blur(sr, 1);
+      this.blur(sw, 1);
+      return;
+    }
     for (let i = 0; i < count; i++) {
       // Nearest cell: cell k is centred on pixel (k − 1 + ½)·cellPx.
       const ci = Math.floor((ox + x[i] * sx) * inv) + 1;

@@ -2,7 +2,7 @@
 // facts (src/lib/clip/format.ts ClipLook) and a frame's prop poses, plus a CPU rasteriser for the export images.
 // The player hands the same outlines to pixi (src/components/player/gpuLooks.ts). Free of React and the DOM.
 import type { ClipLook, PropPose } from '../clip/format';
-import type { Shape } from '../scene/shapes';
+import { shapeBounds, type Shape } from '../scene/shapes';
 import type { PixelImage } from './image';
 import type { TankToView } from './view';
 
@@ -17,6 +17,38 @@ export interface SolidOutline {
   line: readonly [number, number, number, number];
   /** Line width in view px. */
   lineWidth: number;
+  /** A prop's picture drawn in place of its fill (inside the outline only), with the view → picture mapping. */
+  image?: { picture: PropImage; toPicture: PictureMapping };
+}
+
+/**
+ * A prop's picture (a cut-out photo of the product with alpha): straight-alpha RGBA rows from the top, fitted to the
+ * bounds of the prop's drawn shape (its top row along the shape's top), and turned and moved with the prop.
+ */
+export interface PropImage {
+  width: number;
+  height: number;
+  data: Uint8Array | Uint8ClampedArray;
+}
+
+/** Affine map from a view point (px) to picture pixels: u = a·x + b·y + c, v = d·x + e·y + f. */
+export type PictureMapping = readonly [number, number, number, number, number, number];
+
+/**
+ * The view → picture mapping of a prop at its pose: a view point goes back to tank metres, then back to the drawn
+ * pose (p = R(−angle)·(q − pose) + centroid), then across the shape's bounds to the picture's pixels (v down).
+ */
+export function propPictureMapping(shape: Shape, centroid: readonly [number, number], pose: PropPose, t: TankToView, picture: PropImage): PictureMapping {
+  const { minX, minY, maxX, maxY } = shapeBounds(shape);
+  const a = (-pose.angle * Math.PI) / 180;
+  const c = Math.cos(a), s = Math.sin(a);
+  const at = (vx: number, vy: number): [number, number] => {
+    const qx = (vx - t.ox) / t.sx - pose.x, qy = (t.oy - vy) / t.sy - pose.y;
+    const px = c * qx - s * qy + centroid[0], py = s * qx + c * qy + centroid[1];
+    return [((px - minX) / Math.max(maxX - minX, 1e-12)) * picture.width, ((maxY - py) / Math.max(maxY - minY, 1e-12)) * picture.height];
+  };
+  const [u0, v0] = at(0, 0), [u1, v1] = at(1, 0), [u2, v2] = at(0, 1);
+  return [u1 - u0, u2 - u0, u0, v1 - v0, v2 - v0, v0];
 }
 
 /** Wall colours: a sand line, and a dark slate fill when the style is 'fill'. */
@@ -60,7 +92,7 @@ export function hexColour(hex: string): [number, number, number] {
  * Outlines of the walls (unless the style hides them) and of every prop at its pose in the frame, in view pixels:
  * a prop's drawn point p lands at R(angle)·(p − centroid) + (x, y). Props without a pose (none given) are left out.
  */
-export function solidOutlines(look: ClipLook, poses: readonly PropPose[] | undefined, t: TankToView): SolidOutline[] {
+export function solidOutlines(look: ClipLook, poses: readonly PropPose[] | undefined, t: TankToView, pictures?: readonly (PropImage | null | undefined)[]): SolidOutline[] {
   const out: SolidOutline[] = [];
   const toView = (pts: [number, number][], place: (x: number, y: number) => [number, number]) => {
     const a = new Float64Array(2 * pts.length);
@@ -87,7 +119,9 @@ export function solidOutlines(look: ClipLook, poses: readonly PropPose[] | undef
     const c = Math.cos(a), s = Math.sin(a);
     const [cx, cy] = p.centroid;
     const [r, g, b] = hexColour(p.colour);
+    const picture = pictures?.[k];
     out.push({
+      ...(picture ? { image: { picture, toPicture: propPictureMapping(p.shape, p.centroid, pose, t, picture) } } : {}),
       kind: 'prop', id: p.id,
       points: toView(shapePoints(p.shape, segs(p.shape)), (x, y) => [c * (x - cx) - s * (y - cy) + pose.x, s * (x - cx) + c * (y - cy) + pose.y]),
       fill: [r, g, b, 1],
@@ -123,8 +157,22 @@ export function blendOver(pixels: Uint32Array, p: number, r: number, g: number, 
   pixels[p] = (((a * 255 + da * k + 0.5) << 24) | ((b * a + db * k + 0.5) << 16) | ((g * a + dg * k + 0.5) << 8) | (r * a + dr * k + 0.5)) >>> 0;
 }
 
+/** Blends the picture's texel nearest to each pixel centre of a span [x0, x1] of row py (picture alpha, straight). */
+function blendPictureSpan(pixels: Uint32Array, width: number, py: number, x0: number, x1: number, image: NonNullable<SolidOutline['image']>) {
+  const { picture, toPicture: [a, b, c, d, e, f] } = image;
+  const { width: pw, height: ph, data } = picture;
+  const yc = py + 0.5;
+  for (let px = x0, row = py * width; px <= x1; px++) {
+    const xc = px + 0.5;
+    const u = Math.floor(a * xc + b * yc + c), v = Math.floor(d * xc + e * yc + f);
+    const q = 4 * ((v < 0 ? 0 : v >= ph ? ph - 1 : v) * pw + (u < 0 ? 0 : u >= pw ? pw - 1 : u));
+    const alpha = data[q + 3] / 255;
+    if (alpha > 0) blendOver(pixels, row + px, data[q], data[q + 1], data[q + 2], alpha);
+  }
+}
+
 /**
- * Draws the outlines into a premultiplied image: each fill by even–odd scanlines at pixel centres, then its line
+ * Draws the outlines into a premultiplied image: each fill (or prop picture) by even–odd scanlines at pixel centres, then its line
  * (pixels whose centre lies within lineWidth/2 of an edge). Returns the image.
  */
 export function drawSolids(image: PixelImage, solids: readonly SolidOutline[]): PixelImage {
@@ -135,8 +183,8 @@ export function drawSolids(image: PixelImage, solids: readonly SolidOutline[]): 
     const n = pts.length / 2;
     if (n < 3) continue;
     const { minX, minY, maxX, maxY } = outlineBounds(pts);
-    if (s.fill) {
-      const [r, g, b, a] = s.fill;
+    if (s.fill || s.image) {
+      const [r, g, b, a] = s.fill ?? [0, 0, 0, 0];
       for (let py = Math.max(0, Math.floor(minY)); py <= Math.min(height - 1, Math.ceil(maxY)); py++) {
         const yc = py + 0.5;
         xs.length = 0;
@@ -149,7 +197,8 @@ export function drawSolids(image: PixelImage, solids: readonly SolidOutline[]): 
           // Pixel centres px + ½ inside [xs[q], xs[q+1]).
           const x0 = Math.max(0, Math.ceil(xs[q] - 0.5));
           const x1 = Math.min(width - 1, Math.ceil(xs[q + 1] - 0.5) - 1);
-          for (let px = x0, row = py * width; px <= x1; px++) blendOver(pixels, row + px, r, g, b, a);
+          if (s.image) blendPictureSpan(pixels, width, py, x0, x1, s.image);
+          else for (let px = x0, row = py * width; px <= x1; px++) blendOver(pixels, row + px, r, g, b, a);
         }
       }
     }
