@@ -29,7 +29,7 @@ beforeAll(async () => {
 });
 afterAll(closeDb);
 
-type Doc = { pours: unknown[]; walls: unknown[]; props: { id: string; keys: { frame: number; dy: number }[] }[] };
+type Doc = { pours: unknown[]; walls: unknown[]; props: { id: string; keys: { frame: number; dy: number }[] }[]; tank: { width: number; height: number; cellSize: number } };
 const docOf = (page: Page) => page.evaluate(() => (window as any).tidemarkEditor.doc()) as Promise<Doc>;
 const at = async (page: Page, x: number, y: number) => {
   const p = (await page.evaluate(([x, y]) => (window as any).tidemarkEditor.toClient(x, y), [x, y])) as [number, number];
