@@ -16,7 +16,10 @@
 //
 // Cells holding particles but less than half the rest density lie above the surface (φ ≥ 0): for the
 // projection they are air (q = 0); their particles take the velocity of the faces they touch, as spray does.
-import { FLUID, AIR, type ProjectionGrid } from './pressure';
+import { FLUID as FLUID_CELL, AIR as AIR_CELL, type ProjectionGrid } from './pressure';
+
+// Local copies for the per-cell loops (an imported binding is a getter call when tsx runs this as CommonJS; stages.ts).
+const FLUID = FLUID_CELL, AIR = AIR_CELL;
 
 /** Smallest θ used: keeps the matrix conditioned (Gibou et al. 2002 clamp θ small; 0.01 is common practice, no source). */
 export const THETA_MIN = 0.01;
