@@ -8,7 +8,7 @@
 // over 4 s (printed) to the PIC share of the transfer, inelastic collisions with the tank and the separation
 // of particles. The start-up gain of earlier builds (+1.3 % in the first frame) came mostly from the position
 // update lagging the velocities by half a step (+1.1 % with separation and drift correction off), and the
-// rest from the drift flow kept as momentum; both are gone (src/lib/sim/stages.ts, correctPositions).
+// rest from the drift flow kept as momentum; both are gone (src/lib/sim/stages.ts, gridToParticles).
 import { describe, it, expect } from 'vitest';
 import { createSolver } from '../../src/lib/sim/solver';
 import { sceneFrom } from './helpers/scenes';

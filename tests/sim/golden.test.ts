@@ -44,8 +44,8 @@ describe('golden bake', () => {
     for (let f = 1; f < GOLDEN_FRAMES; f++) st = sim.stepFrame();
     expect(Object.keys(st.stageMs)).toEqual([
       'free props', 'solids', 'gravity and advection', 'spatial hash', 'foam and spray', 'separation', 'collision', 'emission',
-      'particles to grid', 'density and drift', 'free surface', 'pressure', 'prop contacts', 'grid to particles',
-      'position correction',
+      'particles to grid', 'density and drift', 'free surface', 'pressure', 'prop contacts', 'drift correction',
+      'grid to particles',
     ]);
     for (const ms of Object.values(st.stageMs)) expect(ms).toBeGreaterThanOrEqual(0);
     expect(st.liquidCounts[1]).toBeGreaterThan(0); // the spout's paint is in the tank

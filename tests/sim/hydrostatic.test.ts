@@ -24,7 +24,7 @@ describe('hydrostatic pressure', () => {
     // at the first air cell's centre. Measured: p/(ρ·g·d) = 0.999, 0.999, 0.997 at d ≈ 0.45, 0.35, 0.25 m
     // with h = 1/64 m (1.045, 1.056, 1.078 with the earlier first-order boundary, p = 0 at the air cell's centre).
     // The pressure is the one the step applied; the drift correction is a displacement of its own
-    // (stages.ts, correctPositions) and never enters it.
+    // (stages.ts, gridToParticles) and never enters it.
     const heights = [0.05, 0.15, 0.25];
     const mean = heights.map(() => 0);
     let surface = 0;

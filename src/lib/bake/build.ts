@@ -2,7 +2,7 @@
 // so stored clips are not reused for scenes that would now bake differently.
 // 2: the drift correction's time scale no longer shrinks with CFL substeps (stages.ts, DRIFT_TIME).
 // 3: trapezoidal position update and the drift correction as a displacement outside the velocities
-//    (stages.ts, correctPositions); the projection solves the divergence alone; free props coupled into the
+//    (stages.ts, gridToParticles); the projection solves the divergence alone; free props coupled into the
 //    projection (rigid.ts); densities beside walls and props compared with the share of ρ₀ they read at rest.
 // 4: free props take the opposite of the collision stage's push on the particles they overtake (stages.ts
 //    collide, Newton's third law) and the viscous stage's stress on their faces (viscosity.ts reaction).

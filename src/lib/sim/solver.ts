@@ -5,7 +5,7 @@ import { frameToTime } from '../scene/time';
 import { shapeSignedDistance as shapeDistance } from '../scene/shapes';
 import {
   FlipState, WATER_DENSITY, integrate, separate, placeSolids, collide, emit, particlesToGrid,
-  densityAndDrift, gridToParticles, correctPositions, classifyCells, depositDensity, estimateRestDensity, type SolverOptions,
+  densityAndDrift, driftSolve, gridToParticles, classifyCells, depositDensity, estimateRestDensity, type SolverOptions,
 } from './stages';
 import { projectGaussSeidel, projectPcgMic0, FLUID } from './pressure';
 import { liquidArea } from './area';
@@ -171,8 +171,8 @@ export function createSolver(scene: Scene, options: SolverOptions = {}): Solver 
     ...(viscous ? [{ name: 'viscosity', run: (dt: number) => { viscous.run(dt); if (hasFree) rigid.viscousDrag(viscous.reactionU, viscous.reactionV); } }] : []),
     { name: 'pressure', run: (dt) => { lastResidual = project(dt); } },
     ...(hasFree ? [{ name: 'prop contacts', run: () => rigid.settle() }] : []),
-    { name: 'grid to particles', run: () => gridToParticles(S) },
-    { name: 'position correction', run: (dt) => correctPositions(S, dt, physics.pressureIterations, physics.pressureTolerance) },
+    { name: 'drift correction', run: () => driftSolve(S, physics.pressureIterations, physics.pressureTolerance) },
+    { name: 'grid to particles', run: (dt) => gridToParticles(S, dt) },
   ];
   const stageMs = new Float64Array(stages.length);
 

@@ -118,6 +118,8 @@ export class FlipState implements ProjectionGrid {
   readonly drainCell: Uint8Array;
   /** Drift correction: divergence target per cell (m/s) and its displacement potential (warm start). */
   readonly driftTarget: Float64Array; readonly driftPotential: Float64Array;
+  /** Per face: the position correction's displacement velocity (m/s; gridToParticles). */
+  readonly dispU: Float64Array; readonly dispV: Float64Array;
   readonly fluid: Int32Array; fluidCount = 0;
   readonly q: Float64Array; readonly res: Float64Array; readonly zv: Float64Array;
   readonly dir: Float64Array; readonly adir: Float64Array; readonly precon: Float64Array; readonly diag: Float64Array;
@@ -168,7 +170,7 @@ export class FlipState implements ProjectionGrid {
     const f64 = () => new Float64Array(nc);
     this.gu = f64(); this.gv = f64(); this.wu = f64(); this.wv = f64(); this.prevU = f64(); this.prevV = f64();
     this.dens = f64(); this.open = f64(); this.solidU = f64(); this.solidV = f64();
-    this.driftTarget = f64(); this.driftPotential = f64();
+    this.driftTarget = f64(); this.driftPotential = f64(); this.dispU = f64(); this.dispV = f64();
     this.phi = f64(); this.faceU = f64(); this.faceV = f64();
     this.staticOpen = f64(); this.openShare = f64(); this.restShare = f64();
     this.q = f64(); this.res = f64(); this.zv = f64(); this.dir = f64(); this.adir = f64(); this.precon = f64(); this.diag = f64();
@@ -628,21 +630,24 @@ export function emit(S: FlipState, frameNow: number): void {
  * Stage 5 — particle to grid. Cell types (solid / fluid where a particle lies / air), then each staggered
  * component is the bilinear-weighted average of particle velocities: u_f = Σ w_pf u_p / Σ w_pf.
  * Faces touching a solid cell take the solid's velocity. A copy is kept for the FLIP update.
+ * The same pass deposits the particles' density at the cell centres (stage 6 folds it at solids), so the
+ * particles are read once for both.
  */
 export function particlesToGrid(S: FlipState): void {
-  const { n, nx, ny, nc, type, solid, gu, gv, wu, wv, prevU, prevV, open, solidU, solidV, kernel: K } = S;
+  const { n, nx, ny, nc, type, solid, gu, gv, wu, wv, prevU, prevV, open, solidU, solidV, dens, kernel: K } = S;
   const x = S.x, y = S.y, u = S.u, v = S.v;
   for (let c = 0; c < nc; c++) {
     const s = solid[c];
     type[c] = s !== 0 ? SOLID : AIR;
     open[c] = s !== 0 ? 0 : 1;
   }
-  gu.fill(0); gv.fill(0); wu.fill(0); wv.fill(0);
+  gu.fill(0); gv.fill(0); wu.fill(0); wv.fill(0); dens.fill(0);
   for (let p = 0; p < n; p++) {
     const cell = K.at(x[p], y[p]);
     if (type[cell] === AIR) type[cell] = FLUID;
     K.nodes(UFX, UFY); K.splat(gu, wu, u[p]);
     K.nodes(VFX, VFY); K.splat(gv, wv, v[p]);
+    K.nodes(CX, CY); K.splatWeight(dens);
   }
   for (let j = 0; j < ny; j++) {
     for (let i = 0, c = nx * j; i < nx; i++, c++) {
@@ -660,11 +665,12 @@ export function particlesToGrid(S: FlipState): void {
 }
 
 /**
- * Stage 6 — density at cell centres: ρ_c = Σ_p w_pc (bilinear, in particles per cell); the rest density ρ₀ is
- * fixed the first time liquid is present (see estimateRestDensity), then the drift target (see driftTarget).
+ * Stage 6 — density at cell centres: ρ_c = Σ_p w_pc (bilinear, in particles per cell; deposited by stage 5,
+ * folded here as depositDensity folds it); the rest density ρ₀ is fixed the first time liquid is present
+ * (see estimateRestDensity), then the drift target (see driftTarget).
  */
 export function densityAndDrift(S: FlipState, dt: number): void {
-  depositDensity(S);
+  foldSolidDensity(S, S.dens);
   if (S.restDensity === 0) S.restDensity = estimateRestDensity(S);
   driftTarget(S, dt);
 }
@@ -775,7 +781,7 @@ export function estimateRestDensity(S: FlipState): number {
  * the velocity divergence that would remove the fraction k of the density error in DRIFT_TIME (or one longer step). Interior
  * cells are driven both ways (under-dense interior cells contract, so random particle packing does not
  * slowly inflate the liquid); cells touching air only when over-dense (the free surface is under-dense).
- * The projection does not see it: correctPositions moves the particles by the flow it asks for over dt.
+ * The projection does not see it: gridToParticles moves the particles by the flow it asks for over dt.
  */
 /**
  * The drift correction's time scale, s: it removes the fraction k of the density error per DRIFT_TIME (or per step
@@ -783,7 +789,7 @@ export function estimateRestDensity(S: FlipState): number {
  * Why not the step itself: when the drift flow entered the grid velocity (tidemark-flip/1 and /2), the PIC/FLIP
  * transfer kept it as particle momentum, and scaled by h/dt its speed grew as 1/dt whenever the CFL condition added
  * substeps — the feedback that blew fast-impact bakes up (16 → 1,600 m/s in 13 frames on a prop crashing into a
- * pool). It no longer enters velocities (correctPositions), and the time scale keeps the correction per second the same.
+ * pool). It no longer enters velocities (gridToParticles), and the time scale keeps the correction per second the same.
  */
 export const DRIFT_TIME = 1 / 240;
 
@@ -805,94 +811,91 @@ export function driftTarget(S: FlipState, dt: number): void {
 }
 
 /**
- * Stage 8 — grid to particle with the PIC/FLIP blend (Zhu & Bridson 2005):
+ * Stage 8 — the drift correction's displacement potential: A·s = drift target with the projection's own matrix
+ * (solvePoisson; warm-started from the last step's s), for stage 9's position correction. Solved before the
+ * transfer back to the particles so that stage 9 reads the grid once.
+ */
+export function driftSolve(S: FlipState, iterations: number, tolerance: number): void {
+  const s = S.driftPotential;
+  if (S.drift > 0 && S.restDensity > 0 && S.fluidCount > 0) solvePoisson(S, s, S.driftTarget, iterations, tolerance);
+  else s.fill(0);
+}
+
+/**
+ * Stage 9 — grid to particle, velocities then positions, in one pass over the particles.
+ *
+ * Velocities, with the PIC/FLIP blend (Zhu & Bridson 2005):
  *   v_p ← (1 − α)·v_PIC + α·(v_p + Δv_grid),  α = flipRatio,
  * with bilinear weights restricted to faces that touch liquid or solid (faces between two air cells are
  * undefined and never used). Also records the maximum particle speed (m/s).
+ *
+ * Positions: two displacements that move particles and never enter their velocities (so FLIP cannot keep
+ * them as momentum).
+ * 1. The trapezoidal position update. Stage 1 moved each particle by v_n·dt; the step's change of velocity,
+ *    Δv = g·dt + Δv_grid (gravity, then the projection's change of the face velocities), is known only now.
+ *    Adding ½Δv·dt gives x_{n+1} = x_n + ½(v_n + v_{n+1})·dt, the trapezoidal rule (second order; Hairer,
+ *    Lubich & Wanner, Geometric Numerical Integration, 2006, §II.1), instead of x_n + v_n·dt, whose positions
+ *    lag the velocities by half a step: a dam break read +1.1 % of its energy after one frame from that lag
+ *    alone (K + P measured with v_{n+1} but positions of about t_{n+½}). Liquid at rest stays at rest
+ *    (Δv_grid = −g·dt there), and a blob in free fall (Δv_grid = 0) follows y0 + v0·t − g·t²/2 exactly.
+ * 2. The drift correction: the flow u_d = −w_f·∇s with A·s = drift target (stage 8), applied over dt as a
+ *    displacement, as in the density-projection of Kugelstadt, Longva, Thuerey & Bender 2019 ("Implicit
+ *    density projection for volume conserving liquids", IEEE TVCG 27).
+ * Both are interpolated bilinearly over the faces the velocity transfer uses (weight 1; 0 on a solid's faces);
+ * a particle with none (spray) only gets the gravity half-step ½g·dt². The particle's stencil is placed once
+ * for its velocity and its displacement (the particle does not move in between).
  */
-export function gridToParticles(S: FlipState): void {
-  const { n, nx, ny, type, gu, gv, wu, wv, prevU, prevV, flipRatio, kernel: K } = S;
+export function gridToParticles(S: FlipState, dt: number): void {
+  const { n, nx, ny, type, gu, gv, wu, wv, prevU, prevV, dispU, dispV, faceU, faceV, flipRatio, driftPotential: s, kernel: K } = S;
   const x = S.x, y = S.y, u = S.u, v = S.v;
-  // per face: wu = 1 if usable, gu = u·wu, prevU = (u − u_old)·wu
+  // per face: wu = 1 if usable, gu = u·wu, prevU = (u − u_old)·wu, and the displacement velocity
+  // dispU = ½(g·dt + Δv_grid) + u_d (m/s) on the inner faces (a solid's face, weight 0, holds 0: liquid
+  // touching a wall neither moves into it nor gains a half-step there; the grid's outer row and column keep Δv_grid)
+  const gu2 = 0.5 * S.gx * dt, gv2 = 0.5 * S.gy * dt;
   for (let j = 0; j < ny; j++) {
     for (let i = 0, c = nx * j; i < nx; i++, c++) {
       const tc = type[c];
       const okU = tc !== AIR || (i > 0 && type[c - 1] !== AIR) ? 1 : 0;
       const okV = tc !== AIR || (j > 0 && type[c - nx] !== AIR) ? 1 : 0;
-      wu[c] = okU; prevU[c] = okU * (gu[c] - prevU[c]); gu[c] *= okU;
-      wv[c] = okV; prevV[c] = okV * (gv[c] - prevV[c]); gv[c] *= okV;
+      const du = okU * (gu[c] - prevU[c]), dv = okV * (gv[c] - prevV[c]);
+      wu[c] = okU; prevU[c] = du; gu[c] *= okU;
+      wv[c] = okV; prevV[c] = dv; gv[c] *= okV;
+      if (i > 0 && j > 0) {
+        dispU[c] = faceU[c] > 0 ? okU * (gu2 + 0.5 * du - faceU[c] * (s[c] - s[c - 1])) : 0;
+        dispV[c] = faceV[c] > 0 ? okV * (gv2 + 0.5 * dv - faceV[c] * (s[c] - s[c - nx])) : 0;
+      } else {
+        dispU[c] = du; dispV[c] = dv;
+      }
     }
   }
   const pic = 1 - flipRatio;
+  const hx = gu2 * dt, hy = gv2 * dt; // spray: no face used, gravity's half-step only
   let max2 = 0;
   for (let p = 0; p < n; p++) {
     K.at(x[p], y[p]);
     // u: weights restricted to usable faces (wu = 0 or 1)
     K.nodes(UFX, UFY);
     let ws = K.gather(wu);
-    let up = u[p];
+    let up = u[p], ddx = hx;
     if (ws > 0) {
       const inv = 1 / ws;
       up = pic * (K.gather(gu) * inv) + flipRatio * (up + K.gather(prevU) * inv);
       u[p] = up;
+      ddx = (K.gather(dispU) / ws) * dt;
     }
     // v
     K.nodes(VFX, VFY);
     ws = K.gather(wv);
-    let vp = v[p];
+    let vp = v[p], ddy = hy;
     if (ws > 0) {
       const inv = 1 / ws;
       vp = pic * (K.gather(gv) * inv) + flipRatio * (vp + K.gather(prevV) * inv);
       v[p] = vp;
+      ddy = (K.gather(dispV) / ws) * dt;
     }
+    x[p] += ddx; y[p] += ddy;
     const s2 = up * up + vp * vp;
     if (s2 > max2) max2 = s2;
   }
   S.maxSpeed = Math.sqrt(max2);
-}
-
-/**
- * Stage 9 — position correction, after grid to particle: two displacements that move particles and never
- * enter their velocities (so FLIP cannot keep them as momentum).
- * 1. The trapezoidal position update. Stage 1 moved each particle by v_n·dt; the step's change of velocity,
- *    Δv = g·dt + Δv_grid (gravity, then the projection's change of the face velocities, which stage 8 leaves
- *    in prevU/prevV on the faces it used), is known only now. Adding ½Δv·dt gives
- *    x_{n+1} = x_n + ½(v_n + v_{n+1})·dt, the trapezoidal rule (second order; Hairer, Lubich & Wanner,
- *    Geometric Numerical Integration, 2006, §II.1), instead of x_n + v_n·dt, whose positions lag the velocities
- *    by half a step: a dam break read +1.1 % of its energy after one frame from that lag alone (K + P measured
- *    with v_{n+1} but positions of about t_{n+½}). Liquid at rest stays at rest (Δv_grid = −g·dt there), and a
- *    blob in free fall (Δv_grid = 0) follows y0 + v0·t − g·t²/2 exactly.
- * 2. The drift correction: the flow u_d = −w_f·∇s with A·s = drift target (the projection's own matrix,
- *    solvePoisson), applied over dt as a displacement, as in the density-projection of Kugelstadt, Longva,
- *    Thuerey & Bender 2019 ("Implicit density projection for volume conserving liquids", IEEE TVCG 27).
- * Both are interpolated bilinearly over the faces stage 8 used (wu/wv = 1; 0 on a solid's faces); a particle
- * with none (spray) only gets the gravity half-step ½g·dt².
- */
-export function correctPositions(S: FlipState, dt: number, iterations: number, tolerance: number): void {
-  const { n, nx, ny, wu, wv, prevU, prevV, faceU, faceV, driftPotential: s } = S;
-  const x = S.x, y = S.y;
-  const drifting = S.drift > 0 && S.restDensity > 0 && S.fluidCount > 0;
-  if (drifting) solvePoisson(S, s, S.driftTarget, iterations, tolerance);
-  else s.fill(0);
-  // per usable face: ½(g·dt + Δv_grid) + u_d (m/s), into prevU/prevV (stage 8 is their last reader this step);
-  // a solid's face (weight 0) holds 0: liquid touching a wall neither moves into it nor gains a half-step there
-  const gu2 = 0.5 * S.gx * dt, gv2 = 0.5 * S.gy * dt;
-  for (let j = 1; j < ny; j++) {
-    for (let i = 1, c = 1 + nx * j; i < nx; i++, c++) {
-      prevU[c] = faceU[c] > 0 ? wu[c] * (gu2 + 0.5 * prevU[c] - faceU[c] * (s[c] - s[c - 1])) : 0;
-      prevV[c] = faceV[c] > 0 ? wv[c] * (gv2 + 0.5 * prevV[c] - faceV[c] * (s[c] - s[c - nx])) : 0;
-    }
-  }
-  const hx = gu2 * dt, hy = gv2 * dt; // spray: no face used, gravity's half-step only
-  const K = S.kernel;
-  for (let p = 0; p < n; p++) {
-    K.at(x[p], y[p]);
-    K.nodes(UFX, UFY);
-    let ws = K.gather(wu);
-    const ddx = ws > 0 ? (K.gather(prevU) / ws) * dt : hx;
-    K.nodes(VFX, VFY);
-    ws = K.gather(wv);
-    const ddy = ws > 0 ? (K.gather(prevV) / ws) * dt : hy;
-    x[p] += ddx; y[p] += ddy;
-  }
 }
