@@ -1,10 +1,14 @@
-// Solver benchmark: runs the reference dam break (and the same at 4× the tank area) through our solver,
-// prints particles, steps, wall/cpu seconds, particle-steps per second, pressure residuals (ours vs 50
-// Gauss–Seidel sweeps inside our solver) and the dam-break front; with --ref also runs the native
-// measuring stick (../shared/bench/flip-ref/run.sh) in the same process run and prints ours ÷ native.
-// Also prints the same scene with one free prop (cost ratio to a keyed one) and with ν = 1e-2 m²/s (cost ratio to water).
-// Usage: npx tsx src/cli/bench-sim.ts [--ref] [--rounds N] [--scales 1,2] [--solver pcg-mic0|gauss-seidel]
-//        [--props-only | --viscous-only]
+// Solver benchmark, one thread: runs the reference dam break through our solver and prints particles, steps,
+// wall/cpu seconds, particle-steps per second, pressure residuals (ours vs 50 Gauss–Seidel sweeps inside our
+// solver), the dam-break front and the milliseconds of each stage; with --ref also runs the native measuring
+// stick (../shared/bench/flip-ref/run.sh) right after ours in the same run and prints ours ÷ native (wall and CPU).
+// The headline ratio is the liquid step the native code also computes: foam and spray off (look.foam 0; a
+// read-only look stage, diffuse.ts, that the textbook step does not have); the same run with the scene's
+// default foam follows, with its own ratio. Then the cost per particle-step of the same scene at 25k, 100k and
+// 400k particles (tank 1, 2 and 4 m at the same cell size, the first --scale-steps steps of each), the same
+// scene with one free prop (cost ratio to a keyed one) and with ν = 1e-2 m²/s (cost ratio to water).
+// Usage: npx tsx src/cli/bench-sim.ts [--ref] [--rounds N] [--scales 1,2,4] [--scale-steps 60]
+//        [--solver pcg-mic0|gauss-seidel] [--props-only | --viscous-only]
 import { execFileSync } from 'node:child_process';
 import { existsSync } from 'node:fs';
 import { resolve } from 'node:path';
@@ -31,9 +35,17 @@ function median(a: number[]): number {
   return s.length ? s[Math.floor(s.length / 2)] : 0;
 }
 
+/** The reference dam break with look.foam set (0 = foam and spray off). */
+function damBreak(scale: number, solver: PressureSolverName | undefined, tolerance: number | undefined, foam: number, steps = 240) {
+  const setup = referenceDamBreak(scale, solver, tolerance, steps);
+  const r = parseScene({ ...setup.scene, look: { foam } });
+  if (!r.ok) throw new Error(JSON.stringify(r.errors));
+  return { ...setup, scene: r.scene };
+}
+
 /** Runs one dam break; `tolerance` tiny makes Gauss–Seidel always do all 50 sweeps. */
-function runDamBreak(label: string, scale: number, solver: PressureSolverName, tolerance: number): RunFigures {
-  const setup = referenceDamBreak(scale, solver, tolerance);
+function runDamBreak(label: string, scale: number, solver: PressureSolverName, tolerance: number, foam = 0, steps = 240): RunFigures {
+  const setup = damBreak(scale, solver, tolerance, foam, steps);
   const sim = createSolver(setup.scene, setup.options);
   const dt = 1 / setup.scene.timing.fps;
   const frontSteps = new Map([0.1, 0.2, 0.25, 0.5].map((t) => [Math.round(t / dt), t]));
@@ -74,7 +86,7 @@ function printRun(r: RunFigures): void {
       `residual_median=${r.residual_median.toExponential(2)} residual_max=${r.residual_max.toExponential(2)} iters_mean=${r.iterations_mean.toFixed(1)} ${f}`,
   );
   const total = Object.values(r.stage_ms).reduce((a, b) => a + b, 0);
-  const shares = Object.entries(r.stage_ms).map(([name, ms]) => `${name} ${((100 * ms) / total).toFixed(0)}%`).join(', ');
+  const shares = Object.entries(r.stage_ms).map(([name, ms]) => `${name} ${ms.toFixed(0)} ms (${((100 * ms) / total).toFixed(0)}%)`).join(', ');
   console.log(`${''.padEnd(22)} stages: ${shares}`);
 }
 
@@ -95,7 +107,7 @@ function runNative(): NativeFigures | null {
  * the free prop's cost (rigid step, pressure integration, contacts) as a ratio of CPU time to the keyed one.
  */
 function runPropCost(): { keyed_cpu_s: number; free_cpu_s: number; ratio: number } {
-  const base = referenceDamBreak(1);
+  const base = damBreak(1, undefined, undefined, 0);
   const shape = { type: 'rect' as const, x: 0.2, y: 0.85, width: 0.1, height: 0.1 };
   const cpuOf = (prop: Record<string, unknown>): number => {
     const r = parseScene({ ...base.scene, props: [prop] });
@@ -119,7 +131,7 @@ function runPropCost(): { keyed_cpu_s: number; free_cpu_s: number; ratio: number
  * stage's share of the viscous run, and the dam-break front of each at 0.1 s.
  */
 function runViscousCost(): { water_cpu_s: number; viscous_cpu_s: number; ratio: number; viscosity_share: number; front_water: number; front_viscous: number } {
-  const base = referenceDamBreak(1);
+  const base = damBreak(1, undefined, undefined, 0);
   const run = (viscosity: number, steps = base.steps) => {
     const r = parseScene({ ...base.scene, version: 2, liquids: [{ id: 'water', name: 'Test liquid', colour: '#3A8FB7', viscosity }] });
     if (!r.ok) throw new Error(JSON.stringify(r.errors));
@@ -149,46 +161,78 @@ function runViscousCost(): { water_cpu_s: number; viscous_cpu_s: number; ratio: 
   };
 }
 
+/** Stage milliseconds as rounded numbers for the JSON line. */
+const roundedStages = (r: RunFigures) => Object.fromEntries(Object.entries(r.stage_ms).map(([k, v]) => [k, Math.round(v)]));
+
+/**
+ * Cost per particle-step (ns of CPU time) of the default solver at each scale over the same first `steps`
+ * steps (the same physical time), foam off; and each as a ratio to the smallest (issue target: 400k ≤ 1.2 × 25k).
+ */
+function runScaling(scales: number[], steps: number): Record<string, unknown> {
+  const out: Record<string, unknown> = {};
+  let first = 0;
+  for (const scale of scales) {
+    const r = runDamBreak(`scaling`, scale, DEFAULT_PRESSURE_SOLVER, DEFAULT_PRESSURE_TOLERANCE, 0, steps);
+    const ns = (1e9 * r.cpu_s) / (r.particles * r.steps);
+    if (!first) first = ns;
+    const stages = Object.entries(r.stage_ms).filter(([, ms]) => ms >= 0.5).map(([k, ms]) => `${k} ${((1e6 * ms) / (r.particles * r.steps)).toFixed(0)}`).join(', ');
+    console.log(
+      `cost per particle-step  scale=${scale} particles=${r.particles} steps=${r.steps} cpu_s=${r.cpu_s.toFixed(3)} ns_per_particle_step=${ns.toFixed(1)} ` +
+        `ratio_to_${scales[0]}=${(ns / first).toFixed(3)} iters_mean=${r.iterations_mean.toFixed(1)}`,
+    );
+    console.log(`${''.padEnd(22)} stage ns per particle-step: ${stages}`);
+    out[`particles_${r.particles}`] = { ns_per_particle_step: +ns.toFixed(2), ratio_to_smallest: +(ns / first).toFixed(4), iters_mean: +r.iterations_mean.toFixed(2) };
+  }
+  return out;
+}
+
 function main(): void {
   if (process.argv.includes('--props-only')) { console.log(JSON.stringify({ free_prop: runPropCost() })); return; }
   if (process.argv.includes('--viscous-only')) { console.log(JSON.stringify({ viscous: runViscousCost() })); return; }
   const rounds = Number(arg('--rounds') ?? 1);
-  const scales = (arg('--scales') ?? '1,2').split(',').map(Number);
+  const scales = (arg('--scales') ?? '1,2,4').split(',').map(Number);
+  const scaleSteps = Number(arg('--scale-steps') ?? 60);
   const defaultSolver = (arg('--solver') as PressureSolverName | undefined) ?? DEFAULT_PRESSURE_SOLVER;
   const withRef = process.argv.includes('--ref');
-  const summary: Record<string, unknown> = { default_solver: defaultSolver, default_tolerance: DEFAULT_PRESSURE_TOLERANCE };
-  let native: NativeFigures | null = null;
+  const summary: Record<string, unknown> = { default_solver: defaultSolver, default_tolerance: DEFAULT_PRESSURE_TOLERANCE, threads: 1 };
   for (let round = 0; round < rounds; round++) {
-    for (const scale of scales) {
-      // 1) the textbook pressure solve inside our solver: 50 sweeps of SOR (ω = 1.9), no early stop
-      const gs = runDamBreak('gauss-seidel-50', scale, 'gauss-seidel', 1e-12);
-      printRun(gs);
-      // 2) CG + MIC(0) stopped at the residual 50 sweeps reach (equal residual)
-      const eq = runDamBreak('pcg-at-gs-residual', scale, 'pcg-mic0', gs.residual_median);
-      printRun(eq);
-      // 3) the default solver and tolerance
-      const def = runDamBreak('default', scale, defaultSolver, DEFAULT_PRESSURE_TOLERANCE);
-      printRun(def);
-      summary[`scale${scale}`] = {
-        particles: def.particles, steps: def.steps, wall_s: +def.wall_s.toFixed(4), cpu_s: +def.cpu_s.toFixed(4),
-        psteps_per_s: Math.round(def.psteps_per_s), residual_median: def.residual_median, residual_max: def.residual_max,
-        gs50_psteps_per_s: Math.round(gs.psteps_per_s), gs50_residual_median: gs.residual_median, gs50_residual_max: gs.residual_max,
-        pcg_equal_residual_psteps_per_s: Math.round(eq.psteps_per_s), front: def.front,
-      };
-      if (scale === 1 && withRef) {
-        native = runNative();
-        if (native) {
-          console.log(`native                 ${native.line}`);
-          const ratio = def.psteps_per_s / native.psteps_per_s;
-          const cpuRatio = native.cpu_s / def.cpu_s; // same particles and steps
-          console.log(`ratio ours/native (psteps/s): ${ratio.toFixed(3)}   (cpu-time based: ${cpuRatio.toFixed(3)}; gauss-seidel-50 ours/native: ${(gs.psteps_per_s / native.psteps_per_s).toFixed(3)})`);
-          summary.native_psteps_per_s = native.psteps_per_s;
-          summary.ratio_ours_native = +ratio.toFixed(4);
-          summary.ratio_ours_native_cpu = +cpuRatio.toFixed(4);
-        }
-      }
+    // 1) the textbook pressure solve inside our solver: 50 sweeps of SOR (ω = 1.9), no early stop
+    const gs = runDamBreak('gauss-seidel-50', 1, 'gauss-seidel', 1e-12);
+    printRun(gs);
+    // 2) CG + MIC(0) stopped at the residual 50 sweeps reach (equal residual)
+    const eq = runDamBreak('pcg-at-gs-residual', 1, 'pcg-mic0', gs.residual_median);
+    printRun(eq);
+    // 3) the default solver and tolerance, foam off: the headline, with the native stick right after it
+    const def = runDamBreak('default', 1, defaultSolver, DEFAULT_PRESSURE_TOLERANCE);
+    printRun(def);
+    const native = withRef ? runNative() : null;
+    // 4) the same with the scene's default foam and spray (look.foam 1)
+    const foam = runDamBreak('default+foam', 1, defaultSolver, DEFAULT_PRESSURE_TOLERANCE, 1);
+    printRun(foam);
+    summary.scale1 = {
+      particles: def.particles, steps: def.steps, wall_s: +def.wall_s.toFixed(4), cpu_s: +def.cpu_s.toFixed(4),
+      psteps_per_s: Math.round(def.psteps_per_s), residual_median: def.residual_median, residual_max: def.residual_max,
+      gs50_psteps_per_s: Math.round(gs.psteps_per_s), gs50_residual_median: gs.residual_median, gs50_residual_max: gs.residual_max,
+      pcg_equal_residual_psteps_per_s: Math.round(eq.psteps_per_s), front: def.front, stage_ms: roundedStages(def),
+      with_foam: { wall_s: +foam.wall_s.toFixed(4), cpu_s: +foam.cpu_s.toFixed(4), stage_ms: roundedStages(foam) },
+    };
+    if (native) {
+      console.log(`native                 ${native.line}`);
+      const ratio = def.psteps_per_s / native.psteps_per_s;
+      const cpuRatio = native.cpu_s / def.cpu_s; // same particles and steps
+      const foamRatio = native.cpu_s / foam.cpu_s;
+      console.log(
+        `ratio ours/native, one thread, default tolerance, foam off: wall ${ratio.toFixed(3)}  cpu ${cpuRatio.toFixed(3)}   ` +
+          `(with foam: cpu ${foamRatio.toFixed(3)}; gauss-seidel-50 ours/native wall: ${(gs.psteps_per_s / native.psteps_per_s).toFixed(3)})`,
+      );
+      summary.native_psteps_per_s = native.psteps_per_s;
+      summary.native_cpu_s = native.cpu_s;
+      summary.ratio_ours_native = +ratio.toFixed(4);
+      summary.ratio_ours_native_cpu = +cpuRatio.toFixed(4);
+      summary.ratio_ours_native_cpu_with_foam = +foamRatio.toFixed(4);
     }
   }
+  summary.scaling = runScaling(scales, scaleSteps);
   summary.free_prop = runPropCost();
   summary.viscous = runViscousCost();
   console.log(JSON.stringify(summary));
