@@ -6,4 +6,6 @@
 //    projection (rigid.ts); densities beside walls and props compared with the share of ρ₀ they read at rest.
 // 4: free props take the opposite of the collision stage's push on the particles they overtake (stages.ts
 //    collide, Newton's third law) and the viscous stage's stress on their faces (viscosity.ts reaction).
-export const SOLVER_BUILD = 'tidemark-flip/4';
+// 5: the drift solve stops at a relative residual of 1 % at most (stages.ts, DRIFT_TOLERANCE): scenes whose
+//    pressure tolerance is below 1e-2 bake differently; at 1e-2 and above (the default) frames are unchanged.
+export const SOLVER_BUILD = 'tidemark-flip/5';

@@ -97,9 +97,9 @@ export function createDiffuse(S: FlipState, scene: Scene): DiffuseStage {
     const ci = Math.floor((px + h) * invHs), cj = Math.floor((py + h) * invHs);
     let w = 0, su = 0, sv = 0;
     for (let j = Math.max(0, cj - 2); j <= Math.min(hny - 1, cj + 2); j++) {
-      for (let i = Math.max(0, ci - 2); i <= Math.min(hnx - 1, ci + 2); i++) {
-        const c = i + hnx * j;
-        for (let q = hstart[c], e = hstart[c + 1]; q < e; q++) {
+      { // the row's cells ci − 2 … ci + 2 hold one contiguous range of the sorted particles
+        const row = hnx * j, i0 = Math.max(0, ci - 2), i1 = Math.min(hnx - 1, ci + 2);
+        for (let q = hstart[row + i0], e = hstart[row + i1 + 1]; q < e; q++) {
           const ex = px - X[q], ey = py - Y[q], r2 = ex * ex + ey * ey;
           if (r2 >= R2) continue;
           const k = 1 - Math.sqrt(r2) * invR;
@@ -146,9 +146,9 @@ export function createDiffuse(S: FlipState, scene: Scene): DiffuseStage {
       const ci = Math.floor((px + h) * invHs), cj = Math.floor((py + h) * invHs);
       let w = 0, gxs = 0, gys = 0;
       for (let j = Math.max(0, cj - 2); j <= Math.min(hny - 1, cj + 2); j++) {
-        for (let i = Math.max(0, ci - 2); i <= Math.min(hnx - 1, ci + 2); i++) {
-          const c = i + hnx * j;
-          for (let q = hstart[c], e = hstart[c + 1]; q < e; q++) {
+        { // the row's cells ci − 2 … ci + 2 hold one contiguous range of the sorted particles
+          const row = hnx * j, i0 = Math.max(0, ci - 2), i1 = Math.min(hnx - 1, ci + 2);
+          for (let q = hstart[row + i0], e = hstart[row + i1 + 1]; q < e; q++) {
             if (q === p) continue;
             const ex = px - X[q], ey = py - Y[q], r2 = ex * ex + ey * ey;
             if (r2 >= R2 || r2 < tiny) continue;
@@ -169,9 +169,9 @@ export function createDiffuse(S: FlipState, scene: Scene): DiffuseStage {
       let ta = 0, wc = 0;
       const surface = nx[p] !== 0 || ny[p] !== 0;
       for (let j = Math.max(0, cj - 2); j <= Math.min(hny - 1, cj + 2); j++) {
-        for (let i = Math.max(0, ci - 2); i <= Math.min(hnx - 1, ci + 2); i++) {
-          const c = i + hnx * j;
-          for (let q = hstart[c], e = hstart[c + 1]; q < e; q++) {
+        { // the row's cells ci − 2 … ci + 2 hold one contiguous range of the sorted particles
+          const row = hnx * j, i0 = Math.max(0, ci - 2), i1 = Math.min(hnx - 1, ci + 2);
+          for (let q = hstart[row + i0], e = hstart[row + i1 + 1]; q < e; q++) {
             if (q === p) continue;
             const ex = px - X[q], ey = py - Y[q], r2 = ex * ex + ey * ey;
             if (r2 >= R2 || r2 < tiny) continue;
