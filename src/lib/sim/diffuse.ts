@@ -78,6 +78,8 @@ export function createDiffuse(S: FlipState, scene: Scene): DiffuseStage {
   let n = 0;
   // per liquid particle scratch: unit normal (0 when not at the surface)
   const nx = new Float32Array(S.cap), ny = new Float32Array(S.cap);
+  // per hash cell: 1 where a particle that can emit (kinetic potential > 0) lies within two cells (see emit)
+  const hot = new Uint8Array(S.hnx * S.hny), hotRow = new Uint8Array(S.hnx * S.hny);
   // neighbourhood: two hash cells (the hash cell is ≥ 2r), searched over a 5 × 5 block of hash cells
   const R = 2 * S.hs, R2 = R * R, invR = 1 / R;
   // neighbours of a particle in settled liquid: the kernel-weighted count Σ(1 − r/R) over a disc of radius R
@@ -140,10 +142,31 @@ export function createDiffuse(S: FlipState, scene: Scene): DiffuseStage {
   function emit(dtGen: number): void {
     const { hstart, hnx, hny, invHs, h } = S;
     const X = S.x, Y = S.y, U = S.u, V = S.v, count = S.n;
+    // Normals are read only for particles that can emit (kinetic potential > 0) and for their neighbours, all
+    // within two hash cells of them: mark those cells (the emitters' cells dilated by two), and leave the
+    // normals of particles elsewhere (a pool at rest) uncomputed; they are never read.
+    hot.fill(0);
+    for (let p = 0; p < count; p++) {
+      const pu = U[p], pv = V[p];
+      if (!(clampPotential(0.5 * (pu * pu + pv * pv), KE) > 0)) continue;
+      const ci = Math.min(hnx - 1, Math.max(0, Math.floor((X[p] + h) * invHs))), cj = Math.min(hny - 1, Math.max(0, Math.floor((Y[p] + h) * invHs)));
+      hot[ci + hnx * cj] = 1;
+    }
+    for (let j = 0; j < hny; j++) for (let i = 0, c = hnx * j; i < hnx; i++, c++) {
+      let m = 0;
+      for (let k = Math.max(0, i - 2); k <= Math.min(hnx - 1, i + 2); k++) m |= hot[hnx * j + k];
+      hotRow[c] = m;
+    }
+    for (let j = 0; j < hny; j++) for (let i = 0, c = hnx * j; i < hnx; i++, c++) {
+      let m = 0;
+      for (let k = Math.max(0, j - 2); k <= Math.min(hny - 1, j + 2); k++) m |= hotRow[i + hnx * k];
+      hot[c] = m;
+    }
     // normals from the colour-field gradient: Σ x̂ij·W points out of the liquid; only surface particles keep one
     for (let p = 0; p < count; p++) {
       const px = X[p], py = Y[p];
       const ci = Math.floor((px + h) * invHs), cj = Math.floor((py + h) * invHs);
+      if (hot[Math.min(hnx - 1, Math.max(0, ci)) + hnx * Math.min(hny - 1, Math.max(0, cj))] === 0) { nx[p] = 0; ny[p] = 0; continue; }
       let w = 0, gxs = 0, gys = 0;
       for (let j = Math.max(0, cj - 2); j <= Math.min(hny - 1, cj + 2); j++) {
         { // the row's cells ci − 2 … ci + 2 hold one contiguous range of the sorted particles
