@@ -180,7 +180,7 @@ function runScaling(scales: number[], steps: number): Record<string, unknown> {
       `cost per particle-step  scale=${scale} particles=${r.particles} steps=${r.steps} cpu_s=${r.cpu_s.toFixed(3)} ns_per_particle_step=${ns.toFixed(1)} ` +
         `ratio_to_${scales[0]}=${(ns / first).toFixed(3)} iters_mean=${r.iterations_mean.toFixed(1)}`,
     );
-    console.log(`${''.padEnd(22)} stage ns per particle-step: ${stages}`);
+    console.log(`${''.padEnd(22)} stage wall ns per particle-step: ${stages}`);
     out[`particles_${r.particles}`] = { ns_per_particle_step: +ns.toFixed(2), ratio_to_smallest: +(ns / first).toFixed(4), iters_mean: +r.iterations_mean.toFixed(2) };
   }
   return out;
@@ -206,6 +206,7 @@ function main(): void {
     const def = runDamBreak('default', 1, defaultSolver, DEFAULT_PRESSURE_TOLERANCE);
     printRun(def);
     const native = withRef ? runNative() : null;
+    if (native) console.log(`native                 ${native.line}`);
     // 4) the same with the scene's default foam and spray (look.foam 1)
     const foam = runDamBreak('default+foam', 1, defaultSolver, DEFAULT_PRESSURE_TOLERANCE, 1);
     printRun(foam);
@@ -217,7 +218,6 @@ function main(): void {
       with_foam: { wall_s: +foam.wall_s.toFixed(4), cpu_s: +foam.cpu_s.toFixed(4), stage_ms: roundedStages(foam) },
     };
     if (native) {
-      console.log(`native                 ${native.line}`);
       const ratio = def.psteps_per_s / native.psteps_per_s;
       const cpuRatio = native.cpu_s / def.cpu_s; // same particles and steps
       const foamRatio = native.cpu_s / foam.cpu_s;
