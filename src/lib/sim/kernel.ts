@@ -61,6 +61,38 @@ export class Bilinear {
     weight[n0 + nx] += this.w3;
   }
 
+  /**
+   * The particle-to-grid deposit at the current point in one call: value u on the u faces (field fu, weight wu),
+   * v on the v faces (fv, wv) and a density deposit on the centres (dens). The same weights, in the same order,
+   * as nodes(U_FACES) + splat, nodes(V_FACES) + splat, nodes(CENTRES) + splatWeight.
+   */
+  splatFacesAndCentre(fu: Float64Array, wu: Float64Array, u: number, fv: Float64Array, wv: Float64Array, v: number, dens: Float64Array): void {
+    const nx = this.nx, iMax = this.iMax, jMax = this.jMax;
+    // one-dimensional stencils: at the point (offset 0) and half a cell back (offset ½), in x and in y
+    const ax = this.X, ay = this.Y, bx = this.X - 0.5, by = this.Y - 0.5;
+    let ia = ax | 0; if (ia > iMax) ia = iMax;
+    let ib = bx | 0; if (ib > iMax) ib = iMax;
+    let ja = ay | 0; if (ja > jMax) ja = jMax;
+    let jb = by | 0; if (jb > jMax) jb = jMax;
+    const sa = ax - ia, sb = bx - ib, ta = ay - ja, tb = by - jb;
+    // u faces: (a, b); v faces: (b, a); centres: (b, b)
+    let n0 = ia + nx * jb;
+    let w = (1 - sa) * (1 - tb); fu[n0] += u * w; wu[n0] += w;
+    w = sa * (1 - tb); fu[n0 + 1] += u * w; wu[n0 + 1] += w;
+    w = sa * tb; fu[n0 + nx + 1] += u * w; wu[n0 + nx + 1] += w;
+    w = (1 - sa) * tb; fu[n0 + nx] += u * w; wu[n0 + nx] += w;
+    n0 = ib + nx * ja;
+    w = (1 - sb) * (1 - ta); fv[n0] += v * w; wv[n0] += w;
+    w = sb * (1 - ta); fv[n0 + 1] += v * w; wv[n0 + 1] += w;
+    w = sb * ta; fv[n0 + nx + 1] += v * w; wv[n0 + nx + 1] += w;
+    w = (1 - sb) * ta; fv[n0 + nx] += v * w; wv[n0 + nx] += w;
+    n0 = ib + nx * jb;
+    dens[n0] += (1 - sb) * (1 - tb);
+    dens[n0 + 1] += sb * (1 - tb);
+    dens[n0 + nx + 1] += sb * tb;
+    dens[n0 + nx] += (1 - sb) * tb;
+  }
+
   /** Σ w·field over the four nodes. */
   gather(field: Float64Array): number {
     const n0 = this.n0, nx = this.nx;

@@ -645,9 +645,7 @@ export function particlesToGrid(S: FlipState): void {
   for (let p = 0; p < n; p++) {
     const cell = K.at(x[p], y[p]);
     if (type[cell] === AIR) type[cell] = FLUID;
-    K.nodes(UFX, UFY); K.splat(gu, wu, u[p]);
-    K.nodes(VFX, VFY); K.splat(gv, wv, v[p]);
-    K.nodes(CX, CY); K.splatWeight(dens);
+    K.splatFacesAndCentre(gu, wu, u[p], gv, wv, v[p], dens);
   }
   for (let j = 0; j < ny; j++) {
     for (let i = 0, c = nx * j; i < nx; i++, c++) {
