@@ -340,6 +340,7 @@ export function ParamsPanel({ store, snap }: { store: EditorStore; snap: EditorS
             <label htmlFor="pressure-solver" className="text-[0.8rem] font-medium">Pressure solver</label>
             <select id="pressure-solver" value={doc.physics.pressureSolver} onChange={(e) => set('physics.pressureSolver', e.target.value, 'Pressure solver')} className="rounded-md border border-sand-line bg-white px-2 py-1 text-[0.8rem]">
               <option value="pcg-mic0">Conjugate gradient (MIC)</option>
+              <option value="pcg-multigrid">Conjugate gradient (multigrid)</option>
               <option value="gauss-seidel">Gauss–Seidel</option>
             </select>
           </div>

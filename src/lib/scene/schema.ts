@@ -13,7 +13,11 @@ export const SCENE_LIMITS = {
   maxSubsteps: 200,
 } as const;
 
-export const PRESSURE_SOLVERS = ['gauss-seidel', 'pcg-mic0'] as const;
+/**
+ * Pressure solvers (src/lib/sim/pressure.ts): over-relaxed Gauss–Seidel; conjugate gradient preconditioned
+ * with MIC(0); conjugate gradient preconditioned with a multigrid V-cycle (McAdams, Sifakis & Teran 2010).
+ */
+export const PRESSURE_SOLVERS = ['gauss-seidel', 'pcg-mic0', 'pcg-multigrid'] as const;
 export type PressureSolverName = (typeof PRESSURE_SOLVERS)[number];
 
 /**

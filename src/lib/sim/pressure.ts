@@ -17,6 +17,10 @@
 // weight w_f (0 at a solid, 1 between liquid cells, 1/θ between liquid and air), the diagonal is
 // Σ_f w_f, the off-diagonals stay −1 between liquid cells (the matrix stays symmetric), and the velocity
 // update is u_f −= w_f·(q_right − q_left) with q = 0 in air. θ = 1 everywhere is the first-order scheme.
+//
+// A third solver is the same CG with a multigrid V-cycle as its preconditioner (McAdams, Sifakis & Teran
+// 2010; multigrid.ts): its iteration count stays about flat as the grid grows, where MIC(0)'s grows.
+import { createMultigrid, type MultigridPreconditioner } from './multigrid';
 
 export const FLUID = 0;
 export const AIR = 1;
@@ -101,6 +105,7 @@ export function divergenceResidual(g: ProjectionGrid): number {
  */
 export function projectGaussSeidel(g: ProjectionGrid, maxSweeps: number, omega: number, tolerance: number): number {
   const bNorm = assembleSystem(g);
+  lastPreconditioner.delete(g);
   const { nx, gu: u, gv: v, faceU: wu, faceV: wv, fluid, fluidCount, q, diag } = g;
   for (let k = 0; k < fluidCount; k++) q[fluid[k]] = 0;
   g.lastIterations = 0;
@@ -164,15 +169,42 @@ function applyMic0(g: ProjectionGrid): void {
   }
 }
 
+/** How CG is preconditioned: z = M⁻¹·r, from g.res into g.zv. */
+export type Preconditioner = 'mic0' | 'multigrid';
+
+interface PreconditionerOps { setup(): void; apply(): void }
+
+const multigrids = new WeakMap<ProjectionGrid, MultigridPreconditioner>();
+/** The preconditioner of each grid's last projection: solvePoisson uses the same one. */
+const lastPreconditioner = new WeakMap<ProjectionGrid, Preconditioner>();
+
+function preconditionerOps(g: ProjectionGrid, kind: Preconditioner): PreconditionerOps {
+  if (kind === 'mic0') return { setup: () => buildMic0(g), apply: () => applyMic0(g) };
+  let mg = multigrids.get(g);
+  if (!mg || mg.nx !== g.nx || mg.ny !== g.ny) { mg = createMultigrid(g); multigrids.set(g, mg); }
+  const m = mg;
+  return { setup: () => m.setup(), apply: () => m.apply(g.res, g.zv) };
+}
+
 /**
  * Conjugate gradient with MIC(0) preconditioning (Bridson 2015, Fig. 5.x "PCG"): warm-started from
  * the previous step's q (rescaled by the caller), stops when ‖r‖₂ ≤ tolerance·‖b‖₂ or after maxIterations.
  * Then applies the pressure gradient to the open faces around fluid cells. Returns the relative residual.
  */
 export function projectPcgMic0(g: ProjectionGrid, maxIterations: number, tolerance: number, coupling?: Coupling): number {
+  return projectPcg(g, 'mic0', maxIterations, tolerance, coupling);
+}
+
+/** The same projection as projectPcgMic0, with CG preconditioned by a multigrid V-cycle (multigrid.ts). */
+export function projectPcgMultigrid(g: ProjectionGrid, maxIterations: number, tolerance: number, coupling?: Coupling): number {
+  return projectPcg(g, 'multigrid', maxIterations, tolerance, coupling);
+}
+
+function projectPcg(g: ProjectionGrid, kind: Preconditioner, maxIterations: number, tolerance: number, coupling?: Coupling): number {
   const bNorm = assembleSystem(g);
   const { fluid, fluidCount, q } = g;
   g.lastIterations = 0;
+  lastPreconditioner.set(g, kind);
   if (bNorm === 0) {
     for (let k = 0; k < fluidCount; k++) q[fluid[k]] = 0;
     coupling?.finish(q);
@@ -180,7 +212,7 @@ export function projectPcgMic0(g: ProjectionGrid, maxIterations: number, toleran
   }
   // q outside fluid must be 0 (air Dirichlet); clear stale values from cells that were fluid before.
   clearOutsideFluid(g, q);
-  const it = pcgSolve(g, q, bNorm, maxIterations, tolerance, coupling);
+  const it = pcgSolve(g, q, bNorm, maxIterations, tolerance, preconditionerOps(g, kind), coupling);
   applyPressureGradient(g);
   coupling?.finish(q);
   g.lastIterations = it;
@@ -191,7 +223,8 @@ export function projectPcgMic0(g: ProjectionGrid, maxIterations: number, toleran
  * Solves A·x = rhs with the last projection's matrix (its fluid cells and face weights), until
  * ‖r‖₂ ≤ tolerance·‖rhs‖₂ or maxIterations: the drift correction's displacement potential (stages.ts,
  * correctPositions). Starts from x as given on the fluid cells (a warm start; 0 elsewhere). Uses the CG
- * scratch (rewritten by every projection) and leaves q and the grid velocities untouched.
+ * scratch (rewritten by every projection) and leaves q and the grid velocities untouched. Preconditioned as
+ * the last projection was (MIC(0) after Gauss–Seidel).
  * Returns the relative residual reached.
  */
 export function solvePoisson(g: ProjectionGrid, x: Float64Array, rhs: Float64Array, maxIterations: number, tolerance: number): number {
@@ -201,7 +234,7 @@ export function solvePoisson(g: ProjectionGrid, x: Float64Array, rhs: Float64Arr
   for (let k = 0; k < fluidCount; k++) { const c = fluid[k]; const b = rhs[c]; res[c] = b; bb += b * b; }
   const bNorm = Math.sqrt(bb);
   if (bNorm === 0) { for (let k = 0; k < fluidCount; k++) x[fluid[k]] = 0; return 0; }
-  pcgSolve(g, x, bNorm, maxIterations, tolerance);
+  pcgSolve(g, x, bNorm, maxIterations, tolerance, preconditionerOps(g, lastPreconditioner.get(g) ?? 'mic0'));
   let rr = 0;
   for (let k = 0; k < fluidCount; k++) rr += res[fluid[k]] ** 2;
   return Math.sqrt(rr) / bNorm;
@@ -218,7 +251,9 @@ function clearOutsideFluid(g: ProjectionGrid, x: Float64Array): void {
  * PCG on (A + C)·x = b over the fluid cells (C: the optional coupling): on entry res holds b and x the starting guess (0 outside fluid);
  * on exit x is the solution and res = b − A·x. Returns the iterations used.
  */
-function pcgSolve(g: ProjectionGrid, x: Float64Array, bNorm: number, maxIterations: number, tolerance: number, coupling?: Coupling): number {
+function pcgSolve(
+  g: ProjectionGrid, x: Float64Array, bNorm: number, maxIterations: number, tolerance: number, pre: PreconditionerOps, coupling?: Coupling,
+): number {
   const { nx, fluid, fluidCount, res, zv, dir, adir, diag } = g;
   // r = b − (A + C) x0
   let rr = 0;
@@ -232,8 +267,8 @@ function pcgSolve(g: ProjectionGrid, x: Float64Array, bNorm: number, maxIteratio
   const stop = tolerance * bNorm;
   let it = 0;
   if (Math.sqrt(rr) > stop) {
-    buildMic0(g);
-    applyMic0(g);
+    pre.setup();
+    pre.apply();
     let sigma = 0;
     for (let k = 0; k < fluidCount; k++) { const c = fluid[k]; dir[c] = zv[c]; sigma += zv[c] * res[c]; }
     for (it = 1; it <= maxIterations; it++) {
@@ -258,7 +293,7 @@ function pcgSolve(g: ProjectionGrid, x: Float64Array, bNorm: number, maxIteratio
         rr += r * r;
       }
       if (Math.sqrt(rr) <= stop) break;
-      applyMic0(g);
+      pre.apply();
       // β = σ_new/σ;  dir = z + β·dir
       let sigmaNew = 0;
       for (let k = 0; k < fluidCount; k++) { const c = fluid[k]; sigmaNew += zv[c] * res[c]; }

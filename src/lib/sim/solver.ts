@@ -7,7 +7,7 @@ import {
   FlipState, WATER_DENSITY, integrate, separate, placeSolids, collide, emit, particlesToGrid,
   densityAndDrift, driftSolve, gridToParticles, classifyCells, depositDensity, estimateRestDensity, type SolverOptions,
 } from './stages';
-import { projectGaussSeidel, projectPcgMic0, FLUID } from './pressure';
+import { projectGaussSeidel, projectPcgMic0, projectPcgMultigrid, FLUID } from './pressure';
 import { liquidArea } from './area';
 import { createRigidBodies, type PropState } from './rigid';
 import { freeSurface } from './surface';
@@ -143,11 +143,12 @@ export function createSolver(scene: Scene, options: SolverOptions = {}): Solver 
     // warm start for CG: q scales with dt (q = p·dt/(ρh))
     if (S.lastDt > 0 && S.lastDt !== dt) { const k = dt / S.lastDt; for (let c = 0; c < S.nc; c++) S.q[c] *= k; }
     S.lastDt = dt;
-    // free props are coupled into the matrix (rigid.ts), which only the CG solver takes
-    if (hasFree) { rigid.prepareCoupling(); return projectPcgMic0(S, physics.pressureIterations, physics.pressureTolerance, rigid.coupling); }
+    // free props are coupled into the matrix (rigid.ts), which only the CG solvers take (MIC(0) for gauss-seidel)
+    const cg = solverName === 'pcg-multigrid' ? projectPcgMultigrid : projectPcgMic0;
+    if (hasFree) { rigid.prepareCoupling(); return cg(S, physics.pressureIterations, physics.pressureTolerance, rigid.coupling); }
     return solverName === 'gauss-seidel'
       ? projectGaussSeidel(S, physics.pressureIterations, physics.overRelaxation, physics.pressureTolerance)
-      : projectPcgMic0(S, physics.pressureIterations, physics.pressureTolerance);
+      : cg(S, physics.pressureIterations, physics.pressureTolerance);
   }
 
   /**
