@@ -136,10 +136,18 @@ export function createMultigrid(g: ProjectionGrid): MultigridPreconditioner {
   /** One Gauss–Seidel pass over a list of cells: x_c = (b_c + Σ x_n)/A_cc. */
   function gsPass(L: Level, list: Int32Array, count: number, backward: boolean): void {
     const { nx, x, b, diag } = L;
-    for (let k = backward ? count - 1 : 0; backward ? k >= 0 : k < count; backward ? k-- : k++) {
-      const c = list[k];
-      const d = diag[c];
-      if (d > 0) x[c] = (b[c] + x[c - 1] + x[c + 1] + x[c - nx] + x[c + nx]) / d;
+    if (backward) {
+      for (let k = count - 1; k >= 0; k--) {
+        const c = list[k];
+        const d = diag[c];
+        if (d > 0) x[c] = (b[c] + x[c - 1] + x[c + 1] + x[c - nx] + x[c + nx]) / d;
+      }
+    } else {
+      for (let k = 0; k < count; k++) {
+        const c = list[k];
+        const d = diag[c];
+        if (d > 0) x[c] = (b[c] + x[c - 1] + x[c + 1] + x[c - nx] + x[c + nx]) / d;
+      }
     }
   }
 
@@ -176,9 +184,10 @@ export function createMultigrid(g: ProjectionGrid): MultigridPreconditioner {
   function restrict(F: Level, C: Level): void {
     const { nx: fx, ny: fy, t } = F;
     const { nx, b, cells, cellCount } = C;
-    for (let k = 0; k < cellCount; k++) {
+    for (let k = 0, J = 0, rowEnd = nx; k < cellCount; k++) {
       const c = cells[k];
-      const I = c % nx, J = (c / nx) | 0;
+      while (c >= rowEnd) { J++; rowEnd += nx; }
+      const I = c - (rowEnd - nx);
       let s = 0;
       for (let dj = 0; dj < 4; dj++) {
         const j = 2 * J - 2 + dj;
@@ -201,9 +210,10 @@ export function createMultigrid(g: ProjectionGrid): MultigridPreconditioner {
   function prolong(C: Level, F: Level): void {
     const { nx, x: xc } = C;
     const { nx: fx, x, cells, cellCount } = F;
-    for (let k = 0; k < cellCount; k++) {
+    for (let k = 0, j = 0, rowEnd = fx; k < cellCount; k++) {
       const c = cells[k];
-      const i = c % fx, j = (c / fx) | 0;
+      while (c >= rowEnd) { j++; rowEnd += fx; }
+      const i = c - (rowEnd - fx);
       const I = (i + 1) >> 1, J = (j + 1) >> 1;
       const I2 = i & 1 ? I - 1 : I + 1, J2 = j & 1 ? J - 1 : J + 1;
       const r = nx * J, r2 = nx * J2;
