@@ -8,12 +8,15 @@
 // 400k particles (tank 1, 2 and 4 m at the same cell size, the first --scale-steps steps of each), the same
 // scene with one free prop (cost ratio to a keyed one) and with ν = 1e-2 m²/s (cost ratio to water).
 // Usage: npx tsx src/cli/bench-sim.ts [--ref] [--rounds N] [--scales 1,2,4] [--scale-steps 60]
-//        [--solver pcg-mic0|gauss-seidel] [--props-only | --viscous-only]
+//        [--solver pcg-mic0|pcg-multigrid|gauss-seidel] [--props-only | --viscous-only]
+// Also runs the dam break with the other CG preconditioner (multigrid vs MIC(0)) at the default tolerance, and the
+// pressure-solver section (bench-pressure.ts: iterations and ms per solve at 64², 128², 256²).
 import { execFileSync } from 'node:child_process';
 import { existsSync } from 'node:fs';
 import { resolve } from 'node:path';
 import { createSolver } from '../lib/sim/solver';
 import { referenceDamBreak } from '../lib/sim/reference';
+import { benchPressure } from './bench-pressure';
 import { DEFAULT_PRESSURE_SOLVER, DEFAULT_PRESSURE_TOLERANCE, parseScene, type PressureSolverName } from '../lib/scene/schema';
 
 interface RunFigures {
@@ -210,12 +213,19 @@ function main(): void {
     // 4) the same with the scene's default foam and spray (look.foam 1)
     const foam = runDamBreak('default+foam', 1, defaultSolver, DEFAULT_PRESSURE_TOLERANCE, 1);
     printRun(foam);
+    // 5) the other CG preconditioner at the same tolerance (the default is the faster of the two)
+    const other: PressureSolverName = defaultSolver === 'pcg-multigrid' ? 'pcg-mic0' : 'pcg-multigrid';
+    const alt = runDamBreak(other, 1, other, DEFAULT_PRESSURE_TOLERANCE);
+    printRun(alt);
     summary.scale1 = {
       particles: def.particles, steps: def.steps, wall_s: +def.wall_s.toFixed(4), cpu_s: +def.cpu_s.toFixed(4),
       psteps_per_s: Math.round(def.psteps_per_s), residual_median: def.residual_median, residual_max: def.residual_max,
       gs50_psteps_per_s: Math.round(gs.psteps_per_s), gs50_residual_median: gs.residual_median, gs50_residual_max: gs.residual_max,
       pcg_equal_residual_psteps_per_s: Math.round(eq.psteps_per_s), front: def.front, stage_ms: roundedStages(def),
       with_foam: { wall_s: +foam.wall_s.toFixed(4), cpu_s: +foam.cpu_s.toFixed(4), stage_ms: roundedStages(foam) },
+      [`${other}_psteps_per_s`]: Math.round(alt.psteps_per_s), [`${other}_cpu_s`]: +alt.cpu_s.toFixed(4),
+      [`${other}_iterations_mean`]: +alt.iterations_mean.toFixed(2), [`${other}_residual_max`]: alt.residual_max,
+      pressure_ms: +(def.stage_ms['pressure'] ?? 0).toFixed(1), [`${other}_pressure_ms`]: +(alt.stage_ms['pressure'] ?? 0).toFixed(1),
     };
     if (native) {
       const ratio = def.psteps_per_s / native.psteps_per_s;
@@ -233,6 +243,7 @@ function main(): void {
     }
   }
   summary.scaling = runScaling(scales, scaleSteps);
+  summary.pressure = benchPressure(3);
   summary.free_prop = runPropCost();
   summary.viscous = runViscousCost();
   console.log(JSON.stringify(summary));

@@ -7,6 +7,7 @@ import { projectRoot as root } from './services';
 
 const BENCHES: { name: string; file: string; args: string[]; what: string }[] = [
   { name: 'sim', file: 'src/cli/bench-sim.ts', args: ['--ref'], what: 'solver vs the native measuring stick (same run)' },
+  { name: 'pressure', file: 'src/cli/bench-pressure.ts', args: [], what: 'pressure solvers: iterations and ms per solve at 64², 128², 256²' },
   { name: 'clip', file: 'src/cli/bench-clip.ts', args: [], what: 'clip size, error, encode/decode/seek' },
   { name: 'cost', file: 'src/cli/bench-cost.ts', args: ['48'], what: 'solver work units per second (sets the default bake cost limit)' },
   { name: 'bake', file: 'src/cli/bench-bake.ts', args: [], what: 'bake throughput with 1 and 2 worker threads' },
