@@ -68,6 +68,7 @@ export interface Coupling {
 
 /** Builds the fluid list, the diagonal (sum of the face weights) and b; returns ‖b‖₂. */
 export function assembleSystem(g: ProjectionGrid): number {
+  preconditionerReady.delete(g);
   const { nx, ny, type, faceU: wu, faceV: wv, gu: u, gv: v, fluid, diag, res } = g;
   let n = 0, bb = 0;
   for (let j = 1; j < ny - 1; j++) {
@@ -174,16 +175,27 @@ export type Preconditioner = 'mic0' | 'multigrid';
 
 interface PreconditionerOps { setup(): void; apply(): void }
 
+/**
+ * The preconditioner built for each grid's current matrix (cleared by assembleSystem): solvePoisson, on the
+ * last projection's matrix, reuses it instead of building it again (the same numbers either way).
+ */
+const preconditionerReady = new WeakMap<ProjectionGrid, Preconditioner>();
+
 const multigrids = new WeakMap<ProjectionGrid, MultigridPreconditioner>();
 /** The preconditioner of each grid's last projection: solvePoisson uses the same one. */
 const lastPreconditioner = new WeakMap<ProjectionGrid, Preconditioner>();
 
 function preconditionerOps(g: ProjectionGrid, kind: Preconditioner): PreconditionerOps {
-  if (kind === 'mic0') return { setup: () => buildMic0(g), apply: () => applyMic0(g) };
+  const once = (build: () => void) => () => {
+    if (preconditionerReady.get(g) === kind) return;
+    build();
+    preconditionerReady.set(g, kind);
+  };
+  if (kind === 'mic0') return { setup: once(() => buildMic0(g)), apply: () => applyMic0(g) };
   let mg = multigrids.get(g);
   if (!mg || mg.nx !== g.nx || mg.ny !== g.ny) { mg = createMultigrid(g); multigrids.set(g, mg); }
   const m = mg;
-  return { setup: () => m.setup(), apply: () => m.apply(g.res, g.zv) };
+  return { setup: once(() => m.setup()), apply: () => m.apply(g.res, g.zv) };
 }
 
 /**
