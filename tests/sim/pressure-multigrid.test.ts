@@ -158,3 +158,15 @@ describe('the solver with pcg-multigrid', () => {
     });
   });
 });
+
+describe('the scene option', () => {
+  it('physics.pressureSolver takes pcg-multigrid and still refuses an unknown name, naming the field', async () => {
+    const { parseScene } = await import('../../src/lib/scene/schema');
+    const doc = { version: 1, tank: { width: 1, height: 1, cellSize: 1 / 32 }, timing: { fps: 24, startFrame: 1, endFrame: 2 } };
+    const ok = parseScene({ ...doc, physics: { pressureSolver: 'pcg-multigrid' } });
+    expect(ok.ok && ok.scene.physics.pressureSolver).toBe('pcg-multigrid');
+    const bad = parseScene({ ...doc, physics: { pressureSolver: 'multigrid' } });
+    expect(bad.ok).toBe(false);
+    expect(JSON.stringify(bad)).toContain('physics.pressureSolver');
+  });
+});
