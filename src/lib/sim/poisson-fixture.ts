@@ -7,7 +7,11 @@ import { FLUID, AIR, SOLID, type ProjectionGrid } from './pressure';
 import { THETA_MIN } from './surface';
 import { mulberry32 } from './prng';
 
-export function poissonFixture(n: number, seed = 1): ProjectionGrid {
+/**
+ * `closed`: the tank is walled on all four sides and full of liquid (no air: only Neumann boundaries, a
+ * singular system whose right-hand side sums to zero, as the velocities through the walls are zero).
+ */
+export function poissonFixture(n: number, seed = 1, closed = false): ProjectionGrid {
   const nx = n + 2, ny = n + 2, nc = nx * ny;
   const f = () => new Float64Array(nc);
   const g: ProjectionGrid = {
@@ -20,9 +24,9 @@ export function poissonFixture(n: number, seed = 1): ProjectionGrid {
   const cx = (i: number) => (i - 0.5) / n, cy = (j: number) => (j - 0.5) / n;
   for (let j = 0; j < ny; j++) for (let i = 0; i < nx; i++) {
     const c = i + nx * j;
-    const wall = i === 0 || j === 0 || i === nx - 1; // the top row stays open air
+    const wall = i === 0 || j === 0 || i === nx - 1 || (closed && j === ny - 1); // the top row stays open air
     const obstacle = (cx(i) - 0.62) ** 2 + (cy(j) - 0.25) ** 2 < 0.012;
-    g.type[c] = wall || obstacle ? SOLID : j === ny - 1 || cy(j) > surface(cx(i)) ? AIR : FLUID;
+    g.type[c] = wall || obstacle ? SOLID : !closed && (j === ny - 1 || cy(j) > surface(cx(i))) ? AIR : FLUID;
     g.open[c] = g.type[c] === SOLID ? 0 : 1;
   }
   const weight = (a: number, b: number, vertical: boolean): number => {
@@ -42,6 +46,8 @@ export function poissonFixture(n: number, seed = 1): ProjectionGrid {
     const x = i / n, y = j / n;
     g.gu[c] = Math.sin(3 * x) * Math.cos(2 * y) + 0.3 * (rnd() - 0.5);
     g.gv[c] = -Math.cos(3 * x) * Math.sin(2 * y) + 0.3 * (rnd() - 0.5);
+    if (g.faceU[c] === 0) g.gu[c] = 0; // solid faces carry the (resting) solid's velocity
+    if (g.faceV[c] === 0) g.gv[c] = 0;
   }
   return g;
 }
