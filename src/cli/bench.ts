@@ -14,6 +14,7 @@ const BENCHES: { name: string; file: string; args: string[]; what: string }[] = 
   { name: 'player', file: 'src/cli/bench-player.ts', args: [], what: 'player frame time, 100k particles plus foam, headless Chromium' },
   { name: 'preview', file: 'src/cli/bench-preview.ts', args: [], what: 'live preview frames per second in headless Chromium' },
   { name: 'export', file: 'src/cli/bench-export.ts', args: [], what: 'GIF, MP4 and comp passes ZIP export of 96 frames at 960×540' },
+  { name: 'api', file: 'src/cli/bench-api.ts', args: [], what: 'library API under load: one app process, autocannon at 10 and 50 connections' },
 ];
 
 const wanted = process.argv.slice(2);

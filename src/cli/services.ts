@@ -299,7 +299,7 @@ export async function buildIfStale(log: (s: string) => void, outDir = 'dist'): P
 
 /** Starts the built app server as a child process and waits until it answers. */
 export async function startApp(env: Record<string, string>, log: (s: string) => void, outDir = 'dist'): Promise<Service & { child: ChildProcess }> {
-  const child = spawn(process.execPath, [path.join(root, outDir, 'server', 'entry.mjs')], {
+  const child = spawn(process.execPath, [path.resolve(root, outDir, 'server', 'entry.mjs')], {
     cwd: root,
     env: { ...process.env, ...env },
     stdio: ['ignore', 'inherit', 'inherit'],
