@@ -1,8 +1,9 @@
 // Validates the session cookie once per request and puts the user and session into Astro.locals.
 import { defineMiddleware } from 'astro:middleware';
+import type { APIContext, MiddlewareNext } from 'astro';
 import { eq, and, or, isNull, lt } from 'drizzle-orm';
 import { lucia, validateSessionCookie } from './lib/server/auth';
-import { db } from './lib/server/db';
+import { countQueries, db } from './lib/server/db';
 import { users } from './lib/server/db/schema';
 import { errorResponse, HttpError } from './lib/server/http';
 import { ensureServerBakePool } from './lib/bake/pool';
@@ -10,7 +11,22 @@ import { withSecurityHeaders } from './lib/server/headers';
 
 const ACTIVE_EVERY_MS = 5 * 60_000;
 
-export const onRequest = defineMiddleware(async (ctx, next) => {
+/** Under npm test an API answer says how many queries it took (X-Query-Count; tests/server/query-counts.test.ts). */
+const COUNT_QUERIES = process.env.TIDEMARK_TEST === '1';
+
+export const onRequest = defineMiddleware(async (ctx, next): Promise<Response> => {
+  if (!COUNT_QUERIES || !ctx.url.pathname.startsWith('/api/')) return handle(ctx, next);
+  const { result, counter } = countQueries(() => handle(ctx, next));
+  const res = await result;
+  try {
+    res.headers.set('x-query-count', String(counter.queries));
+  } catch {
+    /* a response with immutable headers goes out without the count */
+  }
+  return res;
+});
+
+async function handle(ctx: APIContext, next: MiddlewareNext): Promise<Response> {
   ensureServerBakePool();
   ctx.locals.user = null;
   ctx.locals.session = null;
@@ -31,9 +47,10 @@ export const onRequest = defineMiddleware(async (ctx, next) => {
     }
     ctx.locals.user = user;
     ctx.locals.session = session;
-    if (user) {
-      // "Last active" for the members table, written at most every few minutes per user.
-      const stale = new Date(Date.now() - ACTIVE_EVERY_MS);
+    // "Last active" for the members table, written at most every few minutes per user (the session's query read it,
+    // so a recent one costs no query; the WHERE keeps concurrent requests from writing twice).
+    const stale = new Date(Date.now() - ACTIVE_EVERY_MS);
+    if (user && !(user.lastActiveAt && user.lastActiveAt >= stale)) {
       await db()
         .update(users)
         .set({ lastActiveAt: new Date() })
@@ -48,4 +65,4 @@ export const onRequest = defineMiddleware(async (ctx, next) => {
     console.error(`[api] ${ctx.request.method} ${path}:`, err);
     return withSecurityHeaders(errorResponse(new HttpError('internal', 'Something went wrong on our side. Please try again.')));
   }
-});
+}

@@ -48,16 +48,20 @@ interface Figures {
 async function load(url: string, cookie: string, paths: string[], connections: number, seconds: number): Promise<Figures> {
   // autocannon's histogram keeps p97.5 but not p95: every response time is kept here and the percentiles read from it.
   const times: number[] = [];
-  const run = autocannon({
-    url,
-    connections,
-    duration: seconds,
-    headers: { cookie, accept: 'application/json' },
-    // Each connection walks the list in turn (the version page's calls are several requests).
-    requests: paths.map((p) => ({ method: 'GET', path: p })),
+  const result = await new Promise<autocannon.Result>((resolve, reject) => {
+    const run = autocannon(
+      {
+        url,
+        connections,
+        duration: seconds,
+        headers: { cookie, accept: 'application/json' },
+        // Each connection walks the list in turn (the version page's calls are several requests).
+        requests: paths.map((p) => ({ method: 'GET', path: p })),
+      },
+      (err, res) => (err ? reject(err) : resolve(res)),
+    );
+    run.on('response', (_client, _status, _bytes, ms) => times.push(ms));
   });
-  run.on('response', (_client: unknown, _status: number, _bytes: number, ms: number) => times.push(ms));
-  const result = await run;
   times.sort((a, b) => a - b);
   const at = (q: number) => (times.length ? Math.round(times[Math.min(times.length - 1, Math.floor(q * times.length))] * 10) / 10 : NaN);
   return {

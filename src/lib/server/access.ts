@@ -99,24 +99,24 @@ export function accessFor(locals: Locals, studio: number | string, role: Role): 
   return requireRole(locals, studio, role);
 }
 
-async function studioOf(table: typeof versions | typeof shots, id: number) {
-  const [row] = await db().select({ studioId: table.studioId }).from(table).where(eq(table.id, id));
-  if (!row) throw new HttpError('not_found', table === versions ? 'No such version' : 'No such shot');
-  return row.studioId;
-}
-
 /** Access for a route that names only a version id, plus the version (and shot) under the rule. */
 export async function versionAccess(locals: Locals, versionId: number, role: Role) {
   if (!locals.user) throw new HttpError('unauthenticated', 'Please sign in');
-  const access = await accessFor(locals, await studioOf(versions, versionId), role);
-  return { access, ...(await loadVersion(access, versionId)) };
+  // One query finds the version, its shot and so its studio; the role check then needs none (see requireRole).
+  const [row] = await db().select({ version: versions, shot: shots }).from(versions).innerJoin(shots, eq(shots.id, versions.shotId)).where(eq(versions.id, versionId));
+  if (!row) throw new HttpError('not_found', 'No such version');
+  const access = await accessFor(locals, row.version.studioId, role);
+  // The studio sees every version of its own; a client only what the rule shows it.
+  return { access, ...(isClient(access) ? await loadVersion(access, versionId) : row) };
 }
 
 /** Access for a route that names only a shot id, plus the shot under the rule. */
 export async function shotAccess(locals: Locals, shotId: number, role: Role) {
   if (!locals.user) throw new HttpError('unauthenticated', 'Please sign in');
-  const access = await accessFor(locals, await studioOf(shots, shotId), role);
-  return { access, shot: await loadShot(access, shotId) };
+  const [row] = await db().select().from(shots).where(eq(shots.id, shotId));
+  if (!row) throw new HttpError('not_found', 'No such shot');
+  const access = await accessFor(locals, row.studioId, role);
+  return { access, shot: isClient(access) ? await loadShot(access, shotId) : row };
 }
 
 // ── What a client is shown of a row it may see ──────────────────────────────────────────────────────────────────

@@ -32,6 +32,13 @@ export function roleAtLeast(role: Role, needed: Role): boolean {
 export async function requireRole(locals: Locals, studio: number | string, needed: Role): Promise<StudioAccess> {
   const user = locals.user;
   if (!user) throw new HttpError('unauthenticated', 'Please sign in');
+  // The memberships read with the session (see auth.ts) answer without a query; anything else (a slug spelt
+  // differently, a membership made during this request) asks the database as before.
+  const known = user.memberships?.find((m) => (typeof studio === 'number' ? m.studioId === studio : m.slug === studio));
+  if (known) {
+    if (!roleAtLeast(known.role, needed)) throw new HttpError('forbidden', `This needs the ${needed} role or above`);
+    return { studioId: known.studioId, studioSlug: known.slug, studioName: known.name, userId: user.id, role: known.role };
+  }
   const rows = await db()
     .select({ studioId: studios.id, slug: studios.slug, name: studios.name, role: memberships.role })
     .from(memberships)
@@ -50,8 +57,12 @@ export function requireUser(locals: Locals) {
   return locals.user;
 }
 
-/** Lists the studios the user belongs to, with their role (for the studio switcher). */
-export async function studiosOf(userId: string) {
+/**
+ * Lists the studios the user belongs to, with their role (for the studio switcher). Given the memberships read with
+ * the session (same order: by studio name), answers from them.
+ */
+export async function studiosOf(userId: string, known?: { studioId: number; slug: string; name: string; role: Role }[]) {
+  if (known) return known.map((m) => ({ id: m.studioId, slug: m.slug, name: m.name, role: m.role }));
   return db()
     .select({ id: studios.id, slug: studios.slug, name: studios.name, role: memberships.role })
     .from(memberships)

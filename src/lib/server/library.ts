@@ -2,13 +2,14 @@
 // on a shot, inline and bulk edits, and imports from edit lists. Every query filters by studio_id; a client sees only
 // shows that have at least one version shared with clients, and only the shared versions.
 import { and, asc, desc, eq, inArray, isNotNull, isNull, ne, or, sql, type SQL } from 'drizzle-orm';
+import { alias } from 'drizzle-orm/mysql-core';
 import { db } from './db';
 import { assets, auditLog, memberships, shots, shows, studios, users, versions } from './db/schema';
 import { HttpError } from './http';
 import type { StudioAccess } from './authz';
 import { audit } from './audit';
 import { asSeenBy, clientShotIds, clientVersionIds, clientVisibleShowIds } from './access';
-import { presignGet } from './storage';
+import { presignGetShared } from './storage';
 import type { HandleConvention, ShotStatus } from '../vocab';
 import type { ImportBody, ShotCreate, ShotListQuery, ShotPatch, ShowCreate, ShowListQuery, ShowPatch } from '../library/schemas';
 import { previewText, type ImportPreview, type ShotSource } from '../edl';
@@ -215,7 +216,7 @@ async function thumbnailUrls(studioId: number, ids: (number | null)[]): Promise<
     .select({ id: assets.id, storageKey: assets.storageKey })
     .from(assets)
     .where(and(eq(assets.studioId, studioId), inArray(assets.id, wanted)));
-  return new Map(await Promise.all(rows.map(async (r) => [r.id, await presignGet(r.storageKey, THUMBNAIL_URL_SECONDS)] as const)));
+  return new Map(await Promise.all(rows.map(async (r) => [r.id, await presignGetShared(r.storageKey, THUMBNAIL_URL_SECONDS)] as const)));
 }
 
 /** Adds `thumbnailUrl` (a short-lived URL of the shot's thumbnail, or null) to shot rows. */
@@ -228,16 +229,17 @@ function shotsQuery() {
   return db().select(shotColumns).from(shots).innerJoin(shows, eq(shows.id, shots.showId)).leftJoin(users, eq(users.id, shots.assigneeId));
 }
 
+const thumbnails = alias(assets, 'thumbnails');
+
 /**
  * One page of shots, within a show (query.showId) or across the studio, with the total count.
  * Status sorts in workflow order (the column is an ENUM: MariaDB orders it by the list's order). Ties break on id.
+ * One query in the usual case: the total rides on each row (a window count), the thumbnail's storage key comes
+ * joined, and the show is looked up apart only when the page is empty (to tell an empty page from a missing show).
  */
 export async function listShots(access: StudioAccess, query: ShotListQuery) {
   const where: SQL[] = [eq(shots.studioId, access.studioId)];
-  if (query.showId !== undefined) {
-    await getShowRow(access, query.showId);
-    where.push(eq(shots.showId, query.showId));
-  }
+  if (query.showId !== undefined) where.push(eq(shots.showId, query.showId));
   if (query.archived === 'false') where.push(isNull(shots.archivedAt), isNull(shows.archivedAt));
   if (query.archived === 'true') where.push(or(isNotNull(shots.archivedAt), isNotNull(shows.archivedAt))!);
   if (query.status) where.push(inArray(shots.status, query.status));
@@ -255,19 +257,37 @@ export async function listShots(access: StudioAccess, query: ShotListQuery) {
     updated: [dir(shots.updatedAt)],
   }[query.sort];
   const { limit, offset } = paging(query.page, query.pageSize);
-  const [items, [{ total }]] = await Promise.all([
-    shotsQuery()
-      .where(and(...where))
-      .orderBy(...order, dir(shots.id))
-      .limit(limit)
-      .offset(offset),
-    db()
-      .select({ total: sql<number>`count(*)`.mapWith(Number) })
-      .from(shots)
-      .innerJoin(shows, eq(shows.id, shots.showId))
-      .where(and(...where)),
-  ]);
-  return { items: (await withThumbnailUrls(access.studioId, items)).map((r) => asSeenBy(access, r)), total, page: query.page, pageSize: query.pageSize };
+  const rows = await db()
+    .select({ ...shotColumns, thumbnailKey: thumbnails.storageKey, total: sql<number>`count(*) over ()`.mapWith(Number) })
+    .from(shots)
+    .innerJoin(shows, eq(shows.id, shots.showId))
+    .leftJoin(users, eq(users.id, shots.assigneeId))
+    .leftJoin(thumbnails, and(eq(thumbnails.id, shots.thumbnailAssetId), eq(thumbnails.studioId, shots.studioId)))
+    .where(and(...where))
+    .orderBy(...order, dir(shots.id))
+    .limit(limit)
+    .offset(offset);
+  let total = rows[0]?.total ?? 0;
+  if (!rows.length) {
+    // A shot on the page proves its show is there and visible (same studio; a client sees a shot only through a
+    // version of a show it may see); an empty page does not.
+    if (query.showId !== undefined) await getShowRow(access, query.showId);
+    if (offset > 0) {
+      const [counted] = await db()
+        .select({ total: sql<number>`count(*)`.mapWith(Number) })
+        .from(shots)
+        .innerJoin(shows, eq(shows.id, shots.showId))
+        .where(and(...where));
+      total = counted.total;
+    }
+  }
+  const items = await Promise.all(
+    rows.map(async ({ thumbnailKey, total: _total, ...r }) => {
+      const thumbnailUrl = r.thumbnailAssetId && thumbnailKey ? await presignGetShared(thumbnailKey, THUMBNAIL_URL_SECONDS) : null;
+      return asSeenBy(access, { ...r, thumbnailUrl });
+    }),
+  );
+  return { items, total, page: query.page, pageSize: query.pageSize };
 }
 
 /** Returns the shot row (404 when missing, in another studio, or in a show hidden from a client). */

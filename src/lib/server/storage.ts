@@ -146,6 +146,26 @@ export function presignGet(key: string, seconds = 900, downloadName?: string): P
   );
 }
 
+const presigned = new Map<string, { url: string; reuseUntil: number }>();
+const PRESIGNED_KEPT = 5000;
+
+/**
+ * A GET URL like presignGet's that lives at least `seconds` from now, signed once and handed out again for half its
+ * lifetime: each is signed for 1.5 × `seconds` and reused while it has `seconds` or more left. Lists that carry a URL
+ * per row (thumbnails) then sign only new rows, and the browser sees the same URL and may keep the image cached.
+ */
+export async function presignGetShared(key: string, seconds = 900): Promise<string> {
+  const id = `${seconds}:${key}`;
+  const now = Date.now();
+  const hit = presigned.get(id);
+  if (hit && hit.reuseUntil > now) return hit.url;
+  const url = await presignGet(key, Math.round(seconds * 1.5));
+  presigned.delete(id);
+  if (presigned.size >= PRESIGNED_KEPT) presigned.delete(presigned.keys().next().value!);
+  presigned.set(id, { url, reuseUntil: now + (seconds / 2) * 1000 });
+  return url;
+}
+
 /** A short-lived URL the browser can PUT one object to, with the given content type. */
 export function presignPut(key: string, contentType: string, seconds = 900): Promise<string> {
   return getSignedUrl(s3(), new PutObjectCommand({ Bucket: bucket(), Key: key, ContentType: contentType }), { expiresIn: seconds });

@@ -4,5 +4,5 @@ import { requireUser, studiosOf } from '~/lib/server/authz';
 
 export const GET = endpoint(async ({ locals }) => {
   const user = requireUser(locals);
-  return json({ user: { id: user.id, email: user.email, name: user.name }, studios: await studiosOf(user.id) });
+  return json({ user: { id: user.id, email: user.email, name: user.name }, studios: await studiosOf(user.id, user.memberships) });
 });

@@ -1,5 +1,8 @@
 // POST /api/versions/:versionId/bake → 202 {state:'queued'} | 200 {state:'baked'|'reused'|'running'} (artist+).
 // GET → {bake: progress|null, bakeState}: frames done of total, percent, ETA in seconds, error.
+import { eq } from 'drizzle-orm';
+import { db } from '~/lib/server/db';
+import { versions } from '~/lib/server/db/schema';
 import { endpoint, json, idParam } from '~/lib/server/http';
 import { versionAccess } from '~/lib/server/access';
 import { bakeProgress, enqueueBake } from '~/lib/bake/queue';
@@ -12,6 +15,10 @@ export const POST = endpoint(async ({ params, locals }) => {
 
 export const GET = endpoint(async ({ params, locals }) => {
   const { version, access } = await versionAccess(locals, idParam(params, 'versionId'), 'artist');
-  const [progress, fresh] = await Promise.all([bakeProgress(version.id, access.studioId), versionAccess(locals, version.id, 'artist')]);
-  return json({ bakeState: fresh.version.bakeState, bake: progress });
+  // The state is read again beside the progress (not the row loaded above), so the two agree when a bake just ended.
+  const [progress, [fresh]] = await Promise.all([
+    bakeProgress(version.id, access.studioId),
+    db().select({ bakeState: versions.bakeState }).from(versions).where(eq(versions.id, version.id)),
+  ]);
+  return json({ bakeState: fresh?.bakeState ?? version.bakeState, bake: progress });
 });
