@@ -4,7 +4,7 @@
 // version page makes, and /api/me. Prints requests/s, latency p50/p95/p99 and errors, then one JSON line.
 //
 // Sign-in is throttled (src/lib/server/throttle.ts): the bench signs in once and every request reuses that cookie.
-// BENCH_API_SECONDS sets each run's length (default 10). BENCH_API_BASELINE=/path/to/dist also loads a second build
+// BENCH_API_SECONDS sets each run's length (default 10); BENCH_API_PROCESSES=n|auto runs n app processes (cluster). BENCH_API_BASELINE=/path/to/dist also loads a second build
 // (e.g. an older commit's `astro build`) against the same database in the same run and prints the ratio.
 import autocannon from 'autocannon';
 import { spawnSync } from 'node:child_process';
@@ -22,9 +22,12 @@ import {
   startS3,
   type Service,
 } from './services';
+import { appProcesses } from './app-cluster.mjs';
 
 const SECONDS = Number(process.env.BENCH_API_SECONDS ?? 10);
 const CONNECTIONS = [10, 50];
+// BENCH_API_PROCESSES=n (or auto) runs the app as n processes behind the cluster module, as APP_PROCESSES does.
+const PROCESSES = appProcesses(process.env.BENCH_API_PROCESSES);
 const log = (s: string) => console.log(`▸ ${s}`);
 const started: Service[] = [];
 const scratch = mkdtempSync(path.join(tmpdir(), 'tidemark-bench-api-'));
@@ -75,10 +78,10 @@ async function load(url: string, cookie: string, paths: string[], connections: n
   };
 }
 
-/** Starts one app build (pinned to core 0 when taskset exists) and returns it with its URL. */
+/** Starts one app build (pinned to core 0 when taskset exists and it is one process) and returns it with its URL. */
 async function appOn(entryDir: string, env: Record<string, string>, port: number) {
-  const pinned = spawnSync('taskset', ['--version']).status === 0;
-  const app = await startApp({ ...env, PORT: String(port), APP_URL: `http://127.0.0.1:${port}` }, log, entryDir);
+  const pinned = PROCESSES === 1 && spawnSync('taskset', ['--version']).status === 0;
+  const app = await startApp({ ...env, PORT: String(port), APP_URL: `http://127.0.0.1:${port}` }, log, entryDir, PROCESSES);
   started.push(app);
   if (pinned && app.child.pid) spawnSync('taskset', ['-a', '-p', '-c', '0', String(app.child.pid)], { stdio: 'ignore' });
   return { app, url: `http://127.0.0.1:${port}`, pinned };
@@ -161,7 +164,7 @@ async function main() {
       const v = versions[0].id;
       // What the version page asks for once it is up (its review panel, share panel, export panel and bake status).
       const versionPage = [`/api/versions/${v}`, `/api/versions/${v}/review`, `/api/versions/${v}/notes?carried=1`, `/api/versions/${v}/bake`, `/api/versions/${v}/share-links`, `/api/versions/${v}/exports`];
-      if (label === 'current') console.log(`\n  show ${show.code}: ${shotsPage.items.length} shots on the page (${shotsPage.items.filter((s: any) => s.thumbnailUrl).length} with thumbnails); version ${v}; ${SECONDS} s per run${pinned ? '; app pinned to core 0' : ''}\n`);
+      if (label === 'current') console.log(`\n  show ${show.code}: ${shotsPage.items.length} shots on the page (${shotsPage.items.filter((s: any) => s.thumbnailUrl).length} with thumbnails); version ${v}; ${SECONDS} s per run; ${pinned ? 'one app process pinned to core 0' : `${PROCESSES} app process(es)`}\n`);
       results[label] = await benchOne(label, url, cookie, [
         ['shots list', [shotsPath]],
         ['version page', versionPage],
@@ -178,7 +181,7 @@ async function main() {
   }
   const errors = Object.values(results).flatMap((r) => Object.values(r)).reduce((n, f) => n + f.errors + f.non2xx, 0);
   console.log(errors ? `\n  ✗ ${errors} errors or non-2xx answers` : '\n  0 errors');
-  console.log(JSON.stringify({ seconds: SECONDS, pinnedToOneCore: pinnedAll, ...results }));
+  console.log(JSON.stringify({ seconds: SECONDS, appProcesses: PROCESSES, pinnedToOneCore: pinnedAll, ...results }));
   return errors ? 1 : 0;
 }
 

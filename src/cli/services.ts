@@ -297,11 +297,16 @@ export async function buildIfStale(log: (s: string) => void, outDir = 'dist'): P
   if (res !== 0) throw new Error('astro build failed');
 }
 
-/** Starts the built app server as a child process and waits until it answers. */
-export async function startApp(env: Record<string, string>, log: (s: string) => void, outDir = 'dist'): Promise<Service & { child: ChildProcess }> {
-  const child = spawn(process.execPath, [path.resolve(root, outDir, 'server', 'entry.mjs')], {
+/**
+ * Starts the built app server as a child process and waits until it answers. With processes > 1 the child is the
+ * cluster primary of src/cli/app-cluster.mjs, which runs that many app processes on the one port.
+ */
+export async function startApp(env: Record<string, string>, log: (s: string) => void, outDir = 'dist', processes = 1): Promise<Service & { child: ChildProcess }> {
+  const entry = path.resolve(root, outDir, 'server', 'entry.mjs');
+  const args = processes > 1 ? [path.join(root, 'src', 'cli', 'app-cluster.mjs'), entry] : [entry];
+  const child = spawn(process.execPath, args, {
     cwd: root,
-    env: { ...process.env, ...env },
+    env: { ...process.env, ...env, APP_PROCESSES: String(processes) },
     stdio: ['ignore', 'inherit', 'inherit'],
   });
   const url = `http://${env.HOST}:${env.PORT}/sign-in`;
@@ -315,7 +320,7 @@ export async function startApp(env: Record<string, string>, log: (s: string) => 
     if (child.exitCode !== null || i > 300) throw new Error(`the app did not start on ${url}`);
     await sleep(100);
   }
-  log(`app answering on http://${env.HOST}:${env.PORT}`);
+  log(`app answering on http://${env.HOST}:${env.PORT}${processes > 1 ? ` (${processes} app processes)` : ''}`);
   return {
     name: 'app',
     child,

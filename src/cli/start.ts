@@ -17,6 +17,7 @@ import {
   startS3,
   type Service,
 } from './services';
+import { appProcesses } from './app-cluster.mjs';
 
 const dev = process.argv.includes('--dev');
 const port = Number(process.env.PORT ?? 4321);
@@ -91,7 +92,8 @@ async function main() {
     child.on('exit', (code) => void stopAll(code ?? 0));
   } else {
     await buildIfStale(log);
-    const app = await startApp(env, log);
+    // APP_PROCESSES: app processes behind Node's cluster module (a count, or "auto": one per core; default 1).
+    const app = await startApp(env, log, 'dist', appProcesses());
     started.push(app);
     app.child.on('exit', (code) => {
       if (!stopping) {
