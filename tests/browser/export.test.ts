@@ -20,7 +20,7 @@ import { SHOTS_DIR, openBrowser, screenshot, signInAs } from '../support/browser
 import { tinyScene } from '../support/scenes';
 import { closeDb, db } from '../../src/lib/server/db';
 import { notes, shots } from '../../src/lib/server/db/schema';
-import { burnInLayout, gifDelays, GIF_SLATE_DELAY_CS } from '../../src/lib/export/layout';
+import { burnInLayout, gifDelays } from '../../src/lib/export/layout';
 
 // One 24-frame cut at 24 fps (CMX 3600 layout, from memory): source 01:00:10:00–01:00:11:00, record out exclusive.
 // The studio's default convention puts 1001 on the first of 8 head handles (common practice (no source)): cut in 1009.
@@ -28,6 +28,9 @@ const EDIT = ['TITLE: LOW TIDE', 'FCM: NON-DROP FRAME', '001  RL01     V     C  
 const FIRST = 1009;
 const LAST = 1032;
 const PLATE = { width: 640, height: 360 }; // "Half" → 320×180
+// The slate is held 1 s by default in every format (common practice (no source)): 24 pictures at 24 fps.
+const SLATE = 24;
+const SHOT_FRAMES = LAST - FIRST + 1;
 
 let studio: TestStudio;
 let versionId: number;
@@ -189,11 +192,19 @@ describe('exports and share links in Chromium', () => {
         execFileSync('ffprobe', ['-v', 'error', '-count_frames', '-select_streams', 'v:0', '-show_entries', 'stream=codec_name,pix_fmt,r_frame_rate,avg_frame_rate,width,height,nb_read_frames', '-of', 'json', mp4]).toString(),
       ).streams[0];
       expect(probe).toMatchObject({ codec_name: 'h264', pix_fmt: 'yuv420p', r_frame_rate: '24/1', width: 320, height: 180 });
-      expect(Number(probe.nb_read_frames)).toBe(LAST - FIRST + 1 + 1); // 24 frames + the slate
+      expect(Number(probe.nb_read_frames)).toBe(SLATE + SHOT_FRAMES); // 24 slate pictures + 24 frames
+      // The slate frames counted in the decoded video (ffmpeg's own decoder): every picture that looks like picture 0.
+      const mp4Pictures = new Uint8Array(execFileSync('ffmpeg', ['-v', 'error', '-i', mp4, '-f', 'rawvideo', '-pix_fmt', 'rgba', '-'], { maxBuffer: 64 * 1024 * 1024 }));
+      const pictureBytes = 320 * 180 * 4;
+      const mp4Picture = (i: number) => mp4Pictures.subarray(i * pictureBytes, (i + 1) * pictureBytes);
+      const whole = { x0: 0, y0: 0, x1: 320, y1: 180 };
+      const mp4SlateCount = Array.from({ length: SLATE + SHOT_FRAMES }, (_, i) => meanDiff(mp4Picture(i), mp4Picture(0), 320, whole) < 2).filter(Boolean).length;
+      expect(mp4SlateCount).toBe(SLATE);
+      expect(meanDiff(mp4Picture(SLATE), mp4Picture(0), 320, whole)).toBeGreaterThan(10); // the first shot frame is no slate
       // Read 1 of the first frame's timecode: the MP4's timecode track (QuickTime 'tmcd', ffprobe's stream tag). The
-      // slate holds the frame before the cut in (01:00:09:23), so picture 2, the first shot frame, is 01:00:10:00.
+      // 24 slate pictures hold the second before the cut in (from 01:00:09:00), so picture 25, the first shot frame, is 01:00:10:00.
       const tracks = JSON.parse(execFileSync('ffprobe', ['-v', 'error', '-show_entries', 'stream=codec_type:stream_tags=timecode', '-of', 'json', mp4]).toString()).streams;
-      expect(tracks.find((s: { codec_type: string }) => s.codec_type === 'video').tags.timecode).toBe('01:00:09:23');
+      expect(tracks.find((s: { codec_type: string }) => s.codec_type === 'video').tags.timecode).toBe('01:00:09:00');
       expect(await page.evaluate(() => document.fonts.check('600 16px "Space Grotesk"'))).toBe(true);
       await pageShot(page, 'export-mp4-done');
 
@@ -204,12 +215,17 @@ describe('exports and share links in Chromium', () => {
       const gif = new GifReader(gifBytes);
       expect(gif.width).toBe(320);
       expect(gif.height).toBe(180);
-      expect(gif.numFrames()).toBe(LAST - FIRST + 1 + 1);
+      expect(gif.numFrames()).toBe(SLATE + SHOT_FRAMES);
       expect(gif.loopCount()).toBe(0); // loop forever
       const delays = Array.from({ length: gif.numFrames() }, (_, i) => gif.frameInfo(i).delay);
-      // Slate held 1 s; then 24 fps as 4/4/5/4/4/4… cs (running time rounded to the centisecond: 24 frames = 100 cs).
-      expect(delays).toEqual([GIF_SLATE_DELAY_CS, ...gifDelays(24, LAST - FIRST + 1)]);
-      expect(delays.slice(1).reduce((a, c) => a + c, 0)).toBe(100);
+      // 24 fps as 4/4/5/4/4/4… cs (running time rounded to the centisecond: 24 frames = 100 cs), slate included.
+      expect(delays).toEqual(gifDelays(24, SLATE + SHOT_FRAMES));
+      // The slate frames counted by an independent decoder (omggif): frames whose picture is the first one's.
+      const slateGif = gifFrame(gif, 0);
+      const gifSlateFrames = Array.from({ length: gif.numFrames() }, (_, i) => i).filter((i) => meanDiff(gifFrame(gif, i), slateGif, 320, { x0: 0, y0: 0, x1: 320, y1: 180 }) < 2);
+      expect(gifSlateFrames).toEqual(Array.from({ length: SLATE }, (_, i) => i));
+      expect(gifSlateFrames.reduce((a, i) => a + delays[i], 0)).toBe(100); // held 1 s, as in the MP4
+      expect(delays.slice(SLATE).reduce((a, c) => a + c, 0)).toBe(100);
 
       // Burn-in pixels: the timecode corner holds text, and differs between the first and last frames, whose
       // labels are the source timecode of those frames (source in 01:00:10:00 at the cut in; 23 frames on at 24 fps).
@@ -219,33 +235,37 @@ describe('exports and share links in Chromium', () => {
       expect(tcFirst.text).toBe('01:00:10:00');
       expect(lay(LAST).texts.find((t) => t.id === 'timecode')!.text).toBe('01:00:10:23');
       const box = { x0: tcFirst.x - tcFirst.maxWidth * 0.8, y0: tcFirst.y - tcFirst.size, x1: tcFirst.x, y1: tcFirst.y + 2 };
-      const first = region(gifFrame(gif, 1), 320, box);
+      const first = region(gifFrame(gif, SLATE), 320, box);
       const last = region(gifFrame(gif, gif.numFrames() - 1), 320, box);
       expect(first.bright).toBeGreaterThan(20);
       expect(last.bright).toBeGreaterThan(20);
       expect(first.sum).not.toBe(last.sum);
       // The slate is a different picture from the first frame.
-      expect(region(gifFrame(gif, 0), 320, { x0: 0, y0: 0, x1: 320, y1: 180 }).sum).not.toBe(region(gifFrame(gif, 1), 320, { x0: 0, y0: 0, x1: 320, y1: 180 }).sum);
+      expect(region(gifFrame(gif, 0), 320, { x0: 0, y0: 0, x1: 320, y1: 180 }).sum).not.toBe(region(gifFrame(gif, SLATE), 320, { x0: 0, y0: 0, x1: 320, y1: 180 }).sum);
 
       // ── PNG ZIP ──
       const zipPath = await exportAndDownload(page, 'zip');
       mkdirSync(SHOTS_DIR, { recursive: true });
       const entries = unzipSync(new Uint8Array(readFileSync(zipPath)));
       const names = Object.keys(entries).sort();
-      expect(names).toHaveLength(LAST - FIRST + 1 + 1);
+      expect(names).toHaveLength(SLATE + SHOT_FRAMES);
+      // the slate as 24 PNGs too, the same picture each
+      expect(names.filter((n) => n.includes('_slate')).length).toBe(SLATE);
       expect(names[0]).toMatch(/\.0000_slate\.png$/);
-      expect(names[1]).toMatch(new RegExp(`\\.${FIRST}\\.png$`));
+      expect(names[SLATE - 1]).toMatch(/\.0000_slate_024\.png$/);
+      expect(Buffer.from(entries[names[SLATE - 1]]).equals(Buffer.from(entries[names[0]]))).toBe(true);
+      expect(names[SLATE]).toMatch(new RegExp(`\\.${FIRST}\\.png$`));
       expect(names[names.length - 1]).toMatch(new RegExp(`\\.${LAST}\\.png$`));
       // Keep the slate and a frame beside the screenshots, to look at.
       writeFileSync(path.join(SHOTS_DIR, 'export-slate.png'), entries[names[0]]);
-      writeFileSync(path.join(SHOTS_DIR, `export-frame-${FIRST + 11}.png`), entries[names[12]]);
+      writeFileSync(path.join(SHOTS_DIR, `export-frame-${FIRST + 11}.png`), entries[names[SLATE + 11]]);
 
-      // Read 2 of the MP4's first frame: decode its picture 2 (after the slate) with ffmpeg and compare its timecode
+      // Read 2 of the MP4's first frame: decode its picture 25 (after the slate) with ffmpeg and compare its timecode
       // corner with the lossless PNGs of the cut in (burn-in 01:00:10:00) and the cut out (01:00:10:23).
       const firstPng = path.join(SHOTS_DIR, 'export-mp4-first-frame.png');
-      execFileSync('ffmpeg', ['-v', 'error', '-y', '-i', mp4, '-vf', 'select=eq(n\\,1)', '-frames:v', '1', firstPng]);
+      execFileSync('ffmpeg', ['-v', 'error', '-y', '-i', mp4, '-vf', `select=eq(n\\,${SLATE})`, '-frames:v', '1', firstPng]);
       const mp4First = rgbOf(firstPng);
-      const pngIn = rgbOf(writeTemp(entries[names[1]], 'cut-in.png'));
+      const pngIn = rgbOf(writeTemp(entries[names[SLATE]], 'cut-in.png'));
       const pngOut = rgbOf(writeTemp(entries[names[names.length - 1]], 'cut-out.png'));
       const nearIn = meanDiff(mp4First, pngIn, 320, box);
       const nearOut = meanDiff(mp4First, pngOut, 320, box);

@@ -10,6 +10,8 @@ import {
   gifDelays,
   mp4Args,
   mp4StartTimecode,
+  slateFrameCount,
+  DEFAULT_SLATE_SECONDS,
   outputSize,
   resolveRange,
   slateLayout,
@@ -183,6 +185,25 @@ describe('names and encoder settings', () => {
     expect(mp4StartTimecode(at('24', '01:00:10:00'), 993, true)).toBe('01:00:09:15');
     // Drop frame: the frame before 00:01:00;02 is 00:00:59;29 (SMPTE ST 12-1 skips ;00 and ;01 at minute 1).
     expect(mp4StartTimecode(at('29.97df', '00:01:00;02'), 1001, true)).toBe('00:00:59;29');
+    // A slate held 24 pictures (1 s at 24 fps) starts the track 24 frames before the cut in.
+    expect(mp4StartTimecode(at('24', '01:00:10:00'), 1001, 24)).toBe('01:00:09:00');
+    // 30 pictures at 29.97 DF before 00:01:00;02 (frame 1800, ;00 and ;01 dropped at minute 1; SMPTE ST 12-1): frame 1770 = 00:00:59;00.
+    expect(mp4StartTimecode(at('29.97df', '00:01:00;02'), 1001, 30)).toBe('00:00:59;00');
+  });
+  it('holds the slate for the same time at every rate: seconds × fps pictures, at least one', () => {
+    // 1 s by default (common practice (no source)).
+    expect(DEFAULT_SLATE_SECONDS).toBe(1);
+    expect(slateFrameCount(24)).toBe(24);
+    expect(slateFrameCount(25)).toBe(25);
+    expect(slateFrameCount(30000 / 1001)).toBe(30);
+    expect(slateFrameCount(24, 2)).toBe(48);
+    expect(slateFrameCount(24, 0.5)).toBe(12);
+    expect(slateFrameCount(24, 0.01)).toBe(1);
+  });
+  it('names the held slate pictures of a PNG ZIP so they sort before the frames', () => {
+    const l = { shotCode: 'PR_0010', versionNumber: 3 };
+    const names = [zipEntryName(l, 1001), zipEntryName(l, 'slate', 1), zipEntryName(l, 'slate', 0), zipEntryName(l, 'slate', 23)].sort();
+    expect(names).toEqual(['PR_0010_v003.0000_slate.png', 'PR_0010_v003.0000_slate_002.png', 'PR_0010_v003.0000_slate_024.png', 'PR_0010_v003.1001.png']);
   });
 });
 

@@ -6,7 +6,10 @@ import { rateInfo, rateText } from '~/lib/timecode';
 import { reviewStateWord } from '~/lib/vocab';
 import { LOOK_LABELS, RENDER_LOOKS, type RenderLook } from '~/lib/render/looks';
 import {
+  DEFAULT_SLATE_SECONDS,
   EXPORT_FORMATS,
+  exportFileName,
+  slateFrameCount,
   FORMAT_LABELS,
   outputSize,
   resolveRange,
@@ -72,12 +75,17 @@ export default function ExportPanel(p: ExportPanelProps) {
   const [look, setLook] = useState<RenderLook>('surface');
   const [plateOn, setPlateOn] = useState(!!p.plate);
   const [slate, setSlate] = useState(true);
+  const [slateSeconds, setSlateSeconds] = useState(DEFAULT_SLATE_SECONDS);
+  // a re-export under a file name already stored with the version: a numbered name, or replace the earlier one
+  const [sameName, setSameName] = useState<'number' | 'replace'>('number');
   const [burnIns, setBurnIns] = useState(true);
   const [loop, setLoop] = useState(true);
   const [run, setRun] = useState<RunState>({ kind: 'idle' });
   const [stored, setStored] = useState<StoredExport[] | null>(null);
   const [listError, setListError] = useState<string | null>(null);
   const abortRef = useRef<AbortController | null>(null);
+  // set on the first click, before React re-renders the disabled button: a double click starts one export
+  const startedRef = useRef(false);
   const urlRef = useRef<string | null>(null);
 
   const refreshList = useCallback(() => {
@@ -110,11 +118,24 @@ export default function ExportPanel(p: ExportPanelProps) {
   // Comp passes go out at plate resolution, without plate, slate or burn-ins (they are laid over the plate in comp).
   const passes = format === 'passes';
   const size = outputSize(passes ? { kind: 'full' } : sizeChoice, p.plateWidth, p.plateHeight);
-  const frameCount = range.last - range.first + 1 + (slate && !passes ? 1 : 0);
+  const slateOk = slateSeconds >= 0.1 && slateSeconds <= 10;
+  const slateFrames = slate && !passes ? slateFrameCount(rateInfo(p.frameRate).fps, slateOk ? slateSeconds : DEFAULT_SLATE_SECONDS) : 0;
+  const frameCount = range.last - range.first + 1 + slateFrames;
   const running = run.kind === 'running';
+  const nextName = exportFileName({ showCode: p.showCode, shotCode: p.shotCode, versionNumber: p.versionNumber }, range.first, range.last, format);
+  const nameTaken = !!stored?.some((e) => e.fileName === nextName);
 
   async function start() {
-    if (rangeError || running) return;
+    if (rangeError || running || startedRef.current || (slate && !passes && !slateOk)) return;
+    startedRef.current = true;
+    try {
+      await runOnce();
+    } finally {
+      startedRef.current = false;
+    }
+  }
+
+  async function runOnce() {
     const controller = new AbortController();
     abortRef.current = controller;
     setRun({ kind: 'running', report: { stage: 'preparing', stageFraction: 0, fraction: 0, etaSeconds: null, detail: '' } });
@@ -159,6 +180,7 @@ export default function ExportPanel(p: ExportPanelProps) {
           height: size.height,
           look,
           slate: slate && !passes,
+          slateSeconds,
           burnIns: burnIns && !passes,
           loop,
           source,
@@ -182,7 +204,8 @@ export default function ExportPanel(p: ExportPanelProps) {
             format,
             bytes: result.bytes,
             fileName: result.fileName,
-            options: { first: range.first, last: range.last, width: size.width, height: size.height, look, slate: slate && !passes, burnIns: burnIns && !passes, plate: !!plateSource, ...(format === 'gif' ? { loop } : {}), frameCount: result.frameCount },
+            sameName,
+            options: { first: range.first, last: range.last, width: size.width, height: size.height, look, slate: slate && !passes, ...(slate && !passes ? { slateSeconds } : {}), burnIns: burnIns && !passes, plate: !!plateSource, ...(format === 'gif' ? { loop } : {}), frameCount: result.frameCount },
           },
           (f) => setRun({ kind: 'running', report: { stage: 'uploading', stageFraction: f, fraction: 0.97 + 0.03 * f, etaSeconds: null, detail: `${Math.round(f * 100)} %` } }),
           controller.signal,
@@ -295,6 +318,23 @@ export default function ExportPanel(p: ExportPanelProps) {
         <label className="flex items-center gap-1.5">
           <input type="checkbox" checked={slate && !passes} disabled={passes} onChange={(e) => setSlate(e.target.checked)} /> Slate first
         </label>
+        {slate && !passes && (
+          <label className="col-span-2 flex items-center gap-1.5">
+            Slate held for
+            <input
+              className="field-input w-20"
+              type="number"
+              min={0.1}
+              max={10}
+              step={0.1}
+              aria-label="Slate hold in seconds"
+              value={slateSeconds}
+              onChange={(e) => setSlateSeconds(Number(e.target.value))}
+            />
+            s <span className="text-ink-muted" data-testid="slate-frames">({slateFrames} frames)</span>
+            {!slateOk && <span className="field-error">between 0.1 and 10 s</span>}
+          </label>
+        )}
         <label className="flex items-center gap-1.5">
           <input type="checkbox" checked={burnIns && !passes} disabled={passes} onChange={(e) => setBurnIns(e.target.checked)} /> Burn-ins
         </label>
@@ -305,8 +345,20 @@ export default function ExportPanel(p: ExportPanelProps) {
         )}
       </fieldset>
 
+      {nameTaken && (
+        <fieldset className="mt-4 text-sm" disabled={running} data-testid="same-name">
+          <legend className="field-label">{nextName} is already stored with this version</legend>
+          <label className="mr-4 inline-flex items-center gap-1.5">
+            <input type="radio" name="export-same-name" checked={sameName === 'number'} onChange={() => setSameName('number')} /> Keep both (numbered name)
+          </label>
+          <label className="inline-flex items-center gap-1.5">
+            <input type="radio" name="export-same-name" checked={sameName === 'replace'} onChange={() => setSameName('replace')} /> Replace the earlier one
+          </label>
+        </fieldset>
+      )}
+
       <div className="mt-5 flex items-center gap-3">
-        <button type="button" className="btn-primary" disabled={running || !!rangeError} onClick={() => void start()}>
+        <button type="button" className="btn-primary" disabled={running || !!rangeError || (slate && !passes && !slateOk)} onClick={() => void start()}>
           Export {format === 'zip' ? 'PNG ZIP' : passes ? 'comp passes' : format.toUpperCase()}
         </button>
         {running && (

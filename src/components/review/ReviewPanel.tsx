@@ -1,7 +1,7 @@
 // The review side panel of a version: its review state with the actions the viewer may take (submit, approve, send
 // back, share with clients), the client's sign-off (asked for by a supervisor, decided by the client), the notes pinned to frames (threads, replies, resolve), the composer for a note at the
 // player's current frame, and the still-open notes of earlier versions. Mounted by the version page beside the player.
-import { useEffect, useMemo, useState, type FormEvent } from 'react';
+import { useEffect, useMemo, useRef, useState, type FormEvent } from 'react';
 import { QueryClient, QueryClientProvider, useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
 import { api, ApiError, messageOf } from '../shared/api';
 import { FormMessage, Spinner } from '../shared/form';
@@ -160,6 +160,13 @@ function ReviewStatus(p: ReviewPanelProps & { answer: ReviewAnswer; onChanged: (
       p.onChanged();
     },
   });
+  // A second click before React re-renders the disabled button would send a second request: a ref holds the one in flight.
+  const inFlight = useRef(false);
+  const run = (a: Parameters<typeof act.mutate>[0]) => {
+    if (inFlight.current) return;
+    inFlight.current = true;
+    act.mutate(a, { onSettled: () => (inFlight.current = false) });
+  };
   const busy = act.isPending;
   const canSubmit = actions.includes('submit');
   const canDecide = actions.includes('approve') || actions.includes('return');
@@ -211,12 +218,12 @@ function ReviewStatus(p: ReviewPanelProps & { answer: ReviewAnswer; onChanged: (
           )}
           <div className="flex flex-wrap gap-2">
             {canSubmit && (
-              <button type="button" className="btn-primary" disabled={busy || (needsReason && reason.trim().length < 3)} onClick={() => act.mutate({ kind: 'submit' })}>
+              <button type="button" className="btn-primary" disabled={busy || (needsReason && reason.trim().length < 3)} onClick={() => run({ kind: 'submit' })}>
                 {busy && <Spinner />}{needsReason ? 'Submit anyway' : 'Submit for review'}
               </button>
             )}
             {actions.includes('approve') && (
-              <button type="button" className="btn-primary" disabled={busy} onClick={() => act.mutate({ kind: 'decide', decision: 'approved' })}>
+              <button type="button" className="btn-primary" disabled={busy} onClick={() => run({ kind: 'decide', decision: 'approved' })}>
                 {busy && <Spinner />}Approve
               </button>
             )}
@@ -227,7 +234,7 @@ function ReviewStatus(p: ReviewPanelProps & { answer: ReviewAnswer; onChanged: (
                 disabled={busy}
                 onClick={() => {
                   if (!comment.trim()) return setMessage({ tone: 'error', text: 'Say what should change before sending the version back.' });
-                  act.mutate({ kind: 'decide', decision: 'returned' });
+                  run({ kind: 'decide', decision: 'returned' });
                 }}
               >
                 {busy && <Spinner />}Send back for changes

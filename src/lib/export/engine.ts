@@ -6,7 +6,7 @@ import type { PlateFrameSource } from '../plate';
 import { rateInfo } from '../timecode';
 import { FrameRenderer } from './frames';
 import { loadExportFont } from './font';
-import { GIF_SLATE_DELAY_CS, exportFileName, ffmpegRate, gifDelays, mp4StartTimecode, zipEntryName, FORMAT_TYPES, type ExportFormat, type ExportLabels } from './layout';
+import { DEFAULT_SLATE_SECONDS, exportFileName, slateFrameCount, ffmpegRate, gifDelays, mp4StartTimecode, zipEntryName, FORMAT_TYPES, type ExportFormat, type ExportLabels } from './layout';
 import { ProgressTracker, type ProgressReport } from './progress';
 import type { ParticleSource } from './source';
 import { yieldToPage } from './cancel';
@@ -23,6 +23,8 @@ export interface ExportRequest {
   height: number;
   look: RenderLook;
   slate: boolean;
+  /** How long the slate is held, in seconds (DEFAULT_SLATE_SECONDS when left out). */
+  slateSeconds?: number;
   burnIns: boolean;
   /** GIF only: loop forever (true) or play once. */
   loop: boolean;
@@ -79,7 +81,10 @@ export async function runExport(req: ExportRequest, onProgress: (r: ProgressRepo
   });
   const frames: number[] = [];
   for (let f = req.first; f <= req.last; f++) frames.push(f);
-  const total = frames.length + (req.slate ? 1 : 0);
+  const fps = rateInfo(req.labels.rateId).fps;
+  // the slate is held for the same time in every format: the one slate picture repeated for that many frames
+  const slateFrames = req.slate ? slateFrameCount(fps, req.slateSeconds ?? DEFAULT_SLATE_SECONDS) : 0;
+  const total = frames.length + slateFrames;
 
   // gif.js needs every frame as raw RGBA before it starts: refuse what would not fit in a tab's memory.
   if (req.format === 'gif' && req.width * req.height * 4 * total > GIF_MEMORY_LIMIT) {
@@ -96,8 +101,14 @@ export async function runExport(req: ExportRequest, onProgress: (r: ProgressRepo
   let done = 0;
   if (req.slate) {
     renderer.drawSlate(req.first, req.last);
-    await keep(zipEntryName(req.labels, 'slate'));
-    done++;
+    if (req.format === 'gif') {
+      const slateImage = renderer.imageData();
+      for (let i = 0; i < slateFrames; i++) images.push(slateImage);
+    } else {
+      const slatePng = await renderer.png();
+      for (let i = 0; i < slateFrames; i++) pngs.push({ name: zipEntryName(req.labels, 'slate', i), png: slatePng });
+    }
+    done += slateFrames;
     onProgress(tracker.report('rendering', done / total, `slate, then ${frames.length} frames`));
   }
   for (const f of frames) {
@@ -114,16 +125,14 @@ export async function runExport(req: ExportRequest, onProgress: (r: ProgressRepo
   let bytes: Uint8Array;
   if (req.format === 'gif') {
     const { encodeGif } = await import('./gif');
-    const fps = rateInfo(req.labels.rateId).fps;
-    const delays = gifDelays(fps, frames.length);
     bytes = await encodeGif(
-      { width: req.width, height: req.height, frames: images, delaysCs: req.slate ? [GIF_SLATE_DELAY_CS, ...delays] : delays, loop: req.loop },
+      { width: req.width, height: req.height, frames: images, delaysCs: gifDelays(fps, images.length), loop: req.loop },
       encodeProgress,
       signal,
     );
   } else if (req.format === 'mp4') {
     bytes = await mp4!.encodeMp4(
-      { frames: pngs.map((p) => p.png), rate: ffmpegRate(req.labels.rateId), startTimecode: mp4StartTimecode(req.labels, req.first, req.slate) },
+      { frames: pngs.map((p) => p.png), rate: ffmpegRate(req.labels.rateId), startTimecode: mp4StartTimecode(req.labels, req.first, slateFrames) },
       encodeProgress,
       signal,
     );

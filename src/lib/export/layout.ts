@@ -74,8 +74,16 @@ export function gifDelays(fps: number, count: number): number[] {
   return out;
 }
 
-/** How long the slate is held in a GIF, in centiseconds (a video keeps it to one frame, as editorial expects). */
-export const GIF_SLATE_DELAY_CS = 100;
+/** How long the slate is held by default, in seconds: the same in every format (common practice (no source)). */
+export const DEFAULT_SLATE_SECONDS = 1;
+
+/**
+ * Frames the slate is held for at a rate: the hold in seconds at the shot's rate, at least one frame. A GIF, an MP4
+ * and a PNG sequence all repeat the slate picture this many times, so each holds it for the same time.
+ */
+export function slateFrameCount(fps: number, seconds: number = DEFAULT_SLATE_SECONDS): number {
+  return Math.max(1, Math.round(seconds * fps));
+}
 
 /** The ffmpeg rate expression of a frame rate id: '24', '25', '24000/1001', '30000/1001', … */
 export function ffmpegRate(rateId: string): string {
@@ -104,12 +112,13 @@ export function mp4Args(rate: string, startTimecode?: string): string[] {
 }
 
 /**
- * The source timecode of an MP4's first picture, for its timecode track: the first frame's source timecode, or the
- * frame before it when a slate leads (the slate holds the frame before the first, so every later picture's track
+ * The source timecode of an MP4's first picture, for its timecode track: the first frame's source timecode, or earlier
+ * when a slate leads (a slate of n frames holds the n frames before the first, so every later picture's track
  * timecode equals the source timecode burnt into it).
  */
-export function mp4StartTimecode(labels: ExportLabels, first: number, slate: boolean): string {
-  return exportTimecode(labels, slate ? first - 1 : first);
+export function mp4StartTimecode(labels: ExportLabels, first: number, slate: boolean | number): string {
+  const held = slate === true ? 1 : slate === false ? 0 : slate;
+  return exportTimecode(labels, first - held);
 }
 
 /** What a slate and the burn-ins say. */
@@ -282,9 +291,10 @@ export function exportFileName(labels: Pick<ExportLabels, 'showCode' | 'shotCode
 }
 
 /** The name of one PNG in a frame ZIP: SHOT_v003.1001.png (the slate is SHOT_v003.slate.png). */
-export function zipEntryName(labels: Pick<ExportLabels, 'shotCode' | 'versionNumber'>, frame: number | 'slate'): string {
+export function zipEntryName(labels: Pick<ExportLabels, 'shotCode' | 'versionNumber'>, frame: number | 'slate', slateIndex = 0): string {
   const base = `${labels.shotCode.replace(/[^A-Za-z0-9_-]+/g, '-')}_${versionLabel(labels.versionNumber)}`;
-  return frame === 'slate' ? `${base}.0000_slate.png` : `${base}.${String(frame).padStart(4, '0')}.png`;
+  if (frame === 'slate') return slateIndex === 0 ? `${base}.0000_slate.png` : `${base}.0000_slate_${String(slateIndex + 1).padStart(3, '0')}.png`;
+  return `${base}.${String(frame).padStart(4, '0')}.png`;
 }
 
 /**

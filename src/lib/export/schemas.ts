@@ -17,6 +17,8 @@ export const exportOptions = z
     height: z.number().int('must be a whole number').min(16, 'must be at least 16').max(8192, 'must be at most 8192'),
     look: z.enum(RENDER_LOOKS, { errorMap: () => ({ message: `must be one of ${RENDER_LOOKS.join(', ')}` }) }),
     slate: z.boolean(),
+    /** How long the slate is held, in seconds (the same in every format; 1 s when left out). */
+    slateSeconds: z.number({ invalid_type_error: 'must be a number of seconds' }).min(0.1, 'must be at least 0.1 s').max(10, 'must be at most 10 s').optional(),
     burnIns: z.boolean(),
     plate: z.boolean(),
     loop: z.boolean().optional(),
@@ -39,6 +41,8 @@ export const exportStartBody = z
       .max(160, 'is too long (160 characters at most)')
       .regex(/^[A-Za-z0-9][A-Za-z0-9._-]*$/, 'may hold only letters, digits, ".", "_" and "-"'),
     options: exportOptions,
+    /** When a ready export of the version already has this file name: store this one under a numbered name, or replace it. */
+    sameName: z.enum(['number', 'replace'], { errorMap: () => ({ message: "must be 'number' or 'replace'" }) }).optional(),
   })
   .strict();
 export type ExportStartBody = z.infer<typeof exportStartBody>;

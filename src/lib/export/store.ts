@@ -45,7 +45,7 @@ function put(url: string, headers: Record<string, string>, bytes: Uint8Array, on
 /** Uploads and lists the export on the version; resolves to the stored export. */
 export async function storeExport(
   versionId: number,
-  file: { format: ExportFormat; bytes: Uint8Array; fileName: string; options: Record<string, unknown> },
+  file: { format: ExportFormat; bytes: Uint8Array; fileName: string; sameName?: 'number' | 'replace'; options: Record<string, unknown> },
   onProgress: (f: number) => void,
   signal: AbortSignal,
 ): Promise<StoredExport> {
@@ -53,6 +53,7 @@ export async function storeExport(
     format: file.format,
     byteSize: file.bytes.byteLength,
     fileName: file.fileName,
+    ...(file.sameName ? { sameName: file.sameName } : {}),
     options: file.options,
   });
   await put(started.upload.url, started.upload.headers, file.bytes, onProgress, signal);

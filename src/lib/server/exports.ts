@@ -2,9 +2,9 @@
 // then asks us to complete: we check the object's real size and its type by magic bytes before listing it on the
 // version with who made it, when, its format and size, and a presigned download link named for the file.
 import { randomBytes } from 'node:crypto';
-import { and, desc, eq } from 'drizzle-orm';
+import { and, desc, eq, inArray } from 'drizzle-orm';
 import { db } from './db';
-import { assets, users, versions } from './db/schema';
+import { assets, shareLinks, users, versions } from './db/schema';
 import { HttpError } from './http';
 import type { StudioAccess } from './authz';
 import { audit } from './audit';
@@ -20,6 +20,8 @@ interface ExportMeta {
   fileName: string;
   declaredSize: number;
   options: ExportStartBody['options'];
+  /** What to do when a ready export of the version has the same file name (numbered when left out). */
+  sameName?: 'number' | 'replace';
 }
 
 type VersionRow = typeof versions.$inferSelect;
@@ -47,7 +49,7 @@ export async function startExport(access: StudioAccess, version: VersionRow, bod
   if (!body.fileName.toLowerCase().endsWith(`.${ext}`)) throw new HttpError('validation_failed', `fileName: must end with .${ext}`, { fileName: `must end with .${ext}` });
   const contentType = FORMAT_TYPES[body.format];
   const storageKey = `studios/${access.studioId}/versions/${version.id}/exports/${randomBytes(12).toString('hex')}.${ext}`;
-  const meta: ExportMeta = { state: 'pending', fileName: body.fileName, declaredSize: body.byteSize, options: body.options };
+  const meta: ExportMeta = { state: 'pending', fileName: body.fileName, declaredSize: body.byteSize, options: body.options, sameName: body.sameName ?? 'number' };
   const [res] = await db().insert(assets).values({
     studioId: access.studioId,
     kind: 'export',
@@ -96,13 +98,46 @@ export async function completeExport(access: StudioAccess, version: VersionRow, 
   if (head.size !== meta.declaredSize) throw await refuse(`The stored file is ${head.size} bytes, not the ${meta.declaredSize} declared: export again`, { byteSize: 'does not match the uploaded file' });
   const first = await getObject(asset.storageKey, [0, Math.min(head.size, 16) - 1]);
   if (!magicMatches(format, first)) throw await refuse(`The uploaded file is not a ${FORMAT_EXTENSIONS[format].toUpperCase()} file`, { file: `content is not ${FORMAT_EXTENSIONS[format].toUpperCase()}` });
+  const { fileName, replaced } = await settleFileName(access, version.id, asset, meta);
   await db()
     .update(assets)
-    .set({ byteSize: head.size, meta: { ...meta, state: 'ready' } })
+    .set({ byteSize: head.size, meta: { ...meta, fileName, state: 'ready' } })
     .where(eq(assets.id, asset.id));
+  if (replaced.length) await removeReplaced(access, asset.id, replaced);
   await audit({ studioId: access.studioId, actorId: access.userId, action: 'export.create', targetType: 'asset', targetId: asset.id, detail: { versionId: version.id, format, byteSize: head.size } });
   const [view] = await exportViews(access.studioId, { assetId: asset.id });
   return view;
+}
+
+/** `SHOT_v003_1001-1040.mp4` → `SHOT_v003_1001-1040-2.mp4` (n ≥ 2). */
+export function numberedFileName(fileName: string, n: number): string {
+  const dot = fileName.lastIndexOf('.');
+  return dot > 0 ? `${fileName.slice(0, dot)}-${n}${fileName.slice(dot)}` : `${fileName}-${n}`;
+}
+
+/**
+ * A re-export of a version under a file name one of its ready exports already has: 'number' gives it the first free
+ * numbered name (…-2.mp4, …-3.mp4); 'replace' keeps the name and returns the earlier exports of that name to remove.
+ */
+async function settleFileName(access: StudioAccess, versionId: number, asset: AssetRow, meta: ExportMeta): Promise<{ fileName: string; replaced: AssetRow[] }> {
+  const others = (await db().select().from(assets).where(and(eq(assets.studioId, access.studioId), eq(assets.kind, 'export'), eq(assets.versionId, versionId)))).filter(
+    (a) => a.id !== asset.id && metaOf(a)?.state === 'ready',
+  );
+  const taken = new Set(others.map((a) => metaOf(a)!.fileName));
+  if (!taken.has(meta.fileName)) return { fileName: meta.fileName, replaced: [] };
+  if (meta.sameName === 'replace') return { fileName: meta.fileName, replaced: others.filter((a) => metaOf(a)!.fileName === meta.fileName) };
+  let n = 2;
+  while (taken.has(numberedFileName(meta.fileName, n))) n++;
+  return { fileName: numberedFileName(meta.fileName, n), replaced: [] };
+}
+
+/** Removes exports a re-export replaced; share links that pointed at them now point at the new one. */
+async function removeReplaced(access: StudioAccess, newId: number, replaced: AssetRow[]) {
+  const ids = replaced.map((a) => a.id);
+  await db().update(shareLinks).set({ exportAssetId: newId }).where(and(eq(shareLinks.studioId, access.studioId), inArray(shareLinks.exportAssetId, ids)));
+  await db().delete(assets).where(and(eq(assets.studioId, access.studioId), inArray(assets.id, ids)));
+  for (const a of replaced) await deleteObject(a.storageKey).catch(() => undefined);
+  await audit({ studioId: access.studioId, actorId: access.userId, action: 'export.replace', targetType: 'asset', targetId: newId, detail: { replaced: ids } });
 }
 
 /** Ready exports of a version (or one export), newest first, each with a download link named for its file. */

@@ -75,6 +75,19 @@ export async function transitionVersion(
       const [clip] = await tx.select({ meta: assets.meta }).from(assets).where(eq(assets.id, v.clipAssetId));
       bakeHealthy = healthOf(clip?.meta)?.healthy ?? null;
     }
+    // The same person deciding the same again (a double click, a retry after a lost answer): the state they reached,
+    // not an error, and nothing written or mailed twice.
+    if ((action === 'approve' || action === 'return') && v.reviewState === (action === 'approve' ? 'approved' : 'returned')) {
+      const [lastEv] = await tx
+        .select()
+        .from(reviewEvents)
+        .where(eq(reviewEvents.versionId, versionId))
+        .orderBy(desc(reviewEvents.id))
+        .limit(1);
+      if (lastEv && lastEv.actorId === access.userId && lastEv.toState === v.reviewState) {
+        return { version: v, eventId: lastEv.id, from: lastEv.fromState, to: lastEv.toState, comment: lastEv.comment, unchanged: true as const };
+      }
+    }
     const decision = decideTransition({ actor: access.role, action, from: v.reviewState, bakeState: v.bakeState, comment, bakeHealthy, overrideReason });
     // an override is part of the record the supervisor reads: the event's comment carries it
     if (decision.ok && bakeHealthy === false && overrideReason) {
@@ -102,13 +115,16 @@ export async function transitionVersion(
       detail: { from: v.reviewState, to: decision.to, ...(comment ? { comment } : {}), ...(shotStatus ? { shotStatus } : {}) },
     });
     const [fresh] = await tx.select().from(versions).where(eq(versions.id, versionId));
-    return { version: fresh, eventId: Number(ev.insertId), from: v.reviewState, to: decision.to };
+    return { version: fresh, eventId: Number(ev.insertId), from: v.reviewState, to: decision.to, comment, unchanged: false as const };
   });
-  const send = result.to === 'submitted' ? notifySubmitted(versionId, access.userId) : notifyDecision(versionId, access.userId, comment);
-  void send.catch((err) => console.error(`[review] e-mail for version ${versionId} failed:`, err));
+  if (!result.unchanged) {
+    const send = result.to === 'submitted' ? notifySubmitted(versionId, access.userId) : notifyDecision(versionId, access.userId, comment);
+    void send.catch((err) => console.error(`[review] e-mail for version ${versionId} failed:`, err));
+  }
   return {
     version: reviewVersionView(result.version),
-    event: { id: result.eventId, fromState: result.from, toState: result.to, comment, actorId: access.userId },
+    event: { id: result.eventId, fromState: result.from, toState: result.to, comment: result.comment, actorId: access.userId },
+    unchanged: result.unchanged,
   };
 }
 
