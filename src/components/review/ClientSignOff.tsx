@@ -56,6 +56,8 @@ export interface DecisionInput {
   decision: ClientDecision;
   comment: string;
   name: string;
+  /** A guest's address for the confirmation (empty: none asked for). */
+  email: string;
 }
 
 /**
@@ -69,13 +71,15 @@ export function ClientDecisionForm(props: {
 }) {
   const [comment, setComment] = useState('');
   const [name, setName] = useState('');
+  const [email, setEmail] = useState('');
   const [busy, setBusy] = useState<ClientDecision | null>(null);
   const [error, setError] = useState<{ message: string; fields: Record<string, string> } | null>(null);
   const send = async (decision: ClientDecision) => {
     if (decision === 'ask-changes' && !comment.trim()) return setError({ message: 'Say what should change first.', fields: { comment: 'say what should change first' } });
+    if (busy !== null) return; // a second click before the re-render sends nothing
     setBusy(decision);
     setError(null);
-    const failed = await props.onDecide({ decision, comment: comment.trim(), name: name.trim() });
+    const failed = await props.onDecide({ decision, comment: comment.trim(), name: name.trim(), email: email.trim() });
     setBusy(null);
     setError(failed);
   };
@@ -86,6 +90,21 @@ export function ClientDecisionForm(props: {
           <span className="field-label">Your name</span>
           <input className="field-input" value={name} maxLength={80} onChange={(e) => setName(e.target.value)} aria-invalid={!!error?.fields.name || undefined} data-testid="client-decision-name" />
           {error?.fields.name && <span className="field-error">Name {error.fields.name}</span>}
+        </label>
+      )}
+      {props.askName && (
+        <label>
+          <span className="field-label">Your e-mail, for a confirmation (optional)</span>
+          <input
+            className="field-input"
+            type="email"
+            value={email}
+            maxLength={254}
+            onChange={(e) => setEmail(e.target.value)}
+            aria-invalid={!!error?.fields.email || undefined}
+            data-testid="client-decision-email"
+          />
+          {error?.fields.email && <span className="field-error">E-mail {error.fields.email}</span>}
         </label>
       )}
       <label htmlFor={`${props.idPrefix}-client-comment`} className="field-label">
@@ -101,7 +120,7 @@ export function ClientDecisionForm(props: {
         data-testid="client-decision-comment"
       />
       {error?.fields.comment && <span className="field-error">Comment: {error.fields.comment}</span>}
-      {error && !error.fields.name && !error.fields.comment && (
+      {error && !error.fields.name && !error.fields.comment && !error.fields.email && (
         <p className="field-error" role="alert">
           {error.message}
         </p>

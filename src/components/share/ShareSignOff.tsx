@@ -19,7 +19,7 @@ export default function ShareSignOff({ token, initial }: Props) {
       method: 'POST',
       credentials: 'same-origin',
       headers: { accept: 'application/json', 'content-type': 'application/json' },
-      body: JSON.stringify({ name: input.name, decision: input.decision, ...(input.comment ? { comment: input.comment } : {}) }),
+      body: JSON.stringify({ name: input.name, decision: input.decision, ...(input.comment ? { comment: input.comment } : {}), ...(input.email ? { email: input.email } : {}) }),
     }).catch(() => null);
     const body = await res?.json().catch(() => null);
     if (!res || !res.ok) {
@@ -27,7 +27,8 @@ export default function ShareSignOff({ token, initial }: Props) {
     }
     setSide(body.version);
     setOpen(false);
-    setDone(input.decision === 'sign-off' ? 'Thank you: you signed off this version. The studio has been told.' : 'Sent: the studio has your request for changes.');
+    const confirmed = body.confirmationTo ? ` A confirmation is on its way to ${body.confirmationTo}.` : '';
+    setDone((input.decision === 'sign-off' ? 'Thank you: you signed off this version. The studio has been told.' : 'Sent: the studio has your request for changes.') + confirmed);
     return null;
   }
 

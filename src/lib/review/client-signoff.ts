@@ -19,5 +19,9 @@ export const guestDecisionBody = z
     name: z.string({ required_error: 'is required', invalid_type_error: 'must be text' }).trim().min(1, 'is required').max(80, 'is too long (80 characters at most)'),
     decision,
     comment: comment.optional(),
+    /** Where to send the confirmation of the decision (optional: a guest has no account we could write to). */
+    email: z
+      .union([z.literal(''), z.string({ invalid_type_error: 'must be text' }).trim().toLowerCase().max(254, 'is too long (254 characters at most)').email('is not an e-mail address')])
+      .optional(),
   })
   .strict();

@@ -1,11 +1,12 @@
 // The one access policy. An access object (studio, user, role) comes from the signed-in membership; domain code takes
 // it, never Astro's locals. The client-visibility rule lives here and nowhere else:
 //   a client sees exactly the versions shared with clients (past draft) of live shots in the shows its membership
-//   names (client_shows) and that are not archived; a shot or show is visible to a client only through such a version. Anything else: 404.
+//   names (client_shows) and that are not archived, plus the versions of active share links e-mailed to the client's
+//   own address (share_link_recipients); a shot or show is visible to a client only through such a version. Anything else: 404.
 import type { APIContext, AstroGlobal } from 'astro';
-import { and, eq, inArray, isNull, ne, type SQL } from 'drizzle-orm';
+import { and, eq, gt, inArray, isNull, ne, or, sql, type SQL } from 'drizzle-orm';
 import { db } from './db';
-import { clientShows, shots, shows, versions } from './db/schema';
+import { clientShows, shareLinkRecipients, shareLinks, shots, shows, users, versions } from './db/schema';
 import { HttpError } from './http';
 import { requireRole, type StudioAccess } from './authz';
 import type { Role } from '../vocab';
@@ -27,14 +28,28 @@ export function clientShowIds(access: Access) {
     .where(and(eq(clientShows.userId, access.userId), eq(clientShows.studioId, access.studioId), isNull(shows.archivedAt)));
 }
 
+/**
+ * The versions of active share links e-mailed to the client's own address (a subquery): a client account finds a
+ * link sent to its address in its home, whether the account existed when the link was sent or was made later.
+ */
+export function clientLinkedVersionIds(access: Access) {
+  return db()
+    .select({ id: shareLinks.versionId })
+    .from(shareLinkRecipients)
+    .innerJoin(shareLinks, eq(shareLinks.id, shareLinkRecipients.shareLinkId))
+    .innerJoin(users, eq(users.email, shareLinkRecipients.email))
+    .where(and(eq(users.id, access.userId), eq(shareLinkRecipients.studioId, access.studioId), eq(shareLinks.studioId, access.studioId), isNull(shareLinks.revokedAt), gt(shareLinks.expiresAt, sql`NOW()`)));
+}
+
 /** Conditions on a `versions ⨝ shots` row for a client to see the version. */
 export function clientVersionWhere(access: Access): SQL[] {
   return [
     eq(versions.studioId, access.studioId),
-    eq(versions.sharedWithClient, true),
-    ne(versions.reviewState, 'draft'),
     isNull(shots.archivedAt),
-    inArray(shots.showId, clientShowIds(access)),
+    or(
+      and(eq(versions.sharedWithClient, true), ne(versions.reviewState, 'draft'), inArray(shots.showId, clientShowIds(access))),
+      inArray(versions.id, clientLinkedVersionIds(access)),
+    )!,
   ];
 }
 

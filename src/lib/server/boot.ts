@@ -5,6 +5,7 @@ import { NodeApp } from 'astro/app/node';
 import { productionProblem } from './config';
 import { PEER_ADDRESS } from './client-address';
 import { schedulePurge } from './housekeeping';
+import { scheduleClientNoteMails } from './client-notes';
 
 const problem = productionProblem();
 if (problem) {
@@ -23,3 +24,5 @@ NodeApp.createRequest = ((req: Parameters<CreateRequest>[0], options?: Parameter
 
 // Old throttle hits, sign-in attempts and finished bake jobs go on a schedule.
 schedulePurge();
+// Client comments held back by their version's mail window (and any a restart left in the outbox) go on a timer.
+scheduleClientNoteMails();

@@ -9,7 +9,7 @@ import { HttpError } from './http';
 import type { StudioAccess } from './authz';
 import { loadVersion } from './access';
 import type { OpenedShare } from './share';
-import { notifyClientDecision, notifyClientsAsked } from './notify';
+import { notifyClientDecision, notifyClientsAsked, notifyDeciderConfirmation } from './notify';
 import { decideClientStep, type ClientActor, type ClientDecision, type ClientStep } from '../review/states';
 import type { ClientState } from '../vocab';
 
@@ -98,12 +98,16 @@ export async function clientDecides(access: StudioAccess, versionId: number, dec
   // the one access policy: a client reaches only versions shared with it, past draft, of live shots in its shows
   await loadVersion(access, versionId);
   const r = await takeStep({ access }, versionId, decision, comment);
-  if (!r.unchanged) tell(notifyClientDecision(versionId), versionId);
+  if (!r.unchanged) {
+    tell(notifyClientDecision(versionId), versionId);
+    const [me] = await db().select({ email: users.email, name: users.name }).from(users).where(eq(users.id, access.userId));
+    if (me) tell(notifyDeciderConfirmation(versionId, me), versionId);
+  }
   return { version: clientSignOffView(r.version), unchanged: r.unchanged };
 }
 
 /** A guest's decision through a share link (the link is what is shared with them; an archived shot opens nothing). */
-export async function guestDecides(opened: OpenedShare, body: { name: string; decision: ClientDecision; comment?: string }) {
+export async function guestDecides(opened: OpenedShare, body: { name: string; decision: ClientDecision; comment?: string; email?: string }, shareUrl?: string) {
   const [shot] = await db().select({ archivedAt: shots.archivedAt }).from(shots).where(eq(shots.id, opened.version.shotId));
   if (!shot || shot.archivedAt) throw new HttpError('not_found', 'This link does not open anything. Check that it was copied whole, or ask the studio for a new one.');
   const r = await takeStep(
@@ -112,6 +116,14 @@ export async function guestDecides(opened: OpenedShare, body: { name: string; de
     body.decision,
     body.comment ?? null,
   );
-  if (!r.unchanged) tell(notifyClientDecision(opened.version.id), opened.version.id);
-  return { version: clientSignOffView(r.version), unchanged: r.unchanged };
+  let confirmationTo: string | null = null;
+  if (!r.unchanged) {
+    tell(notifyClientDecision(opened.version.id), opened.version.id);
+    // the guest's confirmation goes to the address they typed, the only one we have for them
+    if (body.email) {
+      confirmationTo = body.email;
+      tell(notifyDeciderConfirmation(opened.version.id, { email: body.email, name: body.name }, shareUrl), opened.version.id);
+    }
+  }
+  return { version: clientSignOffView(r.version), unchanged: r.unchanged, confirmationTo };
 }

@@ -195,6 +195,32 @@ export async function notifyClientDecision(versionId: number): Promise<number> {
   return people.length;
 }
 
+/**
+ * Confirms a client's decision to the person who took it: a client account's own address, or the address a guest
+ * gave on the share page. `shareUrl` (a guest's link) is where they can see the version again.
+ */
+export async function notifyDeciderConfirmation(versionId: number, to: { email: string; name: string }, shareUrl?: string): Promise<boolean> {
+  const c = await versionContext(versionId);
+  if (!c) return false;
+  const [v] = await db().select({ clientState: versions.clientState, comment: versions.clientComment }).from(versions).where(eq(versions.id, versionId));
+  if (!v || (v.clientState !== 'signed off' && v.clientState !== 'changes asked')) return false;
+  const signedOff = v.clientState === 'signed off';
+  await sendMail({
+    to: to.email,
+    subject: `${signedOff ? 'You signed off' : 'You asked for changes to'} ${c.shotCode} ${versionLabel(c.number)}`,
+    paragraphs: [
+      `Hello ${to.name},`.replace(' ,', ','),
+      signedOff
+        ? `This confirms that you signed off ${versionLabel(c.number)} of shot ${c.shotCode} (${c.showCode}) for ${c.studioName}.`
+        : `This confirms that you asked ${c.studioName} for changes to ${versionLabel(c.number)} of shot ${c.shotCode} (${c.showCode}).`,
+      ...(v.comment ? [`What you asked for: “${v.comment}”`] : []),
+      signedOff ? 'The studio has been told. Nothing more is needed from you for this version.' : 'The studio has been told and will send a new version for your sign-off.',
+    ],
+    action: shareUrl ? { label: `Open ${c.shotCode} ${versionLabel(c.number)}`, url: shareUrl } : { label: `Open ${c.shotCode} ${versionLabel(c.number)}`, url: versionUrl(c.studioSlug, versionId) },
+  });
+  return true;
+}
+
 // ── Daily digest ─────────────────────────────────────────────────────────────────────────────────────────────────
 
 

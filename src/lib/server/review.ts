@@ -11,6 +11,7 @@ import { requireRole, type StudioAccess } from './authz';
 import { asSeenBy, clientVersionIds, loadVersion, STUDIO_ACTOR } from './access';
 import { decideTransition, shotStatusAfter, type ReviewAction } from '../review/states';
 import { healthOf } from '../sim/health';
+import { tellStudioOfClientNotes } from './client-notes';
 import { diffScenes, countChanges } from '../review/diff';
 import type { NoteCreate, NoteView, NotePoint } from '../review/notes';
 import type { ReviewState, Role } from '../vocab';
@@ -326,9 +327,11 @@ export async function createNote(access: StudioAccess, v: VersionRow, shot: Shot
       stroke: input.stroke ?? null,
       body: input.body,
       internal,
+      clientSource: isClient(access) ? 'client account' : null,
     });
   const id = Number(res.insertId);
   await markNotesRead(access, v.id);
+  if (isClient(access)) tellStudioOfClientNotes(v.id);
   const [row] = await notesQuery().where(eq(notes.id, id));
   return noteView(row as NoteRow);
 }

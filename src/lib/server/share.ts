@@ -6,7 +6,7 @@ import { createHash, timingSafeEqual } from 'node:crypto';
 import { and, desc, eq, sql } from 'drizzle-orm';
 import type { AstroCookies } from 'astro';
 import { db } from './db';
-import { assets, notes, shareLinks, shots, shows, studios, users, versions } from './db/schema';
+import { assets, notes, shareLinkRecipients, shareLinks, shots, shows, studios, users, versions } from './db/schema';
 import { HttpError } from './http';
 import type { StudioAccess } from './authz';
 import { audit } from './audit';
@@ -22,6 +22,7 @@ import { CAUTION } from '../export/layout';
 import { versionLabel } from '../vocab';
 import { availableClientSteps } from '../review/states';
 import { clientSignOffView } from './client-signoff';
+import { tellStudioOfClientNotes } from './client-notes';
 import type { ShareCreateBody } from '../export/schemas';
 import { rangeWithHandles } from '../library/handles';
 
@@ -94,6 +95,11 @@ async function mailLink(access: StudioAccess, linkId: number, url: string, to: s
     ],
     action: { label: 'Open the preview', url },
   });
+  // the address is kept: a client account with it (now or later) finds the version in its home (access.ts)
+  await db()
+    .insert(shareLinkRecipients)
+    .values({ studioId: access.studioId, shareLinkId: linkId, email: to.trim().toLowerCase() })
+    .onDuplicateKeyUpdate({ set: { email: to.trim().toLowerCase() } });
   await audit({ studioId: access.studioId, actorId: access.userId, action: 'share.email', targetType: 'share_link', targetId: linkId, detail: { to } });
 }
 
@@ -349,7 +355,9 @@ export async function addGuestNote(opened: OpenedShare, body: { name: string; bo
     frame: body.frame,
     body: body.body,
     internal: false,
+    clientSource: 'share link',
   });
+  tellStudioOfClientNotes(version.id);
   await audit({ studioId: link.studioId, actorId: null, action: 'share.note', targetType: 'note', targetId: Number(res.insertId), detail: { shareLinkId: link.id, guestName: body.name } });
   return { name: body.name, body: body.body, frame: body.frame, createdAt: new Date().toISOString() };
 }

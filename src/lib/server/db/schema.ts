@@ -17,6 +17,9 @@ import {
 } from 'drizzle-orm/mysql-core';
 import { sql } from 'drizzle-orm';
 
+/** Where a client's comment came from. */
+export const CLIENT_NOTE_SOURCES = ['share link', 'client account'] as const;
+
 /** Auto-increment id (drizzle's serial() emits SQL that MariaDB rejects). */
 const id = () => bigint('id', { mode: 'number', unsigned: true }).autoincrement().primaryKey();
 const ref = (name: string) => bigint(name, { mode: 'number', unsigned: true });
@@ -298,6 +301,8 @@ export const versions = mysqlTable(
     clientDecidedBy: varchar('client_decided_by', { length: 40 }).references(() => users.id, { onDelete: 'set null' }),
     clientDeciderName: varchar('client_decider_name', { length: 120 }),
     clientComment: text('client_comment'),
+    /** When the studio was last e-mailed the client comments on this version (one mail per version per window). */
+    clientNotesMailedAt: datetime('client_notes_mailed_at', { mode: 'date', fsp: 3 }),
     frozenAt: datetime('frozen_at', { mode: 'date' }),
     createdAt: createdAt(),
     updatedAt: updatedAt(),
@@ -350,10 +355,16 @@ export const notes = mysqlTable(
     internal: boolean('internal').notNull().default(true),
     resolvedAt: datetime('resolved_at', { mode: 'date' }),
     resolvedBy: varchar('resolved_by', { length: 40 }).references(() => users.id, { onDelete: 'set null' }),
+    /**
+     * A client's comment: left through a share link or from a client account (null for the studio's own notes). Such a
+     * note waits in the outbox (mailed_at null) until the studio is e-mailed about it, batched per version.
+     */
+    clientSource: mysqlEnum('client_source', CLIENT_NOTE_SOURCES),
+    mailedAt: datetime('mailed_at', { mode: 'date', fsp: 3 }),
     createdAt: createdAt(),
     updatedAt: updatedAt(),
   },
-  (t) => [index('notes_version_frame_idx').on(t.versionId, t.frame)],
+  (t) => [index('notes_version_frame_idx').on(t.versionId, t.frame), index('notes_client_outbox_idx').on(t.clientSource, t.mailedAt)],
 );
 
 /** When a person last read a version's notes: notes by others after `seen_at` are "new" in their review inbox. */
@@ -453,6 +464,26 @@ export const shareLinks = mysqlTable(
     updatedAt: updatedAt(),
   },
   (t) => [index('share_links_version_idx').on(t.versionId)],
+);
+
+/**
+ * The addresses a share link was e-mailed to. A client account with that address (now or made later) finds the
+ * link's version in its own home, as long as the link is active (access.ts).
+ */
+export const shareLinkRecipients = mysqlTable(
+  'share_link_recipients',
+  {
+    id: id(),
+    studioId: ref('studio_id')
+      .notNull()
+      .references(() => studios.id, { onDelete: 'cascade' }),
+    shareLinkId: ref('share_link_id')
+      .notNull()
+      .references(() => shareLinks.id, { onDelete: 'cascade' }),
+    email: varchar('email', { length: 254 }).notNull(),
+    createdAt: createdAt(),
+  },
+  (t) => [uniqueIndex('share_link_recipients_link_email_uq').on(t.shareLinkId, t.email), index('share_link_recipients_email_idx').on(t.studioId, t.email)],
 );
 
 export const auditLog = mysqlTable(
