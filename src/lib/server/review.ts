@@ -84,7 +84,10 @@ export async function transitionVersion(
         .from(reviewEvents)
         .where(eq(reviewEvents.versionId, versionId))
         .orderBy(desc(reviewEvents.id))
-        .limit(1);
+        .limit(1)
+        // a locking read: the transaction's snapshot (taken before waiting for the shot lock) misses the event the
+        // decision that won the lock just wrote
+        .for('update');
       if (lastEv && lastEv.actorId === access.userId && lastEv.toState === v.reviewState) {
         return { version: v, eventId: lastEv.id, from: lastEv.fromState, to: lastEv.toState, comment: lastEv.comment, unchanged: true as const };
       }
