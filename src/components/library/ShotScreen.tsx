@@ -19,6 +19,7 @@ import { CutRange } from './CutRange';
 import { rateText } from '~/lib/timecode';
 import { can, keys, type ActivityEntry, type Person, type ShotDetail, type Viewer } from './types';
 import { versionLabel } from '~/lib/vocab';
+import { activityLine } from '~/lib/review/activity';
 
 interface Props {
   viewer: Viewer;
@@ -265,40 +266,6 @@ function Versions({ shot, studioSlug, canBlock }: { shot: ShotDetail; studioSlug
   );
 }
 
-/** One line per audit entry, in plain words. */
-function describe(entry: ActivityEntry): string {
-  const d = (entry.detail ?? {}) as Record<string, any>;
-  switch (entry.action) {
-    case 'shot.create':
-      return 'created the shot';
-    case 'shot.workflow': {
-      const parts: string[] = [];
-      if (d.status) parts.push(`status ${d.status.from} → ${d.status.to}`);
-      if (d.assigneeId) parts.push(d.assigneeId.to ? 'changed the assignee' : 'cleared the assignee');
-      return parts.join(', ') || 'changed the workflow';
-    }
-    case 'shot.bulk_status':
-      return `set status to ${d.status} (with other shots)`;
-    case 'shot.update': {
-      const fields = Object.keys(d);
-      const range = d.firstFrame || d.lastFrame;
-      return range ? `changed the frame range${fields.length > 2 ? ' and more' : ''}` : `changed ${fields.join(', ') || 'details'}`;
-    }
-    case 'shot.scale':
-      return `calibrated the scale: ${Number(d.metres)} m over ${Math.round(Number(d.pixels))} px`;
-    case 'plate.set':
-      return `set a new plate${d.width ? ` (${d.width}×${d.height})` : ''}`;
-    case 'thumbnail.set':
-      return 'set a new thumbnail';
-    case 'shot.archive':
-      return 'archived the shot';
-    case 'shot.unarchive':
-      return 'brought the shot back';
-    default:
-      return entry.action.replace(/[._]/g, ' ');
-  }
-}
-
 function Activity({ entries, loading, error }: { entries?: ActivityEntry[]; loading: boolean; error: unknown }) {
   return (
     <section aria-labelledby="activity-heading" className="card overflow-hidden">
@@ -314,8 +281,8 @@ function Activity({ entries, loading, error }: { entries?: ActivityEntry[]; load
       ) : (
         <ol className="max-h-96 space-y-3 overflow-y-auto px-5 py-4 text-sm" data-testid="activity">
           {entries.map((e) => (
-            <li key={e.id} className="relative pl-4 before:absolute before:top-2 before:left-0 before:size-1.5 before:rounded-full before:bg-harbour-300">
-              <span className="font-medium">{e.actorName ?? 'Someone'}</span> {describe(e)}
+            <li key={e.id} data-action={e.action} className="relative pl-4 before:absolute before:top-2 before:left-0 before:size-1.5 before:rounded-full before:bg-harbour-300">
+              {activityLine(e)}
               <time dateTime={e.createdAt} title={fullDate(e.createdAt)} className="block text-xs text-ink-muted" suppressHydrationWarning>
                 {relativeTime(e.createdAt)}
               </time>

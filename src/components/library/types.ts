@@ -106,6 +106,8 @@ export interface ActivityEntry {
   action: string;
   actorName: string | null;
   detail: Record<string, unknown> | null;
+  versionId?: number | null;
+  versionNumber?: number | null;
   createdAt: string;
 }
 

@@ -6,13 +6,14 @@
 import { randomBytes } from 'node:crypto';
 import { and, desc, eq, inArray, notInArray, sql } from 'drizzle-orm';
 import { db } from '../server/db';
-import { assets, bakeAttempts, bakeJobs, versions } from '../server/db/schema';
+import { assets, auditLog, bakeAttempts, bakeJobs, versions } from '../server/db/schema';
 import { deleteObject } from '../server/storage';
 import { audit } from '../server/audit';
 import { HttpError } from '../server/http';
 import { bakeCostLimitOf, requireBakeWithinLimit } from '../server/versions';
 import { parseScene } from '../scene/schema';
 import { SOLVER_BUILD } from './build';
+import { healthOf } from '../sim/health';
 
 export interface QueueSettings {
   /** How long a claim lasts without renewal, ms. */
@@ -237,6 +238,14 @@ async function finishJob(tx: Tx, jobId: number, versionId: number, state: 'faile
     .set({ state, error, leaseOwner: null, leaseExpiresAt: null, finishedAt: sql`NOW(3)` as unknown as Date })
     .where(eq(bakeJobs.id, jobId));
   await tx.update(versions).set({ bakeState: state }).where(eq(versions.id, versionId));
+  if (state === 'failed') await auditBakeEnd(tx, jobId, versionId, 'bake.failed', { error });
+}
+
+/** The end of a bake in the audit log, in the job's transaction, as the person who asked for it (shot activity). */
+async function auditBakeEnd(tx: Tx, jobId: number, versionId: number, action: 'bake.done' | 'bake.failed', detail: Record<string, unknown>) {
+  const [job] = await tx.select({ studioId: bakeJobs.studioId, requestedBy: bakeJobs.requestedBy }).from(bakeJobs).where(eq(bakeJobs.id, jobId));
+  if (!job) return;
+  await tx.insert(auditLog).values({ studioId: job.studioId, actorId: job.requestedBy, action, targetType: 'version', targetId: String(versionId), detail: { jobId, ...detail } });
 }
 
 /** Renews the lease and records progress. Returns 'lost' when another worker owns the job now. */
@@ -285,6 +294,11 @@ export async function completeJob(
       .where(eq(bakeJobs.id, row.id));
     await tx.update(versions).set({ bakeState: 'baked', clipAssetId: Number(clipRes.insertId) }).where(eq(versions.id, row.versionId));
     await endAttempt(tx, job.attemptId, 'done');
+    const health = healthOf(clip.meta);
+    await auditBakeEnd(tx, row.id, row.versionId, 'bake.done', {
+      healthy: health?.healthy ?? null,
+      ...(health && !health.healthy ? { problem: health.findings.map((f) => f.words).join('; ') } : {}),
+    });
     return true;
   });
   if (ok) await clearEndedAttempts(job.jobId);

@@ -4,7 +4,7 @@
 import { and, asc, desc, eq, inArray, isNotNull, isNull, ne, or, sql, type SQL } from 'drizzle-orm';
 import { alias } from 'drizzle-orm/mysql-core';
 import { db } from './db';
-import { assets, auditLog, memberships, shots, shows, studios, users, versions } from './db/schema';
+import { assets, memberships, shots, shows, studios, users, versions } from './db/schema';
 import { HttpError } from './http';
 import type { StudioAccess } from './authz';
 import { audit } from './audit';
@@ -648,31 +648,4 @@ export async function listAssignablePeople(studioId: number) {
     .innerJoin(users, eq(users.id, memberships.userId))
     .where(and(eq(memberships.studioId, studioId), ne(memberships.role, 'client')))
     .orderBy(asc(users.name), asc(users.id));
-}
-
-// ── Activity ─────────────────────────────────────────────────────────────────────────────────────────────────────
-
-/**
- * The shot's activity from the audit log, newest first: changes aimed at the shot, and bulk status changes that
- * included it. Returns at most `limit` entries with the actor's name and the parsed detail.
- */
-export async function listShotActivity(access: StudioAccess, shotId: number, limit = 50) {
-  await getShotRow(access, shotId);
-  const id = String(shotId);
-  const rows = await db()
-    .select({ id: auditLog.id, action: auditLog.action, actorName: users.name, detail: auditLog.detail, createdAt: auditLog.createdAt })
-    .from(auditLog)
-    .leftJoin(users, eq(users.id, auditLog.actorId))
-    .where(
-      and(
-        eq(auditLog.studioId, access.studioId),
-        or(
-          and(eq(auditLog.targetType, 'shot'), eq(auditLog.targetId, id)),
-          and(eq(auditLog.action, 'shot.bulk_status'), sql`JSON_CONTAINS(${auditLog.detail}, ${JSON.stringify({ id: shotId })}, '$.shots')`),
-        ),
-      ),
-    )
-    .orderBy(desc(auditLog.createdAt), desc(auditLog.id))
-    .limit(limit);
-  return rows.map((r) => ({ ...r, detail: (typeof r.detail === 'string' ? JSON.parse(r.detail) : r.detail) as Record<string, unknown> | null }));
 }
