@@ -29,8 +29,10 @@ interface Props {
   canBake: boolean;
   /** The viewer's role in the studio (what the review panel offers). */
   role: Role;
-  /** The shot's previous version, for a compare link. */
-  previousVersionId?: number | null;
+  /** The version to compare this one with: the one last decided on for the shot (returned or approved), else the one before. */
+  compareWith?: { id: number; number: number; why: string } | null;
+  /** The latest decision on this version (a returned version shows what to change and the way to the next one). */
+  decision?: { toState: string; comment: string | null; actorName: string | null; at: string } | null;
 }
 
 export default function VersionScreen(props: Props) {
@@ -72,7 +74,7 @@ function Chip({ value, label, testId }: { value: string; label: string; testId?:
   );
 }
 
-function Version({ studioId, studioSlug, version, shot, plate, clip, canBake, role, previousVersionId }: Props) {
+function Version({ studioId, studioSlug, version, shot, plate, clip, canBake, role, compareWith, decision }: Props) {
   const [currentFrame, setCurrentFrame] = useState(version.startFrame);
   const [seekTo, setSeekTo] = useState<{ frame: number } | null>(() => {
     // Links in review e-mails carry ?frame=<n>.
@@ -126,7 +128,10 @@ function Version({ studioId, studioSlug, version, shot, plate, clip, canBake, ro
             <a className="hover:underline" href={`/studios/${studioSlug}/`}>
               {shot.showCode}
             </a>{' '}
-            · {shot.code}
+            ·{' '}
+            <a className="hover:underline" href={`/studios/${studioSlug}/shots/${shot.id}`} data-testid="version-shot-link">
+              {shot.code}
+            </a>
           </p>
           <h1 className="mt-1 flex flex-wrap items-center gap-3 text-3xl font-semibold tracking-tight">
             <span>
@@ -141,6 +146,18 @@ function Version({ studioId, studioSlug, version, shot, plate, clip, canBake, ro
             {new Date(version.createdAt).toLocaleString(undefined, { dateStyle: 'medium', timeStyle: 'short' })}
           </p>
           {version.comment && <p className="mt-2 max-w-3xl leading-relaxed">“{version.comment}”</p>}
+          <div className="mt-3 flex flex-wrap items-center gap-2">
+            <a className="btn-quiet" href={`/studios/${studioSlug}/shots/${shot.id}`} data-testid="open-shot">
+              Shot {shot.code}: all versions
+            </a>
+            {canBake && reviewState !== 'returned' && <NewVersionLink studioSlug={studioSlug} shotId={shot.id} versionId={version.id} quiet />}
+            {compareWith && (
+              <a className="btn-quiet" href={`/studios/${studioSlug}/compare?a=${compareWith.id}&b=${version.id}`} data-testid="compare-link">
+                Compare with {versionLabel(compareWith.number)}
+                {compareWith.why === 'returned' ? ' (sent back)' : compareWith.why === 'approved' ? ' (approved)' : ''}
+              </a>
+            )}
+          </div>
         </div>
         <dl className="grid grid-cols-[auto_auto] gap-x-4 gap-y-1 text-sm" data-testid="frame-range">
           <dt className="text-ink-muted">Frames</dt>
@@ -158,6 +175,19 @@ function Version({ studioId, studioSlug, version, shot, plate, clip, canBake, ro
           </dd>
         </dl>
       </header>
+
+      {reviewState === 'returned' && role !== 'client' && (
+        <section className="card border-coral-500/40 bg-coral-50 p-4" data-testid="returned-banner">
+          <h2 className="font-semibold text-coral-700">Sent back for changes{decision?.actorName ? ` by ${decision.actorName}` : ''}</h2>
+          {decision?.comment && <p className="mt-1 max-w-3xl whitespace-pre-wrap">“{decision.comment}”</p>}
+          <p className="mt-1 text-sm text-ink-soft">The notes pinned to frames are listed below the player. Start the next version from this scene: the plate and its scale come with it.</p>
+          {canBake && (
+            <div className="mt-3">
+              <NewVersionLink studioSlug={studioSlug} shotId={shot.id} versionId={version.id} />
+            </div>
+          )}
+        </section>
+      )}
 
       <BakePanel
         versionId={version.id}
@@ -194,9 +224,17 @@ function Version({ studioId, studioSlug, version, shot, plate, clip, canBake, ro
         onMarkers={setMarkers}
         onStateChange={setReviewState}
         onClientStateChange={setClientState}
-        compareWithVersionId={previousVersionId ?? null}
         tcShot={shot}
       />
     </div>
+  );
+}
+
+/** Opens the editor on this version's scene; saving there makes the shot's next version (a draft). */
+function NewVersionLink({ studioSlug, shotId, versionId, quiet = false }: { studioSlug: string; shotId: number; versionId: number; quiet?: boolean }) {
+  return (
+    <a className={quiet ? 'btn-quiet' : 'btn-primary'} href={`/studios/${studioSlug}/shots/${shotId}/edit?from=${versionId}`} data-testid="new-version-from-this">
+      New version from this
+    </a>
   );
 }

@@ -5,7 +5,7 @@ import { useState } from 'react';
 import { QueryClient, QueryClientProvider, useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
 import { api, ApiError, messageOf } from '../shared/api';
 import { FormMessage } from '../shared/form';
-import { STATE_TONE, STATE_WORDS, type InboxAnswer, type InboxItem } from './types';
+import { STATE_TONE, STATE_WORDS, type InboxAnswer, type InboxAssignment, type InboxItem } from './types';
 import { versionLabel } from '~/lib/vocab';
 import { ClientDecisionLine, ClientStateBadge } from './ClientSignOff';
 
@@ -50,35 +50,43 @@ function Inbox({ studioId, studioSlug, role, initial, dailyDigest }: Props) {
       {nothing && (
         <section className="card px-6 py-10 text-center" data-testid="inbox-empty">
           <h2 className="text-lg font-semibold">Nothing waits for you</h2>
-          <p className="mt-2 text-ink-soft">New submissions, versions sent back and notes on your work show up here.</p>
+          <p className="mt-2 text-ink-soft">Shots assigned to you, new submissions, versions sent back and notes on your work show up here.</p>
         </section>
       )}
+      {role !== 'client' && (
+        <Section title="Assigned to you" count={data.counts.assigned} unread={data.unread.assigned} testId="inbox-assigned">
+          {data.assigned.map((a) => (
+            <AssignedRow key={a.shotId} item={a} href={`/studios/${studioSlug}/shots/${a.shotId}`} />
+          ))}
+        </Section>
+      )}
       {(decides || role === 'client' || data.toReview.length > 0) && (
-        <Section title={role === 'client' ? 'Shared with you for a look' : 'Waiting for your decision'} count={data.counts.toReview} testId="inbox-to-review">
+        <Section title={role === 'client' ? 'Shared with you for a look' : 'Waiting for your decision'} count={data.counts.toReview} unread={data.unread.toReview} testId="inbox-to-review">
           {data.toReview.map((v) => (
             <Row key={v.versionId} item={v} href={link(v.versionId)} />
           ))}
         </Section>
       )}
-      <Section title={role === 'client' ? 'Waiting for your sign-off' : 'Client decisions (last two weeks)'} count={data.counts.client} testId="inbox-client">
+      <Section title={role === 'client' ? 'Waiting for your sign-off' : 'Client decisions (last two weeks)'} count={data.counts.client} unread={data.unread.client} testId="inbox-client">
         {data.client.map((v) => (
           <ClientRow key={v.versionId} item={v} href={link(v.versionId)} />
         ))}
       </Section>
       {role !== 'client' && (
-        <Section title="Your versions sent back" count={data.counts.returned} testId="inbox-returned">
+        <Section title="Your versions sent back" count={data.counts.returned} unread={data.unread.returned} testId="inbox-returned">
           {data.returned.map((v) => (
             <Row key={v.versionId} item={v} href={link(v.versionId)} />
           ))}
         </Section>
       )}
       {role !== 'client' && (
-        <Section title="New notes on your versions" count={data.counts.newNotes} testId="inbox-new-notes">
+        <Section title="New notes on your versions" count={data.counts.newNotes} unread={data.unread.newNotes} testId="inbox-new-notes">
           {data.newNotes.map((v) => (
-            <li key={v.versionId} className="card p-4" data-testid="inbox-note-version">
+            <li key={v.versionId} className="card p-4" data-testid="inbox-note-version" data-unread={v.unread}>
               <a className="font-semibold hover:underline" href={link(v.versionId)}>
                 {v.showCode} · {v.shotCode} {versionLabel(v.number)}
               </a>
+              {v.unread && <NewMark />}
               <ul className="mt-2 space-y-1.5">
                 {v.notes.map((n) => (
                   <li key={n.id} className="flex gap-3 text-sm" data-testid="inbox-note">
@@ -104,12 +112,17 @@ function Inbox({ studioId, studioSlug, role, initial, dailyDigest }: Props) {
   );
 }
 
-function Section({ title, count, testId, children }: { title: string; count: number; testId: string; children: React.ReactNode }) {
+function Section({ title, count, unread, testId, children }: { title: string; count: number; unread: number; testId: string; children: React.ReactNode }) {
   return (
     <section data-testid={testId}>
       <h2 className="mb-3 flex items-center gap-2 text-lg font-semibold">
         {title}
         <span className="rounded-full bg-sand-deep px-2 py-0.5 text-xs font-medium text-ink-soft tabular-nums">{count}</span>
+        {unread > 0 && (
+          <span className="rounded-full bg-harbour-500 px-2 py-0.5 text-xs font-medium text-white tabular-nums" data-testid="unread-count">
+            {unread} new
+          </span>
+        )}
       </h2>
       {count === 0 ? <p className="text-sm text-ink-muted">Nothing here.</p> : <ul className="space-y-3">{children}</ul>}
     </section>
@@ -119,14 +132,41 @@ function Section({ title, count, testId, children }: { title: string; count: num
 /** One version in a section: its code as a link, what the section says of it, and a state badge on the right. */
 function VersionCard({ item, href, testId, badge, children }: { item: InboxItem; href: string; testId: string; badge: React.ReactNode; children: React.ReactNode }) {
   return (
-    <li className="card flex flex-wrap items-start justify-between gap-3 p-4" data-testid={testId} data-version-id={item.versionId}>
+    <li className="card flex flex-wrap items-start justify-between gap-3 p-4" data-testid={testId} data-version-id={item.versionId} data-unread={item.unread}>
       <div className="min-w-0">
         <a className="font-semibold hover:underline" href={href}>
           {item.showCode} · {item.shotCode} {versionLabel(item.number)}
         </a>
+        {item.unread && <NewMark />}
         {children}
       </div>
       {badge}
+    </li>
+  );
+}
+
+function NewMark() {
+  return <span className="ml-2 rounded bg-harbour-50 px-1.5 py-0.5 text-xs font-medium text-harbour-700">new</span>;
+}
+
+function AssignedRow({ item, href }: { item: InboxAssignment; href: string }) {
+  return (
+    <li className="card flex flex-wrap items-start justify-between gap-3 p-4" data-testid="inbox-assigned-shot" data-shot-id={item.shotId} data-unread={item.unread}>
+      <div className="min-w-0">
+        <a className="font-semibold hover:underline" href={href}>
+          {item.showCode} · {item.shotCode}
+        </a>
+        {item.unread && <NewMark />}
+        {item.description && <p className="text-sm text-ink-soft">{item.description}</p>}
+        <p className="text-sm text-ink-muted">
+          Assigned {when(item.at)}
+          {item.assignedBy ? ` by ${item.assignedBy}` : ''}
+          {item.dueDate ? ` · due ${item.dueDate}` : ''}
+        </p>
+      </div>
+      <a className="btn-quiet" href={href}>
+        Open the shot
+      </a>
     </li>
   );
 }

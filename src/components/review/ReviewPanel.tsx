@@ -35,8 +35,6 @@ export interface ReviewPanelProps {
   onStateChange?: (state: string) => void;
   /** Told when the client's sign-off state changes (for the page header). */
   onClientStateChange?: (state: ClientState) => void;
-  /** Where the compare link points (the previous version of the shot), when there is one. */
-  compareWithVersionId?: number | null;
   /** The shot's cut in, rate and source timecode at the cut in: a note's frame is shown with its source timecode. */
   tcShot?: SourceTimecodeShot;
 }
@@ -248,11 +246,6 @@ function ReviewStatus(p: ReviewPanelProps & { answer: ReviewAnswer; onChanged: (
           <input type="checkbox" checked={version.sharedWithClient} disabled={busy} onChange={(e) => act.mutate({ kind: 'share', shared: e.target.checked })} />
           Show this version to the studio’s clients
         </label>
-      )}
-      {p.compareWithVersionId && (
-        <a className="link mt-3 inline-block text-sm" href={`/studios/${p.studioSlug}/compare?a=${p.compareWithVersionId}&b=${p.versionId}`}>
-          Compare with the previous version
-        </a>
       )}
       {message && (
         <div className="mt-3">

@@ -55,10 +55,30 @@ export interface InboxItem {
   clientComment: string | null;
   clientDecidedAt: string | null;
   notes?: NoteView[];
+  /** When what asks for the reader happened, and whether it came after they last opened the inbox. */
+  at: string;
+  unread: boolean;
 }
 
+/** A shot assigned to the reader that waits for their blocking. */
+export interface InboxAssignment {
+  shotId: number;
+  shotCode: string;
+  showCode: string;
+  description: string | null;
+  dueDate: string | null;
+  assignedBy: string | null;
+  at: string;
+  unread: boolean;
+}
+
+type InboxSections = 'assigned' | 'toReview' | 'returned' | 'newNotes' | 'client';
+
 export interface InboxAnswer {
-  counts: { toReview: number; returned: number; newNotes: number; client: number; total: number };
+  counts: Record<InboxSections | 'total', number>;
+  /** Items that came after the reader last opened the inbox, per section. */
+  unread: Record<InboxSections | 'total', number>;
+  assigned: InboxAssignment[];
   toReview: InboxItem[];
   returned: InboxItem[];
   newNotes: (InboxItem & { notes: NoteView[] })[];

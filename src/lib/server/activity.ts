@@ -1,9 +1,10 @@
 // A shot's activity: its own audit entries (details, plate, scale, workflow, assignment) and those of its versions
 // (saved, baked, submitted, returned, approved, client sign-off, exports, share links), newest first, each with the
 // version's number so the screen can say "v003 approved" (words in src/lib/review/activity.ts).
-import { and, desc, eq, inArray, or, sql, type SQL } from 'drizzle-orm';
+import { and, desc, eq, inArray, ne, or, sql, type SQL } from 'drizzle-orm';
 import { db } from './db';
-import { assets, auditLog, shareLinks, users, versions } from './db/schema';
+import { assets, auditLog, reviewEvents, shareLinks, users, versions } from './db/schema';
+import { clientVersionIds } from './access';
 import type { StudioAccess } from './authz';
 import { getShotRow } from './library';
 import { ACTIVITY_ACTIONS } from '../review/activity';
@@ -64,4 +65,42 @@ export async function listShotActivity(access: StudioAccess, shotId: number, lim
       createdAt: r.createdAt,
     };
   });
+}
+
+/**
+ * The version of the shot a supervisor last decided on (returned or approved), other than `exceptVersionId`: the
+ * default partner when comparing a version, so a resubmission is compared with what was sent back, not with a draft
+ * saved in between. Null when no other version was ever decided on.
+ */
+export async function lastDecidedVersion(access: StudioAccess, shotId: number, exceptVersionId: number) {
+  const [row] = await db()
+    .select({ id: versions.id, number: versions.number, toState: reviewEvents.toState, at: reviewEvents.createdAt })
+    .from(reviewEvents)
+    .innerJoin(versions, eq(versions.id, reviewEvents.versionId))
+    .where(
+      and(
+        eq(versions.shotId, shotId),
+        eq(versions.studioId, access.studioId),
+        ne(versions.id, exceptVersionId),
+        inArray(reviewEvents.toState, ['returned', 'approved']),
+        ...(access.role === 'client' ? [inArray(versions.id, clientVersionIds(access))] : []),
+      ),
+    )
+    .orderBy(desc(reviewEvents.createdAt), desc(reviewEvents.id))
+    .limit(1);
+  return row ?? null;
+}
+
+/** The latest decision (returned or approved) on the version, with who made it and their words; null if none. */
+export async function lastDecisionOn(access: StudioAccess, versionId: number) {
+  const [row] = await db()
+    .select({ toState: reviewEvents.toState, comment: reviewEvents.comment, actorName: users.name, at: reviewEvents.createdAt })
+    .from(reviewEvents)
+    .leftJoin(users, eq(users.id, reviewEvents.actorId))
+    .where(and(eq(reviewEvents.versionId, versionId), eq(reviewEvents.studioId, access.studioId), inArray(reviewEvents.toState, ['returned', 'approved'])))
+    .orderBy(desc(reviewEvents.createdAt), desc(reviewEvents.id))
+    .limit(1);
+  if (!row) return null;
+  const client = access.role === 'client';
+  return { toState: row.toState, comment: client ? null : row.comment, actorName: client ? null : row.actorName, at: row.at.toISOString() };
 }

@@ -5,7 +5,7 @@ import type { APIContext } from 'astro';
 import { and, asc, desc, eq, gt, inArray, isNull, lt, ne, or, sql, type SQL } from 'drizzle-orm';
 import { alias } from 'drizzle-orm/mysql-core';
 import { db, type Db } from './db';
-import { assets, auditLog, noteReads, notes, reviewEvents, shots, shows, users, versions } from './db/schema';
+import { assets, auditLog, memberships, noteReads, notes, reviewEvents, shots, shows, users, versions } from './db/schema';
 import { HttpError } from './http';
 import { requireRole, type StudioAccess } from './authz';
 import { asSeenBy, clientVersionIds, loadVersion, STUDIO_ACTOR } from './access';
@@ -443,12 +443,19 @@ function newNotesRows() {
 }
 
 export interface InboxCounts {
+  /** Live shots assigned to the user whose status is blocking (work to do). */
+  assigned: number;
   toReview: number;
   returned: number;
   newNotes: number;
   /** Client: versions waiting for their sign-off. Studio: the client's recent decisions (see clientInboxWhere). */
   client: number;
   total: number;
+}
+
+/** The user's live shots that wait for their blocking: assigned to them, status blocking, shot and show not archived. */
+function assignedWhere(studioId: number, userId: string): SQL {
+  return and(eq(shots.studioId, studioId), eq(shots.assigneeId, userId), eq(shots.status, 'blocking'), isNull(shots.archivedAt), isNull(shows.archivedAt))!;
 }
 
 /** How long a client's decision stays in the studio's inbox. */
@@ -480,16 +487,17 @@ export async function inboxCounts(studioId: number, userId: string, role: Role):
       : role === 'artist'
         ? undefined
         : and(eq(versions.studioId, studioId), eq(versions.reviewState, 'submitted'));
-  const [toReview, returned, newNotes, client] = await Promise.all([
+  const [toReview, returned, newNotes, client, assigned] = await Promise.all([
     reviewWhere ? db().select({ n: count }).from(versions).where(reviewWhere) : Promise.resolve([{ n: 0 }]),
     role === 'client'
       ? Promise.resolve([{ n: 0 }])
       : db().select({ n: count }).from(versions).where(and(eq(versions.studioId, studioId), eq(versions.authorId, userId), eq(versions.reviewState, 'returned'))),
     role === 'client' ? Promise.resolve([{ n: 0 }]) : newNotesCount().where(newNotesWhere(studioId, userId)),
     db().select({ n: count }).from(versions).where(clientInboxWhere({ studioId, userId, role } as StudioAccess)),
+    role === 'client' ? Promise.resolve([{ n: 0 }]) : db().select({ n: count }).from(shots).innerJoin(shows, eq(shows.id, shots.showId)).where(assignedWhere(studioId, userId)),
   ]);
-  const c = { toReview: Number(toReview[0]?.n ?? 0), returned: Number(returned[0]?.n ?? 0), newNotes: Number(newNotes[0]?.n ?? 0), client: Number(client[0]?.n ?? 0) };
-  return { ...c, total: c.toReview + c.returned + c.newNotes + c.client };
+  const c = { assigned: Number(assigned[0]?.n ?? 0), toReview: Number(toReview[0]?.n ?? 0), returned: Number(returned[0]?.n ?? 0), newNotes: Number(newNotes[0]?.n ?? 0), client: Number(client[0]?.n ?? 0) };
+  return { ...c, total: c.assigned + c.toReview + c.returned + c.newNotes + c.client };
 }
 
 /**
@@ -549,13 +557,84 @@ export async function inboxFor(access: StudioAccess) {
       clientDecidedAt: r.clientDecidedAt?.toISOString() ?? null,
     };
   };
-  return {
-    counts,
-    toReview: toReview.map(item),
-    returned: returned.map(item),
-    newNotes: noteVersions.map((r) => ({ ...item(r), notes: freshNotes.filter((n) => n.versionId === r.versionId) })),
-    client: clientRows.map(item),
+  const [assigned, seenAt] = await Promise.all([role === 'client' ? Promise.resolve([]) : assignedShots(studioId, userId), inboxSeenAt(studioId, userId)]);
+  // unread: what happened after the member last opened the inbox (everything, the first time)
+  const mark = <T extends { at: string }>(rows: T[]) => rows.map((r) => ({ ...r, unread: !seenAt || new Date(r.at) > seenAt }));
+  const sections = {
+    assigned: mark(assigned),
+    toReview: mark(toReview.map(item).map((i) => ({ ...i, at: i.lastEvent?.at ?? i.updatedAt }))),
+    returned: mark(returned.map(item).map((i) => ({ ...i, at: i.lastEvent?.at ?? i.updatedAt }))),
+    newNotes: mark(
+      noteVersions.map((r) => {
+        const own = freshNotes.filter((n) => n.versionId === r.versionId);
+        return { ...item(r), notes: own, at: own.map((n) => n.createdAt).sort().at(-1) ?? r.updatedAt.toISOString() };
+      }),
+    ),
+    client: mark(clientRows.map(item).map((i) => ({ ...i, at: i.clientDecidedAt ?? i.updatedAt }))),
   };
+  const unreadOf = (rows: { unread: boolean }[]) => rows.filter((r) => r.unread).length;
+  const unread = {
+    assigned: unreadOf(sections.assigned),
+    toReview: unreadOf(sections.toReview),
+    returned: unreadOf(sections.returned),
+    newNotes: unreadOf(sections.newNotes),
+    client: unreadOf(sections.client),
+  };
+  return { counts, unread: { ...unread, total: Object.values(unread).reduce((a, b) => a + b, 0) }, ...sections };
+}
+
+/** When the member last opened their inbox in the studio (null: never). */
+async function inboxSeenAt(studioId: number, userId: string): Promise<Date | null> {
+  const [m] = await db().select({ at: memberships.inboxSeenAt }).from(memberships).where(and(eq(memberships.studioId, studioId), eq(memberships.userId, userId)));
+  return m?.at ?? null;
+}
+
+/** Records that the member has seen their inbox now (the inbox page calls it once it has read what is unread). */
+export async function markInboxSeen(access: StudioAccess) {
+  await db().update(memberships).set({ inboxSeenAt: new Date() }).where(and(eq(memberships.studioId, access.studioId), eq(memberships.userId, access.userId)));
+}
+
+/**
+ * The user's shots waiting for their blocking (assignedWhere), each with when it was assigned to them: the latest
+ * audit entry that set them as assignee (else the shot's creation).
+ */
+async function assignedShots(studioId: number, userId: string) {
+  const rows = await db()
+    .select({ shotId: shots.id, shotCode: shots.code, showCode: shows.code, status: shots.status, dueDate: shots.dueDate, createdAt: shots.createdAt, description: shots.description })
+    .from(shots)
+    .innerJoin(shows, eq(shows.id, shots.showId))
+    .where(assignedWhere(studioId, userId))
+    .orderBy(asc(shots.dueDate), asc(shots.code))
+    .limit(200);
+  if (rows.length === 0) return [];
+  const entries = await db()
+    .select({ targetId: auditLog.targetId, detail: auditLog.detail, createdAt: auditLog.createdAt, actorName: users.name })
+    .from(auditLog)
+    .leftJoin(users, eq(users.id, auditLog.actorId))
+    .where(
+      and(
+        eq(auditLog.studioId, studioId),
+        eq(auditLog.targetType, 'shot'),
+        inArray(auditLog.action, ['shot.workflow', 'shot.update']),
+        inArray(auditLog.targetId, rows.map((r) => String(r.shotId))),
+        sql`JSON_UNQUOTE(JSON_EXTRACT(${auditLog.detail}, '$.assigneeId.to')) = ${userId}`,
+      ),
+    )
+    .orderBy(desc(auditLog.createdAt), desc(auditLog.id));
+  const latest = new Map<string, { at: Date; by: string | null }>();
+  for (const e of entries) if (e.targetId && !latest.has(e.targetId)) latest.set(e.targetId, { at: e.createdAt, by: e.actorName });
+  return rows.map((r) => {
+    const a = latest.get(String(r.shotId));
+    return {
+      shotId: r.shotId,
+      shotCode: r.shotCode,
+      showCode: r.showCode,
+      description: r.description,
+      dueDate: r.dueDate ? String(r.dueDate).slice(0, 10) : null,
+      assignedBy: a?.by ?? null,
+      at: (a?.at ?? r.createdAt).toISOString(),
+    };
+  });
 }
 
 // ── Compare ──────────────────────────────────────────────────────────────────────────────────────────────────────

@@ -82,6 +82,8 @@ export const memberships = mysqlTable(
       .notNull()
       .references(() => users.id, { onDelete: 'cascade' }),
     role: mysqlEnum('role', ROLES).notNull(),
+    /** When the member last opened their inbox in this studio: inbox items after it count as unread. */
+    inboxSeenAt: datetime('inbox_seen_at', { mode: 'date', fsp: 3 }),
     createdAt: createdAt(),
     updatedAt: updatedAt(),
   },
