@@ -141,7 +141,8 @@ export function describeActivity(e: ActivityItem): string {
 export function activityLine(e: ActivityItem): string {
   const words = describeActivity(e);
   if (e.action === 'bake.done' || e.action === 'bake.failed') {
-    return `${words[0].toUpperCase()}${words.slice(1)}${e.actorName ? ` (bake asked for by ${e.actorName})` : ''}`;
+    const opening = /^v\d/.test(words) ? words : `${words[0].toUpperCase()}${words.slice(1)}`;
+    return `${opening}${e.actorName ? ` (bake asked for by ${e.actorName})` : ''}`;
   }
   return `${e.actorName ?? 'Someone'} ${words}`;
 }
