@@ -1,6 +1,7 @@
 // The table of what changed between two versions' scenes (rows from src/lib/review/diff), grouped by area.
 import type { SceneChange } from '~/lib/review/diff';
 import { versionLabel } from '~/lib/vocab';
+import { fieldLabel } from '~/lib/scene/labels';
 
 const AREA_WORDS: Record<string, string> = {
   document: 'Document',
@@ -22,6 +23,27 @@ const KIND_TONE: Record<SceneChange['kind'], string> = {
   moved: 'bg-sand-deep text-ink-soft',
   reshaped: 'bg-sand-deep text-ink-soft',
 };
+
+/** A change as a studio reads it: "Timing · end frame changed from 1040 to 1060", "Spout “jet” added". */
+export function changeInWords(c: SceneChange): string {
+  const what = fieldLabel(c.path);
+  const small = (v: unknown) => (typeof v === 'number' || typeof v === 'string' || typeof v === 'boolean' ? show(v) : null);
+  switch (c.kind) {
+    case 'added':
+      return `${what} added`;
+    case 'removed':
+      return `${what} removed`;
+    case 'moved':
+      return c.offset ? `${what.replace(/ · shape$/, '')} moved ${Number(c.offset[0].toFixed(3))} m across and ${Number(c.offset[1].toFixed(3))} m up` : `${what} moved`;
+    case 'reshaped':
+      return `${what.replace(/ · shape$/, '')} changed shape`;
+    default: {
+      const before = small(c.before);
+      const after = small(c.after);
+      return before !== null && after !== null ? `${what} changed from ${before} to ${after}` : `${what} changed`;
+    }
+  }
+}
 
 const show = (v: unknown): string => {
   if (v === undefined) return '—';
@@ -54,10 +76,10 @@ export default function ChangeTable({ changes, counts, older, newer }: { changes
               {changes.map((c) => (
                 <tr key={`${c.path}-${c.kind}`} className="border-b border-sand-line/60 align-top" data-testid="change-row" data-kind={c.kind} data-path={c.path}>
                   <td className="py-2 pr-3 whitespace-nowrap">{AREA_WORDS[c.area] ?? c.area}</td>
-                  <td className="py-2 pr-3 font-mono text-xs">{c.objectId ?? c.path.split('.').slice(1).join('.')}</td>
+                  <td className="py-2 pr-3">{fieldLabel(c.path)}</td>
                   <td className="py-2 pr-3">
                     <span className={`rounded-full px-2 py-0.5 text-xs font-medium ${KIND_TONE[c.kind]}`}>{KIND_WORDS[c.kind]}</span>
-                    <span className="mt-1 block text-xs text-ink-soft">{c.summary}</span>
+                    <span className="mt-1 block text-xs text-ink-soft" data-testid="change-words">{changeInWords(c)}</span>
                   </td>
                   <td className="py-2 pr-3 font-mono text-xs break-all">{show(c.before)}</td>
                   <td className="py-2 font-mono text-xs break-all">{show(c.after)}</td>

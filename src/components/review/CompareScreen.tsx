@@ -28,6 +28,7 @@ export default function CompareScreen({ studioId, studioSlug, compare, frameRate
   const [wipe, setWipe] = useState(0.5);
   const [range, setRange] = useState<{ start: number; end: number } | null>(null);
   const [frame, setFrame] = useState<number | null>(null);
+  const [playing, setPlaying] = useState(false);
   const [error, setError] = useState<string | null>(null);
   const hostA = useRef<HTMLDivElement>(null);
   const hostB = useRef<HTMLDivElement>(null);
@@ -102,6 +103,20 @@ export default function CompareScreen({ studioId, studioSlug, compare, frameRate
     [range],
   );
 
+  // Playback: both sides step together at the shot's rate, looping over the frames both hold.
+  useEffect(() => {
+    if (!playing || !range) return;
+    const timer = window.setInterval(() => {
+      setFrame((f) => {
+        const next = f === null || f >= range.end ? range.start : f + 1;
+        const pair = engines.current;
+        if (pair) void Promise.all(pair.map((e) => e.show(next))).catch((err) => setError(messageOf(err)));
+        return next;
+      });
+    }, 1000 / fps);
+    return () => window.clearInterval(timer);
+  }, [playing, range, fps]);
+
   // Both engines watch their own host size; switching layout changes it.
   useEffect(() => {
     engines.current?.forEach((e) => e.resize());
@@ -112,15 +127,42 @@ export default function CompareScreen({ studioId, studioSlug, compare, frameRate
       const t = e.target as HTMLElement | null;
       if (t && ['INPUT', 'TEXTAREA', 'SELECT'].includes(t.tagName) && (t as HTMLInputElement).type !== 'range') return;
       if (frame === null) return;
-      if (e.key === 'ArrowRight') goTo(frame + (e.shiftKey ? 10 : 1));
-      else if (e.key === 'ArrowLeft') goTo(frame - (e.shiftKey ? 10 : 1));
-      else return;
+      if (e.key === ' ' && t?.tagName === 'BUTTON') return; // the focused button's own click
+      if (e.key === ' ') setPlaying((p) => !p);
+      else if (e.key === 'ArrowRight') {
+        setPlaying(false);
+        goTo(frame + (e.shiftKey ? 10 : 1));
+      } else if (e.key === 'ArrowLeft') {
+        setPlaying(false);
+        goTo(frame - (e.shiftKey ? 10 : 1));
+      } else return;
       e.preventDefault();
     };
     window.addEventListener('keydown', onKey);
     return () => window.removeEventListener('keydown', onKey);
   }, [frame, goTo]);
 
+  const pick = (side: 'a' | 'b', id: number) => {
+    const q = new URLSearchParams(window.location.search);
+    q.set(side, String(id));
+    window.location.assign(`/studios/${studioSlug}/compare?${q.toString()}`);
+  };
+  const picker = (side: 'a' | 'b', v: typeof a) => (
+    <select
+      className="field-input w-auto py-1 text-sm"
+      value={v.id}
+      aria-label={side === 'a' ? 'First version' : 'Second version'}
+      onChange={(e) => pick(side, Number(e.target.value))}
+      data-testid={`compare-pick-${side}`}
+    >
+      {compare.versions.map((o) => (
+        <option key={o.id} value={o.id} disabled={o.id === (side === 'a' ? b.id : a.id)}>
+          {versionLabel(o.number)} · {STATE_WORDS[o.reviewState] ?? o.reviewState}
+          {o.bakeState !== 'baked' ? ' · not baked' : ''}
+        </option>
+      ))}
+    </select>
+  );
   const label = (v: typeof a) => (
     <span className="flex items-center gap-2">
       <a className="font-semibold hover:underline" href={`/studios/${studioSlug}/versions/${v.id}${frame !== null ? `?frame=${frame}` : ''}`}>
@@ -134,8 +176,8 @@ export default function CompareScreen({ studioId, studioSlug, compare, frameRate
   return (
     <div className="space-y-6">
       <div className="flex flex-wrap items-center justify-between gap-3">
-        <div className="flex items-center gap-4 text-sm">
-          {label(a)} <span className="text-ink-muted">against</span> {label(b)}
+        <div className="flex flex-wrap items-center gap-3 text-sm">
+          {picker('a', a)} {label(a)} <span className="text-ink-muted">against</span> {picker('b', b)} {label(b)}
         </div>
         <div role="radiogroup" aria-label="Layout" className="flex gap-1 rounded-lg border border-sand-line bg-paper p-1">
           {(['wipe', 'side'] as const).map((m) => (
@@ -155,6 +197,7 @@ export default function CompareScreen({ studioId, studioSlug, compare, frameRate
       </div>
 
       {error && <FormMessage>{error}</FormMessage>}
+      <p className="text-xs text-ink-muted">Space plays and pauses both sides together; ← and → step a frame (Shift: ten).</p>
       {!bothBaked ? (
         <FormMessage tone="info">Both versions need a bake before their frames can be compared. The scene changes are listed below.</FormMessage>
       ) : (
@@ -186,6 +229,9 @@ export default function CompareScreen({ studioId, studioSlug, compare, frameRate
             </label>
           )}
           <label className="mt-3 flex items-center gap-3 text-sm">
+            <button type="button" className="btn-quiet shrink-0" disabled={!range} onClick={() => setPlaying((p) => !p)} aria-pressed={playing} data-testid="compare-play" title="Space">
+              {playing ? 'Pause' : 'Play'}
+            </button>
             <span className="shrink-0 text-ink-soft">Frame</span>
             <input
               type="range"
@@ -194,7 +240,10 @@ export default function CompareScreen({ studioId, studioSlug, compare, frameRate
               step={1}
               value={frame ?? range?.start ?? 0}
               disabled={!range}
-              onChange={(e) => goTo(Number(e.target.value))}
+              onChange={(e) => {
+                setPlaying(false);
+                goTo(Number(e.target.value));
+              }}
               className="w-full"
               data-testid="compare-frame"
             />

@@ -647,7 +647,14 @@ export async function compareVersions(locals: Locals, studioId: number, aId: num
   const shot = a.shot;
   const [show] = await db().select({ code: shows.code, name: shows.name }).from(shows).where(eq(shows.id, shot.showId));
   const changes = diffScenes(a.version.scene, b.version.scene);
+  // every version of the shot the reader may see, for the pickers
+  const pickable = await db()
+    .select({ id: versions.id, number: versions.number, reviewState: versions.reviewState, bakeState: versions.bakeState })
+    .from(versions)
+    .where(and(eq(versions.shotId, shot.id), eq(versions.studioId, access.studioId), ...(isClient(access) ? [inArray(versions.id, clientVersionIds(access))] : [])))
+    .orderBy(desc(versions.number));
   return {
+    versions: pickable,
     shot: {
       id: shot.id,
       code: shot.code,

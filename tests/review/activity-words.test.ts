@@ -1,0 +1,32 @@
+// Words of the shot activity and the compare table: what a studio reads instead of field names.
+import { describe, it, expect } from 'vitest';
+import { activityLine, shotFieldChange } from '../../src/lib/review/activity';
+import { changeInWords } from '../../src/components/review/ChangeTable';
+import { diffScenes } from '../../src/lib/review/diff';
+import { tinyScene } from '../support/scenes';
+
+describe('activity words', () => {
+  it('names a shot field as the form does, with its unit', () => {
+    expect(shotFieldChange('plateWidth', { from: 1920, to: 2048 })).toBe('Plate width changed from 1920 to 2048 px');
+    expect(shotFieldChange('headHandles', { from: 8, to: 12 })).toBe('Head handles changed from 8 to 12 frames');
+    expect(shotFieldChange('dueDate', { from: null, to: '2027-01-15T00:00:00.000Z' })).toBe('Due date set to 2027-01-15');
+    expect(shotFieldChange('description', { from: 'Crown splash', to: null })).toBe('Description cleared (was Crown splash)');
+  });
+  it('puts the actor in front, and a bake after its version', () => {
+    expect(activityLine({ action: 'version.return', actorName: 'Ines Falk', detail: { comment: 'crown too tall' }, versionNumber: 2 })).toBe('Ines Falk sent v002 back for changes: “crown too tall”');
+    expect(activityLine({ action: 'bake.failed', actorName: 'Tom Aro', detail: { error: 'out of memory' }, versionNumber: 4 })).toBe('The bake of v004 failed: out of memory (bake asked for by Tom Aro)');
+    expect(activityLine({ action: 'shot.update', actorName: null, detail: { plateWidth: { from: 1920, to: 2048 } } })).toBe('Someone changed the details: Plate width changed from 1920 to 2048 px');
+  });
+});
+
+describe('compare change words', () => {
+  it('says a timing change in the trade’s words, not the document path', () => {
+    const a = tinyScene() as any;
+    const b = structuredClone(a);
+    b.timing.endFrame = a.timing.endFrame + 5;
+    const rows = diffScenes(a, b);
+    const end = rows.find((r) => r.path === 'timing.endFrame');
+    expect(end).toBeDefined();
+    expect(changeInWords(end!)).toBe(`Timing · end frame changed from ${a.timing.endFrame} to ${a.timing.endFrame + 5}`);
+  });
+});
