@@ -1,0 +1,1 @@
+ALTER TABLE `memberships` ADD `inbox_seen_at` datetime(3);
