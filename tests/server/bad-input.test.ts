@@ -69,3 +69,26 @@ describe('bad input', () => {
     expect(await invitationCount()).toBe(0);
   });
 });
+
+describe('actions that take no fields read and check their body', () => {
+  const routes = ['/api/share-links/[linkId]/revoke', '/api/versions/[versionId]/bake/cancel', '/api/versions/[versionId]/exports/[assetId]/complete'];
+  for (const route of routes) {
+    it(`${route}: an unknown field → 400 naming it, a 2 KB body → 413, {} → not a 400`, async () => {
+      const { ENDPOINTS } = await import('./endpoints');
+      const e = ENDPOINTS.find((x) => x.route === route && x.method === 'POST')!;
+      const who = studio.members[e.access as 'supervisor' | 'artist'].client;
+      const path = await e.path(studio);
+      const unknown = await who.post(path, { reason: 'x' });
+      expect(unknown.status).toBe(400);
+      expect(unknown.body.error.code).toBe('validation_failed');
+      expect(Object.keys(unknown.body.error.fields)).toEqual(['reason']);
+      const notObject = await who.request('POST', path, undefined, '[1,2]');
+      expect(notObject.status).toBe(400);
+      const big = await who.request('POST', path, undefined, JSON.stringify({ pad: 'x'.repeat(2048) }));
+      expect(big.status).toBe(413);
+      // The empty body the app's own buttons send still works (exports: 409 as nothing was uploaded to the pending asset).
+      const ok = await who.post(path, {});
+      expect(ok.status, JSON.stringify(ok.body)).toBe(route.includes('exports') ? 409 : 200);
+    });
+  }
+});

@@ -126,6 +126,19 @@ async function discardRest(reader: ReadableStreamDefaultReader<Uint8Array>): Pro
   await reader.cancel().catch(() => {});
 }
 
+/** Limit of an action that takes no fields (revoke, cancel, complete): an empty body or `{}`, 1 KB at most. */
+export const EMPTY_BODY_BYTES = 1024;
+/** The body of an action that takes no fields: nothing, or `{}`; any field is refused by name. */
+export const emptyBody = z
+  .object({}, { invalid_type_error: 'must be an empty JSON object {}' })
+  .passthrough()
+  .superRefine((body, ctx) => {
+    for (const key of Object.keys(body)) ctx.addIssue({ code: z.ZodIssueCode.custom, path: [key], message: 'is not a field of this action (send an empty body or {})' });
+  });
+
+/** Reads and checks the body of an action that takes no fields (400 naming an unknown field, 413 past 1 KB). */
+export const readEmptyBody = (request: Request) => readJson(request, emptyBody, EMPTY_BODY_BYTES);
+
 /** Reads the request body as JSON and parses it with the schema; throws HttpError on bad input (413 past `maxBytes`). */
 export async function readJson<S extends ZodTypeAny>(request: Request, schema: S, maxBytes = MAX_JSON_BYTES): Promise<z.infer<S>> {
   const text = await readBodyText(request, maxBytes);
