@@ -136,4 +136,37 @@ describe('bake queue', () => {
     expect(r.job.error).toMatch(/more memory than a bake thread may use \(2 MB\)/);
     expect(worker.exitCode).toBeNull();
   });
+  it('a result under a lapsed lease that nobody claimed yet is refused; the next claim runs the job and clears the late objects', async () => {
+    // The lease rule (src/lib/bake/queue.ts holdsLease): held until lease_expires_at, not after; past it the job is
+    // the queue's. No worker process here: the calls are the ones a worker makes, with the lease made to lapse.
+    const { db } = t.m.db;
+    const { bakeJobs, bakeAttempts, assets } = t.m.schema;
+    const { putBytes, headObject } = await import('../../src/lib/server/storage');
+    const versionId = await makeVersion(tinyScene());
+    const { jobId } = await t.m.queue.enqueueBake(versionId, t.studioId, t.userId);
+    const a = (await t.m.queue.claimNext('worker-a'))!;
+    expect(a.jobId).toBe(jobId);
+    // While the lease holds, a renewal is accepted.
+    expect(await t.m.queue.renewLease(a.jobId, 'worker-a', 1)).toBe('ok');
+    await putBytes(a.keys.clip, new Uint8Array([1, 2, 3]), 'application/x-tidemark-clip');
+    await db().update(bakeJobs).set({ leaseExpiresAt: new Date(Date.now() - 60_000) }).where(eq(bakeJobs.id, jobId!));
+    const clip = { key: a.keys.clip, bytes: 3, sha256: 'f'.repeat(64), meta: {} };
+    expect(await t.m.queue.renewLease(a.jobId, 'worker-a', 2)).toBe('lost');
+    expect(await t.m.queue.completeJob(a, 'worker-a', clip, { key: a.keys.stats, bytes: 0 })).toBe(false);
+    expect(await t.m.queue.failAttempt(a, 'worker-a', 'late', true)).toBe('lost');
+    let r = await jobOf(versionId);
+    expect(r.version.clipAssetId).toBeNull();
+    expect(r.job.state).toBe('running'); // still the lapsed claim's until the queue gives it out again
+    const b = (await t.m.queue.claimNext('worker-b'))!;
+    expect(b.jobId).toBe(jobId);
+    expect(b.attempt).toBe(2);
+    const attempts = await db().select().from(bakeAttempts).where(eq(bakeAttempts.jobId, jobId!)).orderBy(bakeAttempts.attempt);
+    expect(attempts.map((x) => x.state)).toEqual(['lost', 'running']);
+    expect(await headObject(a.keys.clip)).toBeNull();
+    expect(await t.m.queue.completeJob(b, 'worker-b', { ...clip, key: b.keys.clip }, { key: b.keys.stats, bytes: 0 })).toBe(true);
+    r = await jobOf(versionId);
+    expect(r.job.state).toBe('done');
+    const clips = await db().select().from(assets).where(eq(assets.versionId, versionId));
+    expect(clips.map((c) => c.storageKey)).toEqual([b.keys.clip]);
+  });
 });

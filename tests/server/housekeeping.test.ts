@@ -32,3 +32,31 @@ describe('purge', () => {
     expect(await db().select().from(throttleHits).where(eq(throttleHits.id, Number(h2.insertId)))).toHaveLength(1);
   });
 });
+
+describe('pending uploads', () => {
+  it('an upload never completed expires: its row and its object are deleted; fresh pending and completed ones stay', async () => {
+    const { makeShot, makePng } = await import('./endpoints');
+    const { postUploadForm, uploadPngPlate } = await import('../support/plates');
+    const { assets } = await import('../../src/lib/server/db/schema');
+    const { headObject } = await import('../../src/lib/server/storage');
+    const studio = await makeStudio();
+    const shotId = await makeShot(studio);
+    const artist = studio.members.artist.client;
+    const png = makePng(8, 8);
+    const start = () => artist.post(`/api/studios/${studio.id}/shots/${shotId}/plates`, { fileName: 'p.png', contentType: 'image/png', byteSize: png.length });
+    const stale = await start();
+    expect((await postUploadForm(stale.body.upload, png, 'image/png')).status).toBeLessThan(300);
+    const fresh = await start();
+    const ready = await uploadPngPlate(studio, shotId, png);
+    const old = new Date(Date.now() - (RETENTION.pendingUploadsHours + 1) * 3600_000);
+    await db().update(assets).set({ createdAt: old }).where(inArray(assets.id, [stale.body.assetId, ready]));
+    expect(await headObject(stale.body.upload.fields.key)).not.toBeNull();
+    const res = await purgeOld();
+    expect(res.pendingUploads).toBeGreaterThanOrEqual(1);
+    const left = (await db().select({ id: assets.id }).from(assets).where(inArray(assets.id, [stale.body.assetId, fresh.body.assetId, ready]))).map((r) => r.id);
+    expect(left.sort((a, b) => a - b)).toEqual([fresh.body.assetId, ready].sort((a, b) => a - b));
+    expect(await headObject(stale.body.upload.fields.key)).toBeNull();
+    // The expired upload can no longer be completed.
+    expect((await artist.post(`/api/studios/${studio.id}/plates/${stale.body.assetId}/complete`, {})).status).toBe(404);
+  });
+});

@@ -108,16 +108,24 @@ async function drawThumbnail(file: File): Promise<Blob> {
   }
 }
 
-/** PUTs the file to the presigned URL and reports progress (0–1); resolves when the store answers 2xx. */
-function putWithProgress(url: string, headers: Record<string, string>, file: Blob, onProgress: (fraction: number) => void): Promise<void> {
+/** The presigned form an upload start answers with (S3 POST policy: key, type and size bound). */
+type UploadForm = { url: string; fields: Record<string, string> };
+
+/**
+ * Sends the file with the presigned form (its fields first, the file last, as the store requires) and reports
+ * progress (0–1); resolves when the store answers 2xx. A file larger than declared is refused by the store.
+ */
+function postWithProgress(upload: UploadForm, file: Blob, onProgress: (fraction: number) => void): Promise<void> {
   return new Promise((resolve, reject) => {
+    const form = new FormData();
+    for (const [k, v] of Object.entries(upload.fields)) form.append(k, v);
+    form.append('file', file);
     const xhr = new XMLHttpRequest();
-    xhr.open('PUT', url);
-    for (const [k, v] of Object.entries(headers)) xhr.setRequestHeader(k, v);
+    xhr.open('POST', upload.url);
     xhr.upload.onprogress = (e) => e.lengthComputable && onProgress(e.loaded / e.total);
     xhr.onload = () => (xhr.status >= 200 && xhr.status < 300 ? resolve() : reject(new Error(`The file store refused the upload (${xhr.status}). Please try again.`)));
     xhr.onerror = () => reject(new Error('The upload was interrupted. Check your connection and try again.'));
-    xhr.send(file);
+    xhr.send(form);
   });
 }
 
@@ -139,11 +147,11 @@ export default function PlatePanel({ studioId, shot, canUpload }: Props) {
   /** Draws the plate's thumbnail in this browser and uploads it through the thumbnail flow. */
   const sendThumbnail = async (file: File) => {
     const png = await drawThumbnail(file);
-    const started = await api<{ assetId: number; upload: { url: string; headers: Record<string, string> } }>(`/api/studios/${studioId}/shots/${shot.id}/plates`, {
+    const started = await api<{ assetId: number; upload: UploadForm }>(`/api/studios/${studioId}/shots/${shot.id}/plates`, {
       method: 'POST',
       body: { fileName: `${file.name.replace(/\.[^.]*$/, '')}-thumbnail.png`, contentType: 'image/png', byteSize: png.size, kind: 'thumbnail' },
     });
-    await putWithProgress(started.upload.url, started.upload.headers, png, () => undefined);
+    await postWithProgress(started.upload, png, () => undefined);
     await api(`/api/studios/${studioId}/plates/${started.assetId}/complete`, { method: 'POST', body: {} });
   };
 
@@ -169,11 +177,11 @@ export default function PlatePanel({ studioId, shot, canUpload }: Props) {
     try {
       setUpload({ name: file.name, fraction: 0, stage: 'sending' });
       const measured = isVideo(type) ? await measureVideo(file) : {};
-      const started = await api<{ assetId: number; upload: { url: string; headers: Record<string, string> } }>(`/api/studios/${studioId}/shots/${shot.id}/plates`, {
+      const started = await api<{ assetId: number; upload: UploadForm }>(`/api/studios/${studioId}/shots/${shot.id}/plates`, {
         method: 'POST',
         body: { fileName: file.name, contentType: type, byteSize: file.size, kind: 'plate' },
       });
-      await putWithProgress(started.upload.url, started.upload.headers, file, (fraction) => setUpload({ name: file.name, fraction, stage: 'sending' }));
+      await postWithProgress(started.upload, file, (fraction) => setUpload({ name: file.name, fraction, stage: 'sending' }));
       setUpload({ name: file.name, fraction: 1, stage: 'checking' });
       const completed = await api<{ asset: AssetInfo; thumbnail: { id: number } | null }>(`/api/studios/${studioId}/plates/${started.assetId}/complete`, {
         method: 'POST',

@@ -202,10 +202,20 @@ async function endAttempt(tx: Tx, attemptId: number, state: AttemptEnd) {
   await tx.update(bakeAttempts).set({ state, endedAt: sql`NOW(3)` as unknown as Date }).where(eq(bakeAttempts.id, attemptId));
 }
 
-/** Whether this claim is still the job's running attempt (under the job row's lock): the lease is still its own. */
+/**
+ * Whether this claim is still the job's running attempt (under the job row's lock): the lease is still its own.
+ * The lease rule, the same for every holder's call (renew, complete, fail, release, cancel): a lease is held until
+ * lease_expires_at and not a moment after, whether or not another worker has claimed the job yet — past it the job
+ * belongs to the queue (claimNext takes it), so a late result is refused and the attempt ends as lost.
+ */
 async function holdsLease(tx: Tx, job: ClaimedJob, workerId: string) {
-  const [row] = await tx.select().from(bakeJobs).where(eq(bakeJobs.id, job.jobId)).for('update');
-  if (!row || row.state !== 'running' || row.leaseOwner !== workerId) return null;
+  const [found] = await tx
+    .select({ row: bakeJobs, lapsed: sql<number>`${bakeJobs.leaseExpiresAt} IS NULL OR ${bakeJobs.leaseExpiresAt} < NOW(3)` })
+    .from(bakeJobs)
+    .where(eq(bakeJobs.id, job.jobId))
+    .for('update');
+  const row = found?.row;
+  if (!row || row.state !== 'running' || row.leaseOwner !== workerId || Number(found.lapsed)) return null;
   const [attempt] = await tx.select({ state: bakeAttempts.state }).from(bakeAttempts).where(eq(bakeAttempts.id, job.attemptId));
   return attempt?.state === 'running' ? row : null;
 }
@@ -248,13 +258,14 @@ async function auditBakeEnd(tx: Tx, jobId: number, versionId: number, action: 'b
   await tx.insert(auditLog).values({ studioId: job.studioId, actorId: job.requestedBy, action, targetType: 'version', targetId: String(versionId), detail: { jobId, ...detail } });
 }
 
-/** Renews the lease and records progress. Returns 'lost' when another worker owns the job now. */
+/** Renews the lease and records progress. Returns 'lost' when another worker owns the job now, or the lease lapsed. */
 export async function renewLease(jobId: number, workerId: string, framesDone: number): Promise<'ok' | 'lost' | 'cancel'> {
   const { leaseMs } = queueSettings();
   const [res] = await db()
     .update(bakeJobs)
     .set({ leaseExpiresAt: inMs(leaseMs) as unknown as Date, framesDone })
-    .where(and(eq(bakeJobs.id, jobId), eq(bakeJobs.leaseOwner, workerId), eq(bakeJobs.state, 'running')));
+    // A lapsed lease is not renewed (see holdsLease): the job is the queue's until it is claimed again.
+    .where(and(eq(bakeJobs.id, jobId), eq(bakeJobs.leaseOwner, workerId), eq(bakeJobs.state, 'running'), sql`${bakeJobs.leaseExpiresAt} >= NOW(3)`));
   if (res.affectedRows !== 1) return 'lost';
   const [row] = await db().select({ cancel: bakeJobs.cancelRequested }).from(bakeJobs).where(eq(bakeJobs.id, jobId));
   return row?.cancel ? 'cancel' : 'ok';
@@ -262,7 +273,8 @@ export async function renewLease(jobId: number, workerId: string, framesDone: nu
 
 /**
  * Records the baked clip (its stored size and SHA-256) and marks the job done — only if this attempt still holds
- * the lease. Refused (false) when another worker took the job or it was cancelled; the caller deletes its objects.
+ * the lease. Refused (false) when another worker took the job, the lease lapsed (even with nobody else claiming it
+ * yet) or it was cancelled; the caller deletes its objects.
  */
 export async function completeJob(
   job: ClaimedJob,

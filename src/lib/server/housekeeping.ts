@@ -1,10 +1,37 @@
-// Housekeeping on a schedule: throttle hits and sign-in attempts past any window, and finished bake jobs past the
-// retention (the newest job of each version is kept: the version page shows how its last bake ended).
-import { and, inArray, lt, sql } from 'drizzle-orm';
+// Housekeeping on a schedule: throttle hits and sign-in attempts past any window, finished bake jobs past the
+// retention (the newest job of each version is kept: the version page shows how its last bake ended), and uploads
+// (plates, thumbnails, exports) started but never completed: their rows and whatever reached the store.
+import { and, eq, inArray, lt, sql } from 'drizzle-orm';
 import { db } from './db';
-import { bakeJobs, signInAttempts, throttleHits } from './db/schema';
+import { assets, bakeJobs, signInAttempts, throttleHits } from './db/schema';
+import { deleteObject } from './storage';
 
-export const RETENTION = { throttleHitsHours: 48, signInAttemptsDays: 2, finishedJobsDays: 30 } as const;
+/**
+ * pendingUploadsHours: an upload form is valid 15 minutes, so after this long a pending upload can only be one whose
+ * completion never came (the browser closed, the check was never asked for).
+ */
+export const RETENTION = { throttleHitsHours: 48, signInAttemptsDays: 2, finishedJobsDays: 30, pendingUploadsHours: 6 } as const;
+
+/** Deletes uploads still pending at `before` and their objects (a missing object is fine); returns how many. */
+export async function purgeStaleUploads(before: Date): Promise<number> {
+  const stale = await db()
+    .select({ id: assets.id, storageKey: assets.storageKey })
+    .from(assets)
+    .where(and(inArray(assets.kind, ['plate', 'thumbnail', 'export']), lt(assets.createdAt, before), sql`JSON_VALUE(${assets.meta}, '$.state') = 'pending'`))
+    .limit(1000);
+  let purged = 0;
+  for (const a of stale) {
+    try {
+      // The object first: a row without its object is harmless, an object without its row would never be found again.
+      await deleteObject(a.storageKey);
+      await db().delete(assets).where(and(eq(assets.id, a.id), sql`JSON_VALUE(${assets.meta}, '$.state') = 'pending'`));
+      purged++;
+    } catch (err) {
+      console.error(`[housekeeping] could not purge pending upload ${a.id}: ${err instanceof Error ? err.message : err}`);
+    }
+  }
+  return purged;
+}
 
 /** Deletes what is past its retention at `now`; returns the number of rows deleted per table. */
 export async function purgeOld(now = new Date()) {
@@ -20,7 +47,8 @@ export async function purgeOld(now = new Date()) {
         sql`${bakeJobs.id} NOT IN (SELECT id FROM (SELECT max(id) AS id FROM bake_jobs GROUP BY version_id) AS newest)`,
       ),
     );
-  return { throttleHits: hits.affectedRows, signInAttempts: attempts.affectedRows, bakeJobs: jobs.affectedRows };
+  const pendingUploads = await purgeStaleUploads(before(RETENTION.pendingUploadsHours * 3600_000));
+  return { throttleHits: hits.affectedRows, signInAttempts: attempts.affectedRows, bakeJobs: jobs.affectedRows, pendingUploads };
 }
 
 /** Runs purgeOld every `everyMs` (first run after a minute); the timer never keeps the process alive. */

@@ -1,4 +1,4 @@
-// Plates: the browser uploads straight to the object store with a presigned PUT; the server checks the declared size
+// Plates: the browser uploads straight to the object store with a presigned POST bound to the declared size; the server checks the declared size
 // first, then on completion the real size, the real type by magic bytes and a still's dimensions, and only then makes
 // it the shot's current plate (versions keep the plate they were blocked on). A PNG or JPEG plate gets its thumbnail
 // made here (thumbnails.ts); for video and WebP the browser draws the first frame and uploads it as kind 'thumbnail'.
@@ -12,7 +12,7 @@ import { assets, shots } from './db/schema';
 import { HttpError } from './http';
 import type { StudioAccess } from './authz';
 import { audit } from './audit';
-import { deleteObject, getObject, headObject, presignGet, presignPut, putObject } from './storage';
+import { deleteObject, getObject, headObject, presignGet, presignPost, putObject } from './storage';
 import { getShotRow } from './library';
 import { canThumbnailOnServer, makeStillThumbnail } from './thumbnails';
 import { PLATE_LIMITS, STILL_TYPES, MB, type PlateUploadBody } from '../library/schemas';
@@ -84,7 +84,8 @@ async function makePlateThumbnail(studioId: number, shotId: number, plate: { sto
 
 /**
  * Starts an upload: refuses an oversize declaration (413) before anything is stored or signed, records a pending
- * asset and returns a presigned PUT URL for the browser (send the same Content-Type).
+ * asset and returns a presigned POST form for the browser (its policy allows 1…byteSize bytes of that type). A
+ * pending upload never completed expires: housekeeping deletes it and its object (purgeStaleUploads).
  */
 export async function startPlateUpload(access: StudioAccess, shotId: number, body: PlateUploadBody) {
   const shot = await getShotRow(access, shotId);
@@ -103,12 +104,13 @@ export async function startPlateUpload(access: StudioAccess, shotId: number, bod
     createdBy: access.userId,
   });
   const assetId = Number(res.insertId);
-  const uploadUrl = await presignPut(storageKey, body.contentType, UPLOAD_SECONDS);
+  // The form's policy lets the store take at most the declared size: the file checked on completion is that file.
+  const post = await presignPost(storageKey, body.contentType, body.byteSize, UPLOAD_SECONDS);
   await audit({ studioId: access.studioId, actorId: access.userId, action: `${body.kind}.upload_start`, targetType: 'asset', targetId: assetId, detail: { shotId, fileName: body.fileName, byteSize: body.byteSize } });
   return {
     assetId,
     kind: body.kind,
-    upload: { url: uploadUrl, method: 'PUT' as const, headers: { 'content-type': body.contentType }, expiresInSeconds: UPLOAD_SECONDS },
+    upload: { url: post.url, method: 'POST' as const, fields: post.fields, maxBytes: body.byteSize, expiresInSeconds: UPLOAD_SECONDS },
   };
 }
 
@@ -144,7 +146,7 @@ export async function completePlateUpload(
   await getShotRow(access, asset.shotId!);
   const kind = asset.kind as 'plate' | 'thumbnail';
   const head = await headObject(asset.storageKey);
-  if (!head) throw new HttpError('conflict', 'No file has arrived for this upload yet: PUT it to the upload URL first');
+  if (!head) throw new HttpError('conflict', 'No file has arrived for this upload yet: send it to the upload form first');
 
   const refuse = async (err: HttpError) => {
     await deleteObject(asset.storageKey).catch(() => undefined);
@@ -155,6 +157,10 @@ export async function completePlateUpload(
 
   const limit = sizeLimit(kind, asset.contentType);
   if (head.size > limit) throw await refuse(tooLarge(`"${meta.fileName}"`, limit));
+  // A store that does not enforce the form's content-length-range still cannot slip a larger file past the check.
+  if (head.size > meta.declaredSize) {
+    throw await refuse(new HttpError('payload_too_large', `"${meta.fileName}" is ${head.size} bytes, more than the ${meta.declaredSize} declared`, { byteSize: `the file sent is larger than the ${meta.declaredSize} bytes declared` }));
+  }
   if (head.size === 0) throw await refuse(new HttpError('unprocessable', `"${meta.fileName}" is empty`));
 
   const bytes = await getObject(asset.storageKey, [0, Math.min(head.size, HEADER_BYTES) - 1]);

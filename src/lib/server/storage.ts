@@ -14,6 +14,7 @@ import { createHash } from 'node:crypto';
 import type { Readable } from 'node:stream';
 import { Upload } from '@aws-sdk/lib-storage';
 import { getSignedUrl } from '@aws-sdk/s3-request-presigner';
+import { createPresignedPost } from '@aws-sdk/s3-presigned-post';
 import { config } from './config';
 
 let client: S3Client | undefined;
@@ -169,4 +170,22 @@ export async function presignGetShared(key: string, seconds = 900): Promise<stri
 /** A short-lived URL the browser can PUT one object to, with the given content type. */
 export function presignPut(key: string, contentType: string, seconds = 900): Promise<string> {
   return getSignedUrl(s3(), new PutObjectCommand({ Bucket: bucket(), Key: key, ContentType: contentType }), { expiresIn: seconds });
+}
+
+/**
+ * A short-lived form upload (S3 presigned POST) of one object: the policy binds the key, the content type and the
+ * size (`content-length-range` 1…maxBytes), so the store itself refuses a larger file. The browser sends `fields`
+ * first, then the file as the form's last field named `file`.
+ */
+export async function presignPost(key: string, contentType: string, maxBytes: number, seconds = 900): Promise<{ url: string; fields: Record<string, string> }> {
+  return createPresignedPost(s3(), {
+    Bucket: bucket(),
+    Key: key,
+    Conditions: [
+      ['content-length-range', 1, maxBytes],
+      ['eq', '$Content-Type', contentType],
+    ],
+    Fields: { 'Content-Type': contentType },
+    Expires: seconds,
+  });
 }
