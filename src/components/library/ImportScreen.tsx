@@ -1,6 +1,7 @@
 // Import shots into a show from an edit: paste or open a CMX 3600 EDL or a CSV, choose how codes and frames are made,
-// preview what would be created, changed (old → new frame range) or left alone and which lines could not be read,
-// then confirm (one transaction on the server).
+// preview what would be created, changed (old → new frame range) or left alone, which events make no shot (sound,
+// black) and which lines could not be read; adjust the default codes, tick range changes of approved shots, then
+// confirm (one transaction on the server).
 import { useRef, useState } from 'react';
 import { useForm } from 'react-hook-form';
 import { zodResolver } from '@hookform/resolvers/zod';
@@ -12,7 +13,7 @@ import { InputField, toNumber } from './fields';
 import { CutRange, handlesText } from './CutRange';
 import { rateText } from '~/lib/timecode';
 import { DEFAULT_FIRST_FRAME, DEFAULT_HANDLES } from '~/lib/library/handles';
-import type { ShotSource } from '~/lib/edl/preview';
+import type { ShotSource, SkippedEvent } from '~/lib/edl/preview';
 import type { ShowDetail, Viewer } from './types';
 
 type Input = z.input<typeof importBody>;
@@ -37,13 +38,15 @@ interface Planned {
 interface Preview {
   frameRate: string;
   create: (Planned & { description: string | null })[];
-  update: { id: number; line: number; code: string; from: Range; to: Range; source?: ShotSource }[];
+  update: { id: number; line: number; code: string; from: Range; to: Range; source?: ShotSource; approved: boolean }[];
   unchanged: (Planned & { id: number })[];
   errors: { line: number; message: string }[];
-  summary: { create: number; update: number; unchanged: number; errors: number };
+  skipped: SkippedEvent[];
+  summary: { create: number; update: number; unchanged: number; errors: number; skipped: number; approvedChanges: number };
 }
 interface Done {
   created: { id: number; code: string }[];
+  kept: { id: number; code: string }[];
   summary: Preview['summary'];
 }
 
@@ -54,6 +57,10 @@ export default function ImportScreen({ viewer, show }: { viewer: Viewer; show: S
   const [done, setDone] = useState<Done | null>(null);
   const [skipErrors, setSkipErrors] = useState(false);
   const [confirming, setConfirming] = useState(false);
+  /** Codes typed over the defaults, by line; sent with the next preview and the confirm. */
+  const [codes, setCodes] = useState<Record<string, string>>({});
+  /** Approved shots whose range change the user ticked. */
+  const [ticked, setTicked] = useState<Set<number>>(new Set());
   const fileInput = useRef<HTMLInputElement>(null);
   const form = useForm<Input, unknown, Output>({
     resolver: zodResolver(importBody),
@@ -63,7 +70,9 @@ export default function ImportScreen({ viewer, show }: { viewer: Viewer; show: S
   const codeFrom = form.watch('options.codeFrom');
   const format = form.watch('format');
   const current = JSON.stringify(form.watch());
-  const stale = preview !== null && JSON.stringify({ ...preview.body, skipErrors: false }) !== JSON.stringify({ ...JSON.parse(current), skipErrors: false });
+  const withCodes = (values: Output): Output => (Object.keys(codes).length ? { ...values, options: { ...values.options, codes } } : values);
+  const stale =
+    preview !== null && JSON.stringify({ ...preview.body, skipErrors: false }) !== JSON.stringify({ ...withCodes(JSON.parse(current) as Output), skipErrors: false });
 
   const onFile = async (file: File | undefined) => {
     if (!file) return;
@@ -81,9 +90,11 @@ export default function ImportScreen({ viewer, show }: { viewer: Viewer; show: S
     setMessage('');
     setDone(null);
     try {
-      const answer = await api<{ preview: Preview }>(`/api/studios/${studioId}/shows/${show.id}/import/preview`, { method: 'POST', body: { ...values, skipErrors: false } });
-      setPreview({ data: answer.preview, body: values });
+      const body = withCodes(values);
+      const answer = await api<{ preview: Preview }>(`/api/studios/${studioId}/shows/${show.id}/import/preview`, { method: 'POST', body: { ...body, skipErrors: false } });
+      setPreview({ data: answer.preview, body });
       setSkipErrors(false);
+      setTicked(new Set());
     } catch (err) {
       setPreview(null);
       setMessage(applyServerError(err, form.setError, FIELDS));
@@ -95,9 +106,13 @@ export default function ImportScreen({ viewer, show }: { viewer: Viewer; show: S
     setConfirming(true);
     setMessage('');
     try {
-      const answer = await api<{ import: Done }>(`/api/studios/${studioId}/shows/${show.id}/import/confirm`, { method: 'POST', body: { ...preview.body, skipErrors } });
+      const answer = await api<{ import: Done }>(`/api/studios/${studioId}/shows/${show.id}/import/confirm`, {
+        method: 'POST',
+        body: { ...preview.body, skipErrors, confirmApproved: [...ticked] },
+      });
       setDone(answer.import);
       setPreview(null);
+      setCodes({});
     } catch (err) {
       setMessage(err instanceof ApiError ? err.message : applyServerError(err, form.setError, FIELDS));
     } finally {
@@ -208,8 +223,14 @@ export default function ImportScreen({ viewer, show }: { viewer: Viewer; show: S
             <h3 className="text-lg font-semibold">Imported into {show.code}</h3>
             <p className="text-ink-soft">
               {done.summary.create} created · {done.summary.update} frame ranges changed · {done.summary.unchanged} unchanged
-              {done.summary.errors ? ` · ${done.summary.errors} lines skipped` : ''}.
+              {done.summary.errors ? ` · ${done.summary.errors} lines skipped` : ''}
+              {done.summary.skipped ? ` · ${done.summary.skipped} events made no shot` : ''}.
             </p>
+            {done.kept.length > 0 && (
+              <p className="text-sm text-amber-800" data-testid="import-kept">
+                Approved and not ticked, so their frame ranges were kept: <span className="break-all">{done.kept.map((k) => k.code).join(', ')}</span>.
+              </p>
+            )}
             <a className="btn-primary" href={`/studios/${studioSlug}/shows/${show.id}`}>
               See the shots
             </a>
@@ -231,7 +252,15 @@ export default function ImportScreen({ viewer, show }: { viewer: Viewer; show: S
               <SummaryPill tone="bg-amber-50 text-amber-800" n={p.summary.update} word="to change" />
               <SummaryPill tone="bg-sand-deep text-ink-soft" n={p.summary.unchanged} word="unchanged" />
               <SummaryPill tone="bg-coral-50 text-coral-700" n={p.summary.errors} word={p.summary.errors === 1 ? 'line with an error' : 'lines with errors'} />
+              {p.summary.skipped > 0 && <SummaryPill tone="bg-sand-deep text-ink-soft" n={p.summary.skipped} word={p.summary.skipped === 1 ? 'event skipped' : 'events skipped'} />}
             </ul>
+
+            {p.summary.approvedChanges > 0 && (
+              <p className="rounded-lg border border-amber-200 bg-amber-50 p-3 text-sm text-amber-900" data-testid="import-approved-warning">
+                {p.summary.approvedChanges === 1 ? 'One approved shot' : `${p.summary.approvedChanges} approved shots`} would change frame range. Its
+                approved work was made for the old range: tick each one you mean to change; unticked ones keep their range.
+              </p>
+            )}
 
             {p.errors.length > 0 && (
               <div className="rounded-lg border border-coral-100 bg-coral-50 p-4" data-testid="import-errors">
@@ -244,6 +273,26 @@ export default function ImportScreen({ viewer, show }: { viewer: Viewer; show: S
                   ))}
                 </ul>
               </div>
+            )}
+
+            {p.skipped.length > 0 && (
+              <details className="rounded-lg border border-sand-line bg-paper p-4" data-testid="import-skipped" open={p.skipped.length <= 6}>
+                <summary className="cursor-pointer text-sm font-semibold">Events that make no shot ({p.skipped.length})</summary>
+                <ul className="mt-2 space-y-1 text-sm text-ink-soft">
+                  {p.skipped.map((e) => (
+                    <li key={e.line} data-line={e.line}>
+                      <span className="font-mono font-semibold">Line {e.line}</span>, event {e.event}
+                      {e.clipName ? (
+                        <>
+                          {' '}
+                          (<span className="break-all">{e.clipName}</span>)
+                        </>
+                      ) : null}
+                      : skipped, {e.reason}.
+                    </li>
+                  ))}
+                </ul>
+              </details>
             )}
 
             <div className="card overflow-x-auto">
@@ -266,11 +315,46 @@ export default function ImportScreen({ viewer, show }: { viewer: Viewer; show: S
                 </thead>
                 <tbody className="divide-y divide-sand-line/70">
                   {[
-                    ...p.create.map((s) => ({ line: s.line, key: `c${s.line}`, row: <PlanRow kind="create" shot={s} rate={p.frameRate} note={s.source?.clipName ?? undefined} /> })),
+                    ...p.create.map((s) => ({
+                      line: s.line,
+                      key: `c${s.line}`,
+                      row: (
+                        <PlanRow
+                          kind="create"
+                          shot={s}
+                          rate={p.frameRate}
+                          note={s.source?.clipName ?? undefined}
+                          // EDL codes made from the clip name can be adjusted here (a CSV row names its own code).
+                          onCode={preview?.body.format === 'edl' ? (code) => setCodes((c) => ({ ...c, [String(s.line)]: code })) : undefined}
+                          codeValue={codes[String(s.line)]}
+                        />
+                      ),
+                    })),
                     ...p.update.map((u) => ({
                       line: u.line,
                       key: `u${u.line}`,
-                      row: <PlanRow kind="update" shot={{ line: u.line, code: u.code, firstFrame: u.to.first, lastFrame: u.to.last, headHandles: u.to.headHandles, tailHandles: u.to.tailHandles, source: u.source }} rate={p.frameRate} from={u.from} />,
+                      row: (
+                        <PlanRow
+                          kind="update"
+                          shot={{ line: u.line, code: u.code, firstFrame: u.to.first, lastFrame: u.to.last, headHandles: u.to.headHandles, tailHandles: u.to.tailHandles, source: u.source }}
+                          rate={p.frameRate}
+                          from={u.from}
+                          approved={
+                            u.approved
+                              ? {
+                                  ticked: ticked.has(u.id),
+                                  onTick: (on) =>
+                                    setTicked((t) => {
+                                      const next = new Set(t);
+                                      if (on) next.add(u.id);
+                                      else next.delete(u.id);
+                                      return next;
+                                    }),
+                                }
+                              : undefined
+                          }
+                        />
+                      ),
                     })),
                     ...p.unchanged.map((s) => ({ line: s.line, key: `n${s.line}`, row: <PlanRow kind="unchanged" shot={s} rate={p.frameRate} /> })),
                   ]
@@ -291,7 +375,12 @@ export default function ImportScreen({ viewer, show }: { viewer: Viewer; show: S
 
             <div className="card flex flex-wrap items-center gap-3 p-4">
               {stale ? (
-                <p className="flex-1 text-sm text-amber-800">The list or options changed since this preview: preview again before importing.</p>
+                <p className="flex-1 text-sm text-amber-800">
+                  The list, options or codes changed since this preview: preview again before importing.{' '}
+                  <button type="button" className="link" onClick={() => void runPreview()}>
+                    Preview again
+                  </button>
+                </p>
               ) : nothingToDo ? (
                 <p className="flex-1 text-sm text-ink-soft">Nothing to import: every readable shot already matches.</p>
               ) : p.errors.length > 0 ? (
@@ -301,7 +390,8 @@ export default function ImportScreen({ viewer, show }: { viewer: Viewer; show: S
                 </label>
               ) : (
                 <p className="flex-1 text-sm text-ink-soft">
-                  {p.summary.create} to create, {p.summary.update} to change, in one go.
+                  {p.summary.create} to create, {p.summary.update - p.summary.approvedChanges + ticked.size} to change, in one go
+                  {p.summary.approvedChanges > ticked.size ? ` (${p.summary.approvedChanges - ticked.size} approved kept as they are)` : ''}.
                 </p>
               )}
               <button type="button" className="btn-primary" disabled={stale || !!nothingToDo || confirming || (p.errors.length > 0 && !skipErrors)} onClick={() => void confirm()}>
@@ -334,20 +424,65 @@ const KIND = {
   unchanged: { label: 'unchanged', mark: '=', tone: 'text-ink-muted' },
 } as const;
 
-function PlanRow({ kind, shot, rate, from, note }: { kind: keyof typeof KIND; shot: Planned; rate: string; from?: Range; note?: string }) {
+function PlanRow({
+  kind,
+  shot,
+  rate,
+  from,
+  note,
+  onCode,
+  codeValue,
+  approved,
+}: {
+  kind: keyof typeof KIND;
+  shot: Planned;
+  rate: string;
+  from?: Range;
+  note?: string;
+  /** When given, the code is an input the user may adjust (its default came from the clip name). */
+  onCode?: (code: string) => void;
+  codeValue?: string;
+  /** An approved shot's range change: shown with a tick box; unticked, the shot keeps its range. */
+  approved?: { ticked: boolean; onTick: (on: boolean) => void };
+}) {
   const k = KIND[kind];
   return (
-    <tr data-kind={kind} className={kind === 'unchanged' ? 'text-ink-muted' : ''}>
-      <td className="px-3 py-2 pl-5 font-mono text-xs text-ink-muted">{shot.line}</td>
-      <td className="px-3 py-2">
-        <span className="font-semibold">{shot.code}</span>
-        {note && <span className="block text-xs text-ink-muted">{note}</span>}
+    <tr data-kind={kind} data-approved={approved ? 'true' : undefined} className={kind === 'unchanged' ? 'text-ink-muted' : approved ? 'bg-amber-50/60' : ''}>
+      <td className="px-3 py-2 pl-5 align-top font-mono text-xs text-ink-muted">{shot.line}</td>
+      <td className="max-w-[16rem] px-3 py-2 align-top">
+        {onCode ? (
+          <input
+            className="field-input w-full py-1 font-mono text-sm font-semibold"
+            aria-label={`Code of line ${shot.line}`}
+            value={codeValue ?? shot.code}
+            maxLength={64}
+            spellCheck={false}
+            onChange={(e) => onCode(e.target.value)}
+          />
+        ) : (
+          <span className="block truncate font-semibold" title={shot.code}>
+            {shot.code}
+          </span>
+        )}
+        {note && (
+          <span className="block truncate text-xs text-ink-muted" title={note}>
+            from {note}
+          </span>
+        )}
       </td>
-      <td className={`px-3 py-2 whitespace-nowrap ${k.tone}`}>
-        <span aria-hidden="true" className="mr-1.5 inline-block w-3 text-center font-semibold">
-          {k.mark}
+      <td className={`px-3 py-2 align-top ${k.tone}`}>
+        <span className="whitespace-nowrap">
+          <span aria-hidden="true" className="mr-1.5 inline-block w-3 text-center font-semibold">
+            {k.mark}
+          </span>
+          {k.label}
         </span>
-        {k.label}
+        {approved && (
+          <label className="mt-1 flex items-start gap-1.5 text-xs font-medium text-amber-900">
+            <input type="checkbox" className="mt-0.5 size-3.5 accent-amber-700" checked={approved.ticked} onChange={(e) => approved.onTick(e.target.checked)} />
+            <span>Approved shot: change its range anyway</span>
+          </label>
+        )}
       </td>
       <td className="px-3 py-2 pr-5 whitespace-nowrap">
         {from && (

@@ -3,7 +3,7 @@ import { useState } from 'react';
 import { useForm } from 'react-hook-form';
 import { zodResolver } from '@hookform/resolvers/zod';
 import type { z } from 'zod';
-import { showCreate } from '~/lib/library/schemas';
+import { showCreate, SHOW_CODE_MAX } from '~/lib/library/schemas';
 import { FRAME_RATES, rateText } from '~/lib/timecode';
 import { api } from '../shared/api';
 import { applyServerError, FormMessage, SubmitButton } from '../shared/form';
@@ -39,7 +39,7 @@ export default function ShowForm({ studioId, show, onSaved, onCancel }: { studio
     <form onSubmit={submit} noValidate className="space-y-4" aria-label={show ? 'Edit show' : 'New show'}>
       <FormMessage>{message}</FormMessage>
       <div className="grid gap-4 sm:grid-cols-3">
-        <InputField label="Code" registration={form.register('code')} error={errors.code?.message} hint="Short, e.g. HBR" autoFocus />
+        <InputField label="Code" registration={form.register('code')} error={errors.code?.message} hint={`Short: up to ${SHOW_CODE_MAX} characters, e.g. HBR`} autoFocus />
         <InputField label="Name" className="sm:col-span-2" registration={form.register('name')} error={errors.name?.message} />
       </div>
       <SelectField

@@ -7,6 +7,8 @@ export {
   previewImport,
   fillPattern,
   codeFromClipName,
+  skipReason,
+  type SkippedEvent,
   type PlanOptions,
   type PlannedShot,
   type ShotSource,
@@ -24,7 +26,7 @@ export function previewText(format: 'edl' | 'csv', text: string, rate: FrameRate
   if (format === 'edl') {
     const parsed = parseCmx3600(text, rate);
     const plan = planFromEdl(parsed, options);
-    return { title: parsed.title, ...previewImport(existing, plan.shots, plan.errors) };
+    return { title: parsed.title, ...previewImport(existing, plan.shots, plan.errors, undefined, plan.skipped) };
   }
   const plan = planFromCsv(parseShotCsv(text, rate), options);
   return { title: null, ...previewImport(existing, plan.shots, plan.errors) };

@@ -1,7 +1,7 @@
 // Turns parsed edit lists and shot lists into a plan against a show's existing shots: which shots would be created,
 // which change frame range (re-import of an updated edit), which stay as they are, and which lines have errors.
 import { CODE_PATTERN } from '../library/schemas';
-import { isPictureEvent, type EdlLineError, type ParsedEdl } from './cmx3600';
+import { isPictureEvent, type EdlEvent, type EdlLineError, type ParsedEdl } from './cmx3600';
 import type { ParsedCsv } from './csv';
 import type { HandleConvention } from '../vocab';
 import { cutInFrame } from '../library/handles';
@@ -20,6 +20,18 @@ export interface PlanOptions {
    * startFrame + head handles; 'cut-in' puts it on the cut in, with the head handles before it.
    */
   convention?: HandleConvention;
+  /** Codes the user typed over the defaults in the preview, by the event's line number in the text. */
+  codes?: Record<string, string>;
+}
+
+/** An edit event that makes no shot, with the reason in words. */
+export interface SkippedEvent {
+  line: number;
+  event: string;
+  reel: string;
+  track: string;
+  clipName: string | null;
+  reason: string;
 }
 
 export interface PlannedShot {
@@ -48,6 +60,8 @@ export interface ShotSource {
 export interface ExistingShot {
   id: number;
   code: string;
+  /** The shot is approved (its status, or an approved version): a range change needs an explicit tick. */
+  approved?: boolean;
   firstFrame: number;
   lastFrame: number;
   headHandles: number;
@@ -64,15 +78,42 @@ export interface FrameRange {
 
 export interface ImportPreview {
   create: PlannedShot[];
-  update: { id: number; line: number; code: string; from: FrameRange; to: FrameRange; source?: ShotSource }[];
+  /** `approved`: the shot is approved; the change is applied only when the confirm ticks it (confirmApproved). */
+  update: { id: number; line: number; code: string; from: FrameRange; to: FrameRange; source?: ShotSource; approved: boolean }[];
   unchanged: { id: number; line: number; code: string; firstFrame: number; lastFrame: number; headHandles: number; tailHandles: number; source?: ShotSource }[];
   errors: EdlLineError[];
+  /** Events of the edit that make no shot (sound, black, zero length), with the reason. */
+  skipped: SkippedEvent[];
 }
 
-/** Strips a file extension and replaces characters a shot code may not hold with '_'. */
+/**
+ * Plate and take suffixes stripped from a clip name for the default code, repeatedly from the end: a version
+ * number (_v01, -v2), and the plate words plate, bg, fg, el, cln/clean, src (common practice (no source)).
+ */
+const CLIP_SUFFIX = /[_.-](?:v\d{1,4}|plate|plt|bg|fg|el\d*|cln|clean|src)$/i;
+
+/**
+ * The default shot code of a clip name: the file extension and common plate suffixes removed
+ * (`PR_0010_plate_v01.exr` → `PR_0010`), and characters a shot code may not hold replaced with '_'.
+ */
 export function codeFromClipName(clip: string): string {
-  const base = clip.trim().replace(/\.[A-Za-z0-9]{2,5}$/, '');
-  return base.replace(/[^A-Za-z0-9_.-]+/g, '_').replace(/^[^A-Za-z0-9]+/, '');
+  let base = clip.trim().replace(/\.[A-Za-z][A-Za-z0-9]{1,4}$/, '');
+  for (let guard = 0; guard < 8; guard++) {
+    const next = base.replace(CLIP_SUFFIX, '');
+    // Never strip the whole name away ("plate_v01" alone keeps "plate").
+    if (next === base || !/[A-Za-z0-9]/.test(next)) break;
+    base = next;
+  }
+  return base.replace(/[^A-Za-z0-9_.-]+/g, '_').replace(/^[^A-Za-z0-9]+/, '').replace(/[_.-]+$/, '');
+}
+
+/** Why an edit event makes no shot, or null for a picture event (see isPictureEvent). */
+export function skipReason(ev: EdlEvent): string | null {
+  if (isPictureEvent(ev)) return null;
+  const reel = ev.reel.toUpperCase();
+  if (!ev.track.toUpperCase().includes('V')) return `sound only (track ${ev.track}): no picture to make a shot of`;
+  if (reel === 'BL' || reel === 'BLK' || reel === 'BLACK') return `black (reel ${ev.reel}): filler, not a shot`;
+  return 'no length: its record out is not after its record in';
 }
 
 /** Fills a code pattern: "CNB_{n:03}0" with n = 2 → "CNB_0020". Unknown placeholders throw. */
@@ -94,16 +135,24 @@ function rangeFromRecord(inFrame: number, outFrame: number, options: PlanOptions
   return { firstFrame, lastFrame: firstFrame + (outFrame - inFrame) - 1 };
 }
 
-/** Plans one shot per picture event of an edit list. */
-export function planFromEdl(parsed: ParsedEdl, options: PlanOptions): { shots: PlannedShot[]; errors: EdlLineError[] } {
+/** Plans one shot per picture event of an edit list; the other events are listed as skipped with the reason. */
+export function planFromEdl(parsed: ParsedEdl, options: PlanOptions): { shots: PlannedShot[]; errors: EdlLineError[]; skipped: SkippedEvent[] } {
   const shots: PlannedShot[] = [];
   const errors: EdlLineError[] = [...parsed.errors];
   let n = 0;
+  const skipped: SkippedEvent[] = [];
   for (const ev of parsed.events) {
-    if (!isPictureEvent(ev)) continue;
+    const reason = skipReason(ev);
+    if (reason) {
+      skipped.push({ line: ev.line, event: ev.event, reel: ev.reel, track: ev.track, clipName: ev.clipName, reason });
+      continue;
+    }
     n++;
+    const typed = options.codes?.[String(ev.line)]?.trim();
     let code: string;
-    if (options.codeFrom === 'pattern') {
+    if (typed) {
+      code = typed;
+    } else if (options.codeFrom === 'pattern') {
       try {
         code = fillPattern(options.pattern ?? '', { n, event: ev.event, reel: ev.reel, clip: ev.clipName });
       } catch (e) {
@@ -127,7 +176,7 @@ export function planFromEdl(parsed: ParsedEdl, options: PlanOptions): { shots: P
       source: { event: ev.event, reel: ev.reel, clipName: ev.clipName, sourceIn: ev.sourceIn, recordIn: ev.recordIn, recordOut: ev.recordOut },
     });
   }
-  return { shots, errors };
+  return { shots, errors, skipped };
 }
 
 /** Plans one shot per CSV row: frame rows keep their numbers; timecode rows are placed like edit events. */
@@ -158,10 +207,10 @@ export function planFromCsv(parsed: ParsedCsv, options: PlanOptions): { shots: P
  * Compares planned shots with the show's shots by code: new codes are created, known codes with another frame
  * range or handles are updated, the rest are unchanged. Bad or repeated codes become errors on their line.
  */
-export function previewImport(existing: ExistingShot[], planned: PlannedShot[], parseErrors: EdlLineError[] = [], maxCodeLength = 64): ImportPreview {
+export function previewImport(existing: ExistingShot[], planned: PlannedShot[], parseErrors: EdlLineError[] = [], maxCodeLength = 64, skipped: SkippedEvent[] = []): ImportPreview {
   const byCode = new Map(existing.map((s) => [s.code.toLowerCase(), s]));
   const seen = new Map<string, number>();
-  const result: ImportPreview = { create: [], update: [], unchanged: [], errors: [...parseErrors] };
+  const result: ImportPreview = { create: [], update: [], unchanged: [], errors: [...parseErrors], skipped };
   for (const shot of planned) {
     const key = shot.code.toLowerCase();
     if (!shot.code || !CODE_PATTERN.test(shot.code) || shot.code.length > maxCodeLength) {
@@ -191,6 +240,7 @@ export function previewImport(existing: ExistingShot[], planned: PlannedShot[], 
         from: { first: old.firstFrame, last: old.lastFrame, headHandles: old.headHandles, tailHandles: old.tailHandles },
         to: { first: shot.firstFrame, last: shot.lastFrame, headHandles: shot.headHandles, tailHandles: shot.tailHandles },
         ...(shot.source ? { source: shot.source } : {}),
+        approved: !!old.approved,
       });
     } else {
       result.unchanged.push({

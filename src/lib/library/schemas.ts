@@ -20,7 +20,9 @@ const code = (max: number) =>
     .max(max, `is too long (${max} characters at most)`)
     .regex(CODE_PATTERN, 'may contain only letters, digits, "_", "-" and "." and must start with a letter or digit');
 
-export const showCode = code(32);
+/** A show code: short (the form's hint says so), 16 characters at most. */
+export const SHOW_CODE_MAX = 16;
+export const showCode = code(SHOW_CODE_MAX);
 export const shotCode = code(64);
 
 export const frameRate = z.enum(FRAME_RATES, { errorMap: () => ({ message: `must be one of ${FRAME_RATES.join(', ')}` }) });
@@ -219,6 +221,11 @@ export const importOptions = z
     headHandles: handles.default(DEFAULT_HANDLES),
     tailHandles: handles.default(DEFAULT_HANDLES),
     startFrame: frame.default(DEFAULT_FIRST_FRAME),
+    /** Codes typed over the defaults in the preview, by the event's line number in the edit (checked like any code). */
+    codes: z
+      .record(z.string().regex(/^\d{1,7}$/, 'must be a line number'), z.string(req).trim().max(200, 'is too long (200 characters at most)'))
+      .refine((r) => Object.keys(r).length <= 5000, 'names too many lines')
+      .optional(),
   })
   .refine((o) => o.codeFrom !== 'pattern' || o.pattern, { message: 'is required when codes come from a pattern', path: ['pattern'] });
 export type ImportOptions = z.infer<typeof importOptions>;
@@ -229,6 +236,8 @@ export const importBody = z.object({
   options: importOptions.default({}),
   /** Confirm only: create and update the valid lines even when other lines have errors. */
   skipErrors: z.boolean({ invalid_type_error: 'must be true or false' }).default(false),
+  /** Confirm only: ids of approved shots whose range change the user ticked; other approved shots keep their range. */
+  confirmApproved: z.array(z.number(num).int('must be a whole number').positive('must be a shot id'), { invalid_type_error: 'must be a list of shot ids' }).max(5000, 'names too many shots').default([]),
 });
 export type ImportBody = z.infer<typeof importBody>;
 

@@ -522,7 +522,7 @@ function showRate(show: { frameRate: string }): FrameRate {
 }
 
 function summary(p: ImportPreview) {
-  return { create: p.create.length, update: p.update.length, unchanged: p.unchanged.length, errors: p.errors.length };
+  return { create: p.create.length, update: p.update.length, unchanged: p.unchanged.length, errors: p.errors.length, skipped: p.skipped.length, approvedChanges: p.update.filter((u) => u.approved).length };
 }
 
 /** The shot columns an import keeps from the edit (source timecode of the cut in, record in/out, reel, clip name). */
@@ -552,7 +552,16 @@ export async function setHandleConvention(access: StudioAccess, convention: Hand
 
 /** What an import compares a show's shots by: code, cut range, head and tail handles. */
 function existingShotColumns() {
-  return { id: shots.id, code: shots.code, firstFrame: shots.firstFrame, lastFrame: shots.lastFrame, headHandles: shots.headHandles, tailHandles: tailHandlesColumn() };
+  return {
+    id: shots.id,
+    code: shots.code,
+    firstFrame: shots.firstFrame,
+    lastFrame: shots.lastFrame,
+    headHandles: shots.headHandles,
+    tailHandles: tailHandlesColumn(),
+    // Approved: by its status, or by an approved version (a range change on it needs an explicit tick).
+    approved: sql<boolean>`(${shots.status} = 'approved' OR EXISTS (SELECT 1 FROM versions av WHERE av.shot_id = ${shots.id} AND av.review_state = 'approved'))`.mapWith((v) => Number(v) === 1),
+  };
 }
 
 /** Previews an import into a show; writes nothing. Existing shots (archived ones too) are matched by code. */
@@ -594,7 +603,11 @@ export async function confirmShowImport(access: StudioAccess, showId: number, bo
         { lines: preview.errors },
       );
     }
-    if (!preview.create.length && !preview.update.length) return { preview, created: [] as { id: number; code: string }[] };
+    // A range change on an approved shot is applied only when ticked; the others are kept as they are and listed.
+    const ticked = new Set(body.confirmApproved);
+    const kept = preview.update.filter((u) => u.approved && !ticked.has(u.id));
+    preview.update = preview.update.filter((u) => !u.approved || ticked.has(u.id));
+    if (!preview.create.length && !preview.update.length) return { preview, kept, created: [] as { id: number; code: string }[] };
     const created: { id: number; code: string }[] = [];
     for (const s of preview.create) {
       const [res] = await tx.insert(shots).values({
@@ -618,21 +631,24 @@ export async function confirmShowImport(access: StudioAccess, showId: number, bo
         .where(and(eq(shots.id, u.id), eq(shots.studioId, access.studioId)));
     }
     await tx.update(shows).set({ updatedAt: new Date() }).where(eq(shows.id, showId));
-    return { preview, created };
+    return { preview, kept, created };
   });
-  const { preview, created } = result;
+  const { preview, kept, created } = result;
   await audit({
     studioId: access.studioId,
     actorId: access.userId,
     action: 'shot.import',
     targetType: 'show',
     targetId: showId,
-    detail: { format: body.format, ...summary(preview), updated: preview.update.map((u) => ({ code: u.code, from: u.from, to: u.to })) },
+    detail: { format: body.format, ...summary(preview), updated: preview.update.map((u) => ({ code: u.code, from: u.from, to: u.to, approved: u.approved })), kept: kept.map((u) => u.code) },
   });
   return {
     created,
     updated: preview.update,
+    /** Approved shots whose range change was not ticked: left as they were. */
+    kept,
     unchanged: preview.unchanged,
+    skipped: preview.skipped,
     errors: preview.errors,
     summary: summary(preview),
   };
