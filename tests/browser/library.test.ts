@@ -109,7 +109,12 @@ describe('shot library in Chromium', () => {
       const previewTable = page.getByTestId('import-table');
       await previewTable.waitFor();
       const planned = await previewTable.locator('tbody tr').evaluateAll((rows) =>
-        rows.map((r) => [r.getAttribute('data-kind'), r.querySelector('td:nth-child(2) span')?.textContent, r.querySelector('td:nth-child(4) span.font-medium')?.textContent]),
+        rows.map((r) => [
+          r.getAttribute('data-kind'),
+          // a code made from the clip name is an input the user may adjust
+          r.querySelector<HTMLInputElement>('td:nth-child(2) input')?.value ?? r.querySelector('td:nth-child(2) span')?.textContent,
+          r.querySelector('td:nth-child(4) span.font-medium')?.textContent,
+        ]),
       );
       // 2 s = 48, 1.5 s = 36, 3 s = 72 frames at 24 fps, cut in at 1001 + 8 handles (common practice, no source).
       expect(planned).toEqual([

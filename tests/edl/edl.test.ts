@@ -78,7 +78,7 @@ describe('CMX 3600 parser', () => {
       [4, 'CNB_010', 1009, 1056, 8, 8],
       [7, 'CNB_020', 1009, 1044, 8, 8],
       [10, 'CNB_030', 1009, 1080, 8, 8],
-      [18, 'CNB_040_plate', 1009, 1032, 8, 8],
+      [18, 'CNB_040', 1009, 1032, 8, 8],
     ]);
     expect(plan.shots[0].source).toMatchObject({ reel: 'A001C003', recordIn: '01:00:00:00', recordOut: '01:00:02:00' });
   });
@@ -156,7 +156,7 @@ describe('import preview', () => {
 
   it('re-importing an updated edit reports changed ranges, not duplicates', () => {
     const first = previewText('edl', EDL, '24', [], options);
-    expect(first.create.map((s) => s.code)).toEqual(['CNB_010', 'CNB_020', 'CNB_030', 'CNB_040_plate']);
+    expect(first.create.map((s) => s.code)).toEqual(['CNB_010', 'CNB_020', 'CNB_030', 'CNB_040']);
     const existing = existingFrom(first.create.map((s) => [s.code, s.firstFrame, s.lastFrame, s.headHandles, s.tailHandles]));
     // The editor trims CNB_020 by 6 frames at the tail and adds a shot.
     const updated = EDL.replace('15:01:00:00 15:01:01:12 01:00:02:00 01:00:03:12', '15:01:00:00 15:01:01:06 01:00:02:00 01:00:03:06').concat(
@@ -164,8 +164,8 @@ describe('import preview', () => {
     );
     const second = previewText('edl', updated, '24', existing, options);
     expect(second.create.map((s) => [s.code, s.firstFrame, s.lastFrame])).toEqual([['CNB_050', 1009, 1056]]);
-    expect(second.update).toEqual([{ id: 2, line: 7, code: 'CNB_020', from: { first: 1009, last: 1044, headHandles: 8, tailHandles: 8 }, to: { first: 1009, last: 1038, headHandles: 8, tailHandles: 8 }, source: expect.objectContaining({ reel: 'A001C007', recordIn: '01:00:02:00' }) }]);
-    expect(second.unchanged.map((s) => s.code)).toEqual(['CNB_010', 'CNB_030', 'CNB_040_plate']);
+    expect(second.update).toEqual([{ id: 2, line: 7, code: 'CNB_020', from: { first: 1009, last: 1044, headHandles: 8, tailHandles: 8 }, to: { first: 1009, last: 1038, headHandles: 8, tailHandles: 8 }, source: expect.objectContaining({ reel: 'A001C007', recordIn: '01:00:02:00' }), approved: false }]);
+    expect(second.unchanged.map((s) => s.code)).toEqual(['CNB_010', 'CNB_030', 'CNB_040']);
     expect(second.errors.map((e) => e.line)).toEqual([16, 17, 20]);
   });
 
@@ -254,7 +254,80 @@ describe('codes', () => {
     expect(fillPattern('CNB_{n:03}0', { n: 7 })).toBe('CNB_0070');
     expect(fillPattern('{reel}_{n}', { n: 12, reel: 'A001' })).toBe('A001_12');
     expect(() => fillPattern('{shot}', { n: 1 })).toThrow(/unknown placeholder/);
-    expect(codeFromClipName('  CNB 010 (v2).mov ')).toBe('CNB_010_v2_');
+    expect(codeFromClipName('  CNB 010 (v2).mov ')).toBe('CNB_010_v2') // trailing separators trimmed;
     expect(codeFromClipName('A001C003_220914.R3D')).toBe('A001C003_220914');
+  });
+});
+
+// Import rules: what an import skips and says so, default codes without plate suffixes, approved shots flagged.
+// The edit list below is written in the CMX 3600 layout (event, reel, track, transition, source in/out, record in/out,
+// record out exclusive — CMX 3600 layout, from memory); the plate suffixes are common practice (no source).
+describe('import rules', () => {
+  const edl = [
+    'TITLE: HARBOUR WALL CUT 2', //                                                                     line 1
+    'FCM: NON-DROP FRAME', //                                                                           line 2
+    '001  A010C001 V     C        11:00:00:00 11:00:02:00 01:00:00:00 01:00:02:00', //                   line 3
+    '* FROM CLIP NAME: PR_0010_plate.exr', //                                                           line 4
+    '002  A010C002 A     C        11:10:00:00 11:10:02:00 01:00:00:00 01:00:02:00', //                   line 5 (sound only)
+    '* FROM CLIP NAME: PR_0010_wild_track.wav', //                                                      line 6
+    '003  A010C003 V     C        11:20:00:00 11:20:01:00 01:00:02:00 01:00:03:00', //                   line 7
+    '* FROM CLIP NAME: PR_0020_bg_v01.mov', //                                                          line 8
+    '004  BL       V     C        00:00:00:00 00:00:00:12 01:00:03:00 01:00:03:12', //                   line 9 (black)
+    '005  A010C004 AA    C        11:30:00:00 11:30:01:00 01:00:03:12 01:00:04:12', //                   line 10 (sound, two channels)
+    '006  A010C005 V     C        11:40:00:00 11:40:03:00 01:00:03:12 01:00:06:12', //                   line 11
+    '* FROM CLIP NAME: PR_0030-v12.dpx', //                                                             line 12
+  ].join('\n');
+  const parsed = parseCmx3600(edl, '24');
+
+  it('lists sound-only and black events as skipped, with the reason, and makes shots of the picture events only', () => {
+    const plan = planFromEdl(parsed, options);
+    expect(plan.shots.map((s) => s.line)).toEqual([3, 7, 11]);
+    expect(plan.skipped.map((e) => [e.line, e.event, e.track])).toEqual([
+      [5, '002', 'A'],
+      [9, '004', 'V'],
+      [10, '005', 'AA'],
+    ]);
+    expect(plan.skipped[0].reason).toMatch(/sound only \(track A\)/);
+    expect(plan.skipped[1].reason).toMatch(/black/);
+    expect(plan.skipped[2].reason).toMatch(/sound only \(track AA\)/);
+    const preview = previewText('edl', edl, '24', [], options);
+    expect(preview.skipped).toHaveLength(3);
+    expect(preview.create).toHaveLength(3);
+  });
+
+  it('makes the default code from the clip name without the extension and plate suffixes', () => {
+    expect(planFromEdl(parsed, options).shots.map((s) => s.code)).toEqual(['PR_0010', 'PR_0020', 'PR_0030']);
+    expect(codeFromClipName('PR_0010_plate')).toBe('PR_0010');
+    expect(codeFromClipName('HBR_0040_plate_v003.mov')).toBe('HBR_0040');
+    expect(codeFromClipName('HBR_0040_BG.exr')).toBe('HBR_0040');
+    expect(codeFromClipName('HBR_0040_comp.mov')).toBe('HBR_0040_comp'); // not a plate suffix: kept
+    expect(codeFromClipName('plate_v01.mov')).toBe('plate'); // never stripped to nothing
+    expect(codeFromClipName('SH.0100.bg')).toBe('SH.0100');
+  });
+
+  it('takes a code the user typed over the default, by line, and checks it like any code', () => {
+    const typed = previewText('edl', edl, '24', [], { ...options, codes: { '7': 'PR_0025' } });
+    expect(typed.create.map((s) => s.code)).toEqual(['PR_0010', 'PR_0025', 'PR_0030']);
+    const bad = previewText('edl', edl, '24', [], { ...options, codes: { '7': 'has space' } });
+    expect(bad.errors.map((e) => e.line)).toEqual([7]);
+    expect(bad.create.map((s) => s.code)).toEqual(['PR_0010', 'PR_0030']);
+  });
+
+  it('flags a range change on an approved shot; other shots and unchanged approved ones are not flagged', () => {
+    // 01:00:00:00–01:00:02:00 at 24 fps is 48 frames (SMPTE ST 12-1 non-drop counting): with 8 frames of head
+    // handle from 1001, cut in 1009, cut out 1056.
+    const existing: ExistingShot[] = [
+      { id: 1, code: 'PR_0010', firstFrame: 1009, lastFrame: 1056, headHandles: 8, tailHandles: 8, approved: true },
+      { id: 2, code: 'PR_0020', firstFrame: 1009, lastFrame: 1040, headHandles: 8, tailHandles: 8, approved: true },
+      { id: 3, code: 'PR_0030', firstFrame: 1009, lastFrame: 1040, headHandles: 8, tailHandles: 8, approved: false },
+    ];
+    const preview = previewText('edl', edl, '24', existing, options);
+    expect(preview.unchanged.map((s) => s.code)).toEqual(['PR_0010']);
+    expect(preview.update.map((u) => [u.code, u.approved])).toEqual([
+      ['PR_0020', true],
+      ['PR_0030', false],
+    ]);
+    // 01:00:02:00–01:00:03:00 is 24 frames: cut out 1009 + 24 − 1 = 1032.
+    expect(preview.update[0].to.last).toBe(1032);
   });
 });

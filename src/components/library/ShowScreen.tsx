@@ -196,11 +196,18 @@ function Show({ viewer, show: initialShow, initialSearch }: Props) {
         meta: { sortKey: 'code' } satisfies ColumnMeta,
         cell: (c) => (
           <div className="min-w-0">
-            <a href={shotHref(c.row.original)} tabIndex={-1} className="font-semibold tracking-wide text-ink hover:text-harbour-700 hover:underline">
+            <a
+              href={shotHref(c.row.original)}
+              tabIndex={-1}
+              title={c.getValue()}
+              className="inline-block max-w-[16rem] truncate align-bottom font-semibold tracking-wide text-ink hover:text-harbour-700 hover:underline"
+            >
               {c.getValue()}
             </a>
             {c.row.original.archivedAt && <span className="ml-2 rounded-full border border-sand-line px-2 py-0.5 text-xs text-ink-muted">archived</span>}
-            {c.row.original.description && <p className="mt-0.5 line-clamp-1 max-w-xs text-xs text-ink-muted">{c.row.original.description}</p>}
+            {c.row.original.description && <p className="mt-0.5 line-clamp-1 max-w-xs text-xs break-all text-ink-muted" title={c.row.original.description}>
+                {c.row.original.description}
+              </p>}
           </div>
         ),
       }),
@@ -291,12 +298,15 @@ function Show({ viewer, show: initialShow, initialSearch }: Props) {
           </p>
           <h1 className="mt-1 flex flex-wrap items-center gap-3 text-3xl font-semibold tracking-tight">
             <span className="rounded-md bg-ink px-2.5 py-0.5 text-base font-semibold tracking-wider text-sand">{show.code}</span>
-            {show.name}
+            {/* A long name wraps, even one unbroken word, instead of pushing the page sideways. */}
+            <span className="min-w-0 [overflow-wrap:anywhere]" title={show.name}>
+              {show.name}
+            </span>
             {show.archivedAt && <span className="rounded-full border border-sand-line px-2.5 py-0.5 text-sm font-normal text-ink-muted">archived</span>}
           </h1>
           <p className="mt-2 text-sm text-ink-soft">
             {rateText(show.frameRate)} · {show.shotCount} active shot{show.shotCount === 1 ? '' : 's'}
-            {show.description && <span className="block max-w-2xl text-ink-muted">{show.description}</span>}
+            {show.description && <span className="block max-w-2xl text-ink-muted [overflow-wrap:anywhere]">{show.description}</span>}
           </p>
         </div>
         {supervisor && (

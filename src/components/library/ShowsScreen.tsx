@@ -63,7 +63,12 @@ function Shows({ viewer, studioName, initialSearch }: Props) {
         header: 'Code',
         meta: { sortKey: 'code', className: 'w-32' } satisfies ColumnMeta,
         cell: (c) => (
-          <a href={`/studios/${studioSlug}/shows/${c.row.original.id}`} tabIndex={-1} className="rounded-md bg-ink px-2 py-0.5 text-xs font-semibold tracking-wider text-sand hover:bg-harbour-700">
+          <a
+            href={`/studios/${studioSlug}/shows/${c.row.original.id}`}
+            tabIndex={-1}
+            title={c.getValue()}
+            className="inline-block max-w-full truncate rounded-md bg-ink px-2 py-0.5 align-middle text-xs font-semibold tracking-wider text-sand hover:bg-harbour-700"
+          >
             {c.getValue()}
           </a>
         ),
@@ -73,11 +78,19 @@ function Shows({ viewer, studioName, initialSearch }: Props) {
         meta: { sortKey: 'name' } satisfies ColumnMeta,
         cell: (c) => (
           <div className="min-w-0">
-            <a href={`/studios/${studioSlug}/shows/${c.row.original.id}`} tabIndex={-1} className="font-medium text-ink hover:text-harbour-700 hover:underline">
+            {/* A long name (even one unbroken word) is cut with an ellipsis; the whole name is the tooltip. */}
+            <a
+              href={`/studios/${studioSlug}/shows/${c.row.original.id}`}
+              tabIndex={-1}
+              title={c.getValue()}
+              className="inline-block max-w-[min(28rem,50vw)] truncate align-bottom font-medium text-ink hover:text-harbour-700 hover:underline"
+            >
               {c.getValue()}
             </a>
             {c.row.original.archivedAt && <span className="ml-2 rounded-full border border-sand-line px-2 py-0.5 text-xs text-ink-muted">archived</span>}
-            {c.row.original.description && <p className="mt-0.5 line-clamp-1 max-w-md text-xs text-ink-muted">{c.row.original.description}</p>}
+            {c.row.original.description && <p className="mt-0.5 line-clamp-1 max-w-md text-xs break-all text-ink-muted" title={c.row.original.description}>
+                {c.row.original.description}
+              </p>}
           </div>
         ),
       }),

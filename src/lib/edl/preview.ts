@@ -90,7 +90,7 @@ export interface ImportPreview {
  * Plate and take suffixes stripped from a clip name for the default code, repeatedly from the end: a version
  * number (_v01, -v2), and the plate words plate, bg, fg, el, cln/clean, src (common practice (no source)).
  */
-const CLIP_SUFFIX = /[_.-](?:v\d{1,4}|plate|plt|bg|fg|el\d*|cln|clean|src)$/i;
+const CLIP_SUFFIX = /[\s_.-](?:v\d{1,4}|plate|plt|bg|fg|el\d*|cln|clean|src)$/i;
 
 /**
  * The default shot code of a clip name: the file extension and common plate suffixes removed
