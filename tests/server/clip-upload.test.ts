@@ -2,6 +2,8 @@
 // head is sent last as part 1, and the stored object is head + chunks byte for byte; an abort leaves no object.
 import { describe, it, expect } from 'vitest';
 import { createHash, randomBytes } from 'node:crypto';
+import { readdirSync } from 'node:fs';
+import { tmpdir } from 'node:os';
 import { ClipUpload } from '../../src/lib/bake/clip-upload';
 import { headObject, objectDigest, deleteObject } from '../../src/lib/server/storage';
 import { unique } from '../support/app';
@@ -20,9 +22,14 @@ describe('clip upload', () => {
       whole.update(c);
       upload.add(c);
     }
-    const size = await upload.finish(head);
+    const { bytes: size, sha256 } = await upload.finish(head);
     expect(size).toBe(head.length + 14 * MiB);
-    expect(await objectDigest(key)).toEqual({ sha256: whole.digest('hex'), size });
+    // The SHA-256 computed while streaming (head last on the wire, first in the object) is the stored object's.
+    const expected = whole.digest('hex');
+    expect(sha256).toBe(expected);
+    expect(await objectDigest(key)).toEqual({ sha256: expected, size });
+    // The local spool of the parts sent before the head is gone.
+    expect(readdirSync(tmpdir()).filter((f) => f.startsWith(`tidemark-clip-${process.pid}-`))).toEqual([]);
     await deleteObject(key);
   });
 
@@ -30,7 +37,7 @@ describe('clip upload', () => {
     const small = `tests/${unique('clip')}.tdmclip`;
     const one = new ClipUpload(small, 'application/x-tidemark-clip', new AbortController().signal);
     one.add(new Uint8Array([4, 5, 6]));
-    expect(await one.finish(new Uint8Array([1, 2, 3]))).toBe(6);
+    expect(await one.finish(new Uint8Array([1, 2, 3]))).toEqual({ bytes: 6, sha256: createHash('sha256').update(new Uint8Array([1, 2, 3, 4, 5, 6])).digest('hex') });
     expect((await headObject(small))?.size).toBe(6);
     await deleteObject(small);
 
@@ -42,5 +49,6 @@ describe('clip upload', () => {
     await upload.abort();
     await expect(upload.finish(new Uint8Array(10))).rejects.toThrow();
     expect(await headObject(key)).toBeNull();
+    expect(readdirSync(tmpdir()).filter((f) => f.startsWith(`tidemark-clip-${process.pid}-`))).toEqual([]);
   });
 });

@@ -71,8 +71,9 @@ export default function ImportScreen({ viewer, show }: { viewer: Viewer; show: S
   const format = form.watch('format');
   const current = JSON.stringify(form.watch());
   const withCodes = (values: Output): Output => (Object.keys(codes).length ? { ...values, options: { ...values.options, codes } } : values);
-  const stale =
-    preview !== null && JSON.stringify({ ...preview.body, skipErrors: false }) !== JSON.stringify({ ...withCodes(JSON.parse(current) as Output), skipErrors: false });
+  // What the preview depends on: the list, the options and the typed codes (not the confirm-only fields).
+  const previewKey = (b: Output) => JSON.stringify({ ...b, skipErrors: false, confirmApproved: [] });
+  const stale = preview !== null && previewKey(preview.body) !== previewKey(withCodes(JSON.parse(current) as Output));
 
   const onFile = async (file: File | undefined) => {
     if (!file) return;

@@ -2,7 +2,7 @@
 // while its clip chunks stream to the store, then record the result. The solver never runs on this thread.
 import { hostname } from 'node:os';
 import { setTimeout as sleep } from 'node:timers/promises';
-import { objectDigest, putBytes } from '../server/storage';
+import { headObject, putBytes } from '../server/storage';
 import { acknowledgeCancel, claimNext, clearAttemptObjects, completeJob, failAttempt, releaseJob, type ClaimedJob } from './queue';
 import { sceneFromDocument, SceneError } from './bake';
 import { SOLVER_BUILD } from './build';
@@ -43,10 +43,11 @@ export async function runJob(job: ClaimedJob, workerId: string, thread: BakeThre
     const health = bakeHealth(scene, baked.stats);
     const statsJson = new TextEncoder().encode(JSON.stringify({ solverBuild: SOLVER_BUILD, health, frames: baked.stats }));
     await putBytes(job.keys.stats, statsJson, 'application/json', signal);
-    const bytes = await upload.finish(baked.head);
-    // Size and checksum of what the store holds, read back (a store that altered the bytes is caught here).
-    const stored = await objectDigest(job.keys.clip, signal);
-    if (stored.size !== bytes) throw new Error(`the store holds ${stored.size} bytes of a ${bytes}-byte clip`);
+    // Size and SHA-256 computed from the bytes sent (clip-upload.ts); the store is asked for the size only, the clip
+    // is never downloaded again.
+    const { bytes, sha256 } = await upload.finish(baked.head);
+    const stored = await headObject(job.keys.clip);
+    if (stored?.size !== bytes) throw new Error(`the store holds ${stored?.size ?? 'no'} bytes of a ${bytes}-byte clip`);
     signal.throwIfAborted();
     const particleFrames = baked.stats.reduce((a, s) => a + s.count, 0);
     const ok = await completeJob(
@@ -55,7 +56,7 @@ export async function runJob(job: ClaimedJob, workerId: string, thread: BakeThre
       {
         key: job.keys.clip,
         bytes,
-        sha256: stored.sha256,
+        sha256,
         meta: {
           sceneHash: job.sceneHash,
           solverBuild: SOLVER_BUILD,
