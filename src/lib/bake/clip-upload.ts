@@ -74,7 +74,7 @@ export class ClipUpload {
   private spoolPart(body: Uint8Array): void {
     if (!this.spool) {
       const file = path.join(tmpdir(), `tidemark-clip-${process.pid}-${randomBytes(6).toString('hex')}.part`);
-      this.spool = { path: file, file: open(file, 'w'), written: Promise.resolve() };
+      this.spool = { path: file, file: open(file, 'w+'), written: Promise.resolve() };
     }
     const spool = this.spool;
     spool.written = spool.written.then(async () => {
