@@ -103,14 +103,15 @@ describe('bake leases', () => {
   }, 180_000);
 
   it('a worker killed after its upload, before completing: done on the second attempt, one asset, no orphan object', async () => {
-    // The worker reads its clip back for the checksum after the upload: hold that read, and kill it there.
-    const proxy = await startStoreProxy(store, (req) => (req.method === 'GET' && req.url!.includes('.tdmclip') ? { hold: true } : undefined));
+    // After the upload the worker asks the store for its clip's size (HEAD; the checksum was computed while sending):
+    // hold that request, and kill it there.
+    const proxy = await startStoreProxy(store, (req) => (req.method === 'HEAD' && req.url!.includes('.tdmclip') ? { hold: true } : undefined));
     proxies.push(proxy);
     const a = startWorker({ S3_ENDPOINT: proxy.url });
     await workerReady(a);
     const versionId = await makeVersion(tinyScene(6));
     const { jobId } = await t.m.queue.enqueueBake(versionId, t.studioId, t.userId);
-    await proxy.waitFor((r) => r.method === 'GET' && r.url.includes('.tdmclip'));
+    await proxy.waitFor((r) => r.method === 'HEAD' && r.url.includes('.tdmclip'));
     const [first] = await attemptsOf(jobId!);
     // A's clip and stats are in the store now.
     expect((await objectsOf((await jobOf(versionId)).job.sceneHash)).sort()).toEqual([first.clipKey, first.statsKey].sort());
