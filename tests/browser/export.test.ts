@@ -96,7 +96,10 @@ async function pageShot(page: Page, name: string) {
 async function exportAndDownload(page: Page, format: 'gif' | 'mp4' | 'zip'): Promise<string> {
   await page.locator(`input[name="export-format"][value="${format}"]`).check();
   await page.getByRole('button', { name: /^Export / }).click();
-  await page.getByTestId('export-done').waitFor({ timeout: 120_000 });
+  await page.getByTestId('export-done').waitFor({ timeout: 120_000 }).catch(async (e) => {
+    await screenshot(page, `export-${format}-failed`);
+    throw new Error(`${(e as Error).message}\nexport panel: ${await page.getByTestId('export-panel').innerText().catch(() => '(gone)')}`);
+  });
   expect(await page.getByRole('progressbar', { name: 'Export progress' }).getAttribute('aria-valuenow')).toBe('100');
   expect(await page.getByTestId('export-done').textContent()).toContain('Stored with the version');
   const [download] = await Promise.all([page.waitForEvent('download'), page.getByTestId('export-download').click()]);

@@ -99,12 +99,12 @@ describe('shot library in Chromium', () => {
       await page.waitForURL(/\/import$/);
       // A malformed line (a letter O in a timecode) is reported by its line number and blocks a plain confirm.
       await page.getByLabel('Edit decision list').fill(`${EDL}004  A002C002 V     C        12:10:00:00 12:10:01:00 01:00:06:12 01:00:O7:12\n`);
-      await page.getByRole('button', { name: 'Preview' }).click();
+      await page.getByRole('button', { name: 'Preview', exact: true }).click();
       await page.getByTestId('import-errors').getByText(/Line 12:/).waitFor();
       expect(await page.getByRole('button', { name: 'Confirm import' }).isDisabled()).toBe(true);
       await screenshot(page, 'library-import-errors');
       await page.getByLabel('Edit decision list').fill(EDL);
-      await page.getByRole('button', { name: 'Preview' }).click();
+      await page.getByRole('button', { name: 'Preview', exact: true }).click();
       await page.getByTestId('import-errors').waitFor({ state: 'detached' });
       const previewTable = page.getByTestId('import-table');
       await previewTable.waitFor();

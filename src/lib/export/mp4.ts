@@ -60,7 +60,9 @@ export async function encodeMp4(input: Mp4Input, onProgress: (fraction: number) 
   ffmpeg.on('log', onLog);
   const names = input.frames.map((_, i) => `frame${String(i).padStart(5, '0')}.png`);
   try {
-    for (let i = 0; i < total; i++) await ffmpeg.writeFile(names[i], input.frames[i]);
+    // writeFile transfers its buffer to ffmpeg's worker (detaching it here), and a held slate is one picture listed
+    // once per frame it holds: each write sends its own copy.
+    for (let i = 0; i < total; i++) await ffmpeg.writeFile(names[i], input.frames[i].slice());
     const code = await ffmpeg.exec(mp4Args(input.rate, input.startTimecode));
     if (signal.aborted) throw new CancelledError();
     if (code !== 0) throw new Error(`The video encoder failed (exit code ${code})`);
