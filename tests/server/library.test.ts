@@ -388,7 +388,7 @@ describe('import', () => {
     expect(q.create.map((s: any) => [s.code, s.firstFrame, s.lastFrame])).toEqual([['HW_0400', 1009, 1032]]);
     const applied = await supervisor().post(`${api()}/shows/${show.id}/import/confirm`, { ...body, text: v2 });
     expect(applied.status).toBe(200);
-    expect(applied.body.import.summary).toEqual({ create: 1, update: 1, unchanged: 2, errors: 0 });
+    expect(applied.body.import.summary).toEqual({ create: 1, update: 1, unchanged: 2, errors: 0, skipped: 1, approvedChanges: 0 });
     expect(await countShots(show.id)).toBe(4);
     const [hw200] = await db().select().from(shots).where(and(eq(shots.showId, show.id), eq(shots.code, 'HW_0200')));
     expect([hw200.firstFrame, hw200.lastFrame]).toEqual([1009, 1044]);
