@@ -2,6 +2,9 @@
 // it goes into part 1, sent last together with the first chunks (at least 5 MiB, S3's smallest part but the last);
 // later chunks go out as parts 2, 3, … of about 8 MiB as each fills. In memory: part 1's chunks, the filling part
 // and the parts on the wire, never the whole clip. A clip under 5 MiB is one PUT at the end.
+// Backpressure: at most `partsInFlight` parts are on the wire; a filled part waits for a free slot, and room()
+// resolves once no part waits. A caller that awaits room() after each add() holds at most limitBytes(maxChunk)
+// bytes here however slow the store is (the bake thread is paused meanwhile, host.ts).
 // The SHA-256 of the stored object is computed from the bytes sent, never by reading the object back. The head that
 // starts the object is known last, so the parts sent before it are also appended to a local spool file as they go
 // out; at the end the hash runs over head, part 1's chunks and the spool (local disk, bounded memory), and the spool
@@ -22,6 +25,17 @@ const concat = (pieces: Uint8Array[]) => {
   return out;
 };
 
+export interface ClipUploadOptions {
+  /** Size at which a filling part is sent (default 8 MiB). */
+  partBytes?: number;
+  /** Parts on the wire at once (default 2). */
+  partsInFlight?: number;
+  /** Sends one part (default: the store's UploadPart); tests put a slow store in front. */
+  sendPart?: (upload: MultipartUpload, partNumber: number, body: Uint8Array, signal: AbortSignal) => Promise<void>;
+}
+
+const sendToStore = (u: MultipartUpload, n: number, body: Uint8Array, signal: AbortSignal) => u.part(n, body, signal);
+
 export class ClipUpload {
   private first: Uint8Array[] = [];
   private firstBytes = 0;
@@ -30,22 +44,69 @@ export class ClipUpload {
   private nextPart = 2;
   private upload: Promise<MultipartUpload> | null = null;
   private sending: Promise<void>[] = [];
+  /** Filled parts waiting for a slot on the wire. */
+  private waiting: { partNumber: number; body: Uint8Array }[] = [];
+  private inFlight = 0;
+  private wake: (() => void)[] = [];
+  private readonly partBytes: number;
+  private readonly partsInFlight: number;
+  private readonly sendPart: NonNullable<ClipUploadOptions['sendPart']>;
   private failure: unknown = null;
   private spool: { path: string; file: Promise<FileHandle>; written: Promise<void> } | null = null;
   /** Chunk bytes received so far. */
   chunkBytes = 0;
+  /** Chunk bytes held in memory now (part 1's chunks, the filling part, waiting parts, parts on the wire). */
+  bufferedBytes = 0;
+  /** The most bufferedBytes has been. */
+  peakBufferedBytes = 0;
 
   constructor(
     readonly key: string,
     private readonly contentType: string,
     private readonly signal: AbortSignal,
-    private readonly partBytes = 8 * 1024 * 1024,
-  ) {}
+    o: ClipUploadOptions = {},
+  ) {
+    this.partBytes = o.partBytes ?? 8 * 1024 * 1024;
+    this.partsInFlight = Math.max(1, o.partsInFlight ?? 2);
+    this.sendPart = o.sendPart ?? sendToStore;
+  }
+
+  /**
+   * The most bytes held when the caller awaits room() after each add() of chunks up to maxChunk bytes: part 1's
+   * chunks (< MIN_PART_BYTES + maxChunk), the filling part (< partBytes), one waiting part and the parts on the wire
+   * (each < partBytes + maxChunk).
+   */
+  limitBytes(maxChunk: number): number {
+    return MIN_PART_BYTES + maxChunk + this.partBytes + (this.partsInFlight + 1) * (this.partBytes + maxChunk);
+  }
+
+  /** Resolves when no filled part waits for a slot (or the upload failed or stopped: the next add() throws). */
+  room(): Promise<void> {
+    return this.until(() => this.waiting.length === 0);
+  }
+
+  private until(ready: () => boolean): Promise<void> {
+    return new Promise<void>((resolve) => {
+      const check = () => {
+        if (ready() || this.failure || this.signal.aborted) resolve();
+        else this.wake.push(check);
+      };
+      check();
+    });
+  }
+
+  private wakeAll(): void {
+    const w = this.wake;
+    this.wake = [];
+    for (const f of w) f();
+  }
 
   /** Takes the next chunk (in clip order); throws if an earlier part failed to upload. */
   add(chunk: Uint8Array): void {
     if (this.failure) throw this.failure;
     this.chunkBytes += chunk.length;
+    this.bufferedBytes += chunk.length;
+    this.peakBufferedBytes = Math.max(this.peakBufferedBytes, this.bufferedBytes);
     if (this.firstBytes < MIN_PART_BYTES) {
       this.first.push(chunk);
       this.firstBytes += chunk.length;
@@ -62,12 +123,29 @@ export class ClipUpload {
     this.fillingBytes = 0;
     const partNumber = this.nextPart++;
     this.spoolPart(body);
-    this.upload ??= MultipartUpload.start(this.key, this.contentType, this.signal);
-    const sent = this.upload.then((u) => u.part(partNumber, body, this.signal));
-    sent.catch((err) => {
-      this.failure ??= err;
-    });
-    this.sending.push(sent);
+    this.waiting.push({ partNumber, body });
+    this.pump();
+  }
+
+  /** Puts waiting parts on the wire while a slot is free. */
+  private pump(): void {
+    while (this.inFlight < this.partsInFlight && this.waiting.length > 0 && !this.failure) {
+      const { partNumber, body } = this.waiting.shift()!;
+      this.inFlight++;
+      this.upload ??= MultipartUpload.start(this.key, this.contentType, this.signal);
+      const sent = this.upload.then((u) => this.sendPart(u, partNumber, body, this.signal));
+      sent
+        .catch((err) => {
+          this.failure ??= err;
+        })
+        .finally(() => {
+          this.inFlight--;
+          this.bufferedBytes -= body.length;
+          this.pump();
+          this.wakeAll();
+        });
+      this.sending.push(sent);
+    }
   }
 
   /** Appends a part sent before the head to the spool, in order (the hash needs it after the head). */
@@ -119,12 +197,14 @@ export class ClipUpload {
       await putBytes(this.key, partOne, this.contentType, this.signal);
     } else {
       if (this.fillingBytes > 0) this.sendFilling();
+      await this.until(() => this.waiting.length === 0 && this.inFlight === 0);
       await Promise.all(this.sending);
       const upload = await this.upload!;
       await upload.part(1, partOne, this.signal);
       await upload.complete(this.signal);
     }
     this.first = [];
+    this.bufferedBytes = 0;
     const hash = createHash('sha256').update(partOne);
     await this.hashSpool(hash);
     return { bytes: head.length + this.chunkBytes, sha256: hash.digest('hex') };
@@ -135,6 +215,8 @@ export class ClipUpload {
     this.first = [];
     this.filling = [];
     this.fillingBytes = 0;
+    this.waiting = [];
+    this.wakeAll();
     await this.dropSpool();
     if (!this.upload) return;
     const upload = await this.upload.catch(() => null);

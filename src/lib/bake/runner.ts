@@ -38,7 +38,7 @@ export async function runJob(job: ClaimedJob, workerId: string, thread: BakeThre
   const upload = new ClipUpload(job.keys.clip, CLIP_TYPE, signal);
   try {
     const scene = sceneFromDocument(job.scene);
-    const baked = await thread.bake(scene, job.sceneHash, { onFrame: (done) => lease.progress(done), onChunk: (c) => upload.add(c) }, signal);
+    const baked = await thread.bake(scene, job.sceneHash, { onFrame: (done) => lease.progress(done), onChunk: (c) => (upload.add(c), upload.room()) }, signal);
     // the health verdict goes with the stats (for the player) and into the clip meta (for the server)
     const health = bakeHealth(scene, baked.stats);
     const statsJson = new TextEncoder().encode(JSON.stringify({ solverBuild: SOLVER_BUILD, health, frames: baked.stats }));

@@ -10,6 +10,7 @@ const send = (m: FromThread, transfer: ArrayBuffer[] = []) => port.postMessage(m
 
 port.on('message', async (m: ToThread) => {
   if (m.type !== 'bake') return;
+  const unacked = new Int32Array(m.credit);
   try {
     const result = await bakeScene(m.scene as Scene, m.sceneHash, {
       onFrame: (done, total) => {
@@ -18,6 +19,12 @@ port.on('message', async (m: ToThread) => {
       },
       onChunk: (chunk) => {
         // Hand the bytes over without a copy when the chunk owns its whole buffer.
+        // Wait while the parent holds a window's worth of unacknowledged bytes (one chunk always goes: a chunk larger
+        // than the window must not stall). The short timeout lets a terminate() end the thread while it waits.
+        for (let held = Atomics.load(unacked, 0); held > 0 && held + chunk.length > m.windowBytes; held = Atomics.load(unacked, 0)) {
+          Atomics.wait(unacked, 0, held, 100);
+        }
+        Atomics.add(unacked, 0, chunk.length);
         const own = chunk.byteOffset === 0 && chunk.byteLength === chunk.buffer.byteLength;
         send({ type: 'chunk', bytes: chunk }, own ? [chunk.buffer as ArrayBuffer] : []);
       },
