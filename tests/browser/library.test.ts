@@ -224,7 +224,7 @@ describe('shot library in Chromium', () => {
       expect(await page.getByTestId('record-range').textContent()).toBe('record 01:00:00:00 – 01:00:02:00');
       expect(await page.getByRole('link', { name: 'Block a new version' }).getAttribute('href')).toBe(`/studios/${studio.slug}/shots/${shotId}/edit`);
 
-      // Upload a plate: presigned PUT from the browser, then the server's checks.
+      // Upload a plate: presigned POST from the browser, then the server's checks.
       const platePath = path.join(scratch, 'bw_0010_plate.png');
       writeFileSync(platePath, platePng());
       await page.getByTestId('plate-file').setInputFiles(platePath);
@@ -277,6 +277,8 @@ describe('shot library in Chromium', () => {
         const blob = await new Promise<Blob>((resolve) => canvas.toBlob((b) => resolve(b!), 'image/webp', 0.9));
         return Array.from(new Uint8Array(await blob.arrayBuffer()));
       });
+      // The plate panel's island hydrated (a file chosen before that reaches no handler and uploads nothing).
+      await waitForIslands(page);
       await page.getByTestId('plate-file').setInputFiles({ name: 'bw_0020.webp', mimeType: 'image/webp', buffer: Buffer.from(webp) });
       await page.getByText(/New plate: bw_0020\.webp, 160×90/).waitFor({ timeout: 30_000 });
       const webpThumb = page.getByTestId('shot-page').getByTestId('shot-thumbnail');
