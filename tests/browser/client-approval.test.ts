@@ -5,7 +5,7 @@
 import { describe, it, expect, beforeAll, afterAll } from 'vitest';
 import { eq } from 'drizzle-orm';
 import type { Page } from 'playwright-core';
-import { answerCors, openBrowser, screenshot, signInAs } from '../support/browser';
+import { answerCors, openBrowser, screenshot, signInAs, hydrated } from '../support/browser';
 import { makeStudio, waitForMail, type TestStudio } from '../support/app';
 import { bakedVersion } from '../support/bake';
 import { makeShot } from '../server/endpoints';
@@ -22,12 +22,6 @@ beforeAll(async () => {
 }, 60_000);
 
 const inDays = (n: number) => new Date(Date.now() + n * 86_400_000).toISOString().slice(0, 10);
-
-/** Waits until the island holding `testId` has hydrated (Astro drops the island's `ssr` attribute then). */
-async function hydrated(page: Page, testId: string) {
-  await page.locator(`astro-island:not([ssr]) [data-testid="${testId}"]`).waitFor({ timeout: 30_000 });
-  return page.getByTestId(testId);
-}
 
 /** A baked version the studio approved, shown to clients. */
 async function approved(seed: number) {

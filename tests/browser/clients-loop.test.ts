@@ -5,7 +5,7 @@
 import { describe, it, expect, beforeAll, afterAll } from 'vitest';
 import { eq } from 'drizzle-orm';
 import type { Page } from 'playwright-core';
-import { answerCors, openBrowser, screenshot, signInAs } from '../support/browser';
+import { answerCors, openBrowser, screenshot, signInAs, hydrated } from '../support/browser';
 import { makeStudio, waitForMail, type TestStudio } from '../support/app';
 import { bakedVersion } from '../support/bake';
 import { makeShot } from '../server/endpoints';
@@ -22,11 +22,6 @@ beforeAll(async () => {
 }, 60_000);
 
 const inDays = (n: number) => new Date(Date.now() + n * 86_400_000).toISOString().slice(0, 10);
-
-async function hydrated(page: Page, testId: string) {
-  await page.locator(`astro-island:not([ssr]) [data-testid="${testId}"]`).waitFor({ timeout: 30_000 });
-  return page.getByTestId(testId);
-}
 
 describe('clients in the loop, in Chromium', () => {
   it('double-click Approve makes one decision without an error; a link e-mailed to the client waits on their home; a guest sign-off is confirmed by e-mail', async () => {

@@ -112,3 +112,9 @@ export function countPixels(png: Buffer, test: (r: number, g: number, b: number)
   for (let p = 0; p < img.data.length; p += 4) if (test(img.data[p], img.data[p + 1], img.data[p + 2])) n++;
   return n;
 }
+
+/** Waits until the island holding `testId` has hydrated (Astro drops the island's `ssr` attribute then). */
+export async function hydrated(page: Page, testId: string) {
+  await page.locator(`astro-island:not([ssr]) [data-testid="${testId}"]`).waitFor({ timeout: 30_000 });
+  return page.getByTestId(testId);
+}
