@@ -1,8 +1,9 @@
 // Local services for `npm start` and `npm test`: a private MariaDB, the S3 stand-in and the mail catcher.
 // Each start function returns a handle whose stop() ends exactly what it started.
 import { spawn, type ChildProcess } from 'node:child_process';
-import { existsSync, mkdirSync, readFileSync, readdirSync, statSync } from 'node:fs';
+import { existsSync, mkdirSync, mkdtempSync, readFileSync, readdirSync, rmSync, statSync } from 'node:fs';
 import { createServer } from 'node:net';
+import { tmpdir } from 'node:os';
 import path from 'node:path';
 import { setTimeout as sleep } from 'node:timers/promises';
 
@@ -166,25 +167,39 @@ export interface S3Options {
   extraOrigins?: string[];
 }
 
-/** Starts the S3 stand-in (s3rver) in this process, with the bucket and its CORS rules from local-s3/. */
+/**
+ * Starts the S3 stand-in in this process, with the bucket and its CORS rules from local-s3/: s3rver on a private
+ * loopback port behind the store gate (store-gate.ts) on `o.port`, which enforces form-upload policies s3rver ignores.
+ */
 export async function startS3(o: S3Options): Promise<Service & { endpoint: string }> {
   const { default: S3rver } = await import('s3rver');
+  const { startStoreGate } = await import('./store-gate');
   mkdirSync(o.dir, { recursive: true });
   const extra = (o.extraOrigins ?? []).map((origin) => `<AllowedOrigin>${origin}</AllowedOrigin>`).join('');
   const cors = readFileSync(path.join(root, 'local-s3', 'cors.xml'), 'utf8').replace('<CORSRule>', `<CORSRule>${extra}`);
   const server = new S3rver({
     address: '127.0.0.1',
-    port: o.port,
+    port: 0,
     silent: true,
     directory: o.dir,
     resetOnClose: o.resetOnClose ?? false,
     configureBuckets: [{ name: o.bucket, configs: [cors] }],
   });
-  await server.run();
+  const inner = (await server.run()) as unknown as { port: number };
+  const gate = await startStoreGate({
+    port: o.port,
+    target: `http://127.0.0.1:${inner.port}`,
+    bucket: o.bucket,
+    secrets: { S3RVER: 'S3RVER' }, // s3rver's one built-in key pair (appEnvironment hands it to the app)
+    allowedOrigins: [...cors.matchAll(/<AllowedOrigin>([^<]+)<\/AllowedOrigin>/g)].map((m) => m[1]!),
+    spoolDir: mkdtempSync(path.join(tmpdir(), 'tidemark-store-gate-')), // not under o.dir: s3rver reads its folders as buckets
+  });
   return {
     name: 's3',
-    endpoint: `http://127.0.0.1:${o.port}`,
+    endpoint: gate.url,
     stop: async () => {
+      await gate.stop();
+      rmSync(gate.spoolDir, { recursive: true, force: true });
       await server.close();
     },
   };

@@ -7,6 +7,7 @@ import { describe, it, expect, beforeAll, afterAll } from 'vitest';
 import { eq } from 'drizzle-orm';
 import { APP, Client, MAIL, makeStudio, makeUser, type CaughtMail, type TestStudio, waitForMail } from '../support/app';
 import { makeVersion } from './endpoints';
+import { postUploadForm } from '../support/plates';
 import { closeDb, db } from '../../src/lib/server/db';
 import { assets, memberships, notes, reviewEvents, shareLinks, shots, users, versions } from '../../src/lib/server/db/schema';
 import { CLIENT_NOTE_MAIL_WINDOW_MS, sendClientNoteMails } from '../../src/lib/server/client-notes';
@@ -180,7 +181,7 @@ describe('re-exports', () => {
     const artist = studio.members.artist.client;
     const start = await artist.post(`/api/versions/${versionId}/exports`, { format: 'gif', byteSize: GIF.length, fileName: 'RE_010_v001_1001-1010.gif', options, ...(sameName ? { sameName } : {}) });
     expect(start.status, JSON.stringify(start.body)).toBe(201);
-    expect((await fetch(start.body.upload.url, { method: 'PUT', headers: start.body.upload.headers, body: GIF })).status).toBe(200);
+    expect((await postUploadForm(start.body.upload, GIF, 'image/gif')).status).toBe(204);
     const done = await artist.post(`/api/versions/${versionId}/exports/${start.body.assetId}/complete`);
     expect(done.status, JSON.stringify(done.body)).toBe(200);
     return done.body.export as { id: number; fileName: string };

@@ -1,11 +1,14 @@
-// Stored exports through the API: presigned PUT from the "browser", completion checks size and magic bytes, the list
-// shows who, when, format, size and a download link with the file name; bad input is refused naming the field.
+// Stored exports through the API: a presigned POST form from the "browser" (the store refuses a larger file or another
+// key), completion checks size and magic bytes, the list shows who, when, format, size and a download link with the
+// file name; bad input is refused naming the field.
 import { describe, it, expect, beforeAll, afterAll } from 'vitest';
 import { eq } from 'drizzle-orm';
 import { makeStudio, type TestStudio } from '../support/app';
 import { makeVersion } from './endpoints';
+import { postUploadForm } from '../support/plates';
 import { closeDb, db } from '../../src/lib/server/db';
 import { assets } from '../../src/lib/server/db/schema';
+import { headObject } from '../../src/lib/server/storage';
 
 let studio: TestStudio;
 beforeAll(async () => {
@@ -21,15 +24,21 @@ async function exportCount(versionId: number) {
 }
 
 describe('stored exports', () => {
-  it('start → PUT → complete → listed with author, size and a named download link', async () => {
+  it('start → POST form → complete → listed with author, size and a named download link', async () => {
     const artist = studio.members.artist;
     const { versionId } = await makeVersion(studio, { baked: true });
     const start = await artist.client.post(`/api/versions/${versionId}/exports`, { format: 'gif', byteSize: GIF.length, fileName: 'LT_010_v001_1001-1010.gif', options });
     expect(start.status, JSON.stringify(start.body)).toBe(201);
     const early = await artist.client.post(`/api/versions/${versionId}/exports/${start.body.assetId}/complete`);
     expect(early.status).toBe(409);
-    const put = await fetch(start.body.upload.url, { method: 'PUT', headers: start.body.upload.headers, body: GIF });
-    expect(put.status).toBe(200);
+    expect(start.body.upload).toMatchObject({ method: 'POST', fields: { 'Content-Type': 'image/gif' }, maxBytes: GIF.length });
+    // The form's policy binds the key, the type and the size declared (S3 POST policy conditions, sigv4-HTTPPOSTConstructPolicy).
+    const policy = JSON.parse(Buffer.from(start.body.upload.fields.Policy, 'base64').toString('utf8'));
+    expect(policy.conditions).toContainEqual(['content-length-range', 1, GIF.length]);
+    expect(policy.conditions).toContainEqual(['eq', '$Content-Type', 'image/gif']);
+    expect(policy.conditions).toContainEqual({ key: start.body.upload.fields.key });
+    const sent = await postUploadForm(start.body.upload, GIF, 'image/gif');
+    expect(sent.status, await sent.clone().text()).toBe(204);
     const done = await artist.client.post(`/api/versions/${versionId}/exports/${start.body.assetId}/complete`);
     expect(done.status, JSON.stringify(done.body)).toBe(200);
     expect(done.body.export).toMatchObject({ format: 'gif', byteSize: GIF.length, width: 320, height: 180, fileName: 'LT_010_v001_1001-1010.gif', createdBy: artist.name });
@@ -55,7 +64,7 @@ describe('stored exports', () => {
     const { versionId } = await makeVersion(studio, { baked: true });
     const fake = new TextEncoder().encode('<html>not a movie</html>');
     const start = await artist.post(`/api/versions/${versionId}/exports`, { format: 'mp4', byteSize: fake.length, fileName: 'x.mp4', options });
-    await fetch(start.body.upload.url, { method: 'PUT', headers: start.body.upload.headers, body: fake });
+    expect((await postUploadForm(start.body.upload, fake, 'video/mp4')).status).toBe(204);
     const done = await artist.post(`/api/versions/${versionId}/exports/${start.body.assetId}/complete`);
     expect(done.status).toBe(422);
     expect(done.body.error.fields).toHaveProperty('file');
@@ -66,10 +75,29 @@ describe('stored exports', () => {
     const artist = studio.members.artist.client;
     const { versionId } = await makeVersion(studio, { baked: true });
     const start = await artist.post(`/api/versions/${versionId}/exports`, { format: 'gif', byteSize: GIF.length + 5, fileName: 'x.gif', options });
-    await fetch(start.body.upload.url, { method: 'PUT', headers: start.body.upload.headers, body: GIF });
+    expect((await postUploadForm(start.body.upload, GIF, 'image/gif')).status).toBe(204); // smaller than declared: within the form's range
     const done = await artist.post(`/api/versions/${versionId}/exports/${start.body.assetId}/complete`);
     expect(done.status).toBe(422);
     expect(done.body.error.fields).toHaveProperty('byteSize');
+  });
+
+  it('the store refuses a file larger than declared and the form sent to another key; completion then finds nothing', async () => {
+    const artist = studio.members.artist.client;
+    const { versionId } = await makeVersion(studio, { baked: true });
+    const start = await artist.post(`/api/versions/${versionId}/exports`, { format: 'gif', byteSize: GIF.length, fileName: 'LT_010_v001_big.gif', options });
+    expect(start.status, JSON.stringify(start.body)).toBe(201);
+    const bigger = new Uint8Array([...GIF, 0]);
+    // content-length-range 1…declared (S3 POST policy) → 400 EntityTooLarge (S3 error responses: from memory)
+    const over = await postUploadForm(start.body.upload, bigger, 'image/gif');
+    expect(over.status).toBe(400);
+    expect(await over.text()).toContain('<Code>EntityTooLarge</Code>');
+    const otherKey = `${start.body.upload.fields.key.replace(/[^/]+$/, '')}chosen-by-client.gif`;
+    const moved = await postUploadForm({ url: start.body.upload.url, fields: { ...start.body.upload.fields, key: otherKey } }, GIF, 'image/gif');
+    expect(moved.status).toBe(403); // the key condition fails (S3 POST policy exact match)
+    expect(await headObject(otherKey)).toBeNull();
+    expect(await headObject(start.body.upload.fields.key)).toBeNull();
+    const done = await artist.post(`/api/versions/${versionId}/exports/${start.body.assetId}/complete`);
+    expect(done.status).toBe(409);
   });
 
   it('bad input → 400 naming the field, oversize → 413, unbaked → 409; nothing written', async () => {

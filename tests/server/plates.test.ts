@@ -7,7 +7,7 @@ import { grantClientShow, makeStudio, unique, type TestStudio } from '../support
 import { makePng } from './endpoints';
 import { db, closeDb } from '../../src/lib/server/db';
 import { assets, shots, shows, versions } from '../../src/lib/server/db/schema';
-import { headObject } from '../../src/lib/server/storage';
+import { headObject, putObject } from '../../src/lib/server/storage';
 import { postUploadForm } from '../support/plates';
 import { encodePng } from '../../src/lib/server/png';
 import pngjs from 'pngjs';
@@ -258,16 +258,39 @@ describe('plate upload', () => {
     expect((await artist().post(`${api()}/shots/${shotId}/plates`, { fileName: 'ok.mov', contentType: 'video/quicktime', byteSize: 500 * MB })).status).toBe(201);
   });
 
-  it('checks the real size on completion: a thumbnail larger than declared and its limit is refused and deleted', async () => {
+  it('the store refuses a file larger than declared and the form sent to another key', async () => {
+    const shotId = await newShot();
+    const png = makePng(16, 9);
+    const start = await artist().post(`${api()}/shots/${shotId}/plates`, { fileName: 'plate.png', contentType: 'image/png', byteSize: png.length });
+    expect(start.status).toBe(201);
+    // content-length-range 1…declared (S3 POST policy) → 400 EntityTooLarge (S3 error responses: from memory)
+    for (const extra of [1, 3 * MB]) {
+      const over = await postUploadForm(start.body.upload, Buffer.concat([Buffer.from(png), Buffer.alloc(extra)]), 'image/png');
+      expect(over.status).toBe(400);
+      expect(await over.text()).toContain('<Code>EntityTooLarge</Code>');
+      expect(await headObject(start.body.upload.fields.key)).toBeNull();
+    }
+    // Another shot's plate folder: the key condition fails (S3 POST policy exact match) → 403, nothing stored.
+    const otherKey = start.body.upload.fields.key.replace(`/shots/${shotId}/`, `/shots/${shotId + 1}/`);
+    const moved = await postUploadForm({ url: start.body.upload.url, fields: { ...start.body.upload.fields, key: otherKey } }, png, 'image/png');
+    expect(moved.status).toBe(403);
+    expect(await headObject(otherKey)).toBeNull();
+    // The same form with the declared file still works, and completes.
+    expect((await postUploadForm(start.body.upload, png, 'image/png')).status).toBe(204);
+    expect((await artist().post(`${api()}/plates/${start.body.assetId}/complete`, {})).status).toBe(200);
+  });
+
+  it('checks the real size on completion too: an object larger than declared (a store that ignored the range) is refused and deleted', async () => {
     const shotId = await newShot();
     const start = await artist().post(`${api()}/shots/${shotId}/plates`, { fileName: 'thumb.png', contentType: 'image/png', byteSize: 1000, kind: 'thumbnail' });
     expect(start.status).toBe(201);
     const big = Buffer.concat([Buffer.from(makePng(4, 4)), Buffer.alloc(3 * MB)]);
-    // The stand-in store does not enforce the policy's content-length-range; the completion check still refuses it.
-    await postUploadForm(start.body.upload, big, 'image/png');
+    // Written past the form, straight into the store, as a store that does not enforce content-length-range would take it.
+    await putObject(start.body.upload.fields.key, big, 'image/png');
     const complete = await artist().post(`${api()}/plates/${start.body.assetId}/complete`, {});
     expect(complete.status).toBe(413);
     expect(await assetCount(shotId)).toBe(0);
+    expect(await headObject(start.body.upload.fields.key)).toBeNull();
   });
 
   it('refuses bad declarations naming the field, and a completion before the file arrived', async () => {

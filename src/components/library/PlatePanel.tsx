@@ -1,4 +1,4 @@
-// The shot's plate: a still or a video, uploaded straight to the object store with a presigned PUT (with progress),
+// The shot's plate: a still or a video, uploaded straight to the object store with a presigned POST (with progress),
 // then its thumbnail (made by the server for PNG and JPEG; for video and WebP this browser draws the first frame and
 // uploads it as a thumbnail), and the scale calibration — drag a line over something of known size, type its real length, store metres per pixel.
 import { useEffect, useRef, useState, type PointerEvent } from 'react';

@@ -1,5 +1,5 @@
-// Stores a finished export: ask the API for a presigned PUT, upload straight to the object store (with upload
-// progress), then ask the API to check and list it. Browser only.
+// Stores a finished export: ask the API for a presigned POST form (bound to the key, the type and the size declared),
+// upload straight to the object store (with upload progress), then ask the API to check and list it. Browser only.
 import { CancelledError } from './cancel';
 import type { ExportFormat } from './layout';
 
@@ -27,18 +27,29 @@ async function call<T>(path: string, body?: unknown): Promise<T> {
   return data as T;
 }
 
-/** PUTs bytes with XMLHttpRequest (fetch has no upload progress); rejects with CancelledError on abort. */
-function put(url: string, headers: Record<string, string>, bytes: Uint8Array, onProgress: (f: number) => void, signal: AbortSignal): Promise<void> {
+/** The presigned form an export start answers with (S3 POST policy: key, type and 1…declared bytes). */
+interface UploadForm {
+  url: string;
+  fields: Record<string, string>;
+}
+
+/**
+ * Sends the bytes with the presigned form (its fields first, the file last, as the store requires) using
+ * XMLHttpRequest (fetch has no upload progress); rejects with CancelledError on abort.
+ */
+function post(upload: UploadForm, bytes: Uint8Array, contentType: string, onProgress: (f: number) => void, signal: AbortSignal): Promise<void> {
   return new Promise((resolve, reject) => {
+    const form = new FormData();
+    for (const [k, v] of Object.entries(upload.fields)) form.append(k, v);
+    form.append('file', new Blob([bytes as BlobPart], { type: contentType }), 'export');
     const xhr = new XMLHttpRequest();
-    xhr.open('PUT', url);
-    for (const [k, v] of Object.entries(headers)) xhr.setRequestHeader(k, v);
+    xhr.open('POST', upload.url);
     xhr.upload.onprogress = (e) => e.lengthComputable && onProgress(e.loaded / e.total);
     xhr.onload = () => (xhr.status >= 200 && xhr.status < 300 ? resolve() : reject(new Error(`The object store refused the upload (HTTP ${xhr.status})`)));
     xhr.onerror = () => reject(new Error('Could not reach the object store to upload the export'));
     xhr.onabort = () => reject(new CancelledError());
     signal.addEventListener('abort', () => xhr.abort(), { once: true });
-    xhr.send(new Blob([bytes as BlobPart]));
+    xhr.send(form);
   });
 }
 
@@ -49,14 +60,14 @@ export async function storeExport(
   onProgress: (f: number) => void,
   signal: AbortSignal,
 ): Promise<StoredExport> {
-  const started = await call<{ assetId: number; upload: { url: string; headers: Record<string, string> } }>(`/api/versions/${versionId}/exports`, {
+  const started = await call<{ assetId: number; upload: UploadForm }>(`/api/versions/${versionId}/exports`, {
     format: file.format,
     byteSize: file.bytes.byteLength,
     fileName: file.fileName,
     ...(file.sameName ? { sameName: file.sameName } : {}),
     options: file.options,
   });
-  await put(started.upload.url, started.upload.headers, file.bytes, onProgress, signal);
+  await post(started.upload, file.bytes, started.upload.fields['Content-Type'] ?? 'application/octet-stream', onProgress, signal);
   const done = await call<{ export: StoredExport }>(`/api/versions/${versionId}/exports/${started.assetId}/complete`, {});
   return done.export;
 }

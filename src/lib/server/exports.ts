@@ -1,5 +1,6 @@
-// Stored exports: the browser renders and encodes, asks for a presigned PUT, uploads straight to the object store,
-// then asks us to complete: we check the object's real size and its type by magic bytes before listing it on the
+// Stored exports: the browser renders and encodes, asks for a presigned POST form (its policy binds the key, the type
+// and the declared size), uploads straight to the object store, then asks us to complete: we check the object's real
+// size and its type by magic bytes before listing it on the
 // version with who made it, when, its format and size, and a presigned download link named for the file.
 import { randomBytes } from 'node:crypto';
 import { and, desc, eq, inArray } from 'drizzle-orm';
@@ -8,7 +9,7 @@ import { assets, shareLinks, users, versions } from './db/schema';
 import { HttpError } from './http';
 import type { StudioAccess } from './authz';
 import { audit } from './audit';
-import { deleteObject, getObject, headObject, presignGet, presignPut } from './storage';
+import { deleteObject, getObject, headObject, presignGet, presignPost } from './storage';
 import { FORMAT_EXTENSIONS, FORMAT_TYPES, type ExportFormat } from '../export/layout';
 import { MAX_EXPORT_BYTES, MB, type ExportStartBody } from '../export/schemas';
 
@@ -37,7 +38,11 @@ export function magicMatches(format: ExportFormat, head: Uint8Array): boolean {
   return head[0] === 0x50 && head[1] === 0x4b && head[2] === 0x03 && head[3] === 0x04;
 }
 
-/** Records a pending export of a baked version and returns a presigned PUT for the browser (same Content-Type). */
+/**
+ * Records a pending export of a baked version and returns a presigned POST form for the browser: the store takes
+ * exactly one object, at this key, of the format's type and of 1…byteSize bytes (the size zod checked above). A
+ * pending export never completed expires: housekeeping deletes it and its object (purgeStaleUploads).
+ */
 export async function startExport(access: StudioAccess, version: VersionRow, body: ExportStartBody) {
   if (version.bakeState !== 'baked') throw new HttpError('conflict', 'Only a baked version can be exported: bake it first', undefined, { bakeState: version.bakeState });
   if (body.byteSize > MAX_EXPORT_BYTES) {
@@ -66,9 +71,10 @@ export async function startExport(access: StudioAccess, version: VersionRow, bod
   });
   const assetId = Number(res.insertId);
   await audit({ studioId: access.studioId, actorId: access.userId, action: 'export.start', targetType: 'asset', targetId: assetId, detail: { versionId: version.id, format: body.format, byteSize: body.byteSize } });
+  const post = await presignPost(storageKey, contentType, body.byteSize, UPLOAD_SECONDS);
   return {
     assetId,
-    upload: { url: await presignPut(storageKey, contentType, UPLOAD_SECONDS), method: 'PUT' as const, headers: { 'content-type': contentType }, expiresInSeconds: UPLOAD_SECONDS },
+    upload: { url: post.url, method: 'POST' as const, fields: post.fields, maxBytes: body.byteSize, expiresInSeconds: UPLOAD_SECONDS },
   };
 }
 
@@ -87,7 +93,7 @@ export async function completeExport(access: StudioAccess, version: VersionRow, 
   const meta = metaOf(asset);
   if (meta?.state !== 'pending') throw new HttpError('conflict', 'This export is already complete');
   const head = await headObject(asset.storageKey);
-  if (!head) throw new HttpError('conflict', 'No file has arrived for this export yet: PUT it to the upload URL first');
+  if (!head) throw new HttpError('conflict', 'No file has arrived for this export yet: send it with the upload form first');
   const format = asset.format as ExportFormat;
   const refuse = async (message: string, fields: Record<string, string>) => {
     await deleteObject(asset.storageKey).catch(() => undefined);

@@ -21,7 +21,7 @@ let client: S3Client | undefined;
 
 /**
  * Returns the shared S3 client. Checksums only when required: without this, stream uploads to
- * self-hosted stores get aws-chunked framing stored inside the object and presigned PUTs carry a
+ * self-hosted stores get aws-chunked framing stored inside the object and presigned requests carry a
  * checksum of an empty body that such stores reject.
  */
 export function s3(): S3Client {
@@ -167,15 +167,11 @@ export async function presignGetShared(key: string, seconds = 900): Promise<stri
   return url;
 }
 
-/** A short-lived URL the browser can PUT one object to, with the given content type. */
-export function presignPut(key: string, contentType: string, seconds = 900): Promise<string> {
-  return getSignedUrl(s3(), new PutObjectCommand({ Bucket: bucket(), Key: key, ContentType: contentType }), { expiresIn: seconds });
-}
-
 /**
  * A short-lived form upload (S3 presigned POST) of one object: the policy binds the key, the content type and the
- * size (`content-length-range` 1…maxBytes), so the store itself refuses a larger file. The browser sends `fields`
- * first, then the file as the form's last field named `file`.
+ * size (`content-length-range` 1…maxBytes), so the store itself refuses a larger file, another key or another type
+ * (the S3 stand-in enforces the same through src/cli/store-gate.ts). The browser sends `fields` first, then the file
+ * as the form's last field named `file`. The only way the browser writes to the store: there is no presigned PUT.
  */
 export async function presignPost(key: string, contentType: string, maxBytes: number, seconds = 900): Promise<{ url: string; fields: Record<string, string> }> {
   return createPresignedPost(s3(), {

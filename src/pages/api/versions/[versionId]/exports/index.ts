@@ -1,5 +1,5 @@
-// POST /api/versions/:versionId/exports {format, byteSize, fileName, options} → 201 {assetId, upload}: a presigned PUT
-// for the file the browser rendered (artist; baked versions only; 413 over the size limit, nothing written).
+// POST /api/versions/:versionId/exports {format, byteSize, fileName, options} → 201 {assetId, upload}: a presigned POST
+// form (key, type and 1…byteSize bytes bound) for the file the browser rendered (artist; baked versions only; 413 over the size limit, nothing written).
 // GET → {exports}: the version's stored exports with who, when, format, size and a download link (artist).
 import { endpoint, json, idParam, readJson } from '~/lib/server/http';
 import { versionAccess } from '~/lib/server/access';
