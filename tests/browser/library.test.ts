@@ -227,6 +227,8 @@ describe('shot library in Chromium', () => {
       // Upload a plate: presigned POST from the browser, then the server's checks.
       const platePath = path.join(scratch, 'bw_0010_plate.png');
       writeFileSync(platePath, platePng());
+      // The plate panel's island hydrated (a file chosen before that reaches no handler and uploads nothing).
+      await waitForIslands(page);
       await page.getByTestId('plate-file').setInputFiles(platePath);
       await page.getByText(/New plate: bw_0010_plate\.png, 320×180/).waitFor({ timeout: 30_000 });
       const image = page.getByTestId('plate-image');

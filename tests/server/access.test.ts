@@ -24,6 +24,8 @@ const secret = (label: string) => {
 interface Brand {
   showId: number;
   sharedShotId: number;
+  /** The shared shot's plate, and the plate of the brand's unshared shot. */
+  plateIds: [number, number];
   sharedVersionId: number;
   client: Client;
   userId: string;
@@ -37,7 +39,8 @@ let otherVersionId: number;
 let otherShotId: number;
 let otherShowId: number;
 const brands: Brand[] = [];
-const ids = { show: [] as number[], shot: [] as number[], version: [] as number[], note: [] as number[] };
+const ids = { show: [] as number[], shot: [] as number[], version: [] as number[], note: [] as number[], asset: [] as number[] };
+let otherPlateId: number;
 
 const scene = () => {
   const parsed = parseScene(tinyScene());
@@ -60,12 +63,34 @@ async function addShot(s: TestStudio, showId: number, code: string, fields: Part
   return Number(r.insertId);
 }
 
+/** A ready plate on the shot (made the shot's current plate) whose uploaded file name is a sentinel; returns its id. */
+async function addPlate(s: TestStudio, shotId: number) {
+  const [a] = await db().insert(assets).values({
+    studioId: s.id,
+    kind: 'plate',
+    storageKey: `studios/${s.id}/shots/${shotId}/plates/${randomBytes(6).toString('hex')}.png`,
+    contentType: 'image/png',
+    byteSize: 64,
+    width: 64,
+    height: 36,
+    format: 'png',
+    shotId,
+    meta: { state: 'ready', fileName: secret('platefile'), declaredSize: 64 },
+  });
+  const id = Number(a.insertId);
+  await db().update(shots).set({ plateAssetId: id, plateWidth: 64, plateHeight: 36 }).where(eq(shots.id, shotId));
+  ids.asset.push(id);
+  return id;
+}
+
 async function makeBrand(name: string, assigneeId: string): Promise<Brand> {
   const [sh] = await db().insert(shows).values({ studioId: studio.id, code: name.slice(0, 3).toUpperCase() + randomBytes(2).toString('hex'), name: `${name} spot`, frameRate: '24' });
   const showId = Number(sh.insertId);
   ids.show.push(showId);
   const sharedCode = `SH${randomBytes(4).toString('hex')}`;
   const sharedShotId = await addShot(studio, showId, sharedCode, { assigneeId });
+  // Its plate: the client may view the picture, never the file name it was uploaded under.
+  const sharedPlateId = await addPlate(studio, sharedShotId);
   // The shared version: its artist comment is the studio's.
   const sharedVersionId = await addVersion(studio, sharedShotId, 1, { sharedWithClient: true, reviewState: 'submitted', comment: secret('comment'), authorId: assigneeId });
   // A draft and a returned version on the same shot, never shared.
@@ -78,6 +103,7 @@ async function makeBrand(name: string, assigneeId: string): Promise<Brand> {
   // An unshared shot, and an archived shot whose version was shared before it was archived.
   const unsharedCode = secret('unshared');
   const unshared = await addShot(studio, showId, unsharedCode);
+  const unsharedPlateId = await addPlate(studio, unshared);
   await addVersion(studio, unshared, 1, { reviewState: 'submitted', comment: secret('c') });
   const archivedCode = secret('archived');
   const archived = await addShot(studio, showId, archivedCode, { archivedAt: new Date() });
@@ -107,7 +133,7 @@ async function makeBrand(name: string, assigneeId: string): Promise<Brand> {
   await addVersion(studio, inArchivedShow, 1, { sharedWithClient: true, reviewState: 'submitted' });
   await db().insert(clientShows).values({ studioId: studio.id, userId: u.id, showId: archivedShowId });
   const client = await new Client().signIn(u.email, u.password);
-  return { showId, sharedShotId, sharedVersionId, client, userId: u.id, codes: [sharedCode, unsharedCode, archivedCode] };
+  return { showId, sharedShotId, plateIds: [sharedPlateId, unsharedPlateId], sharedVersionId, client, userId: u.id, codes: [sharedCode, unsharedCode, archivedCode] };
 }
 
 beforeAll(async () => {
@@ -123,6 +149,7 @@ beforeAll(async () => {
   otherShowId = Number(sh.insertId);
   otherShotId = await addShot(other, otherShowId, `OT${randomBytes(4).toString('hex')}`);
   otherVersionId = await addVersion(other, otherShotId, 1, { sharedWithClient: true, reviewState: 'submitted' });
+  otherPlateId = await addPlate(other, otherShotId);
   await grantClientShow(other, otherShowId);
 }, 120_000);
 afterAll(closeDb);
@@ -163,11 +190,12 @@ function expand(route: string): string[] {
     shotId: ids.shot,
     versionId: ids.version,
     noteId: ids.note,
+    assetId: ids.asset,
   };
   let paths = [route];
   for (const m of route.matchAll(/\[(\w+)\]/g)) {
     const vals = values[m[1]];
-    if (!vals) return []; // a parameter with no fixture (assets, tokens): covered by the authorization matrix
+    if (!vals) return []; // a parameter with no fixture (tokens, members, links): covered by the authorization matrix
     paths = paths.flatMap((p) => vals.map((v) => p.replace(`[${m[1]}]`, String(v))));
   }
   return paths;
@@ -187,6 +215,10 @@ describe('client visibility: two brands in one studio', () => {
       expect(own.status).toBe(200);
       expect(own.body.versions.map((v: { id: number }) => v.id)).toEqual([b.sharedVersionId]);
       expect((await b.client.get(`/api/versions/${b.sharedVersionId}`)).status).toBe(200);
+      // The shared shot's plate may be viewed; the unshared shot's is not there, nor the other brand's.
+      expect((await b.client.get(`/api/studios/${studio.id}/plates/${b.plateIds[0]}`)).status).toBe(200);
+      expect((await b.client.get(`/api/studios/${studio.id}/plates/${b.plateIds[1]}`)).status).toBe(404);
+      expect((await b.client.get(`/api/studios/${studio.id}/plates/${them.plateIds[0]}`)).status).toBe(404);
       // The other brand's shared version, shot and show do not exist for this client.
       expect((await b.client.get(`/api/versions/${them.sharedVersionId}`)).status).toBe(404);
       expect((await b.client.get(`/api/shots/${them.sharedShotId}/versions`)).status).toBe(404);
@@ -243,8 +275,8 @@ describe('client visibility: two brands in one studio', () => {
     const mixed = (route: string) => {
       const names = [...route.matchAll(/\[(\w+)\]/g)].map((m) => m[1]);
       if (names.length < 2) return [];
-      const ours: Record<string, string | number> = { studioId: studio.id, slug: studio.slug, showId: brands[0].showId, shotId: brands[0].sharedShotId, versionId: brands[0].sharedVersionId, noteId: ids.note[0] };
-      const theirs: Record<string, string | number> = { studioId: other.id, slug: other.slug, showId: otherShowId, shotId: otherShotId, versionId: otherVersionId };
+      const ours: Record<string, string | number> = { studioId: studio.id, slug: studio.slug, showId: brands[0].showId, shotId: brands[0].sharedShotId, versionId: brands[0].sharedVersionId, noteId: ids.note[0], assetId: ids.asset[0] };
+      const theirs: Record<string, string | number> = { studioId: other.id, slug: other.slug, showId: otherShowId, shotId: otherShotId, versionId: otherVersionId, assetId: otherPlateId };
       if (!names.every((n) => n in ours)) return [];
       // Each parameter in turn from the other studio, the rest ours.
       return names.filter((n) => n in theirs).map((odd) => names.reduce((p, n) => p.replace(`[${n}]`, String(n === odd ? theirs[n] : ours[n])), route));

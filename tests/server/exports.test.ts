@@ -55,6 +55,10 @@ describe('stored exports', () => {
 
     const again = await artist.client.post(`/api/versions/${versionId}/exports/${start.body.assetId}/complete`);
     expect(again.status).toBe(409);
+    // The form used again after completion writes under uploads/ only: the listed export is the checked copy.
+    expect(start.body.upload.fields.key.startsWith(`uploads/${studio.id}/`)).toBe(true);
+    expect((await postUploadForm(start.body.upload, new Uint8Array(GIF.length).fill(0x41), 'image/gif')).status).toBe(204);
+    expect(new Uint8Array(await (await fetch(item.downloadUrl)).arrayBuffer())).toEqual(GIF);
     const one = await artist.client.get(`/api/exports/${start.body.assetId}`);
     expect(one.body.export.id).toBe(start.body.assetId);
   });

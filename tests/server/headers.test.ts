@@ -3,7 +3,10 @@
 import { describe, it, expect } from 'vitest';
 import { eq } from 'drizzle-orm';
 import { createHash } from 'node:crypto';
-import { APP, Client, makeUser } from '../support/app';
+import { readdirSync, statSync } from 'node:fs';
+import path from 'node:path';
+import { APP, Client, makeStudio, makeUser } from '../support/app';
+import { ENDPOINTS } from './endpoints';
 import { startSecondApp } from '../support/second-app';
 import { db } from '../../src/lib/server/db';
 import { sessions } from '../../src/lib/server/db/schema';
@@ -48,6 +51,60 @@ describe('security headers', () => {
     for (const code of inline) {
       const hash = `'sha256-${createHash('sha256').update(code).digest('base64')}'`;
       expect(allowed).toContain(hash);
+    }
+  });
+
+  /** Every page route under src/pages (not the API), as its file route, e.g. /studios/[slug]/shots/[shotId]. */
+  const pageRoutes = () => {
+    const dir = path.resolve(__dirname, '../../src/pages');
+    const out: string[] = [];
+    const visit = (p: string) => {
+      for (const name of readdirSync(p)) {
+        const full = path.join(p, name);
+        if (statSync(full).isDirectory()) {
+          if (full !== path.join(dir, 'api')) visit(full);
+        } else if (name.endsWith('.astro')) out.push('/' + path.relative(dir, full).replace(/\.astro$/, '').replace(/(^|\/)index$/, ''));
+      }
+    };
+    visit(dir);
+    return out;
+  };
+  const hasHeaders = (res: { headers: Headers }) =>
+    res.headers.get('x-content-type-options') === 'nosniff' && directive(res.headers.get('content-security-policy'), 'frame-ancestors')?.join(' ') === "'none'";
+
+  it('every API endpoint (each method, signed out and as the owner) and every page route answers with them', async () => {
+    const s = await makeStudio();
+    const fill = (route: string) =>
+      route.replace(/\[(\w+)\]/g, (_m, name: string) => (name === 'studioId' ? String(s.id) : name === 'slug' ? s.slug : name === 'token' ? 'not-a-token' : '1'));
+    const anonymous = new Client();
+    const missing: string[] = [];
+    for (const e of ENDPOINTS) {
+      const p = fill(e.route);
+      const res = await anonymous.request(e.method, p, e.method === 'GET' ? undefined : {});
+      if (!hasHeaders(res)) missing.push(`${e.method} ${p} (${res.status}, signed out)`);
+      if (e.method !== 'GET') continue; // the owner only reads: a write with made-up ids could change the studio
+      const owned = await s.members.owner.client.get(p);
+      if (!hasHeaders(owned)) missing.push(`GET ${p} (${owned.status}, owner)`);
+    }
+    const pages = pageRoutes();
+    expect(pages.length).toBeGreaterThan(5);
+    for (const route of pages) {
+      for (const c of [anonymous, s.members.owner.client]) {
+        const res = await c.get(fill(route));
+        if (!hasHeaders(res)) missing.push(`page ${fill(route)} (${res.status})`);
+      }
+    }
+    expect(missing).toEqual([]);
+  }, 120_000);
+
+  it("the page's scripts and styles (static files) carry nosniff", async () => {
+    const html = await (await fetch(APP + '/sign-in')).text();
+    const files = [...html.matchAll(/(?:src|href)="(\/_astro\/[^"]+)"/g)].map((m) => m[1]!);
+    expect(files.length).toBeGreaterThan(0);
+    for (const f of [...new Set(files)]) {
+      const res = await fetch(APP + f);
+      expect(res.status, f).toBe(200);
+      expect(res.headers.get('x-content-type-options'), f).toBe('nosniff');
     }
   });
 

@@ -7,7 +7,8 @@ import { grantClientShow, makeStudio, unique, type TestStudio } from '../support
 import { makePng } from './endpoints';
 import { db, closeDb } from '../../src/lib/server/db';
 import { assets, shots, shows, versions } from '../../src/lib/server/db/schema';
-import { headObject, putObject } from '../../src/lib/server/storage';
+import { getObject, headObject, putObject } from '../../src/lib/server/storage';
+import { sweepUploadPrefix } from '../../src/lib/server/uploads';
 import { postUploadForm } from '../support/plates';
 import { encodePng } from '../../src/lib/server/png';
 import pngjs from 'pngjs';
@@ -270,14 +271,41 @@ describe('plate upload', () => {
       expect(await over.text()).toContain('<Code>EntityTooLarge</Code>');
       expect(await headObject(start.body.upload.fields.key)).toBeNull();
     }
-    // Another shot's plate folder: the key condition fails (S3 POST policy exact match) → 403, nothing stored.
-    const otherKey = start.body.upload.fields.key.replace(`/shots/${shotId}/`, `/shots/${shotId + 1}/`);
-    const moved = await postUploadForm({ url: start.body.upload.url, fields: { ...start.body.upload.fields, key: otherKey } }, png, 'image/png');
+    // Aimed at another shot's checked plate: the key condition fails (S3 POST policy exact match) → 403, that plate unchanged.
+    const otherShot = await newShot();
+    const kept = makePng(20, 10);
+    const { start: keptStart } = await upload(otherShot, kept, { fileName: 'kept.png', contentType: 'image/png' });
+    const [keptRow] = await db().select().from(assets).where(eq(assets.id, keptStart.body.assetId));
+    const moved = await postUploadForm({ url: start.body.upload.url, fields: { ...start.body.upload.fields, key: keptRow.storageKey } }, png, 'image/png');
     expect(moved.status).toBe(403);
-    expect(await headObject(otherKey)).toBeNull();
+    expect(Buffer.from(await getObject(keptRow.storageKey)).equals(Buffer.from(kept))).toBe(true);
     // The same form with the declared file still works, and completes.
     expect((await postUploadForm(start.body.upload, png, 'image/png')).status).toBe(204);
     expect((await artist().post(`${api()}/plates/${start.body.assetId}/complete`, {})).status).toBe(200);
+  });
+
+  it('a form used again after completion cannot replace the checked plate; the stray object it leaves is swept', async () => {
+    const shotId = await newShot();
+    const png = makePng(16, 9);
+    const { start, complete } = await upload(shotId, png, { fileName: 'plate.png', contentType: 'image/png' });
+    expect(complete.status, JSON.stringify(complete.body)).toBe(200);
+    const formKey: string = start.body.upload.fields.key;
+    const [row] = await db().select().from(assets).where(eq(assets.id, start.body.assetId));
+    // The form wrote under uploads/; what was checked and kept is a copy at a key no form names.
+    expect(formKey.startsWith(`uploads/${studio.id}/`)).toBe(true);
+    expect(row.storageKey.startsWith(`studios/${studio.id}/shots/${shotId}/plates/`)).toBe(true);
+    expect(await headObject(formKey)).toBeNull();
+    // The same form, still within its 15 minutes, takes other bytes of the bound type and size…
+    const junk = new Uint8Array(png.length).fill(0x41);
+    expect((await postUploadForm(start.body.upload, junk, 'image/png')).status).toBe(204);
+    // …which land beside the plate, not over it.
+    const view = await artist().get(`${api()}/plates/${start.body.assetId}`);
+    expect(Buffer.from(await (await fetch(view.body.url)).arrayBuffer()).equals(Buffer.from(png))).toBe(true);
+    expect(await headObject(formKey)).not.toBeNull();
+    // Housekeeping's sweep of uploads/ (here: this studio's part, everything written until now) removes the stray.
+    expect(await sweepUploadPrefix(new Date(Date.now() + 1000), `uploads/${studio.id}/`)).toBeGreaterThanOrEqual(1);
+    expect(await headObject(formKey)).toBeNull();
+    expect(await headObject(row.storageKey)).not.toBeNull();
   });
 
   it('checks the real size on completion too: an object larger than declared (a store that ignored the range) is refused and deleted', async () => {

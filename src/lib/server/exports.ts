@@ -9,7 +9,8 @@ import { assets, shareLinks, users, versions } from './db/schema';
 import { HttpError } from './http';
 import type { StudioAccess } from './authz';
 import { audit } from './audit';
-import { deleteObject, getObject, headObject, presignGet, presignPost } from './storage';
+import { deleteObject, getObject, headObject, presignGet, presignPost, uploadKey } from './storage';
+import { moveToFinalKey } from './uploads';
 import { FORMAT_EXTENSIONS, FORMAT_TYPES, type ExportFormat } from '../export/layout';
 import { MAX_EXPORT_BYTES, MB, type ExportStartBody } from '../export/schemas';
 
@@ -53,7 +54,8 @@ export async function startExport(access: StudioAccess, version: VersionRow, bod
   const ext = FORMAT_EXTENSIONS[body.format];
   if (!body.fileName.toLowerCase().endsWith(`.${ext}`)) throw new HttpError('validation_failed', `fileName: must end with .${ext}`, { fileName: `must end with .${ext}` });
   const contentType = FORMAT_TYPES[body.format];
-  const storageKey = `studios/${access.studioId}/versions/${version.id}/exports/${randomBytes(12).toString('hex')}.${ext}`;
+  // The form writes under uploads/ only; completion copies the file to its final key and checks that copy.
+  const storageKey = uploadKey(access.studioId, randomBytes(12).toString('hex'), ext);
   const meta: ExportMeta = { state: 'pending', fileName: body.fileName, declaredSize: body.byteSize, options: body.options, sameName: body.sameName ?? 'number' };
   const [res] = await db().insert(assets).values({
     studioId: access.studioId,
@@ -92,17 +94,20 @@ export async function completeExport(access: StudioAccess, version: VersionRow, 
   const asset = await exportRow(access.studioId, assetId, version.id);
   const meta = metaOf(asset);
   if (meta?.state !== 'pending') throw new HttpError('conflict', 'This export is already complete');
-  const head = await headObject(asset.storageKey);
-  if (!head) throw new HttpError('conflict', 'No file has arrived for this export yet: send it with the upload form first');
+  if (!(await headObject(asset.storageKey))) throw new HttpError('conflict', 'No file has arrived for this export yet: send it with the upload form first');
   const format = asset.format as ExportFormat;
+  // What is checked from here on is the copy at the final key: the form cannot write there.
+  const storageKey = await moveToFinalKey(asset.id, asset.storageKey, `studios/${access.studioId}/versions/${version.id}/exports/${randomBytes(12).toString('hex')}.${FORMAT_EXTENSIONS[format]}`);
+  const head = await headObject(storageKey);
+  if (!head) throw new HttpError('conflict', 'No file has arrived for this export yet: send it with the upload form first');
   const refuse = async (message: string, fields: Record<string, string>) => {
-    await deleteObject(asset.storageKey).catch(() => undefined);
+    await deleteObject(storageKey).catch(() => undefined);
     await db().delete(assets).where(eq(assets.id, asset.id));
     await audit({ studioId: access.studioId, actorId: access.userId, action: 'export.refused', targetType: 'asset', targetId: asset.id, detail: { reason: message } });
     return new HttpError('unprocessable', message, fields);
   };
   if (head.size !== meta.declaredSize) throw await refuse(`The stored file is ${head.size} bytes, not the ${meta.declaredSize} declared: export again`, { byteSize: 'does not match the uploaded file' });
-  const first = await getObject(asset.storageKey, [0, Math.min(head.size, 16) - 1]);
+  const first = await getObject(storageKey, [0, Math.min(head.size, 16) - 1]);
   if (!magicMatches(format, first)) throw await refuse(`The uploaded file is not a ${FORMAT_EXTENSIONS[format].toUpperCase()} file`, { file: `content is not ${FORMAT_EXTENSIONS[format].toUpperCase()}` });
   const { fileName, replaced } = await settleFileName(access, version.id, asset, meta);
   await db()

@@ -1,10 +1,12 @@
 // Housekeeping on a schedule: throttle hits and sign-in attempts past any window, finished bake jobs past the
 // retention (the newest job of each version is kept: the version page shows how its last bake ended), and uploads
-// (plates, thumbnails, exports) started but never completed: their rows and whatever reached the store.
+// (plates, thumbnails, exports) started but never completed: their rows and whatever reached the store; and objects a
+// form wrote under uploads/ after its upload was completed.
 import { and, eq, inArray, lt, sql } from 'drizzle-orm';
 import { db } from './db';
 import { assets, bakeJobs, signInAttempts, throttleHits } from './db/schema';
 import { deleteObject } from './storage';
+import { sweepUploadPrefix } from './uploads';
 
 /**
  * pendingUploadsHours: an upload form is valid 15 minutes, so after this long a pending upload can only be one whose
@@ -48,7 +50,9 @@ export async function purgeOld(now = new Date()) {
       ),
     );
   const pendingUploads = await purgeStaleUploads(before(RETENTION.pendingUploadsHours * 3600_000));
-  return { throttleHits: hits.affectedRows, signInAttempts: attempts.affectedRows, bakeJobs: jobs.affectedRows, pendingUploads };
+  // Objects a form wrote under uploads/ after its upload was completed (or refused): nothing points at them.
+  const strayUploads = await sweepUploadPrefix(before(RETENTION.pendingUploadsHours * 3600_000));
+  return { throttleHits: hits.affectedRows, signInAttempts: attempts.affectedRows, bakeJobs: jobs.affectedRows, pendingUploads, strayUploads };
 }
 
 /** Runs purgeOld every `everyMs` (first run after a minute); the timer never keeps the process alive. */

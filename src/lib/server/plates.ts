@@ -12,7 +12,8 @@ import { assets, shots } from './db/schema';
 import { HttpError } from './http';
 import type { StudioAccess } from './authz';
 import { audit } from './audit';
-import { deleteObject, getObject, headObject, presignGet, presignPost, putObject } from './storage';
+import { deleteObject, getObject, headObject, presignGet, presignPost, putObject, uploadKey } from './storage';
+import { moveToFinalKey } from './uploads';
 import { getShotRow } from './library';
 import { canThumbnailOnServer, makeStillThumbnail } from './thumbnails';
 import { PLATE_LIMITS, STILL_TYPES, MB, type PlateUploadBody } from '../library/schemas';
@@ -91,7 +92,8 @@ export async function startPlateUpload(access: StudioAccess, shotId: number, bod
   const shot = await getShotRow(access, shotId);
   const limit = sizeLimit(body.kind, body.contentType);
   if (body.byteSize > limit) throw tooLarge(body.kind === 'thumbnail' ? 'A thumbnail' : isStill(body.contentType) ? 'A still plate' : 'A video plate', limit);
-  const storageKey = `studios/${access.studioId}/shots/${shot.id}/${body.kind}s/${randomBytes(12).toString('hex')}.${EXTENSION[body.contentType]}`;
+  // The form writes under uploads/ only; completion copies the file to its final key and checks that copy.
+  const storageKey = uploadKey(access.studioId, randomBytes(12).toString('hex'), EXTENSION[body.contentType]!);
   const meta: PendingMeta = { state: 'pending', fileName: body.fileName, declaredSize: body.byteSize };
   const [res] = await db().insert(assets).values({
     studioId: access.studioId,
@@ -145,11 +147,18 @@ export async function completePlateUpload(
   if (meta?.state !== 'pending') throw new HttpError('conflict', 'This upload is already complete');
   await getShotRow(access, asset.shotId!);
   const kind = asset.kind as 'plate' | 'thumbnail';
-  const head = await headObject(asset.storageKey);
+  if (!(await headObject(asset.storageKey))) throw new HttpError('conflict', 'No file has arrived for this upload yet: send it to the upload form first');
+  // What is checked from here on is the copy at the final key: the form cannot write there.
+  const storageKey = await moveToFinalKey(
+    asset.id,
+    asset.storageKey,
+    `studios/${access.studioId}/shots/${asset.shotId}/${kind}s/${randomBytes(12).toString('hex')}.${EXTENSION[asset.contentType] ?? 'bin'}`,
+  );
+  const head = await headObject(storageKey);
   if (!head) throw new HttpError('conflict', 'No file has arrived for this upload yet: send it to the upload form first');
 
   const refuse = async (err: HttpError) => {
-    await deleteObject(asset.storageKey).catch(() => undefined);
+    await deleteObject(storageKey).catch(() => undefined);
     await db().delete(assets).where(eq(assets.id, asset.id));
     await audit({ studioId: access.studioId, actorId: access.userId, action: `${kind}.refused`, targetType: 'asset', targetId: asset.id, detail: { reason: err.message } });
     return err;
@@ -163,7 +172,7 @@ export async function completePlateUpload(
   }
   if (head.size === 0) throw await refuse(new HttpError('unprocessable', `"${meta.fileName}" is empty`));
 
-  const bytes = await getObject(asset.storageKey, [0, Math.min(head.size, HEADER_BYTES) - 1]);
+  const bytes = await getObject(storageKey, [0, Math.min(head.size, HEADER_BYTES) - 1]);
   const detected = await fileTypeFromBuffer(bytes);
   const declaredName = NAMES[asset.contentType] ?? asset.contentType;
   if (!detected) {
@@ -204,7 +213,7 @@ export async function completePlateUpload(
   }
 
   // A new plate brings its own thumbnail (made here for PNG and JPEG; for other types the browser sends one next).
-  const thumb = kind === 'plate' ? await makePlateThumbnail(access.studioId, asset.shotId!, asset, head.size, bytes) : null;
+  const thumb = kind === 'plate' ? await makePlateThumbnail(access.studioId, asset.shotId!, { storageKey, contentType: asset.contentType }, head.size, bytes) : null;
   const ready: PendingMeta = { ...meta, state: 'ready', ...(measured.durationSeconds ? { durationSeconds: measured.durationSeconds } : {}) };
   const thumbnailId = await db().transaction(async (tx) => {
     await tx

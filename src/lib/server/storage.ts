@@ -9,6 +9,8 @@ import {
   UploadPartCommand,
   CompleteMultipartUploadCommand,
   AbortMultipartUploadCommand,
+  CopyObjectCommand,
+  ListObjectsV2Command,
 } from '@aws-sdk/client-s3';
 import { createHash } from 'node:crypto';
 import type { Readable } from 'node:stream';
@@ -78,6 +80,31 @@ export async function headObject(key: string): Promise<{ size: number; contentTy
 export async function deleteObject(key: string): Promise<void> {
   await s3().send(new DeleteObjectCommand({ Bucket: bucket(), Key: key }));
 }
+
+/** Copies an object to another key inside the bucket, on the store's side (one request, objects up to 5 GB). */
+export async function copyObject(from: string, to: string): Promise<void> {
+  await s3().send(new CopyObjectCommand({ Bucket: bucket(), Key: to, CopySource: `${bucket()}/${from.split('/').map(encodeURIComponent).join('/')}` }));
+}
+
+/** Keys under `prefix` last modified before `before`, at most `limit` of them (oldest listing order, not sorted). */
+export async function keysOlderThan(prefix: string, before: Date, limit = 1000): Promise<string[]> {
+  const out: string[] = [];
+  let token: string | undefined;
+  do {
+    const res = await s3().send(new ListObjectsV2Command({ Bucket: bucket(), Prefix: prefix, ContinuationToken: token }));
+    for (const o of res.Contents ?? []) if (o.Key && o.LastModified && o.LastModified < before) out.push(o.Key);
+    token = res.IsTruncated ? res.NextContinuationToken : undefined;
+  } while (token && out.length < limit);
+  return out.slice(0, limit);
+}
+
+/**
+ * Where a browser upload lands before it is checked: `uploads/<studio>/<random>.<ext>`, a prefix the browser may
+ * write through a form and nothing reads. Completion copies the object to its final key (never writable by a form)
+ * and checks that copy, so a form used again after the check cannot replace what was checked.
+ */
+export const UPLOADS_PREFIX = 'uploads/';
+export const uploadKey = (studioId: number, random: string, ext: string) => `${UPLOADS_PREFIX}${studioId}/${random}.${ext}`;
 
 /** Stores bytes in one request that the signal can abort. */
 export async function putBytes(key: string, body: Uint8Array, contentType: string, signal?: AbortSignal): Promise<void> {
