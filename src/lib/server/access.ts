@@ -6,7 +6,7 @@
 import type { APIContext, AstroGlobal } from 'astro';
 import { and, eq, gt, inArray, isNull, ne, or, sql, type SQL } from 'drizzle-orm';
 import { db } from './db';
-import { clientShows, shareLinkRecipients, shareLinks, shots, shows, users, versions } from './db/schema';
+import { clientShows, notes, shareLinkRecipients, shareLinks, shots, shows, users, versions } from './db/schema';
 import { HttpError } from './http';
 import { requireRole, type StudioAccess } from './authz';
 import type { Role } from '../vocab';
@@ -123,6 +123,24 @@ export async function versionAccess(locals: Locals, versionId: number, role: Rol
   const access = await accessFor(locals, row.version.studioId, role);
   // The studio sees every version of its own; a client only what the rule shows it.
   return { access, ...(isClient(access) ? await loadVersion(access, versionId) : row) };
+}
+
+/** Access for a route that names only a note id, plus the note (401 / 404 other studio, internal or hidden from a client / 403). */
+export async function noteAccess(locals: Locals, noteId: number, role: Role) {
+  if (!locals.user) throw new HttpError('unauthenticated', 'Please sign in');
+  const [n] = await db()
+    .select({ id: notes.id, studioId: notes.studioId, parentId: notes.parentId, resolvedAt: notes.resolvedAt, internal: notes.internal, versionId: notes.versionId })
+    .from(notes)
+    .where(eq(notes.id, noteId));
+  if (!n) throw new HttpError('not_found', 'No such note');
+  const access = await accessFor(locals, n.studioId, role);
+  if (isClient(access)) {
+    if (n.internal) throw new HttpError('not_found', 'No such note');
+    await loadVersion(access, n.versionId).catch(() => {
+      throw new HttpError('not_found', 'No such note');
+    });
+  }
+  return { note: n, access };
 }
 
 /** Access for a route that names only a shot id, plus the shot under the rule. */

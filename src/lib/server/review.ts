@@ -1,13 +1,12 @@
 // Review on the server: version review transitions (with review events, the audit log and the shot's status in one
 // transaction), sharing with clients, frame-pinned notes, the review inbox and version comparison.
 // A client sees only versions shared with clients that are past draft, and never internal notes.
-import type { APIContext } from 'astro';
 import { and, asc, desc, eq, gt, inArray, isNull, lt, ne, or, sql, type SQL } from 'drizzle-orm';
 import { alias } from 'drizzle-orm/mysql-core';
 import { db, type Db } from './db';
 import { assets, auditLog, memberships, noteReads, notes, reviewEvents, shots, shows, users, versions } from './db/schema';
 import { HttpError } from './http';
-import { requireRole, type StudioAccess } from './authz';
+import type { StudioAccess } from './authz';
 import { asSeenBy, clientVersionIds, loadVersion, STUDIO_ACTOR } from './access';
 import { decideTransition, shotStatusAfter, type ReviewAction } from '../review/states';
 import { healthOf } from '../sim/health';
@@ -18,7 +17,6 @@ import type { ReviewState, Role } from '../vocab';
 import { notifyDecision, notifySubmitted } from './notify';
 import { clientSignOffView } from './client-signoff';
 
-type Locals = APIContext['locals'];
 type Tx = Parameters<Parameters<Db['transaction']>[0]>[0];
 type VersionRow = typeof versions.$inferSelect;
 type ShotRow = typeof shots.$inferSelect;
@@ -339,23 +337,6 @@ export async function createNote(access: StudioAccess, v: VersionRow, shot: Shot
   return noteView(row as NoteRow);
 }
 
-/** Loads a note for the signed-in user with at least `role` (401 / 404 other studio or hidden / 403). */
-export async function noteFor(locals: Locals, noteId: number, role: Role) {
-  if (!locals.user) throw new HttpError('unauthenticated', 'Please sign in');
-  const [n] = await db()
-    .select({ id: notes.id, studioId: notes.studioId, parentId: notes.parentId, resolvedAt: notes.resolvedAt, internal: notes.internal, version: versions })
-    .from(notes)
-    .innerJoin(versions, eq(versions.id, notes.versionId))
-    .where(eq(notes.id, noteId));
-  if (!n) throw new HttpError('not_found', 'No such note');
-  const access = await requireRole(locals, n.studioId, role);
-  if (isClient(access) && n.internal) throw new HttpError('not_found', 'No such note');
-  if (isClient(access)) await loadVersion(access, n.version.id).catch(() => {
-    throw new HttpError('not_found', 'No such note');
-  });
-  return { note: n, access };
-}
-
 /** Resolves or reopens a note thread (replies follow their thread, so only top-level notes are resolved). */
 export async function setNoteResolved(access: StudioAccess, note: { id: number; parentId: number | null; resolvedAt: Date | null }, resolved: boolean) {
   if (note.parentId !== null) throw fieldError('resolved', 'applies to a whole thread: resolve the note this reply belongs to');
@@ -639,9 +620,8 @@ async function assignedShots(studioId: number, userId: string) {
 
 // ── Compare ──────────────────────────────────────────────────────────────────────────────────────────────────────
 
-/** Two versions of the same shot with their scenes and the change table from `a` to `b`. */
-export async function compareVersions(locals: Locals, studioId: number, aId: number, bId: number) {
-  const access = await requireRole(locals, studioId, 'client');
+/** Two versions of the same shot with their scenes and the change table from `a` to `b` (404 for one the reader may not see). */
+export async function compareVersions(access: StudioAccess, aId: number, bId: number) {
   const [a, b] = await Promise.all([loadVersion(access, aId), loadVersion(access, bId)]);
   if (a.version.shotId !== b.version.shotId) throw fieldError('b', 'must be a version of the same shot as a');
   const shot = a.shot;

@@ -10,7 +10,7 @@ const Query = z.object({ a: versionId, b: versionId }).strict();
 
 export const GET = endpoint(async ({ params, locals, url }) => {
   const studioId = idParam(params, 'studioId');
-  await requireRole(locals, studioId, 'client');
+  const access = await requireRole(locals, studioId, 'client');
   const q = readQuery(url, Query);
-  return json(await compareVersions(locals, studioId, q.a, q.b));
+  return json(await compareVersions(access, q.a, q.b));
 });
