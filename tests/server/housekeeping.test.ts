@@ -59,4 +59,22 @@ describe('pending uploads', () => {
     // The expired upload can no longer be completed.
     expect((await artist.post(`/api/studios/${studio.id}/plates/${stale.body.assetId}/complete`, {})).status).toBe(404);
   });
+
+  it('an export never completed expires the same way', async () => {
+    const { makeVersion: version } = await import('./endpoints');
+    const { postUploadForm } = await import('../support/plates');
+    const { assets } = await import('../../src/lib/server/db/schema');
+    const { headObject } = await import('../../src/lib/server/storage');
+    const studio = await makeStudio();
+    const { versionId } = await version(studio, { baked: true });
+    const gif = new Uint8Array([0x47, 0x49, 0x46, 0x38, 0x39, 0x61, 2, 0, 2, 0, 0, 0, 0, 0x2c, 0, 0x3b]);
+    const options = { first: 1001, last: 1010, width: 320, height: 180, look: 'surface', slate: true, burnIns: true, plate: false };
+    const start = await studio.members.artist.client.post(`/api/versions/${versionId}/exports`, { format: 'gif', byteSize: gif.length, fileName: 'X_v001.gif', options });
+    expect(start.status, JSON.stringify(start.body)).toBe(201);
+    expect((await postUploadForm(start.body.upload, gif, 'image/gif')).status).toBe(204);
+    await db().update(assets).set({ createdAt: new Date(Date.now() - (RETENTION.pendingUploadsHours + 1) * 3600_000) }).where(eq(assets.id, start.body.assetId));
+    expect((await purgeOld()).pendingUploads).toBeGreaterThanOrEqual(1);
+    expect(await db().select().from(assets).where(eq(assets.id, start.body.assetId))).toHaveLength(0);
+    expect(await headObject(start.body.upload.fields.key)).toBeNull();
+  });
 });
