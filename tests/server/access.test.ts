@@ -290,6 +290,24 @@ describe('client visibility: two brands in one studio', () => {
     for (const p of paths) expect([403, 404], p).toContain((await brands[0].client.get(p)).status);
   });
 
+  it('every write route with two ids, one from another studio, answers 404 and changes nothing', async () => {
+    const ours: Record<string, number> = { studioId: studio.id, showId: brands[0].showId, shotId: brands[0].sharedShotId, versionId: brands[0].sharedVersionId, noteId: ids.note[0]!, assetId: ids.asset[0]! };
+    const theirs: Record<string, number> = { studioId: other.id, showId: otherShowId, shotId: otherShotId, versionId: otherVersionId, assetId: otherPlateId };
+    const calls = ENDPOINTS.filter((e) => e.method !== 'GET').flatMap((e) => {
+      const names = [...e.route.matchAll(/\[(\w+)\]/g)].map((m) => m[1]!);
+      if (names.length < 2 || !names.every((n) => n in ours)) return [];
+      return names.filter((n) => n in theirs).map((odd) => ({ e, path: names.reduce((p, n) => p.replace(`[${n}]`, String(n === odd ? theirs[n] : ours[n])), e.route) }));
+    });
+    expect(calls.length).toBeGreaterThan(10);
+    const before = JSON.stringify(await db().select().from(shots).where(eq(shots.studioId, other.id)));
+    // A valid body for the route, so only the other studio's id can stop it; the owner may call every route.
+    for (const { e, path: p } of calls) {
+      const res = await studio.members.owner.client.request(e.method, p, e.body?.(studio) ?? {});
+      expect(res.status, `${e.method} ${p} → ${JSON.stringify(res.body)}`).toBe(404);
+    }
+    expect(JSON.stringify(await db().select().from(shots).where(eq(shots.studioId, other.id)))).toBe(before);
+  });
+
   it('an invited client sees the shows its invitation named; the owner changes them on the membership', async () => {
     const owner = studio.members.owner.client;
     const email = `${unique('brand')}@test.example`;
