@@ -11,10 +11,11 @@ import { postUploadForm, uploadPngPlate } from '../support/plates';
 import { closeDb, db } from '../../src/lib/server/db';
 import { shots, shows } from '../../src/lib/server/db/schema';
 import { demoScene } from '../../src/lib/server/seed';
-import { demoCanPicture, rooftopPoolPlate } from '../../src/lib/server/demo-plates';
+import { demoCanPicture, encodePng, rooftopPoolPlate } from '../../src/lib/server/demo-plates';
 
 let studio: TestStudio;
 let versionId: number;
+let shotId: number;
 const FIRST = 1001, LAST = 1084, MID = 1042;
 const PLATE = { width: 960, height: 540 };
 
@@ -25,7 +26,7 @@ beforeAll(async () => {
   const [shot] = await db()
     .insert(shots)
     .values({ studioId: studio.id, showId: Number(show.insertId), code: unique('CNB_020').slice(0, 20), firstFrame: FIRST, lastFrame: LAST, frameRate: '25' });
-  const shotId = Number(shot.insertId);
+  shotId = Number(shot.insertId);
   await uploadPngPlate(studio, shotId, rooftopPoolPlate(PLATE.width, PLATE.height), 'rooftop-pool.png');
 
   // The can's picture, uploaded as an artist would: start → presigned POST → complete.
@@ -132,4 +133,61 @@ describe('the hero demo can drawn as its picture', () => {
       await b.close();
     }
   }, 300_000);
+
+  it('the editor draws the picture at the can\'s pose, and the Look section switches it and uploads another', async () => {
+    const b = await openBrowser();
+    try {
+      const { page } = b;
+      const errors: string[] = [];
+      page.on('pageerror', (e) => errors.push(e.message));
+      await signInAs(page, studio.members.artist.email, studio.members.artist.password);
+      await page.waitForURL((url) => !url.pathname.startsWith('/sign-in'));
+      await page.goto(`/studios/${studio.slug}/shots/${shotId}/edit`);
+      const canvas = page.getByTestId('editor-canvas');
+      await canvas.waitFor();
+      await hydrated(page, 'editor-view');
+      const goldIn = async (name: string) => countPixels(await canvas.screenshot({ path: `test-results/screenshots/prop-picture-editor-${name}.png` }), gold);
+      // The latest version names the picture: the view draws it once the studio's pictures are listed and decoded.
+      await expect.poll(() => goldIn('opened'), { timeout: 30_000 }).toBeGreaterThan(10);
+      await screenshot(page, 'prop-picture-editor');
+
+      // Pick the can (free, at its drawn pose before the preview moves it) and open its Look.
+      await page.getByTestId('editor-view').focus();
+      await page.keyboard.press('1');
+      const p = (await page.evaluate(() => (window as any).tidemarkEditor.toClient(0.8, 0.801))) as [number, number];
+      await page.mouse.click(p[0], p[1]);
+      const look = page.getByTestId('prop-look');
+      await look.waitFor();
+      expect(await look.getByRole('radio', { name: 'Picture' }).isChecked()).toBe(true);
+      expect(await page.getByTestId('prop-picture').locator('option:checked').textContent()).toContain('kestrelwell-can.png');
+
+      // Fill colour: the picture goes from the document and the view.
+      await look.getByRole('radio', { name: 'Fill colour' }).check();
+      await expect.poll(() => page.evaluate(() => (window as any).tidemarkEditor.doc().props[0].picture)).toBeUndefined();
+      await expect.poll(() => goldIn('fill-colour')).toBe(0);
+
+      // Picture again: a flat PNG is refused with the server's reason; the cut-out is taken and drawn.
+      await look.getByRole('radio', { name: 'Picture' }).check();
+      const flat = encodePng(16, 16, new Uint8Array(16 * 16 * 3).fill(200));
+      await page.getByTestId('prop-picture-file').setInputFiles({ name: 'flat.png', mimeType: 'image/png', buffer: Buffer.from(flat) });
+      await expect.poll(() => page.getByRole('alert').filter({ hasText: 'no transparency' }).count(), { timeout: 30_000 }).toBe(1);
+      expect(await page.evaluate(() => (window as any).tidemarkEditor.doc().props[0].picture)).toBeUndefined();
+      await page.getByTestId('prop-picture-file').setInputFiles({ name: 'can-again.png', mimeType: 'image/png', buffer: Buffer.from(demoCanPicture()) });
+      await expect.poll(() => page.evaluate(() => (window as any).tidemarkEditor.doc().props[0].picture), { timeout: 30_000 }).toBeGreaterThan(0);
+      await expect.poll(() => goldIn('uploaded'), { timeout: 30_000 }).toBeGreaterThan(10);
+
+      // The live preview moves the free can; the picture goes with it.
+      await page.getByRole('button', { name: 'Play' }).click();
+      await page.waitForTimeout(4000);
+      await page.getByRole('button', { name: 'Pause' }).click();
+      await page.waitForTimeout(300);
+      const frame = await page.evaluate(() => (window as any).tidemarkEditor.frame());
+      console.log(`prop picture (editor): live preview paused at frame ${frame}`);
+      expect(await goldIn('live-preview')).toBeGreaterThan(10);
+      await screenshot(page, 'prop-picture-editor-live-preview');
+      expect(errors).toEqual([]);
+    } finally {
+      await b.close();
+    }
+  }, 240_000);
 });
