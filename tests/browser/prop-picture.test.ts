@@ -1,10 +1,14 @@
 // Browser: the hero demo shot (the free soda can dropped into the rooftop pool, CNB_020's scene from the demo seed)
 // with the can drawn as the demo's prop picture (demoCanPicture: a fictional red can with a gold sun and a white wave
-// band), uploaded like a plate, baked, and opened at a mid-clip frame on the version page and on a share link. The
-// screenshots in test-results/screenshots/ are what a client would judge: the can is a can, where the solver put it.
+// band), uploaded like a plate, baked, and opened at a mid-clip frame on the version page, in a PNG export and on a
+// share link; and the editor drawing it at the can's pose. The screenshots in test-results/screenshots/ are what a
+// client would judge: the can is a can, where the solver put it.
 import { describe, it, expect, beforeAll, afterAll } from 'vitest';
 import { PNG } from 'pngjs';
-import { countPixels, hydrated, openBrowser, openPlayerAt, screenshot, signInAs } from '../support/browser';
+import { unzipSync } from 'fflate';
+import { mkdirSync, readFileSync, writeFileSync } from 'node:fs';
+import path from 'node:path';
+import { countPixels, hydrated, openBrowser, openPlayerAt, screenshot, signInAs, SHOTS_DIR } from '../support/browser';
 import { bakeAndWait } from '../support/bake';
 import { makeStudio, unique, type TestStudio } from '../support/app';
 import { postUploadForm, uploadPngPlate } from '../support/plates';
@@ -67,7 +71,7 @@ function where(png: Buffer, test: (r: number, g: number, b: number) => boolean) 
 }
 
 describe('the hero demo can drawn as its picture', () => {
-  it('shows the can picture where the solver put it at a mid-clip frame, on the version page and the share page', async () => {
+  it('shows the can picture where the solver put it at a mid-clip frame: version page, PNG export and share page', async () => {
     const b = await openBrowser();
     try {
       const { page } = b;
@@ -102,6 +106,31 @@ describe('the hero demo can drawn as its picture', () => {
       await page.waitForTimeout(300);
       const speed = await page.getByTestId('player-view').screenshot({ path: 'test-results/screenshots/prop-picture-mid-clip-speed.png' });
       expect(countPixels(speed, gold)).toBeGreaterThan(sunPx * 0.4);
+
+      // A PNG export of the mid-clip frame (rendered in this browser by the exports' renderer) draws it too.
+      const panel = page.getByTestId('export-panel');
+      await panel.scrollIntoViewIfNeeded({ timeout: 30_000 });
+      await page.locator('astro-island:not([ssr]) [data-testid="export-panel"]').waitFor({ timeout: 30_000 });
+      await panel.locator('input[name="export-format"][value="zip"]').check();
+      await panel.getByLabel('Frame range').selectOption('custom');
+      await panel.getByLabel('In frame').fill(String(MID));
+      await panel.getByLabel('Out frame').fill(String(MID));
+      await panel.getByRole('button', { name: /^Export / }).click();
+      await page.getByTestId('export-done').waitFor({ timeout: 120_000 });
+      const [download] = await Promise.all([page.waitForEvent('download'), page.getByTestId('export-download').click()]);
+      const zipped = readFileSync((await download.path())!);
+      const entries = unzipSync(new Uint8Array(zipped));
+      const frameName = Object.keys(entries).find((n) => n.endsWith(`.${MID}.png`));
+      expect(frameName, Object.keys(entries).join(', ')).toBeDefined();
+      mkdirSync(SHOTS_DIR, { recursive: true });
+      writeFileSync(path.join(SHOTS_DIR, 'prop-picture-export-frame.png'), entries[frameName!]);
+      const exported = PNG.sync.read(Buffer.from(entries[frameName!]));
+      const ePxPerM = exported.width / 1.6;
+      const eSun = Math.PI * (0.085 * 0.122 * ePxPerM) ** 2;
+      const exportedSun = countPixels(Buffer.from(entries[frameName!]), gold);
+      console.log(`prop picture (PNG export): ${exportedSun} gold pixels, ${Math.round(eSun)} expected at ${exported.width}×${exported.height}`);
+      expect(exportedSun).toBeGreaterThan(eSun * 0.4);
+      expect(exportedSun).toBeLessThan(eSun * 2);
       expect(errors).toEqual([]);
 
       // A client with a share link sees the same can: the share page draws with the exports' renderer.
