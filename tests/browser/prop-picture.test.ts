@@ -219,4 +219,39 @@ describe('the hero demo can drawn as its picture', () => {
       await b.close();
     }
   }, 240_000);
+
+  it('the compare view draws each side as its own scene names it: the picture on one, the fill colour on the other', async () => {
+    const artist = studio.members.artist.client;
+    const first = await artist.get(`/api/versions/${versionId}`);
+    const scene = first.body.version.scene as { props: { picture?: number }[] };
+    const { picture: _p, ...filled } = scene.props[0];
+    const saved = await artist.post(`/api/shots/${shotId}/versions`, { scene: { ...scene, props: [filled] }, comment: 'The can in its fill colour' });
+    expect(saved.status, JSON.stringify(saved.body)).toBe(201);
+    const fillVersion = saved.body.version.id as number;
+    // The picture is not part of the bake: the same scene hash, so the first version's clip is reused.
+    expect(saved.body.version.sceneHash).toBe(first.body.version.sceneHash);
+    await bakeAndWait(artist, fillVersion, 120_000);
+    const b = await openBrowser();
+    try {
+      const { page } = b;
+      await signInAs(page, studio.members.artist.email, studio.members.artist.password);
+      await page.waitForURL((url) => !url.pathname.startsWith('/sign-in'));
+      await page.goto(`/studios/${studio.slug}/compare?a=${versionId}&b=${fillVersion}&frame=${MID}`);
+      await page.getByTestId('compare-mode-side').click();
+      await expect.poll(() => page.getByTestId('compare-frame-number').textContent(), { timeout: 30_000 }).toBe(String(MID));
+      await page.waitForTimeout(500);
+      await screenshot(page, 'prop-picture-compare');
+      const a = await page.getByTestId('compare-a').screenshot({ path: 'test-results/screenshots/prop-picture-compare-a.png' });
+      const bShot = await page.getByTestId('compare-b').screenshot({ path: 'test-results/screenshots/prop-picture-compare-b.png' });
+      const box = (await page.getByTestId('compare-a').boundingBox())!;
+      const sun = Math.PI * (0.085 * 0.122 * (box.width / 1.6)) ** 2;
+      const goldA = countPixels(a, gold), goldB = countPixels(bShot, gold), redB = countPixels(bShot, canRed);
+      console.log(`prop picture (compare): ${goldA} gold pixels on the picture side (${Math.round(sun)} expected), ${goldB} on the fill side, ${redB} red there`);
+      expect(goldA).toBeGreaterThan(sun * 0.4);
+      expect(goldB).toBe(0);
+      expect(redB).toBeGreaterThan(0.066 * 0.122 * (box.width / 1.6) ** 2 * 0.6); // the can filled in its red
+    } finally {
+      await b.close();
+    }
+  }, 240_000);
 });
