@@ -53,4 +53,4 @@ export const HANDLE_CONVENTION_WORDS: Record<HandleConvention, string> = {
 
 export const BAKE_STATES = ['none', 'queued', 'baking', 'baked', 'failed', 'cancelled'] as const;
 export const JOB_STATES = ['queued', 'running', 'done', 'failed', 'cancelled'] as const;
-export const ASSET_KINDS = ['plate', 'thumbnail', 'clip', 'stats', 'export'] as const;
+export const ASSET_KINDS = ['plate', 'thumbnail', 'clip', 'stats', 'export', 'picture'] as const;

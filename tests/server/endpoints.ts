@@ -524,3 +524,36 @@ ENDPOINTS.push(
   },
   { method: 'POST', route: '/api/shared/[token]/decision', access: 'public', path: () => '/api/shared/x/decision' },
 );
+
+// ── Prop pictures ────────────────────────────────────────────────────────────────────────────────────────────────
+// Studio-wide cut-outs props are drawn as (src/lib/server/prop-pictures.ts): artists and up upload, list and choose
+// them; a client sees one only through a version shared with them (GET /api/versions/:id/clip, share media).
+import { encodePng } from '../../src/lib/server/png';
+
+/** A pending prop picture whose file (an 8 × 8 RGBA PNG) has already reached the store. */
+export async function pendingPicture(s: TestStudio): Promise<number> {
+  const storageKey = `studios/${s.id}/pictures/${unique('matrix')}.png`;
+  const png = encodePng(8, 8, new Uint8Array(8 * 8 * 4).fill(128), 4);
+  await putObject(storageKey, png, 'image/png');
+  const [res] = await db()
+    .insert(tables.assets)
+    .values({ studioId: s.id, kind: 'picture', storageKey, contentType: 'image/png', byteSize: png.length, meta: { state: 'pending', fileName: 'matrix.png', declaredSize: png.length } });
+  return Number(res.insertId);
+}
+
+ENDPOINTS.push(
+  { method: 'GET', route: '/api/studios/[studioId]/pictures', access: 'artist', path: (s) => `${lib(s)}/pictures` },
+  {
+    method: 'POST',
+    route: '/api/studios/[studioId]/pictures',
+    access: 'artist',
+    path: (s) => `${lib(s)}/pictures`,
+    body: () => ({ fileName: 'can.png', contentType: 'image/png', byteSize: 2048 }),
+  },
+  {
+    method: 'POST',
+    route: '/api/studios/[studioId]/pictures/[assetId]/complete',
+    access: 'artist',
+    path: async (s) => `${lib(s)}/pictures/${await pendingPicture(s)}/complete`,
+  },
+);

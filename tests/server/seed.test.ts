@@ -6,15 +6,17 @@ import { assets, memberships, shots, shows, studios, versions } from '../../src/
 import { seedDemo, DEMO_USERS, DEMO_STUDIO } from '../../src/lib/server/seed';
 import { headObject } from '../../src/lib/server/storage';
 import { Client } from '../support/app';
+import { getObject } from '../../src/lib/server/storage';
+import { PNG } from 'pngjs';
 
 afterAll(closeDb);
 
 async function counts(studioId: number) {
   const n = async (t: typeof shows | typeof shots | typeof versions | typeof memberships) =>
     Number((await db().select({ n: sql<number>`count(*)` }).from(t).where(eq(t.studioId, studioId)))[0].n);
-  // Plates and thumbnails only: a bake worker may store a clip asset between two seeds.
+  // Plates, thumbnails and prop pictures only: a bake worker may store a clip asset between two seeds.
   const pictures = Number(
-    (await db().select({ n: sql<number>`count(*)` }).from(assets).where(and(eq(assets.studioId, studioId), inArray(assets.kind, ['plate', 'thumbnail']))))[0].n,
+    (await db().select({ n: sql<number>`count(*)` }).from(assets).where(and(eq(assets.studioId, studioId), inArray(assets.kind, ['plate', 'thumbnail', 'picture']))))[0].n,
   );
   return { shows: await n(shows), shots: await n(shots), versions: await n(versions), members: await n(memberships), pictures };
 }
@@ -88,5 +90,25 @@ describe('demo plates through the API', () => {
     const png = await fetch(withThumb[0].thumbnailUrl);
     expect(png.status).toBe(200);
     expect(Buffer.from(await png.arrayBuffer()).subarray(1, 4).toString('ascii')).toBe('PNG');
+  });
+});
+
+describe('the demo can', () => {
+  it('is drawn as the studio\'s prop picture in the soda shots: a ready RGBA PNG, transparent round the can', async () => {
+    const id = await seedDemo();
+    const [hero] = await db().select().from(shots).where(and(eq(shots.studioId, id), eq(shots.code, 'CNB_020')));
+    const [version] = await db().select().from(versions).where(eq(versions.shotId, hero.id));
+    const can = (version.scene as { props: { id: string; picture?: number; colour?: string }[] }).props.find((p) => p.id === 'can')!;
+    expect(can.picture).toBeGreaterThan(0);
+    expect(can.colour).toBe('#D23C32'); // its rim
+    const [picture] = await db().select().from(assets).where(eq(assets.id, can.picture!));
+    expect([picture.studioId, picture.kind, picture.contentType, (picture.meta as { state: string }).state]).toEqual([id, 'picture', 'image/png', 'ready']);
+    // Read back with pngjs (an independent decoder): 132 × 244, the can's 66 × 122 mm proportions (seed.ts).
+    const img = PNG.sync.read(Buffer.from(await getObject(picture.storageKey)));
+    expect([img.width, img.height]).toEqual([picture.width, picture.height]);
+    expect(img.width / img.height).toBeCloseTo(66 / 122, 2);
+    const alpha = (x: number, y: number) => img.data[(y * img.width + x) * 4 + 3];
+    expect(alpha(0, 0)).toBe(0); // a cut corner (the can's rounded shoulder)
+    expect(alpha(img.width >> 1, img.height >> 1)).toBe(255);
   });
 });

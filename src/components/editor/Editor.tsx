@@ -13,6 +13,7 @@ import { tankCells } from '~/lib/scene/schema';
 import { RENDER_LOOKS, LOOK_LABELS, type RenderLook } from '~/lib/render/looks';
 import type { Vec } from '~/lib/editor/geometry';
 import { PreviewController } from './preview-controller';
+import { PictureShelf } from './picture-shelf';
 import { Viewport, type PlateInfo, type ViewControls } from './Viewport';
 import { Inspector, ParamsPanel } from './Panels';
 import { LiquidsPanel } from './LiquidsPanel';
@@ -41,6 +42,11 @@ export default function Editor({ boot }: { boot: EditorBoot }) {
   const preview = useMemo(() => new PreviewController((f) => store.setFrame(f), () => store.snapshot.frame), [store]);
   const pv = useSyncExternalStore(preview.subscribe, preview.getSnapshot, preview.getSnapshot);
   const viewRef = useRef<ViewControls | null>(null);
+  const pictures = useMemo(() => new PictureShelf(boot.studio.id), [boot]);
+  // The view draws the scene's prop pictures: list them once at the start when any prop names one.
+  useEffect(() => {
+    if (store.doc.props.some((p) => p.picture !== undefined)) void pictures.load();
+  }, [store, pictures]);
   const [panel, setPanel] = useState<'inspector' | 'liquids' | 'params'>('inspector');
   const [look, setLook] = useState<RenderLook>('surface');
   const [showPreview, setShowPreview] = useState(true);
@@ -233,7 +239,7 @@ export default function Editor({ boot }: { boot: EditorBoot }) {
                 <button type="button" className="btn-quiet px-3 py-1" onClick={() => { dropDraft(localStorage, shotId); setOffer(null); }}>Discard</button>
               </div>
             )}
-            <Viewport store={store} preview={preview} plate={plate} plateFirstFrame={plateStartFrame(boot.shot)} look={look} showPreview={showPreview} viewRef={viewRef} onCursor={onCursor} />
+            <Viewport store={store} preview={preview} pictures={pictures} plate={plate} plateFirstFrame={plateStartFrame(boot.shot)} look={look} showPreview={showPreview} viewRef={viewRef} onCursor={onCursor} />
             <div className="pointer-events-none absolute right-2 bottom-2 rounded bg-ink/70 px-2 py-0.5 text-[0.7rem] text-sand tabular-nums">
               {cursor ? `x ${cursor[0].toFixed(3)} m · y ${cursor[1].toFixed(3)} m` : 'Wheel zooms · Space-drag pans'}
             </div>
@@ -276,7 +282,7 @@ export default function Editor({ boot }: { boot: EditorBoot }) {
             ))}
           </div>
           <div className="min-h-0 flex-1 overflow-y-auto">
-            {panel === 'inspector' ? <Inspector store={store} snap={snap} shot={boot.shot} /> : panel === 'liquids' ? <LiquidsPanel store={store} snap={snap} /> : <ParamsPanel store={store} snap={snap} />}
+            {panel === 'inspector' ? <Inspector store={store} snap={snap} shot={boot.shot} pictures={pictures} /> : panel === 'liquids' ? <LiquidsPanel store={store} snap={snap} /> : <ParamsPanel store={store} snap={snap} />}
           </div>
           <p className="border-t border-sand-line px-3 py-1.5 text-[0.7rem] text-ink-muted" role="status" aria-live="polite" data-testid="editor-status">{snap.status || 'Ready'}</p>
         </aside>

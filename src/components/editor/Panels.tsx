@@ -1,13 +1,14 @@
 // The editor's side panels: the Inspector (the selected item's numbers, a spout's aim and frames, a prop's keys and the
 // timing helper) and the Parameters panel (tank, frame range, physics with units and explanations, physics presets).
 // Both read the same document as the view and change it only through the store's commands.
-import { useState } from 'react';
+import { useEffect, useRef, useState, useSyncExternalStore } from 'react';
 import type { EditorStore, EditorSnapshot } from '~/lib/editor/store';
 import { GROUP_LABEL, withCellSize, cellsNote, type AnyItem, type ItemRef } from '~/lib/editor/document';
 import { setSection, replaceDocument } from '~/lib/editor/commands';
 import { PARAMS, PHYSICS_PRESETS, applyPreset, readPath, sectionWith, type ParamSpec } from '~/lib/editor/params';
 import { planDrop, surfaceHeightAt, impactFrameOf } from '~/lib/editor/timing';
-import { PROP_DENSITY_RANGE } from '~/lib/scene/schema';
+import { DEFAULT_PROP_COLOUR, PROP_DENSITY_RANGE } from '~/lib/scene/schema';
+import type { PictureShelf } from './picture-shelf';
 import { shapeCentroid } from '~/lib/scene/shapes';
 import type { ShapeDoc } from '~/lib/scene/schema';
 import { jumpWarning } from '~/lib/editor/key-jump';
@@ -18,7 +19,7 @@ import { frameWithTimecode, type SourceTimecodeShot } from '~/lib/timecode';
 const r6 = (v: number) => Math.round(v * 1e6) / 1e6;
 
 /** `shot` (cut in, rate, source timecode at the cut in) pairs frame numbers with their source timecode. */
-export function Inspector({ store, snap, shot }: { store: EditorStore; snap: EditorSnapshot; shot?: SourceTimecodeShot }) {
+export function Inspector({ store, snap, shot, pictures }: { store: EditorStore; snap: EditorSnapshot; shot?: SourceTimecodeShot; pictures?: PictureShelf }) {
   if (snap.selection.length === 0) {
     return (
       <Section title="Selection">
@@ -35,10 +36,10 @@ export function Inspector({ store, snap, shot }: { store: EditorStore; snap: Edi
   }
   const sel = store.selectedItem();
   if (!sel) return null;
-  return <ItemInspector key={`${sel.ref.group}:${sel.ref.id}`} store={store} snap={snap} refItem={sel.ref} item={sel.item} shot={shot} />;
+  return <ItemInspector key={`${sel.ref.group}:${sel.ref.id}`} store={store} snap={snap} refItem={sel.ref} item={sel.item} shot={shot} pictures={pictures} />;
 }
 
-function ItemInspector({ store, snap, refItem, item, shot }: { store: EditorStore; snap: EditorSnapshot; refItem: ItemRef; item: AnyItem; shot?: SourceTimecodeShot }) {
+function ItemInspector({ store, snap, refItem, item, shot, pictures }: { store: EditorStore; snap: EditorSnapshot; refItem: ItemRef; item: AnyItem; shot?: SourceTimecodeShot; pictures?: PictureShelf }) {
   const [idText, setIdText] = useState(item.id);
   const [idError, setIdError] = useState<string | null>(null);
   const put = (next: AnyItem, label?: string) => store.updateItem(refItem, next, label);
@@ -99,6 +100,7 @@ function ItemInspector({ store, snap, refItem, item, shot }: { store: EditorStor
         {'liquid' in item && <p className="text-[0.7rem] text-ink-muted">Add or change liquids in the Liquids tab.</p>}
       </Section>
       {'startFrame' in item && <SpoutSection store={store} item={item} put={put} />}
+      {'keys' in item && <PropLookSection item={item} put={put} pictures={pictures} />}
       {'keys' in item && <MotionSection doc={snap.doc} item={item} put={put} />}
       {'keys' in item && <PropSection store={store} snap={snap} item={item} put={put} shot={shot} />}
     </>
@@ -121,6 +123,81 @@ function SpoutSection({ store, item, put }: { store: EditorStore; item: Extract<
 }
 
 type PropItem = Extract<AnyItem, { keys: unknown }>;
+
+/**
+ * How the player, exports and share page draw the prop: in a fill colour, or as one of the studio's prop pictures
+ * (a cut-out with alpha, fitted to the shape's bounds, drawn inside its outline). Choosing a picture needs no new bake.
+ */
+function PropLookSection({ item, put, pictures }: { item: PropItem; put: (n: AnyItem, l?: string) => void; pictures?: PictureShelf }) {
+  const shelf = useSyncExternalStore(pictures?.subscribe ?? noSubscribe, pictures?.getSnapshot ?? noShelf, pictures?.getSnapshot ?? noShelf);
+  const [wantsPicture, setWantsPicture] = useState(item.picture !== undefined);
+  const fileInput = useRef<HTMLInputElement>(null);
+  useEffect(() => {
+    if (pictures && shelf.status === 'idle') void pictures.load();
+  }, [pictures, shelf.status]);
+  const colour = item.colour ?? DEFAULT_PROP_COLOUR;
+  const usePicture = (id: number, name: string) => put({ ...item, picture: id } as AnyItem, `${item.id} drawn as ${name}`);
+  const useColour = () => {
+    setWantsPicture(false);
+    if (item.picture !== undefined) {
+      const { picture: _p, ...rest } = item;
+      put(rest as AnyItem, `${item.id} drawn in its fill colour`);
+    }
+  };
+  const chosen = shelf.pictures.find((p) => p.id === item.picture);
+  const showPicture = wantsPicture || item.picture !== undefined;
+  return (
+    <Section title="Look">
+      <fieldset className="flex flex-col gap-1 text-[0.8rem]" data-testid="prop-look">
+        <legend className="sr-only">How the prop is drawn</legend>
+        <label className="flex items-center gap-1.5">
+          <input type="radio" name={`look-${item.id}`} checked={!showPicture} onChange={useColour} />
+          <span className="font-medium">Fill colour</span>
+          <input type="color" aria-label="Fill colour" value={colour.toLowerCase()} className="ml-auto h-6 w-10 rounded border border-sand-line"
+            onChange={(e) => put({ ...item, colour: e.target.value.toUpperCase() } as AnyItem, `Colour of ${item.id}`)} />
+        </label>
+        <label className="flex items-center gap-1.5">
+          <input type="radio" name={`look-${item.id}`} checked={showPicture} onChange={() => setWantsPicture(true)} disabled={!pictures} />
+          <span className="font-medium">Picture</span>
+          <span className="text-ink-muted">— a cut-out of the product, fitted to the shape</span>
+        </label>
+      </fieldset>
+      {showPicture && pictures && (
+        <div className="mt-1.5 flex flex-col gap-1.5">
+          <div className="flex items-center justify-between gap-2">
+            <label htmlFor="prop-picture" className="text-[0.8rem] font-medium">Picture</label>
+            <select id="prop-picture" data-testid="prop-picture" value={item.picture ?? ''} className="w-40 rounded-md border border-sand-line bg-white px-2 py-1 text-[0.8rem]"
+              onChange={(e) => {
+                const p = shelf.pictures.find((x) => x.id === Number(e.target.value));
+                if (p) usePicture(p.id, p.fileName);
+              }}>
+              <option value="" disabled>{shelf.status === 'loading' ? 'Loading…' : shelf.pictures.length ? 'Choose…' : 'None uploaded yet'}</option>
+              {item.picture !== undefined && !chosen && shelf.status === 'ready' && <option value={item.picture}>Picture {item.picture} (not in this studio)</option>}
+              {shelf.pictures.map((p) => <option key={p.id} value={p.id}>{p.fileName} · {p.width}×{p.height}</option>)}
+            </select>
+          </div>
+          {chosen && <img src={chosen.url} alt={`Picture of ${item.id}`} className="mx-auto max-h-24 rounded border border-sand-line bg-[repeating-conic-gradient(#e8e2d6_0_25%,#fff_0_50%)] bg-[length:12px_12px] object-contain" />}
+          <input ref={fileInput} type="file" accept="image/png,image/webp" className="sr-only" data-testid="prop-picture-file" aria-label="Upload a prop picture"
+            onChange={async (e) => {
+              const file = e.target.files?.[0];
+              e.target.value = '';
+              if (!file) return;
+              const made = await pictures.upload(file);
+              if (made) usePicture(made.id, made.fileName);
+            }} />
+          <button type="button" className="btn-quiet py-1 text-xs" disabled={!!shelf.upload} onClick={() => fileInput.current?.click()}>
+            {shelf.upload ? (shelf.upload.fraction === null ? `Checking ${shelf.upload.name}…` : `Uploading ${shelf.upload.name} ${Math.round(shelf.upload.fraction * 100)}%`) : 'Upload a picture…'}
+          </button>
+          <p className="text-[0.7rem] leading-snug text-ink-muted">PNG or WebP with transparency, up to 2048 px a side and 8 MB. Its top edge sits along the top of the shape; the outline keeps the fill colour.</p>
+          {shelf.message && <p role="alert" className="text-[0.75rem] text-coral-700">{shelf.message}</p>}
+        </div>
+      )}
+    </Section>
+  );
+}
+const noSubscribe = () => () => undefined;
+const NO_SHELF = { pictures: [], status: 'ready', upload: null, message: null } as const;
+const noShelf = () => NO_SHELF as unknown as ReturnType<PictureShelf['getSnapshot']>;
 
 /** Keyed or free; a free prop's density, start speed and spin, or the frame its keys let it go. */
 function MotionSection({ doc, item, put }: { doc: EditorSnapshot['doc']; item: PropItem; put: (n: AnyItem, l?: string) => void }) {

@@ -14,6 +14,9 @@ import { fitBox, gridSteps, toScreen, toWorld, zoomAt, type Camera } from '~/lib
 import { shapeBounds, shapeCentroid } from '~/lib/scene/shapes';
 import { LookRenderer, type RenderLook } from '~/lib/render/looks';
 import type { Overlay } from '~/lib/editor/tools';
+import { shownPoseInto } from '~/lib/scene/pose';
+import type { PropImage } from '~/lib/render/solids';
+import type { PictureShelf } from './picture-shelf';
 
 export interface ViewControls { fit(): void; toClient(x: number, y: number): Vec }
 
@@ -22,6 +25,8 @@ export interface PlateInfo { url: string; contentType: string; width: number; he
 interface Props {
   store: EditorStore;
   preview: PreviewController;
+  /** The studio's prop pictures: a prop that names one is drawn as it, at its pose. */
+  pictures?: PictureShelf;
   plate: PlateInfo | null;
   /** First frame of the plate (the shot's first frame). */
   plateFirstFrame: number;
@@ -37,7 +42,7 @@ const COLOURS = {
   tank: 0xf4f1ea, grid: 0xffffff, handle: 0xffffff, accent: 0x0d7a78, guide: 0xfffdf8,
 } as const;
 
-export function Viewport({ store, preview, plate, plateFirstFrame, look, showPreview, viewRef, onCursor }: Props) {
+export function Viewport({ store, preview, pictures, plate, plateFirstFrame, look, showPreview, viewRef, onCursor }: Props) {
   const hostRef = useRef<HTMLDivElement>(null);
   const plateRef = useRef<HTMLImageElement & HTMLVideoElement>(null);
   const [failed, setFailed] = useState<string | null>(null);
@@ -61,7 +66,57 @@ export function Viewport({ store, preview, plate, plateFirstFrame, look, showPre
     const items = new Graphics();
     const guides = new Graphics();
     const labels = new Container();
-    world.addChild(grid, scene, particles, items, guides, labels);
+    // Props drawn as their picture: one masked sprite each, under the items' outlines.
+    const propPictures = new Container();
+    world.addChild(grid, scene, particles, propPictures, items, guides, labels);
+    const pictureSprites = new Map<string, { box: Container; sprite: Sprite; mask: Graphics }>();
+    const pictureTextures = new Map<PropImage, Texture>();
+    const textureOf = (img: PropImage) => {
+      let t = pictureTextures.get(img);
+      if (!t) {
+        const source = new BufferImageSource({
+          resource: new Uint8Array(img.data.buffer, img.data.byteOffset, img.data.byteLength), width: img.width, height: img.height,
+          format: 'rgba8unorm', alphaMode: 'premultiply-alpha-on-upload', scaleMode: 'linear', addressMode: 'clamp-to-edge', autoGenerateMipmaps: false,
+        });
+        pictureTextures.set(img, (t = new Texture({ source })));
+      }
+      return t;
+    };
+    const pose = { dx: 0, dy: 0, angle: 0 };
+    /**
+     * Draws the prop as its picture at the pose shown at `frame` (as the player does, src/lib/render/solids.ts): the
+     * picture over the drawn shape's bounds, masked by the drawn outline, turned about the drawn centroid and moved
+     * by the pose. Returns false while the picture is not decoded yet (the prop is then filled as usual).
+     */
+    function drawPicture(item: Extract<AnyItem, { keys: unknown }>, frame: number, solved: Parameters<typeof shownPoseInto>[2]): boolean {
+      const img = item.picture !== undefined && pictures ? pictures.imageOf(item.picture) : null;
+      if (!img) return false;
+      let entry = pictureSprites.get(item.id);
+      if (!entry) {
+        const box = new Container(), sprite = new Sprite(), mask = new Graphics();
+        sprite.mask = mask;
+        box.addChild(sprite, mask);
+        propPictures.addChild(box);
+        pictureSprites.set(item.id, (entry = { box, sprite, mask }));
+      }
+      const texture = textureOf(img);
+      if (entry.sprite.texture !== texture) entry.sprite.texture = texture;
+      const b = shapeBounds(item.shape);
+      const [bx, by] = toScreen(camera, b.minX, b.maxY);
+      entry.sprite.position.set(bx, by);
+      entry.sprite.width = (b.maxX - b.minX) * camera.scale;
+      entry.sprite.height = (b.maxY - b.minY) * camera.scale;
+      entry.mask.clear().poly(shapeOutline(item.shape).flatMap((p) => toScreen(camera, p[0], p[1]))).fill({ color: 0xffffff });
+      shownPoseInto(item, frame, solved, pose);
+      const c = shapeCentroid(item.shape);
+      const [px, py] = toScreen(camera, c[0], c[1]);
+      const [qx, qy] = toScreen(camera, c[0] + pose.dx, c[1] + pose.dy);
+      entry.box.pivot.set(px, py);
+      entry.box.position.set(qx, qy);
+      entry.box.rotation = (-pose.angle * Math.PI) / 180; // view y points down: counter-clockwise is negative
+      entry.box.visible = true;
+      return true;
+    }
     const labelPool: Text[] = [];
     const labelColours: number[] = [];
 
@@ -194,6 +249,7 @@ export function Viewport({ store, preview, plate, plateFirstFrame, look, showPre
 
       // Items.
       items.clear();
+      for (const e of pictureSprites.values()) e.box.visible = false;
       const poly = (pts: Vec[]) => pts.flatMap((p) => toScreen(camera, p[0], p[1]));
       const liquidColour = new Map(doc.liquids.map((l) => [l.id, parseInt(l.colour.slice(1), 16)]));
       for (const { ref, item } of allItems(doc)) {
@@ -206,8 +262,11 @@ export function Viewport({ store, preview, plate, plateFirstFrame, look, showPre
           const path = item.keys.map((k) => toScreen(camera, c[0] + k.dx, c[1] + k.dy));
           if (path.length > 1) { items.moveTo(path[0][0], path[0][1]); for (const p of path.slice(1)) items.lineTo(p[0], p[1]); items.stroke({ width: 1.5, color: colour, alpha: 0.8 }); }
           for (const p of path) items.circle(p[0], p[1], 2.5).fill({ color: colour });
-          // A free prop stands where the preview solved it at this frame (keyed props: where their keys put them).
-          items.poly(poly(propOutlineAt(item, snap.frame, pf?.props ?? null))).fill({ color: colour, alpha: fillAlpha }).stroke({ width: 1.5, color: colour });
+          // A free prop stands where the preview solved it at this frame (keyed props: where their keys put them);
+          // a prop with a picture is drawn as it there, with its outline over it.
+          const pictured = drawPicture(item, snap.frame, pf?.props ?? null);
+          const outline = items.poly(poly(propOutlineAt(item, snap.frame, pf?.props ?? null)));
+          (pictured ? outline : outline.fill({ color: colour, alpha: fillAlpha })).stroke({ width: 1.5, color: colour });
         } else {
           const active = !('startFrame' in item) || (snap.frame >= item.startFrame && snap.frame <= item.endFrame);
           items.poly(poly(shapeOutline(item.shape))).fill({ color: colour, alpha: fillAlpha * (active ? 1 : 0.4) }).stroke({ width: ref.group === 'drains' ? 2 : 1.5, color: ref.group === 'drains' ? 0xe0583d : colour, alpha: active ? 1 : 0.5 });
@@ -320,6 +379,7 @@ export function Viewport({ store, preview, plate, plateFirstFrame, look, showPre
       cleanups.push(() => ro.disconnect());
       cleanups.push(store.subscribe(schedule));
       cleanups.push(preview.subscribe(schedule));
+      if (pictures) cleanups.push(pictures.subscribe(schedule));
       schedule();
     })();
 
@@ -327,10 +387,11 @@ export function Viewport({ store, preview, plate, plateFirstFrame, look, showPre
       disposed = true;
       cancelAnimationFrame(scheduled);
       for (const c of cleanups) c();
+      for (const t of pictureTextures.values()) t.destroy(true);
       viewRef.current = null;
       try { app.destroy(true, { children: true }); } catch { /* not initialised yet */ }
     };
-  }, [store, preview, viewRef, onCursor]);
+  }, [store, preview, pictures, viewRef, onCursor]);
 
   // Redraw on look changes; move the plate video to the current frame.
   useEffect(() => {

@@ -10,6 +10,7 @@ import { FormMessage } from '../shared/form';
 import type { PlayerEngine } from './engine';
 import { Playback } from './playback';
 import { openClip, loadStats } from './clipSource';
+import { loadPropImages } from '~/lib/render/prop-pictures';
 import Timeline from './Timeline';
 import StatsCharts from './StatsCharts';
 import type { BakeStats, ClipInfo, PlateInfo, ShotInfo, VersionInfo } from './types';
@@ -97,12 +98,18 @@ export default function Player({ studioId, version, shot, plate, clip, onFrame, 
         : Promise.resolve(null);
       const [opened, plateOpened] = await Promise.all([openClip(version.id, clip), platePromise]);
       const statsPromise = loadStats<BakeStats>(opened.info.statsUrl);
-      const bakeStats = await Promise.race([
-        statsPromise,
-        new Promise<null>((r) => setTimeout(() => r(null), 400)), // never hold the first frame for long
+      // The props' pictures (a few small images) are part of the look: the first frame waits for them.
+      const [bakeStats, pictures] = await Promise.all([
+        Promise.race([
+          statsPromise,
+          new Promise<null>((r) => setTimeout(() => r(null), 400)), // never hold the first frame for long
+        ]),
+        loadPropImages(opened.source.look, opened.info.propPictures),
       ]);
       if (cancelled) return plateOpened?.destroy();
-      const options = lookOptionsFrom(bakeStats);
+      if (pictures.failed.length) setPlateNote(`The picture of ${pictures.failed.join(', ')} could not be loaded; drawn in its fill colour.`);
+      const propImages = pictures.images;
+      const options: LookOptions = { ...lookOptionsFrom(bakeStats), propImages };
       const { PlayerEngine } = await engineModule;
       const engine = await PlayerEngine.create({
         host: host.current!,
@@ -139,7 +146,7 @@ export default function Player({ studioId, version, shot, plate, clip, onFrame, 
           setStats(s);
           const late = lookOptionsFrom(s);
           setSpeedScale(late.speedScale ?? null);
-          engine.setLook(engine.look, late);
+          engine.setLook(engine.look, { ...late, propImages });
         });
     })().catch((err) => {
       if (!cancelled) setStatus({ kind: 'error', message: messageOf(err) });

@@ -1,4 +1,5 @@
 // Shapes the version page hands to its island, and the answers of the bake and clip endpoints.
+import type { PropPictureRef } from '~/lib/render/prop-pictures';
 import type { FrameStats } from '~/lib/sim';
 import type { BakeHealth } from '~/lib/sim/health';
 import type { ClientState } from '~/lib/vocab';
@@ -54,6 +55,8 @@ export interface ClipInfo {
   bytes?: number | null;
   /** The bake's health verdict (absent for bakes stored before verdicts existed). */
   health?: BakeHealth | null;
+  /** The pictures the version's props are drawn as (absent or empty: every prop in its fill colour). */
+  propPictures?: PropPictureRef[];
 }
 
 export interface BakeProgress {

@@ -5,6 +5,7 @@ import { api, messageOf } from '../shared/api';
 import { FormMessage } from '../shared/form';
 import type { PlayerEngine } from '../player/engine';
 import { openClip } from '../player/clipSource';
+import { loadPropImages } from '~/lib/render/prop-pictures';
 import { openPlate, type PlateFrameSource } from '~/lib/plate';
 import { rateInfo } from '~/lib/timecode';
 import ChangeTable from './ChangeTable';
@@ -62,16 +63,21 @@ export default function CompareScreen({ studioId, studioSlug, compare, frameRate
         plateFor(a.plateAssetId ?? shot.plateAssetId),
         plateFor(b.plateAssetId ?? shot.plateAssetId),
       ]);
+      // Each side's props in the pictures its own scene names (a prop that cannot load one keeps its fill colour).
+      const [picturesA, picturesB] = await Promise.all([
+        loadPropImages(clipA.source.look, clipA.info.propPictures),
+        loadPropImages(clipB.source.look, clipB.info.propPictures),
+      ]);
       if (cancelled) return;
       // pixi.js touches `navigator` when loaded, so the engine is loaded in the browser only (this island is also
       // rendered on the server).
       const { PlayerEngine } = await import('../player/engine');
       if (cancelled) return;
-      const mk = (host: HTMLDivElement, frames: typeof clipA.source, plate: PlateFrameSource | null) =>
-        PlayerEngine.create({ host, frames, plate, metresPerPixel: plate ? shot.metresPerPixel : null, look: 'surface' });
-      const ea = await mk(hostA.current!, clipA.source, plateA);
+      const mk = (host: HTMLDivElement, frames: typeof clipA.source, plate: PlateFrameSource | null, pictures: typeof picturesA) =>
+        PlayerEngine.create({ host, frames, plate, metresPerPixel: plate ? shot.metresPerPixel : null, look: 'surface', lookOptions: { propImages: pictures.images } });
+      const ea = await mk(hostA.current!, clipA.source, plateA, picturesA);
       made.push(ea);
-      const eb = await mk(hostB.current!, clipB.source, plateB);
+      const eb = await mk(hostB.current!, clipB.source, plateB, picturesB);
       made.push(eb);
       if (cancelled) return;
       engines.current = [ea, eb];

@@ -1,5 +1,6 @@
 // The public share page's island: plays what the link shows (the version's splash over its plate on a canvas, or the
 // stored MP4/GIF) and takes the viewer's named comment at the current frame, filed as a client note.
+import type { PropPictureRef } from '~/lib/render/prop-pictures';
 import { useEffect, useRef, useState } from 'react';
 import { frameWithTimecode, rateInfo, sourceTimecodeLabel, type SourceTimecodeShot } from '~/lib/timecode';
 import { LOOK_LABELS, RENDER_LOOKS, type RenderLook } from '~/lib/render/looks';
@@ -20,6 +21,8 @@ type ClipMedia = {
   clipUrl: string;
   statsUrl: string | null;
   plate: { url: string; contentType: string; width: number | null; height: number | null } | null;
+  /** The pictures the version's props are drawn as (openParticleSource loads them). */
+  propPictures?: PropPictureRef[];
   plateSize: { width: number; height: number };
   metresPerPixel: number | null;
   firstFrame: number;

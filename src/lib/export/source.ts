@@ -5,10 +5,13 @@ import { refreshingRangeFetcher } from '../clip/fetch';
 import { ClipReader } from '../clip/decode';
 import type { ClipHeader } from '../clip/format';
 import type { LookOptions, ParticleFrame } from '../render/looks';
+import { loadPropImages, type PropPictureRef } from '../render/prop-pictures';
 
 export interface ClipUrls {
   clipUrl: string;
   statsUrl: string | null;
+  /** The pictures the version's props are drawn as (absent: fill colours). */
+  propPictures?: PropPictureRef[];
 }
 
 export interface ParticleSource {
@@ -52,9 +55,11 @@ export async function openParticleSource(getUrls: () => Promise<ClipUrls>): Prom
     }
   }
   const h = reader.header;
+  // A prop whose picture cannot be loaded is drawn in its fill colour rather than failing the export.
+  const { images: propImages } = await loadPropImages(h.look, urls.propPictures);
   return {
     header: h,
-    lookOptions: { ...lookOptionsFromStats(stats), scene: h.look },
+    lookOptions: { ...lookOptionsFromStats(stats), scene: h.look, propImages },
     frameAt: (frame) => (frame < h.startFrame || frame > h.endFrame ? Promise.resolve(EMPTY) : reader.frameAt(frame)),
   };
 }

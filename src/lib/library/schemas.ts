@@ -291,3 +291,22 @@ export const studioSettingsPatch = z
     handleConvention: z.enum(HANDLE_CONVENTIONS, { errorMap: () => ({ message: `must be one of ${HANDLE_CONVENTIONS.join(', ')}` }) }),
   })
   .strict();
+
+// ── Prop pictures ────────────────────────────────────────────────────────────────────────────────────────────────
+
+/** A prop picture is a cut-out with alpha: PNG or WebP only (JPEG has no alpha). */
+export const PICTURE_TYPES = ['image/png', 'image/webp'] as const;
+/**
+ * A prop picture's limits: bytes declared and stored, and pixels per side. Every viewer decodes it to RGBA
+ * (4 bytes a pixel): 2048 × 2048 is 16 MB, ample for a prop a few hundred pixels tall on a 1080p plate.
+ */
+export const PICTURE_LIMITS = { bytes: 8 * MB, maxSide: 2048, minSide: 4 } as const;
+
+export const pictureUploadBody = z
+  .object({
+    fileName: z.string(req).trim().min(1, 'is required').max(200, 'is too long (200 characters at most)'),
+    contentType: z.enum(PICTURE_TYPES, { errorMap: () => ({ message: `must be one of ${PICTURE_TYPES.join(', ')} (a picture with alpha)` }) }),
+    byteSize: z.number(num).int('must be a whole number').positive('must be more than 0'),
+  })
+  .strict('unknown field');
+export type PictureUploadBody = z.infer<typeof pictureUploadBody>;

@@ -73,7 +73,9 @@ export function utf8(s: string): Uint8Array {
  * in its version 1 form, so scenes saved before version 2 keep their hash (and their baked clips).
  */
 export function sceneHash(scene: Scene): string {
-  return sha256Hex(utf8(canonicalJson(asVersion1(scene) ?? scene)));
+  // A prop's picture is drawn over the baked clip, never simulated: choosing one needs no new bake.
+  const baked = scene.props.some((p) => p.picture !== undefined) ? { ...scene, props: scene.props.map(({ picture: _p, ...p }) => p) } : scene;
+  return sha256Hex(utf8(canonicalJson(asVersion1(baked) ?? baked)));
 }
 
 /** The version 1 form of a scene, or null when it uses anything version 2 added. */

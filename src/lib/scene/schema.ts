@@ -175,8 +175,18 @@ export type PropMotion = (typeof PROP_MOTIONS)[number];
 const propSchema = z
   .object({
     id, shape: shapeSchema,
-    /** Fill colour the player and exports draw the prop in (default DEFAULT_PROP_COLOUR). */
+    /** Fill colour the player and exports draw the prop in (default DEFAULT_PROP_COLOUR); its rim with a picture. */
     colour: colour.optional(),
+    /**
+     * The prop drawn as a picture instead of its fill colour: the id of one of the studio's prop pictures (an
+     * uploaded PNG or WebP with alpha, src/lib/server/prop-pictures.ts), fitted to the bounds of the drawn shape.
+     * Omitted: the fill colour. Not part of the bake (sceneHash leaves it out).
+     */
+    picture: z
+      .number({ invalid_type_error: 'must be the id of a prop picture' })
+      .int('must be the id of a prop picture')
+      .positive('must be the id of a prop picture')
+      .optional(),
     motion: z.enum(PROP_MOTIONS, { errorMap: () => ({ message: "must be 'keyed' or 'free'" }) }).default('keyed'),
     keys: z.array(keySchema).max(10000, 'at most 10000 keys').default([]),
     density: finite
@@ -382,7 +392,7 @@ export function parseScene(input: unknown): ParseResult {
 }
 
 /** Fields a version 1 document cannot have (they came with version 2). */
-const V2_ONLY = { top: ['liquids'], pours: ['liquid'], spouts: ['liquid'], props: ['motion', 'density', 'velocity', 'spin', 'releaseFrame'] } as const;
+const V2_ONLY = { top: ['liquids'], pours: ['liquid'], spouts: ['liquid'], props: ['motion', 'density', 'velocity', 'spin', 'releaseFrame', 'picture'] } as const;
 
 /**
  * Version 1 → 2 on read: a version 1 document is a version 2 document with one water liquid (DEFAULT_LIQUID)

@@ -60,3 +60,49 @@ export function harbourWallPlate(width = 1920, height = 1080): Uint8Array {
     return mix([22, 52, 66], [40, 78, 92], swell * v / 0.45);
   });
 }
+
+/**
+ * The demo can's picture: a cut-out of a fictional soda can ("Kestrelwell", no real brand) painted in code, RGBA with
+ * straight alpha, transparent outside the can's silhouette (rounded shoulders). `width` × `height` px in the can's
+ * 66 × 122 mm proportions. A red body lit as a cylinder, ribbed silver ends, a white wave band and a gold sun.
+ * Returns PNG bytes.
+ */
+export function demoCanPicture(width = 132, height = 244): Uint8Array {
+  const rgba = new Uint8Array(width * height * 4);
+  const red: Rgb = [210, 60, 50];
+  const silver: Rgb = [198, 202, 208];
+  const shoulder = 0.06; // of the height: the rounded rim at top and bottom
+  for (let y = 0; y < height; y++) {
+    const v = (y + 0.5) / height; // 0 at the top
+    for (let x = 0; x < width; x++) {
+      const u = (x + 0.5) / width;
+      const across = 2 * u - 1; // −1 … 1 across the can
+      // Rounded shoulders: the corners are cut on an ellipse, so the picture has real transparency.
+      const edge = Math.min(v, 1 - v);
+      const inset = edge < shoulder ? 1 - Math.sqrt(Math.max(0, 1 - ((shoulder - edge) / shoulder) ** 2)) : 0;
+      const halfWidth = 1 - 0.12 * inset;
+      const i = (y * width + x) * 4;
+      if (Math.abs(across) > halfWidth) continue; // alpha 0
+      // Cylinder lighting: Lambert on the curved side, a highlight left of centre.
+      const nx = across / halfWidth;
+      const light = 0.55 + 0.45 * Math.sqrt(Math.max(0, 1 - nx * nx)) + 0.35 * Math.exp(-(((nx + 0.35) / 0.12) ** 2));
+      let c: Rgb = red;
+      if (v < 0.09 || v > 0.91) c = Math.floor(v * height) % 4 < 2 ? silver : mix(silver, [120, 124, 130], 0.4); // ribbed ends
+      else {
+        // A white wave band across the middle and a gold sun above it: a made-up label.
+        const wave = 0.55 + 0.05 * Math.sin(u * Math.PI * 2.2 + 0.6);
+        if (v > wave && v < wave + 0.09) c = [246, 242, 232];
+        const sun = Math.hypot((u - 0.5) * (width / height), v - 0.36);
+        if (sun < 0.085) c = [244, 190, 64];
+        else if (sun < 0.1) c = [246, 242, 232];
+      }
+      rgba[i] = Math.min(255, c[0] * light);
+      rgba[i + 1] = Math.min(255, c[1] * light);
+      rgba[i + 2] = Math.min(255, c[2] * light);
+      // Anti-aliased silhouette: the last half pixel fades out.
+      const px = (halfWidth - Math.abs(across)) * (width / 2);
+      rgba[i + 3] = Math.round(255 * Math.max(0, Math.min(1, px + 0.5)));
+    }
+  }
+  return encodePng(width, height, rgba, 4);
+}

@@ -19,7 +19,7 @@ export async function purgeStaleUploads(before: Date): Promise<number> {
   const stale = await db()
     .select({ id: assets.id, storageKey: assets.storageKey })
     .from(assets)
-    .where(and(inArray(assets.kind, ['plate', 'thumbnail', 'export']), lt(assets.createdAt, before), sql`JSON_VALUE(${assets.meta}, '$.state') = 'pending'`))
+    .where(and(inArray(assets.kind, ['plate', 'thumbnail', 'export', 'picture']), lt(assets.createdAt, before), sql`JSON_VALUE(${assets.meta}, '$.state') = 'pending'`))
     .limit(1000);
   let purged = 0;
   for (const a of stale) {

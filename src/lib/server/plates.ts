@@ -18,10 +18,11 @@ import { getShotRow } from './library';
 import { canThumbnailOnServer, makeStillThumbnail } from './thumbnails';
 import { PLATE_LIMITS, STILL_TYPES, MB, type PlateUploadBody } from '../library/schemas';
 
-const UPLOAD_SECONDS = 900;
+/** How long a presigned upload form stays valid, seconds (plates and prop pictures). */
+export const UPLOAD_SECONDS = 900;
 const VIEW_SECONDS = 300;
 /** Bytes read from the start of an upload to check its type and a still's dimensions (JPEG headers can be long). */
-const HEADER_BYTES = 512 * 1024;
+export const HEADER_BYTES = 512 * 1024;
 
 const EXTENSION: Record<string, string> = {
   'image/png': 'png',
@@ -48,13 +49,14 @@ export function sizeLimit(kind: 'plate' | 'thumbnail', contentType: string): num
   return isStill(contentType) ? PLATE_LIMITS.still : PLATE_LIMITS.video;
 }
 
-function tooLarge(what: string, limit: number) {
+/** 413 naming `byteSize`: `what` is larger than `limit` bytes (plates and prop pictures). */
+export function tooLarge(what: string, limit: number) {
   return new HttpError('payload_too_large', `${what} is larger than the ${Math.round(limit / MB)} MB limit`, {
     byteSize: `must be at most ${limit} bytes (${Math.round(limit / MB)} MB)`,
   });
 }
 
-interface PendingMeta {
+export interface PendingMeta {
   state: 'pending' | 'ready';
   fileName: string;
   declaredSize: number;
@@ -132,6 +134,70 @@ function sameFamily(declared: string, real: string): boolean {
   return iso.includes(declared) && iso.includes(real);
 }
 
+/** What an upload's first bytes turned out to be, and how to refuse it (the object and row deleted, audited). */
+export interface ArrivedUpload {
+  /** The final key the upload was moved to and checked at (the form cannot write there). */
+  storageKey: string;
+  size: number;
+  /** The first HEADER_BYTES (or all) of the object. */
+  bytes: Uint8Array;
+  detected: { ext: string; mime: string };
+  refuse: (err: HttpError) => Promise<HttpError>;
+}
+
+/**
+ * The checks every upload to a presigned form gets on completion (plates, thumbnails, prop pictures): the object has
+ * arrived, is not larger than the kind's `limit` nor than declared, is not empty, and its magic bytes are a type that
+ * `sameType` accepts for the declared one. A refused upload's object and row are deleted (422 / 413 naming the field).
+ */
+export async function checkArrivedUpload(
+  access: StudioAccess,
+  asset: typeof assets.$inferSelect,
+  meta: PendingMeta,
+  rule: { finalKey: string; limit: number; accepted: string; sameType: (declared: string, real: string) => boolean },
+): Promise<ArrivedUpload> {
+  const kind = asset.kind;
+  if (!(await headObject(asset.storageKey))) throw new HttpError('conflict', 'No file has arrived for this upload yet: send it to the upload form first');
+  // What is checked from here on is the copy at the final key: the form cannot write there.
+  const storageKey = await moveToFinalKey(asset.id, asset.storageKey, rule.finalKey);
+  const head = await headObject(storageKey);
+  if (!head) throw new HttpError('conflict', 'No file has arrived for this upload yet: send it to the upload form first');
+
+  const refuse = async (err: HttpError) => {
+    await deleteObject(storageKey).catch(() => undefined);
+    await db().delete(assets).where(eq(assets.id, asset.id));
+    await audit({ studioId: access.studioId, actorId: access.userId, action: `${kind}.refused`, targetType: 'asset', targetId: asset.id, detail: { reason: err.message } });
+    return err;
+  };
+
+  const limit = rule.limit;
+  if (head.size > limit) throw await refuse(tooLarge(`"${meta.fileName}"`, limit));
+  // A store that does not enforce the form's content-length-range still cannot slip a larger file past the check.
+  if (head.size > meta.declaredSize) {
+    throw await refuse(new HttpError('payload_too_large', `"${meta.fileName}" is ${head.size} bytes, more than the ${meta.declaredSize} declared`, { byteSize: `the file sent is larger than the ${meta.declaredSize} bytes declared` }));
+  }
+  if (head.size === 0) throw await refuse(new HttpError('unprocessable', `"${meta.fileName}" is empty`));
+
+  const bytes = await getObject(storageKey, [0, Math.min(head.size, HEADER_BYTES) - 1]);
+  const detected = await fileTypeFromBuffer(bytes);
+  const declaredName = NAMES[asset.contentType] ?? asset.contentType;
+  if (!detected) {
+    throw await refuse(
+      new HttpError('unprocessable', `"${meta.fileName}" is not a ${declaredName}: its content is not ${rule.accepted}`, { file: 'content does not match its type' }),
+    );
+  }
+  if (!rule.sameType(asset.contentType, detected.mime)) {
+    throw await refuse(
+      new HttpError(
+        'unprocessable',
+        `"${meta.fileName}" was sent as a ${declaredName}, but its content is ${NAMES[detected.mime] ? `a ${NAMES[detected.mime]}` : `${detected.mime}`}. Send it with its real type, or export it again.`,
+        { file: 'content does not match its type' },
+      ),
+    );
+  }
+  return { storageKey, size: head.size, bytes, detected, refuse };
+}
+
 /**
  * Finishes an upload: checks that the object exists, its real size, its real type by magic bytes (a mismatch is
  * refused with 422 and the object deleted) and a still's dimensions; then makes it the shot's current plate
@@ -147,52 +213,13 @@ export async function completePlateUpload(
   if (meta?.state !== 'pending') throw new HttpError('conflict', 'This upload is already complete');
   await getShotRow(access, asset.shotId!);
   const kind = asset.kind as 'plate' | 'thumbnail';
-  if (!(await headObject(asset.storageKey))) throw new HttpError('conflict', 'No file has arrived for this upload yet: send it to the upload form first');
-  // What is checked from here on is the copy at the final key: the form cannot write there.
-  const storageKey = await moveToFinalKey(
-    asset.id,
-    asset.storageKey,
-    `studios/${access.studioId}/shots/${asset.shotId}/${kind}s/${randomBytes(12).toString('hex')}.${EXTENSION[asset.contentType] ?? 'bin'}`,
-  );
-  const head = await headObject(storageKey);
-  if (!head) throw new HttpError('conflict', 'No file has arrived for this upload yet: send it to the upload form first');
-
-  const refuse = async (err: HttpError) => {
-    await deleteObject(storageKey).catch(() => undefined);
-    await db().delete(assets).where(eq(assets.id, asset.id));
-    await audit({ studioId: access.studioId, actorId: access.userId, action: `${kind}.refused`, targetType: 'asset', targetId: asset.id, detail: { reason: err.message } });
-    return err;
-  };
-
-  const limit = sizeLimit(kind, asset.contentType);
-  if (head.size > limit) throw await refuse(tooLarge(`"${meta.fileName}"`, limit));
-  // A store that does not enforce the form's content-length-range still cannot slip a larger file past the check.
-  if (head.size > meta.declaredSize) {
-    throw await refuse(new HttpError('payload_too_large', `"${meta.fileName}" is ${head.size} bytes, more than the ${meta.declaredSize} declared`, { byteSize: `the file sent is larger than the ${meta.declaredSize} bytes declared` }));
-  }
-  if (head.size === 0) throw await refuse(new HttpError('unprocessable', `"${meta.fileName}" is empty`));
-
-  const bytes = await getObject(storageKey, [0, Math.min(head.size, HEADER_BYTES) - 1]);
-  const detected = await fileTypeFromBuffer(bytes);
-  const declaredName = NAMES[asset.contentType] ?? asset.contentType;
-  if (!detected) {
-    throw await refuse(
-      new HttpError(
-        'unprocessable',
-        `"${meta.fileName}" is not a ${declaredName}: its content is not any image or video type Tidemark accepts (PNG, JPEG, WebP, MP4, QuickTime, WebM). Export the plate again in one of those.`,
-        { file: 'content does not match its type' },
-      ),
-    );
-  }
-  if (!sameFamily(asset.contentType, detected.mime)) {
-    throw await refuse(
-      new HttpError(
-        'unprocessable',
-        `"${meta.fileName}" was sent as a ${declaredName}, but its content is ${NAMES[detected.mime] ? `a ${NAMES[detected.mime]}` : `${detected.mime}`}. Send it with its real type, or export it again.`,
-        { file: 'content does not match its type' },
-      ),
-    );
-  }
+  const { storageKey, size: arrivedSize, bytes, detected, refuse } = await checkArrivedUpload(access, asset, meta, {
+    finalKey: `studios/${access.studioId}/shots/${asset.shotId}/${kind}s/${randomBytes(12).toString('hex')}.${EXTENSION[asset.contentType] ?? 'bin'}`,
+    limit: sizeLimit(kind, asset.contentType),
+    accepted: 'any image or video type Tidemark accepts (PNG, JPEG, WebP, MP4, QuickTime, WebM). Export the plate again in one of those.',
+    sameType: sameFamily,
+  });
+  const head = { size: arrivedSize };
 
   let width: number | null = null;
   let height: number | null = null;

@@ -1,13 +1,14 @@
-// PNG encoding without native code: an RGB image (8 bits per channel, rows top to bottom) to PNG bytes
+// PNG encoding without native code: an RGB or RGBA image (8 bits per channel, rows top to bottom) to PNG bytes
 // (PNG specification, ISO/IEC 15948: signature, IHDR, one zlib IDAT, IEND; filter type 0 on every row).
 import { deflateSync } from 'node:zlib';
 
-/** Encodes an RGB image (rows top to bottom) as PNG. */
-export function encodePng(width: number, height: number, rgb: Uint8Array): Uint8Array {
-  const raw = Buffer.alloc((width * 3 + 1) * height);
+/** Encodes an RGB image (or RGBA with straight alpha, `channels` 4; rows top to bottom) as PNG. */
+export function encodePng(width: number, height: number, rgb: Uint8Array, channels: 3 | 4 = 3): Uint8Array {
+  const row = width * channels;
+  const raw = Buffer.alloc((row + 1) * height);
   for (let y = 0; y < height; y++) {
-    raw[y * (width * 3 + 1)] = 0; // filter: none
-    rgb.subarray(y * width * 3, (y + 1) * width * 3).forEach((v, i) => (raw[y * (width * 3 + 1) + 1 + i] = v));
+    raw[y * (row + 1)] = 0; // filter: none
+    raw.set(rgb.subarray(y * row, (y + 1) * row), y * (row + 1) + 1);
   }
   const crcTable = Array.from({ length: 256 }, (_, n) => {
     let c = n;
@@ -31,7 +32,7 @@ export function encodePng(width: number, height: number, rgb: Uint8Array): Uint8
   ihdr.writeUInt32BE(width, 0);
   ihdr.writeUInt32BE(height, 4);
   ihdr[8] = 8; // bit depth
-  ihdr[9] = 2; // colour type: RGB
+  ihdr[9] = channels === 4 ? 6 : 2; // colour type: RGB + alpha, or RGB (ISO/IEC 15948 §11.2.2)
   return new Uint8Array(
     Buffer.concat([
       Buffer.from([0x89, 0x50, 0x4e, 0x47, 0x0d, 0x0a, 0x1a, 0x0a]),

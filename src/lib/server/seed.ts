@@ -6,7 +6,8 @@ import { assets, clientShows, memberships, shots, shows, studios, users, version
 import { hashPassword } from './password';
 import { newUserId } from './tokens';
 import { putObject } from './storage';
-import { rooftopPoolPlate, harbourWallPlate } from './demo-plates';
+import { rooftopPoolPlate, harbourWallPlate, demoCanPicture } from './demo-plates';
+import { createHash } from 'node:crypto';
 import { makeStillThumbnail } from './thumbnails';
 import { parseScene, sceneHash } from '../scene';
 import { LIQUID_PRESETS } from '../scene/liquids';
@@ -50,8 +51,11 @@ const DEMO_SHOWS = [
 /** The fictional soda's can colour, so the demo can reads as the product in the player and exports. */
 const CAN_RED = '#D23C32';
 
-/** Blocking scenes of the demo shots (fictional). Tanks match the plates: the tank spans the plate's width. */
-export function demoScene(code: string, fps: number, first: number, last: number): { scene: unknown; tankWidth: number } | null {
+/**
+ * Blocking scenes of the demo shots (fictional). Tanks match the plates: the tank spans the plate's width.
+ * `canPicture`: the studio's prop picture of the demo can (demoCanPicture), drawn as the can in the CNB shots.
+ */
+export function demoScene(code: string, fps: number, first: number, last: number, canPicture?: number): { scene: unknown; tankWidth: number } | null {
   const timing = { fps, startFrame: first, endFrame: last, substeps: 4 };
   if (code.startsWith('CNB_0')) {
     // A soda can (about 66 mm × 122 mm) falls from above the rooftop pool and lands in it. In the hero shot
@@ -62,6 +66,7 @@ export function demoScene(code: string, fps: number, first: number, last: number
     // The hero can is dropped from the board, its bottom 0.29 m above the water (it hits at about 2.4 m/s).
     const canBottom = 0.74;
     const can = { type: 'polygon', points: [[0.767, canBottom], [0.833, canBottom], [0.833, canBottom + 0.122], [0.767, canBottom + 0.122]] };
+    const look = canPicture ? { colour: CAN_RED, picture: canPicture } : { colour: CAN_RED };
     return {
       tankWidth: 1.6,
       scene: {
@@ -72,10 +77,10 @@ export function demoScene(code: string, fps: number, first: number, last: number
         pours: [{ id: 'pool', shape: { type: 'rect', x: 0, y: 0, width: 1.6, height: 0.45 }, velocity: [0, 0] }],
         props: [
           hero
-            ? { id: 'can', colour: CAN_RED, shape: can, motion: 'free', density: 400, velocity: [0.15, 0], spin: 40 }
+            ? { id: 'can', ...look, shape: can, motion: 'free', density: 400, velocity: [0.15, 0], spin: 40 }
             : {
                 id: 'can',
-                colour: CAN_RED,
+                ...look,
                 shape: can,
                 keys: [
                   { frame: first, dx: 0, dy: 0, angle: 0 },
@@ -139,8 +144,8 @@ export function demoScene(code: string, fps: number, first: number, last: number
  */
 async function demoAsset(
   studioId: number,
-  shotId: number,
-  kind: 'plate' | 'thumbnail',
+  shotId: number | null,
+  kind: 'plate' | 'thumbnail' | 'picture',
   storageKey: string,
   fileName: string,
   make: () => { bytes: Uint8Array; width: number; height: number },
@@ -163,6 +168,7 @@ async function demoAsset(
     height,
     shotId,
     format: 'png',
+    sha256: createHash('sha256').update(bytes).digest('hex'),
     meta: { state: 'ready', demo: true, fileName, declaredSize: bytes.length },
   });
   return Number(a.insertId);
@@ -177,9 +183,11 @@ async function seedVersions(studioId: number, artistId: string) {
   const painted: Record<string, Uint8Array> = {};
   const paintedPlate = (name: string) => (painted[name] ??= name === 'rooftop-pool' ? rooftopPoolPlate() : harbourWallPlate());
   const rows = await d.select().from(shots).where(eq(shots.studioId, studioId));
+  // The studio's prop picture of the demo can: the soda shots draw the can as it (the fill colour stays its rim).
+  const canPicture = await demoAsset(studioId, null, 'picture', `studios/${studioId}/pictures/demo-kestrelwell-can.png`, 'kestrelwell-can.png', () => ({ bytes: demoCanPicture(), width: 132, height: 244 }));
   for (const shot of rows) {
     const fps = Number(shot.frameRate);
-    const demo = demoScene(shot.code, fps, shot.firstFrame, shot.lastFrame);
+    const demo = demoScene(shot.code, fps, shot.firstFrame, shot.lastFrame, canPicture);
     if (!demo) continue;
     const plateName = shot.code.startsWith('CNB') ? 'rooftop-pool' : 'harbour-wall';
     const plateKey = `studios/${studioId}/plates/demo-${plateName}.png`;

@@ -25,6 +25,7 @@ import { clientSignOffView } from './client-signoff';
 import { tellStudioOfClientNotes } from './client-notes';
 import type { ShareCreateBody } from '../export/schemas';
 import { rangeWithHandles } from '../library/handles';
+import { propPicturesOf } from './prop-pictures';
 
 type LinkRow = typeof shareLinks.$inferSelect;
 type VersionRow = typeof versions.$inferSelect;
@@ -331,6 +332,7 @@ export async function publicShareMedia(opened: OpenedShare) {
     clipUrl: await presignGet(clip.storageKey, MEDIA_SECONDS),
     statsUrl: typeof meta.statsKey === 'string' ? await presignGet(meta.statsKey, MEDIA_SECONDS) : null,
     plate,
+    propPictures: await propPicturesOf(version, MEDIA_SECONDS),
     plateSize: { width: shot.plateWidth, height: shot.plateHeight },
     metresPerPixel: shot.metresPerPixel,
     firstFrame: shot.firstFrame,

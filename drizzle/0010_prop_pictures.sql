@@ -1,0 +1,1 @@
+ALTER TABLE `assets` MODIFY COLUMN `kind` enum('plate','thumbnail','clip','stats','export','picture') NOT NULL;
