@@ -237,7 +237,9 @@ describe('the hero demo can drawn as its picture', () => {
       await signInAs(page, studio.members.artist.email, studio.members.artist.password);
       await page.waitForURL((url) => !url.pathname.startsWith('/sign-in'));
       await page.goto(`/studios/${studio.slug}/compare?a=${versionId}&b=${fillVersion}&frame=${MID}`);
-      await page.getByTestId('compare-mode-side').click();
+      // A click before the compare island has hydrated reaches no handler (the layout stays on the wipe).
+      await (await hydrated(page, 'compare-mode-side')).click();
+      await expect.poll(() => page.getByTestId('compare-mode-side').getAttribute('aria-checked'), { timeout: 10_000 }).toBe('true');
       await expect.poll(() => page.getByTestId('compare-frame-number').textContent(), { timeout: 30_000 }).toBe(String(MID));
       await page.waitForTimeout(500);
       await screenshot(page, 'prop-picture-compare');

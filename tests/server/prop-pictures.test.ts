@@ -9,7 +9,7 @@ import { makePng, makeVersion } from './endpoints';
 import { postUploadForm } from '../support/plates';
 import { db, closeDb } from '../../src/lib/server/db';
 import { assets, versions } from '../../src/lib/server/db/schema';
-import { headObject } from '../../src/lib/server/storage';
+import { headObject, keysOlderThan } from '../../src/lib/server/storage';
 import { encodePng } from '../../src/lib/server/png';
 import { purgeStaleUploads } from '../../src/lib/server/housekeeping';
 import { parseScene } from '../../src/lib/scene';
@@ -141,12 +141,16 @@ describe('prop picture upload', () => {
   });
 
   it('refuses pictures larger than 2048 pixels on a side', async () => {
+    const finalPrefix = `studios/${studio.id}/pictures/`;
+    const kept = await keysOlderThan(finalPrefix, new Date(Date.now() + 60_000));
     const { start, complete } = await upload(cutOut(2050, 4), { fileName: 'wide.png', contentType: 'image/png' });
     expect(complete.status).toBe(422);
     expect(complete.body.error.fields.file).toMatch(/2048 pixels/);
-    const key = `studios/${studio.id}/pictures/`;
-    expect(start.body.upload.fields.key ?? start.body.upload.fields.Key ?? '').toContain(key);
-    expect(await headObject(start.body.upload.fields.key ?? start.body.upload.fields.Key)).toBeNull();
+    // The form writes under uploads/; completion moved the file to its final key, checked it there and deleted it.
+    const formKey: string = start.body.upload.fields.key ?? start.body.upload.fields.Key ?? '';
+    expect(formKey.startsWith(`uploads/${studio.id}/`)).toBe(true);
+    expect(await headObject(formKey)).toBeNull();
+    expect(await keysOlderThan(finalPrefix, new Date(Date.now() + 60_000))).toEqual(kept);
   });
 
   it('refuses a file larger than declared, at the store or on completion', async () => {
