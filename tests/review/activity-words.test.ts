@@ -4,6 +4,8 @@ import { activityLine, shotFieldChange } from '../../src/lib/review/activity';
 import { changeInWords } from '../../src/components/review/ChangeTable';
 import { diffScenes } from '../../src/lib/review/diff';
 import { tinyScene } from '../support/scenes';
+import { demoScene } from '../../src/lib/server/seed';
+import { fieldLabel } from '../../src/lib/scene/labels';
 
 describe('activity words', () => {
   it('names a shot field as the form does, with its unit', () => {
@@ -28,5 +30,14 @@ describe('compare change words', () => {
     const end = rows.find((r) => r.path === 'timing.endFrame');
     expect(end).toBeDefined();
     expect(changeInWords(end!)).toBe(`Timing · end frame changed from ${a.timing.endFrame} to ${a.timing.endFrame + 5}`);
+  });
+  it('says a prop picture change as which picture or the fill colour, not an asset id alone', () => {
+    const a = structuredClone(demoScene('CNB_020', 24, 1001, 1048)!.scene) as any;
+    const b = structuredClone(a);
+    a.props[0].picture = 5;
+    delete b.props[0].picture;
+    const row = diffScenes(a, b).find((r) => r.path.endsWith('.picture'));
+    expect(row).toBeDefined();
+    expect(changeInWords(row!)).toBe(`${fieldLabel(row!.path)} changed from picture no. 5 to fill colour`);
   });
 });
