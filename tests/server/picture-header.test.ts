@@ -1,7 +1,8 @@
 // Transparency read from a picture's header (src/lib/server/picture-header.ts), for each way PNG and WebP declare it.
 // Byte layouts: PNG, ISO/IEC 15948:2003 §5.3 (chunk = length, type, data, CRC), §11.2.2 (IHDR colour types),
 // §11.3.2.1 (tRNS); WebP, Google's "WebP Container Specification" (RIFF, VP8X flags) and "WebP Lossless Bitstream
-// Specification" §3.2 (VP8L header). CRCs are left zero: the reader does not check them.
+// Specification" (VP8L header), both also in RFC 9649. Section numbers and bit positions from memory. CRCs are left
+// zero: the reader does not check them.
 import { describe, it, expect } from 'vitest';
 import { declaresAlpha } from '../../src/lib/server/picture-header';
 
