@@ -3,12 +3,13 @@
 
 /**
  * Whether a PNG or WebP header declares transparency; null when the header is not one of those.
- * PNG (ISO/IEC 15948:2003 §11.2.2; section numbers from memory): IHDR's colour type (byte 25) 4 = greyscale + alpha, 6 = RGB + alpha; types 0, 2
+ * PNG (ISO/IEC 15948:2003 §11.2.2): IHDR's colour type (byte 25) 4 = greyscale + alpha, 6 = RGB + alpha; types 0, 2
  * and 3 are transparent only with a tRNS chunk (§11.3.2.1), which comes before the first IDAT.
  * WebP (Google, "WebP Container Specification", RIFF layout): an extended file's VP8X chunk has the alpha flag 0x10
  * in its first flags byte (file byte 20); a simple lossless file's VP8L header (signature 0x2f at byte 20) carries
- * `alpha_is_used` as bit 28 of the little-endian 32 bits after it ("WebP Lossless Bitstream Specification", its RIFF header section; RFC 9649 describes both; bit positions from memory);
- * a simple lossy file (VP8 chunk) has no alpha.
+ * `alpha_is_used` as bit 28 of the little-endian 32 bits after it ("WebP Lossless Bitstream Specification", RIFF
+ * header); a simple lossy file (VP8 chunk) has no alpha. RFC 9649 describes both WebP layouts. Section numbers and
+ * bit positions from memory.
  */
 export function declaresAlpha(bytes: Uint8Array): boolean | null {
   const ascii = (at: number, n: number) => String.fromCharCode(...bytes.subarray(at, at + n));
