@@ -29,4 +29,13 @@ describe('compare change words', () => {
     expect(end).toBeDefined();
     expect(changeInWords(end!)).toBe(`Timing · end frame changed from ${a.timing.endFrame} to ${a.timing.endFrame + 5}`);
   });
+
+  it('says a prop picture change as the look it is, not a bare asset id', () => {
+    const prop = { id: 'can', shape: { type: 'rect', x: 0.2, y: 0.3, width: 0.05, height: 0.1 }, keys: [{ frame: 1001 }] };
+    const a = { ...(tinyScene() as any), version: 2, props: [{ ...prop, picture: 12 }] };
+    const b = { ...a, props: [prop] };
+    const row = diffScenes(a, b).find((r) => r.path === 'props[can].picture');
+    expect(row).toBeDefined();
+    expect(changeInWords(row!)).toBe('Prop “can” · picture changed from picture 12 to fill colour');
+  });
 });
