@@ -237,11 +237,11 @@ describe('the hero demo can drawn as its picture', () => {
       await signInAs(page, studio.members.artist.email, studio.members.artist.password);
       await page.waitForURL((url) => !url.pathname.startsWith('/sign-in'));
       await page.goto(`/studios/${studio.slug}/compare?a=${versionId}&b=${fillVersion}&frame=${MID}`);
-      // A click before the compare island has hydrated reaches no handler (the layout stays on the wipe).
-      await (await hydrated(page, 'compare-mode-side')).click();
-      await expect.poll(() => page.getByTestId('compare-mode-side').getAttribute('aria-checked'), { timeout: 10_000 }).toBe('true');
       await expect.poll(() => page.getByTestId('compare-frame-number').textContent(), { timeout: 30_000 }).toBe(String(MID));
-      await page.waitForTimeout(500);
+      // Side by side, once the island has hydrated (a click on the server-rendered button does nothing).
+      await (await hydrated(page, 'compare-mode-side')).click();
+      await expect.poll(() => page.getByTestId('compare-view').getAttribute('data-mode')).toBe('side');
+      await page.waitForTimeout(800); // both engines follow their new host size
       await screenshot(page, 'prop-picture-compare');
       const a = await page.getByTestId('compare-a').screenshot({ path: 'test-results/screenshots/prop-picture-compare-a.png' });
       const bShot = await page.getByTestId('compare-b').screenshot({ path: 'test-results/screenshots/prop-picture-compare-b.png' });

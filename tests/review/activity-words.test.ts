@@ -4,8 +4,6 @@ import { activityLine, shotFieldChange } from '../../src/lib/review/activity';
 import { changeInWords } from '../../src/components/review/ChangeTable';
 import { diffScenes } from '../../src/lib/review/diff';
 import { tinyScene } from '../support/scenes';
-import { demoScene } from '../../src/lib/server/seed';
-import { fieldLabel } from '../../src/lib/scene/labels';
 
 describe('activity words', () => {
   it('names a shot field as the form does, with its unit', () => {
@@ -31,13 +29,13 @@ describe('compare change words', () => {
     expect(end).toBeDefined();
     expect(changeInWords(end!)).toBe(`Timing · end frame changed from ${a.timing.endFrame} to ${a.timing.endFrame + 5}`);
   });
-  it('says a prop picture change as which picture or the fill colour, not an asset id alone', () => {
-    const a = structuredClone(demoScene('CNB_020', 24, 1001, 1048)!.scene) as any;
-    const b = structuredClone(a);
-    a.props[0].picture = 5;
-    delete b.props[0].picture;
-    const row = diffScenes(a, b).find((r) => r.path.endsWith('.picture'));
+
+  it('says a prop picture change as the look it is, not a bare asset id', () => {
+    const prop = { id: 'can', shape: { type: 'rect', x: 0.2, y: 0.3, width: 0.05, height: 0.1 }, keys: [{ frame: 1001 }] };
+    const a = { ...(tinyScene() as any), version: 2, props: [{ ...prop, picture: 12 }] };
+    const b = { ...a, props: [prop] };
+    const row = diffScenes(a, b).find((r) => r.path === 'props[can].picture');
     expect(row).toBeDefined();
-    expect(changeInWords(row!)).toBe(`${fieldLabel(row!.path)} changed from picture no. 5 to fill colour`);
+    expect(changeInWords(row!)).toBe('Prop “can” · picture changed from picture 12 to fill colour');
   });
 });

@@ -39,8 +39,8 @@ function cutOut(width: number, height: number): Uint8Array {
 
 /**
  * A lossless WebP header: RIFF/WEBP, a VP8L chunk with signature 0x2f, then 14 bits width − 1, 14 bits height − 1,
- * 1 bit alpha_is_used, 3 bits version 0 (Google, "WebP Lossless Bitstream Specification" §3.2; RIFF layout from the
- * "WebP Container Specification"). Enough for the header checks; not a decodable picture.
+ * 1 bit alpha_is_used, 3 bits version 0 (Google, "WebP Lossless Bitstream Specification"; RIFF layout from the
+ * "WebP Container Specification"; bit positions from memory). Enough for the header checks; not a decodable picture.
  */
 function webpLossless(width: number, height: number, alpha: boolean): Uint8Array {
   const b = Buffer.alloc(30);

@@ -27,7 +27,7 @@ const KIND_TONE: Record<SceneChange['kind'], string> = {
 /** A change as a studio reads it: "Timing · end frame changed from 1040 to 1060", "Spout “jet” added". */
 export function changeInWords(c: SceneChange): string {
   const what = fieldLabel(c.path);
-  const small = (v: unknown) => (/\.picture$/.test(c.path) || typeof v === 'number' || typeof v === 'string' || typeof v === 'boolean' ? valueOf(c, v) : null);
+  const small = (v: unknown) => (isPicture(c.path) ? valueText(c.path, v) : typeof v === 'number' || typeof v === 'string' || typeof v === 'boolean' ? show(v) : null);
   switch (c.kind) {
     case 'added':
       return `${what} added`;
@@ -45,11 +45,9 @@ export function changeInWords(c: SceneChange): string {
   }
 }
 
-/** A value of the change as the table shows it: a prop's picture reads as which picture, or its fill colour. */
-const valueOf = (c: SceneChange, v: unknown): string => {
-  if (/\.picture$/.test(c.path)) return typeof v === 'number' ? `picture no. ${v}` : 'fill colour';
-  return show(v);
-};
+/** A prop's picture is an asset id: say which look it is ("picture 12", or its fill colour without one). */
+const isPicture = (path: string) => /^props\[[^\]]*\]\.picture$/.test(path);
+const valueText = (path: string, v: unknown): string => (isPicture(path) ? (v === undefined ? 'fill colour' : `picture ${show(v)}`) : show(v));
 
 const show = (v: unknown): string => {
   if (v === undefined) return '—';
@@ -87,8 +85,8 @@ export default function ChangeTable({ changes, counts, older, newer }: { changes
                     <span className={`rounded-full px-2 py-0.5 text-xs font-medium ${KIND_TONE[c.kind]}`}>{KIND_WORDS[c.kind]}</span>
                     <span className="mt-1 block text-xs text-ink-soft" data-testid="change-words">{changeInWords(c)}</span>
                   </td>
-                  <td className="py-2 pr-3 font-mono text-xs break-all">{valueOf(c, c.before)}</td>
-                  <td className="py-2 font-mono text-xs break-all">{valueOf(c, c.after)}</td>
+                  <td className="py-2 pr-3 font-mono text-xs break-all">{valueText(c.path, c.before)}</td>
+                  <td className="py-2 font-mono text-xs break-all">{valueText(c.path, c.after)}</td>
                 </tr>
               ))}
             </tbody>
