@@ -53,9 +53,6 @@ describe('the hero demo shot on its version page', () => {
       page.on('pageerror', (e) => errors.push(e.message));
       await signInAs(page, studio.members.artist.email, studio.members.artist.password);
       await page.waitForURL((url) => !url.pathname.startsWith('/sign-in'));
-      // The first frame, before the can meets the water: the plate's own near-white pixels, to compare foam against.
-      await openPlayerAt(page, studio.slug, versionId, FIRST);
-      const before = await page.getByTestId('player-view').screenshot({ path: 'test-results/screenshots/hero-look-first-frame-view.png' });
       await openPlayerAt(page, studio.slug, versionId, MID);
 
       // The looks say what they show; the liquid look is the one open.
@@ -79,6 +76,26 @@ describe('the hero demo shot on its version page', () => {
       const water = countPixels(view, (r, g, bl) => bl > r + 50 && bl > 90);
       expect(water).toBeGreaterThan(box.width * box.height * 0.15);
 
+      // The particle-speed look still draws the can.
+      await looks.getByRole('button', { name: 'Particle speed' }).click();
+      await page.waitForTimeout(300);
+      const speedView = await page.getByTestId('player-view').screenshot({ path: 'test-results/screenshots/hero-look-mid-clip-speed.png' });
+      expect(countPixels(speedView, canRed)).toBeGreaterThan(canPx * 0.6);
+      expect(errors).toEqual([]);
+    } finally {
+      await b.close();
+    }
+  }, 240_000);
+
+  it('shows foam and spray while the can splashes down', async () => {
+    const b = await openBrowser();
+    try {
+      const { page } = b;
+      await signInAs(page, studio.members.artist.email, studio.members.artist.password);
+      await page.waitForURL((url) => !url.pathname.startsWith('/sign-in'));
+      // The first frame, before the can meets the water: the plate's own near-white pixels, to compare foam against.
+      await openPlayerAt(page, studio.slug, versionId, FIRST);
+      const before = await page.getByTestId('player-view').screenshot({ path: 'test-results/screenshots/hero-look-first-frame-view.png' });
       // Foam and spray while the can splashes down (it meets the water about 0.24 s in, frame ~1007 at 25 fps):
       // near-white dots (DIFFUSE_LOOK in src/lib/render/looks.ts: foam #F6FAFC at 0.92, spray #D6EAF6 at 0.8; the
       // liquid's lit edge, #3A8FB7 lifted 70 % toward white, stays below these levels). The plate is the same in every
@@ -93,23 +110,13 @@ describe('the hero demo shot on its version page', () => {
         console.log(`hero look: ${foam} more foam/spray pixels at frame ${f} than at ${FIRST}`);
         if (foam > best.foam) best = { frame: f, foam };
       }
-      // Not asserted yet: see the todo below.
       console.log(`hero look: most foam/spray at frame ${best.frame} (${best.foam} px)`);
-      await openPlayerAt(page, studio.slug, versionId, MID);
-
-      // The particle-speed look still draws the can.
-      await looks.getByRole('button', { name: 'Particle speed' }).click();
-      await page.waitForTimeout(300);
-      const speedView = await page.getByTestId('player-view').screenshot({ path: 'test-results/screenshots/hero-look-mid-clip-speed.png' });
-      expect(countPixels(speedView, canRed)).toBeGreaterThan(canPx * 0.6);
-      expect(errors).toEqual([]);
+      // A splash a client reads as one: at least one splash frame has more than 40 near-white pixels the first frame
+      // has not (our own bar, common practice (no source): some 40 px is a handful of foam dots of 2–3 px across
+      // in a 960 px view; the bake of build 5 showed at most 8).
+      expect(best.foam).toBeGreaterThan(40);
     } finally {
       await b.close();
     }
   }, 240_000);
-
-  // Headless, the hero bake's foam stage emits at most 6 diffuse particles a frame (frames 1002–1029, look.foam 1 and
-  // 2 alike): the splash-frame screenshots above show at most 8 foam pixels more than the first frame. Needs the
-  // foam stage's emission tuned for a light can's 2.4 m/s drop (src/lib/sim/diffuse.ts), then: > 40 pixels.
-  it.todo('shows foam and spray while the can splashes down (more than 40 near-white pixels beyond the first frame)');
 });
