@@ -5,6 +5,7 @@ import { refreshingRangeFetcher } from '../clip/fetch';
 import { ClipReader } from '../clip/decode';
 import type { ClipHeader } from '../clip/format';
 import type { LookOptions, ParticleFrame } from '../render/looks';
+import type { FrameNeighbours } from '../render/motionBlur';
 
 export interface ClipUrls {
   clipUrl: string;
@@ -57,4 +58,10 @@ export async function openParticleSource(getUrls: () => Promise<ClipUrls>): Prom
     lookOptions: { ...lookOptionsFromStats(stats), scene: h.look },
     frameAt: (frame) => (frame < h.startFrame || frame > h.endFrame ? Promise.resolve(EMPTY) : reader.frameAt(frame)),
   };
+}
+
+/** Frame `f` (already read as `cur`) and its neighbours, for motion blur; a neighbour without particles (outside the bake) is null. */
+export async function frameNeighbours(source: ParticleSource, f: number, cur: ParticleFrame): Promise<FrameNeighbours> {
+  const [prev, next] = await Promise.all([source.frameAt(f - 1), source.frameAt(f + 1)]);
+  return { prev: prev.count > 0 ? prev : null, cur, next: next.count > 0 ? next : null };
 }
