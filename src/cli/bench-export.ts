@@ -61,9 +61,10 @@ async function main() {
   console.log(`  ${clip.particles} particles, clip ${(clip.bytes.length / 1e6).toFixed(1)} MB, baked in ${clip.seconds.toFixed(1)} s`);
   const dir = mkdtempSync(path.join(tmpdir(), 'tidemark-bench-export-'));
   const profile = mkdtempSync(path.join(tmpdir(), 'tidemark-chromium-'));
+  let context: Awaited<ReturnType<typeof chromium.launchPersistentContext>> | null = null;
   try {
     await bundle(dir);
-    const context = await chromium.launchPersistentContext(profile, {
+    context = await chromium.launchPersistentContext(profile, {
       executablePath: '/usr/bin/chromium',
       args: ['--headless', '--no-sandbox', '--disable-gpu', '--disable-quic', '--no-first-run', '--disable-background-networking', '--disable-component-update', '--disable-sync'],
     });
@@ -92,6 +93,7 @@ async function main() {
     await context.close();
     console.log(JSON.stringify({ bench: 'export', shutterAngle: SHUTTER, frames: FRAMES, width: WIDTH, height: HEIGHT, cores: cpus().length, particles: clip.particles, results }));
   } finally {
+    await context?.close().catch(() => undefined); // a failed export leaves the browser writing to its profile
     rmSync(dir, { recursive: true, force: true });
     rmSync(profile, { recursive: true, force: true });
   }

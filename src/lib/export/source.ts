@@ -62,6 +62,8 @@ export async function openParticleSource(getUrls: () => Promise<ClipUrls>): Prom
 
 /** Frame `f` (already read as `cur`) and its neighbours, for motion blur; a neighbour without particles (outside the bake) is null. */
 export async function frameNeighbours(source: ParticleSource, f: number, cur: ParticleFrame): Promise<FrameNeighbours> {
-  const [prev, next] = await Promise.all([source.frameAt(f - 1), source.frameAt(f + 1)]);
+  const { startFrame, endFrame } = source.header;
+  const at = (k: number) => (k >= startFrame && k <= endFrame ? source.frameAt(k) : Promise.resolve(EMPTY));
+  const [prev, next] = await Promise.all([at(f - 1), at(f + 1)]);
   return { prev: prev.count > 0 ? prev : null, cur, next: next.count > 0 ? next : null };
 }

@@ -54,28 +54,51 @@ export interface MotionField {
   my: Float32Array;
 }
 
-/** Separable box blur of radius r (running sums, edges clamped), `passes` times, in place. */
-function boxBlur(a: Float32Array, gw: number, gh: number, r: number, passes: number, scratch: Float32Array) {
+/** Separable box blur of radius r (running sums, edge values repeated), `passes` times, in place. */
+function boxBlur(a: Float32Array, gw: number, gh: number, r: number, passes: number, scratch: Float32Array, line: Float32Array) {
   const w = 1 / (2 * r + 1);
+  // one line (row or column) of n values at `start`, `stride` apart: padded into `line`, then summed along it
+  const run = (src: Float32Array, dst: Float32Array, start: number, stride: number, n: number) => {
+    const first = src[start], last = src[start + (n - 1) * stride];
+    for (let k = 0; k < r; k++) { line[k] = first; line[r + n + k] = last; }
+    for (let k = 0, q = start; k < n; k++, q += stride) line[r + k] = src[q];
+    let sum = 0;
+    for (let k = 0; k < 2 * r + 1; k++) sum += line[k];
+    for (let k = 0, q = start; k < n; k++, q += stride) {
+      dst[q] = sum * w;
+      if (k + 1 < n) sum += line[k + 2 * r + 1] - line[k];
+    }
+  };
   for (let pass = 0; pass < passes; pass++) {
-    for (let j = 0; j < gh; j++) {
-      const row = j * gw;
-      let s = 0;
-      for (let k = -r; k <= r; k++) s += a[row + Math.min(gw - 1, Math.max(0, k))];
-      for (let i = 0; i < gw; i++) {
-        scratch[row + i] = s * w;
-        s += a[row + Math.min(gw - 1, i + r + 1)] - a[row + Math.max(0, i - r)];
-      }
-    }
-    for (let i = 0; i < gw; i++) {
-      let s = 0;
-      for (let k = -r; k <= r; k++) s += scratch[Math.min(gh - 1, Math.max(0, k)) * gw + i];
-      for (let j = 0; j < gh; j++) {
-        a[j * gw + i] = s * w;
-        s += scratch[Math.min(gh - 1, j + r + 1) * gw + i] - scratch[Math.max(0, j - r) * gw + i];
-      }
-    }
+    for (let j = 0; j < gh; j++) run(a, scratch, j * gw, 1, gw);
+    for (let i = 0; i < gw; i++) run(scratch, a, i, gw, gh);
   }
+}
+
+/** Per view column (or row): the grid cell index left of (above) the pixel centre and the fraction past it. */
+function pixelCells(n: number, cells: number, cellPx: number): { index: Int32Array; frac: Float32Array } {
+  const index = new Int32Array(n), frac = new Float32Array(n);
+  for (let p = 0; p < n; p++) {
+    // cell (i, j) is centred on view pixel ((i − ½)·cellPx): pixel centre p + ½ sits at grid (p + ½)/cellPx + ½
+    const g = (p + 0.5) / cellPx + 0.5;
+    const i = Math.max(0, Math.min(cells - 2, Math.floor(g)));
+    index[p] = i;
+    frac[p] = Math.max(0, Math.min(1, g - i));
+  }
+  return { index, frac };
+}
+
+/**
+ * Cells whose quad (k, k + 1, k + gw, k + gw + 1) has a corner moving at least half a pixel over the open shutter:
+ * pixels elsewhere are copied as they are.
+ */
+function movingQuads(motion: MotionField, fraction: number): Uint8Array {
+  const { gw, gh, mx, my } = motion;
+  const corner = new Uint8Array(gw * gh), quad = new Uint8Array(gw * gh);
+  const min2 = 0.25 / (fraction * fraction);
+  for (let k = 0; k < gw * gh; k++) corner[k] = mx[k] * mx[k] + my[k] * my[k] >= min2 ? 1 : 0;
+  for (let j = 0; j < gh - 1; j++) for (let i = 0, k = j * gw; i < gw - 1; i++, k++) quad[k] = corner[k] | corner[k + 1] | corner[k + gw] | corner[k + gw + 1];
+  return quad;
 }
 
 /**
@@ -86,8 +109,9 @@ function boxBlur(a: Float32Array, gw: number, gh: number, r: number, passes: num
 export function normalFlow(before: Float32Array, after: Float32Array, gw: number, gh: number, cellPx: number, frames: number, out?: MotionField): MotionField {
   const n = gw * gh;
   const a = Float32Array.from(before), b = Float32Array.from(after), scratch = new Float32Array(n);
-  boxBlur(a, gw, gh, FLOW_SMOOTH_RADIUS, FLOW_SMOOTH_PASSES, scratch);
-  boxBlur(b, gw, gh, FLOW_SMOOTH_RADIUS, FLOW_SMOOTH_PASSES, scratch);
+  const line = new Float32Array(Math.max(gw, gh) + 2 * FLOW_SMOOTH_RADIUS);
+  boxBlur(a, gw, gh, FLOW_SMOOTH_RADIUS, FLOW_SMOOTH_PASSES, scratch, line);
+  boxBlur(b, gw, gh, FLOW_SMOOTH_RADIUS, FLOW_SMOOTH_PASSES, scratch, line);
   const field = out && out.gw === gw && out.gh === gh ? out : { cellPx, gw, gh, mx: new Float32Array(n), my: new Float32Array(n) };
   field.cellPx = cellPx;
   const { mx, my } = field;
@@ -111,70 +135,63 @@ export function normalFlow(before: Float32Array, after: Float32Array, gw: number
 
 /**
  * Smears a premultiplied picture along the motion field over the open shutter: each pixel becomes the mean of the
- * picture at p + τ·s·m(p) for τ across [−½, ½] (s the shutter fraction, m the motion there in px per frame).
- * Writes into `out` (same size) and returns it; pixels that barely move are copied.
+ * picture at p + τ·s·m(p) for τ across [−½, ½] (s the shutter fraction, m the motion there in px per frame, read
+ * bilinearly from the grid). Writes into `out` (same size) and returns it; pixels that barely move are copied.
  */
 export function vectorBlur(src: PixelImage, motion: MotionField, fraction: number, out: PixelImage): PixelImage {
   const { width, height, pixels } = src;
   const dst = out.pixels;
-  const { cellPx, gw, gh, mx, my } = motion;
-  const inv = 1 / cellPx;
-  for (let py = 0; py < height; py++) {
-    // cell (i, j) is centred on view pixel ((i − ½)·cellPx): pixel centre p + ½ sits at grid (p + ½)/cellPx + ½
-    const gyf = (py + 0.5) * inv + 0.5;
-    const j = Math.max(0, Math.min(gh - 2, Math.floor(gyf))), fy = Math.max(0, Math.min(1, gyf - j));
-    for (let px = 0, p = py * width; px < width; px++, p++) {
-      const gxf = (px + 0.5) * inv + 0.5;
-      const i = Math.max(0, Math.min(gw - 2, Math.floor(gxf))), fx = Math.max(0, Math.min(1, gxf - i));
-      const k = j * gw + i;
-      const w00 = (1 - fx) * (1 - fy), w10 = fx * (1 - fy), w01 = (1 - fx) * fy, w11 = fx * fy;
-      const lx = fraction * (w00 * mx[k] + w10 * mx[k + 1] + w01 * mx[k + gw] + w11 * mx[k + gw + 1]);
-      const ly = fraction * (w00 * my[k] + w10 * my[k + 1] + w01 * my[k + gw] + w11 * my[k + gw + 1]);
-      const len = Math.sqrt(lx * lx + ly * ly);
-      if (len < 0.5) { dst[p] = pixels[p]; continue; }
-      const samples = Math.min(MAX_SAMPLES, Math.ceil(len) + 1);
-      let r = 0, g = 0, b = 0, a = 0;
-      for (let s = 0; s < samples; s++) {
-        const t = s / (samples - 1) - 0.5;
-        const qx = Math.round(px + t * lx), qy = Math.round(py + t * ly);
-        if (qx < 0 || qy < 0 || qx >= width || qy >= height) continue; // outside the picture: transparent
-        const c = pixels[qy * width + qx];
-        r += c & 255; g += (c >> 8) & 255; b += (c >> 16) & 255; a += c >>> 24;
-      }
-      const n = 1 / samples;
-      dst[p] = (((a * n + 0.5) << 24) | ((b * n + 0.5) << 16) | ((g * n + 0.5) << 8) | (r * n + 0.5)) >>> 0;
+  dst.set(pixels);
+  smear(width, height, motion, fraction, (p, lx, ly, px, py) => {
+    const samples = Math.min(MAX_SAMPLES, Math.ceil(Math.sqrt(lx * lx + ly * ly)) + 1);
+    let r = 0, g = 0, b = 0, a = 0;
+    for (let s = 0; s < samples; s++) {
+      const t = s / (samples - 1) - 0.5;
+      const qx = Math.round(px + t * lx), qy = Math.round(py + t * ly);
+      if (qx < 0 || qy < 0 || qx >= width || qy >= height) continue; // outside the picture: transparent
+      const c = pixels[qy * width + qx];
+      r += c & 255; g += (c >> 8) & 255; b += (c >> 16) & 255; a += c >>> 24;
     }
-  }
+    const n = 1 / samples;
+    dst[p] = (((a * n + 0.5) << 24) | ((b * n + 0.5) << 16) | ((g * n + 0.5) << 8) | (r * n + 0.5)) >>> 0;
+  });
   return out;
 }
 
 /** The same smear for a one-channel picture (the matte pass's coverage, 0–255). */
 export function vectorBlurGrey(src: Uint8Array, width: number, height: number, motion: MotionField, fraction: number, out: Uint8Array): Uint8Array {
+  out.set(src);
+  smear(width, height, motion, fraction, (p, lx, ly, px, py) => {
+    const samples = Math.min(MAX_SAMPLES, Math.ceil(Math.sqrt(lx * lx + ly * ly)) + 1);
+    let v = 0;
+    for (let s = 0; s < samples; s++) {
+      const t = s / (samples - 1) - 0.5;
+      const qx = Math.round(px + t * lx), qy = Math.round(py + t * ly);
+      if (qx >= 0 && qy >= 0 && qx < width && qy < height) v += src[qy * width + qx];
+    }
+    out[p] = Math.round(v / samples);
+  });
+  return out;
+}
+
+/** Calls `at(p, lx, ly, px, py)` for every pixel that moves at least half a pixel over the shutter (l = s·m there). */
+function smear(width: number, height: number, motion: MotionField, fraction: number, at: (p: number, lx: number, ly: number, px: number, py: number) => void) {
   const { cellPx, gw, gh, mx, my } = motion;
-  const inv = 1 / cellPx;
+  const cols = pixelCells(width, gw, cellPx), rows = pixelCells(height, gh, cellPx);
+  const quad = movingQuads(motion, fraction);
   for (let py = 0; py < height; py++) {
-    const gyf = (py + 0.5) * inv + 0.5;
-    const j = Math.max(0, Math.min(gh - 2, Math.floor(gyf))), fy = Math.max(0, Math.min(1, gyf - j));
+    const j = rows.index[py], fy = rows.frac[py];
     for (let px = 0, p = py * width; px < width; px++, p++) {
-      const gxf = (px + 0.5) * inv + 0.5;
-      const i = Math.max(0, Math.min(gw - 2, Math.floor(gxf))), fx = Math.max(0, Math.min(1, gxf - i));
-      const k = j * gw + i;
+      const k = j * gw + cols.index[px];
+      if (quad[k] === 0) continue;
+      const fx = cols.frac[px];
       const w00 = (1 - fx) * (1 - fy), w10 = fx * (1 - fy), w01 = (1 - fx) * fy, w11 = fx * fy;
       const lx = fraction * (w00 * mx[k] + w10 * mx[k + 1] + w01 * mx[k + gw] + w11 * mx[k + gw + 1]);
       const ly = fraction * (w00 * my[k] + w10 * my[k + 1] + w01 * my[k + gw] + w11 * my[k + gw + 1]);
-      const len = Math.sqrt(lx * lx + ly * ly);
-      if (len < 0.5) { out[p] = src[p]; continue; }
-      const samples = Math.min(MAX_SAMPLES, Math.ceil(len) + 1);
-      let v = 0;
-      for (let s = 0; s < samples; s++) {
-        const t = s / (samples - 1) - 0.5;
-        const qx = Math.round(px + t * lx), qy = Math.round(py + t * ly);
-        if (qx >= 0 && qy >= 0 && qx < width && qy < height) v += src[qy * width + qx];
-      }
-      out[p] = Math.round(v / samples);
+      if (lx * lx + ly * ly < 0.25) continue;
+      at(p, lx, ly, px, py);
     }
   }
-  return out;
 }
 
 /** A prop's pose at τ frames from `cur` (|τ| ≤ ½), interpolated linearly towards the pose of the frame on that side. */
