@@ -318,7 +318,7 @@ export default function ExportPanel(p: ExportPanelProps) {
           </select>
         </label>
         <label className="col-span-2 flex items-center gap-2">
-          Motion blur
+          <span className="whitespace-nowrap">Motion blur</span>
           <select className="field-input w-auto" aria-label="Motion blur" value={shutterAngle} onChange={(e) => setShutterAngle(Number(e.target.value))}>
             {SHUTTER_ANGLES.map((a) => (
               <option key={a} value={a}>
