@@ -67,6 +67,7 @@ async function passesOfFrame(page: Page, frame: number, shutterAngle: number): P
   if (shutterAngle > 0) await screenshot(page, `hero-look-export-motion-blur-${shutterAngle}`);
   await page.getByRole('button', { name: /^Export / }).click();
   await page.getByTestId('export-done').waitFor({ timeout: 120_000 });
+  expect(await page.getByTestId('export-done').textContent()).toContain('Stored with the version'); // the API took the options
   const [download] = await Promise.all([page.waitForEvent('download'), page.getByTestId('export-download').click()]);
   const file = path.join(downloads, `${shutterAngle}-${download.suggestedFilename()}`);
   await download.saveAs(file);
