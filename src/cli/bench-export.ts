@@ -16,6 +16,8 @@ const WIDTH = 960;
 const HEIGHT = 540;
 const ORIGIN = 'http://127.0.0.1:9999'; // never contacted: every request is answered by a Playwright route
 const BASE = '/__bench/';
+/** Motion blur's shutter angle for every export of the run (degrees; BENCH_EXPORT_SHUTTER=180, default 0: none). */
+const SHUTTER = Number(process.env.BENCH_EXPORT_SHUTTER ?? 0);
 
 function bakeClip(): { bytes: Uint8Array; particles: number; seconds: number } {
   const t = performance.now();
@@ -59,9 +61,10 @@ async function main() {
   console.log(`  ${clip.particles} particles, clip ${(clip.bytes.length / 1e6).toFixed(1)} MB, baked in ${clip.seconds.toFixed(1)} s`);
   const dir = mkdtempSync(path.join(tmpdir(), 'tidemark-bench-export-'));
   const profile = mkdtempSync(path.join(tmpdir(), 'tidemark-chromium-'));
+  let context: Awaited<ReturnType<typeof chromium.launchPersistentContext>> | null = null;
   try {
     await bundle(dir);
-    const context = await chromium.launchPersistentContext(profile, {
+    context = await chromium.launchPersistentContext(profile, {
       executablePath: '/usr/bin/chromium',
       args: ['--headless', '--no-sandbox', '--disable-gpu', '--disable-quic', '--no-first-run', '--disable-background-networking', '--disable-component-update', '--disable-sync'],
     });
@@ -79,17 +82,18 @@ async function main() {
     await page.waitForFunction(() => typeof window.tidemarkExportBench === 'function');
     const results: Record<string, unknown>[] = [];
     for (const format of ['gif', 'mp4', 'passes'] as const) {
-      const r = await page.evaluate((o) => window.tidemarkExportBench(o), { format, width: WIDTH, height: HEIGHT, frames: FRAMES, look: 'surface' as const });
+      const r = await page.evaluate((o) => window.tidemarkExportBench(o), { format, width: WIDTH, height: HEIGHT, frames: FRAMES, look: 'surface' as const, shutterAngle: SHUTTER });
       console.log(
-        `${format === 'passes' ? 'Comp passes ZIP' : format.toUpperCase()}: ${r.frameCount} frames ${WIDTH}×${HEIGHT} in ${r.totalSeconds.toFixed(1)} s ` +
+        `${format === 'passes' ? 'Comp passes ZIP' : format.toUpperCase()}${SHUTTER > 0 ? ` (${SHUTTER}° motion blur)` : ''}: ${r.frameCount} frames ${WIDTH}×${HEIGHT} in ${r.totalSeconds.toFixed(1)} s ` +
           `(rendering ${r.renderingSeconds.toFixed(1)} s = ${((r.renderingSeconds * 1000) / r.frameCount).toFixed(0)} ms/frame, encoding ${r.encodingSeconds.toFixed(1)} s), ` +
           `${(r.bytes / 1e6).toFixed(2)} MB; font and encoder start-up ${(r.totalSeconds - r.renderingSeconds - r.encodingSeconds).toFixed(1)} s`,
       );
       results.push(r);
     }
     await context.close();
-    console.log(JSON.stringify({ bench: 'export', frames: FRAMES, width: WIDTH, height: HEIGHT, cores: cpus().length, particles: clip.particles, results }));
+    console.log(JSON.stringify({ bench: 'export', shutterAngle: SHUTTER, frames: FRAMES, width: WIDTH, height: HEIGHT, cores: cpus().length, particles: clip.particles, results }));
   } finally {
+    await context?.close().catch(() => undefined); // a failed export leaves the browser writing to its profile
     rmSync(dir, { recursive: true, force: true });
     rmSync(profile, { recursive: true, force: true });
   }

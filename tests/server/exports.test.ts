@@ -114,6 +114,8 @@ describe('stored exports', () => {
       [{ format: 'gif', byteSize: 10, fileName: 'a.mp4', options }, 400, 'fileName'],
       [{ format: 'gif', byteSize: 10, fileName: 'a.gif', options: { ...options, look: 'glitter' } }, 400, 'options.look'],
       [{ format: 'gif', byteSize: 10, fileName: 'a.gif', options: { ...options, last: 900 } }, 400, 'options.last'],
+      [{ format: 'gif', byteSize: 10, fileName: 'a.gif', options: { ...options, shutterAngle: 720 } }, 400, 'options.shutterAngle'],
+      [{ format: 'gif', byteSize: 10, fileName: 'a.gif', options: { ...options, shutterAngle: 'wide' } }, 400, 'options.shutterAngle'],
       [{ format: 'gif', byteSize: 5 * 1024 ** 3, fileName: 'a.gif', options }, 413, 'byteSize'],
     ];
     for (const [body, status, field] of cases) {

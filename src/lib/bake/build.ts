@@ -8,4 +8,6 @@
 //    collide, Newton's third law) and the viscous stage's stress on their faces (viscosity.ts reaction).
 // 5: the drift solve stops at a relative residual of 1 % at most (stages.ts, DRIFT_TOLERANCE): scenes whose
 //    pressure tolerance is below 1e-2 bake differently; at 1e-2 and above (the default) frames are unchanged.
-export const SOLVER_BUILD = 'tidemark-flip/5';
+// 6: foam and spray's potentials clamped in the kernel's own units, read without the substep's gravity kick, and
+//    capped at half the liquid's capacity (sim/diffuse.ts): clips' foam sections change; liquid frames do not.
+export const SOLVER_BUILD = 'tidemark-flip/6';

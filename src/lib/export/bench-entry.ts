@@ -7,7 +7,7 @@ import type { ParticleSource } from './source';
 
 declare global {
   interface Window {
-    tidemarkExportBench: (o: { format: ExportFormat; width: number; height: number; frames: number; look: 'surface' | 'speed' }) => Promise<{
+    tidemarkExportBench: (o: { format: ExportFormat; width: number; height: number; frames: number; look: 'surface' | 'speed'; shutterAngle?: number }) => Promise<{
       format: ExportFormat;
       totalSeconds: number;
       renderingSeconds: number;
@@ -30,7 +30,7 @@ function openSource(): Promise<ParticleSource> {
   return source;
 }
 
-window.tidemarkExportBench = async ({ format, width, height, frames, look }) => {
+window.tidemarkExportBench = async ({ format, width, height, frames, look, shutterAngle }) => {
   const src = await openSource();
   const first = src.header.startFrame;
   const last = Math.min(src.header.endFrame, first + frames - 1);
@@ -49,7 +49,7 @@ window.tidemarkExportBench = async ({ format, width, height, frames, look }) => 
   };
   const t0 = performance.now();
   const result = await runExport(
-    { format, labels, first, last, width, height, look, slate: false, burnIns: true, loop: true, source: src, plate: null, plateSize: null, metresPerPixel: null },
+    { format, labels, first, last, width, height, look, slate: false, burnIns: true, loop: true, shutterAngle, source: src, plate: null, plateSize: null, metresPerPixel: null },
     () => undefined,
     new AbortController().signal,
   );

@@ -8,7 +8,7 @@ import { FrameRenderer } from './frames';
 import { loadExportFont } from './font';
 import { DEFAULT_SLATE_SECONDS, exportFileName, slateFrameCount, ffmpegRate, gifDelays, mp4StartTimecode, zipEntryName, FORMAT_TYPES, type ExportFormat, type ExportLabels } from './layout';
 import { ProgressTracker, type ProgressReport } from './progress';
-import type { ParticleSource } from './source';
+import { frameNeighbours, type ParticleSource } from './source';
 import { yieldToPage } from './cancel';
 
 export { CancelledError } from './cancel';
@@ -28,6 +28,8 @@ export interface ExportRequest {
   burnIns: boolean;
   /** GIF only: loop forever (true) or play once. */
   loop: boolean;
+  /** Motion blur's shutter angle, degrees (src/lib/render/motionBlur.ts); 0 or left out: none. Every format. */
+  shutterAngle?: number;
   source: ParticleSource;
   /** Drawn under the splash when given (the "plate underlay" choice). */
   plate: PlateFrameSource | null;
@@ -78,6 +80,7 @@ export async function runExport(req: ExportRequest, onProgress: (r: ProgressRepo
     plateSize: req.plateSize,
     metresPerPixel: req.metresPerPixel,
     burnIns: req.burnIns,
+    shutterAngle: req.shutterAngle,
   });
   const frames: number[] = [];
   for (let f = req.first; f <= req.last; f++) frames.push(f);
@@ -157,7 +160,7 @@ export async function runExport(req: ExportRequest, onProgress: (r: ProgressRepo
  * asks for plate resolution), with no plate, slate or burn-ins: a compositor lays them over the plate themselves.
  */
 async function runPasses(req: ExportRequest, tracker: ProgressTracker, onProgress: (r: ProgressReport) => void, signal: AbortSignal): Promise<ExportResult> {
-  const [{ LookRenderer }, { layoutView }, passes] = await Promise.all([import('../render/looks'), import('../render/view'), import('./passes')]);
+  const [{ LookRenderer }, { layoutView }, passes, blur] = await Promise.all([import('../render/looks'), import('../render/view'), import('./passes'), import('../render/motionBlur')]);
   const h = req.source.header;
   const { toView } = layoutView({
     viewWidth: req.width,
@@ -170,16 +173,21 @@ async function runPasses(req: ExportRequest, tracker: ProgressTracker, onProgres
   const options = { ...req.source.lookOptions, tank: { width: h.tankWidth, height: h.tankHeight } };
   const looks = new LookRenderer(req.width, req.height);
   const coverage = new Uint8Array(req.width * req.height);
+  const fraction = blur.shutterFraction(req.shutterAngle ?? 0);
+  const shutter = fraction > 0 ? new blur.ShutterRenderer(looks, req.width, req.height, fraction) : null;
   const files: { name: string; png: Uint8Array }[] = [];
   const total = req.last - req.first + 1;
   const t0 = performance.now();
   for (let f = req.first; f <= req.last; f++) {
     await yieldToPage(signal);
     const particles = await req.source.frameAt(f);
+    // with motion blur: the splash over the open shutter first (it estimates the liquid's motion), the matte smeared alike
+    const splash = shutter ? shutter.render(req.look, await frameNeighbours(req.source, f, particles), toView, options) : null;
     if (particles.count > 0) passes.liquidCoverage(looks.densityField(particles, toView, options), req.width, req.height, coverage);
     else coverage.fill(0);
-    files.push({ name: passes.passEntryName(req.labels, 'matte', f), png: passes.encodeMattePng(req.width, req.height, coverage) });
-    const rgba = passes.straightRgba(looks.render(req.look, particles, toView, options));
+    const matte = shutter ? shutter.blurCoverage(coverage, shutter.lastMotion) : coverage;
+    files.push({ name: passes.passEntryName(req.labels, 'matte', f), png: passes.encodeMattePng(req.width, req.height, matte) });
+    const rgba = passes.straightRgba(splash ?? looks.render(req.look, particles, toView, options));
     files.push({ name: passes.passEntryName(req.labels, 'rgba', f), png: passes.encodeRgbaPng(req.width, req.height, rgba) });
     onProgress(tracker.report('rendering', (f - req.first + 1) / total, `frame ${f - req.first + 1} of ${total}`));
   }

@@ -1,10 +1,11 @@
 // Draws export frames on a 2D canvas: background, the plate (optional), the splash in a render look from
 // src/lib/render (the player's own pictures), then the burn-ins; and the slate. Browser only.
 import { LookRenderer, type RenderLook } from '../render/looks';
+import { ShutterRenderer, shutterFraction } from '../render/motionBlur';
 import { layoutView, type ViewLayout } from '../render/view';
 import type { PlateFrameSource } from '../plate';
 import { BURN_IN_FONT, burnInLayout, slateLayout, type ExportLabels, type TextItem, type TextLayout } from './layout';
-import type { ParticleSource } from './source';
+import { frameNeighbours, type ParticleSource } from './source';
 
 export interface FrameRendererOptions {
   width: number;
@@ -18,6 +19,8 @@ export interface FrameRendererOptions {
   plateSize: { width: number; height: number } | null;
   metresPerPixel: number | null;
   burnIns: boolean;
+  /** Motion blur's shutter angle, degrees (render/motionBlur.ts); 0 or left out: none. */
+  shutterAngle?: number;
 }
 
 const BACKGROUND = '#10232b';
@@ -64,6 +67,7 @@ export class FrameRenderer {
   readonly ctx: CanvasRenderingContext2D;
   private looks: LookRenderer;
   private layout: ViewLayout;
+  private shutter: ShutterRenderer | null;
 
   constructor(private o: FrameRendererOptions) {
     this.canvas = document.createElement('canvas');
@@ -71,6 +75,8 @@ export class FrameRenderer {
     this.canvas.height = o.height;
     this.ctx = this.canvas.getContext('2d', { willReadFrequently: true })!;
     this.looks = new LookRenderer(o.width, o.height);
+    const fraction = shutterFraction(o.shutterAngle ?? 0);
+    this.shutter = fraction > 0 ? new ShutterRenderer(this.looks, o.width, o.height, fraction) : null;
     const h = o.source.header;
     this.layout = layoutView({
       viewWidth: o.width,
@@ -104,7 +110,9 @@ export class FrameRenderer {
     if (plateImage && r) ctx.drawImage(plateImage, r.x, r.y, r.width, r.height);
     // Walls and props are drawn even on a frame without liquid (the look draws them over the splash).
     if (particles.count > 0 || o.source.lookOptions.scene) {
-      const splash = this.looks.render(o.look, particles, this.layout.toView, o.source.lookOptions);
+      const splash = this.shutter
+        ? this.shutter.render(o.look, await frameNeighbours(o.source, frame, particles), this.layout.toView, o.source.lookOptions)
+        : this.looks.render(o.look, particles, this.layout.toView, o.source.lookOptions);
       const base = ctx.getImageData(0, 0, o.width, o.height);
       const dst = base.data;
       const src = splash.data;

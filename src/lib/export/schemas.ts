@@ -22,6 +22,13 @@ export const exportOptions = z
     burnIns: z.boolean(),
     plate: z.boolean(),
     loop: z.boolean().optional(),
+    /** Motion blur: the shutter angle in degrees (the shutter open for angle/360 of each frame); 0 or left out: none. */
+    shutterAngle: z
+      .number({ invalid_type_error: 'must be a number of degrees' })
+      .int('must be a whole number of degrees')
+      .min(0, 'must be between 0 and 360 degrees')
+      .max(360, 'must be between 0 and 360 degrees')
+      .optional(),
     frameCount: z.number().int().min(1).max(100_000).optional(),
   })
   .strict()

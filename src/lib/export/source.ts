@@ -6,6 +6,7 @@ import { ClipReader } from '../clip/decode';
 import type { ClipHeader } from '../clip/format';
 import type { LookOptions, ParticleFrame } from '../render/looks';
 import { loadPropImages, type PropPictureRef } from '../render/prop-pictures';
+import type { FrameNeighbours } from '../render/motionBlur';
 
 export interface ClipUrls {
   clipUrl: string;
@@ -62,4 +63,12 @@ export async function openParticleSource(getUrls: () => Promise<ClipUrls>): Prom
     lookOptions: { ...lookOptionsFromStats(stats), scene: h.look, propImages },
     frameAt: (frame) => (frame < h.startFrame || frame > h.endFrame ? Promise.resolve(EMPTY) : reader.frameAt(frame)),
   };
+}
+
+/** Frame `f` (already read as `cur`) and its neighbours, for motion blur; a neighbour without particles (outside the bake) is null. */
+export async function frameNeighbours(source: ParticleSource, f: number, cur: ParticleFrame): Promise<FrameNeighbours> {
+  const { startFrame, endFrame } = source.header;
+  const at = (k: number) => (k >= startFrame && k <= endFrame ? source.frameAt(k) : Promise.resolve(EMPTY));
+  const [prev, next] = await Promise.all([at(f - 1), at(f + 1)]);
+  return { prev: prev.count > 0 ? prev : null, cur, next: next.count > 0 ? next : null };
 }

@@ -12,8 +12,8 @@
 // without it. Deterministic: its own mulberry32 stream (seeded from physics.seed), particles in array order,
 // no trigonometry (a disc is sampled by rejection), so the same scene gives bit-identical foam every run.
 //
-// Constants: the potential ranges and rates below are our own choice for a 2-D grid of 4 particles per cell
-// (the paper's values are for 3-D SPH neighbourhoods and are not reused); tuned on the harbour splash fixture.
+// Constants: the potential ranges are set from the scene's kernel radius and gravity (see "Clamp ranges" below; the
+// paper's values are for 3-D SPH neighbourhoods and are not reused); the emission rates are our own.
 import type { Scene } from '../scene/schema';
 import type { FlipState } from './stages';
 import { mulberry32 } from './prng';
@@ -37,16 +37,43 @@ export function foamScale(scene: Scene): number {
   return scene.look?.foam ?? 1;
 }
 
-/** Most diffuse particles alive at once (older foam is not kept beyond it: new ones are not emitted). */
+/** Most diffuse particles alive at once in any scene (beyond the cap no new ones are emitted). */
 export const DIFFUSE_CAPACITY = 40000;
+/**
+ * Most diffuse particles alive per liquid particle the bake can hold: a violent scene (a dam break sloshing at
+ * several U for seconds) saturates the potentials of most of its particles, and its foam is then bounded by
+ * this share rather than by the thresholds, so the clip's foam section stays within half the liquid's count.
+ */
+export const DIFFUSE_PER_LIQUID = 0.5;
 
-// Clamp ranges [τmin, τmax] of the potentials (see the header: our own values for this grid).
-const TA = [1.5, 8] as const; // trapped air, m/s (kernel-weighted relative speed)
-const WC = [0.4, 2.5] as const; // wave crest, kernel-weighted (1 − n̂i·n̂j)
-const KE = [0.6, 6] as const; // kinetic energy per unit mass, J/kg (speeds ≈ 1.1 to 3.5 m/s)
-// Emission rates per liquid particle per second at full potential.
-const K_TA = 200;
-const K_WC = 300;
+// Clamp ranges [τmin, τmax] of the potentials. The paper notes they depend on the scene's scale (its values are for
+// 3-D SPH scenes and are not reused). Ours are set in the units of the stage's own kernel radius R and gravity g, so
+// a can splashing into a pool on 12.5 mm cells and a dam break on 8 mm cells are judged by the same rule:
+//
+//  - Speeds as Froude numbers at the kernel. In a free-surface flow driven by gravity, motion of length L has
+//    speeds of order √(g·L) (Froude similarity); the smallest motion this stage resolves spans R, so speeds are
+//    measured in U = √(g·R) (0.40 m/s for the hero demo's R = 16.5 mm).
+//  - Kinetic energy per unit mass ½|v|² against the work g·z to rise a height z: Φk starts where a particle could
+//    leave its neighbourhood ballistically, rising one kernel radius (½|v|² = g·R: 0.57 m/s there), and is full where
+//    it could be thrown KE_RISE_FULL radii high (1.14 m/s there). Liquid sloshing at a few cm/s stays at 0.
+//  - Trapped air: Σ|v_ij|(1 − v̂_ij·x̂_ij)W sums over the neighbourhood. Splashes trap air at the surface, where a
+//    particle has about half a bulk neighbourhood (W_bulk/2); a front of liquid meeting it head-on at relative speed
+//    V over half of that (factor 1 − cos = 2) gives V·W_bulk/2. Its range is a range of impact speeds V times
+//    W_bulk/2: from U (Froude number 1 at the kernel) to TA_FR_FULL·U.
+//  - Wave crest: on a crest of radius of curvature ρ, a neighbour at distance r along the surface has a normal
+//    turned by r/ρ, so 1 − n̂_i·n̂_j ≈ r²/(2ρ²); summed over the surface row of particles (spacing d = h/√ppc) with
+//    W = 1 − r/R it is ≈ (2/d)∫₀ᴿ (1 − r/R) r²/(2ρ²) dr = R³/(12·d·ρ²). A crest as sharp as the kernel (ρ = R) is
+//    full; one flatter than WC_RHO_ZERO kernel radii gives 0.
+/** Kinetic potential full at a ballistic rise of this many kernel radii. */
+const KE_RISE_FULL = 4;
+/** Trapped-air potential full at this impact speed, in U = √(g·R) (it starts at 1 U). */
+const TA_FR_FULL = 4;
+/** Wave-crest potential 0 at this radius of curvature, in kernel radii (it is full at 1). */
+const WC_RHO_ZERO = 2;
+// Emission rates per liquid particle per second at full potential (the paper's k_ta, k_wc; our values: at 25 fps a
+// particle at full potential seeds 20 a frame, so a splash of ~100 fast particles throws a few hundred).
+const K_TA = 500;
+const K_WC = 500;
 /** Foam lifetime, s: uniform in [LIFE_MIN, LIFE_MIN + LIFE_SPAN]. */
 const LIFE_MIN = 0.6;
 const LIFE_SPAN = 1.2;
@@ -71,7 +98,7 @@ export interface DiffuseStage {
 export function createDiffuse(S: FlipState, scene: Scene): DiffuseStage {
   const scale = foamScale(scene);
   const rand = mulberry32((scene.physics.seed ^ 0x6f616d31) >>> 0);
-  const cap = DIFFUSE_CAPACITY;
+  const cap = Math.min(DIFFUSE_CAPACITY, Math.ceil(DIFFUSE_PER_LIQUID * S.cap));
   const x = new Float32Array(cap), y = new Float32Array(cap), u = new Float32Array(cap), v = new Float32Array(cap);
   const life = new Float32Array(cap);
   const kind = new Uint8Array(cap);
@@ -88,6 +115,14 @@ export function createDiffuse(S: FlipState, scene: Scene): DiffuseStage {
   const sprayBelow = SPRAY_FRACTION * bulkWeight;
   const bubbleAbove = BUBBLE_FRACTION * bulkWeight;
   const frameDt = 1 / scene.timing.fps;
+  // the potentials' clamp ranges for this scene's kernel and gravity (see the constants above); a scene without
+  // gravity takes standard gravity for its speed unit
+  const gRef = Math.hypot(S.gx, S.gy) || 9.80665;
+  const speedUnit = Math.sqrt(gRef * R);
+  const KE: readonly [number, number] = [gRef * R, KE_RISE_FULL * gRef * R];
+  const TA: readonly [number, number] = [0.5 * bulkWeight * speedUnit, 0.5 * bulkWeight * TA_FR_FULL * speedUnit];
+  const crestFull = R / (12 * (S.h / Math.sqrt(S.ppc))); // R³/(12·d·ρ²) at ρ = R
+  const WC: readonly [number, number] = [crestFull / (WC_RHO_ZERO * WC_RHO_ZERO), crestFull];
   const tiny = 1e-12;
 
   // result of gather(): weighted neighbour count and mean velocity
@@ -117,6 +152,8 @@ export function createDiffuse(S: FlipState, scene: Scene): DiffuseStage {
   function advect(dt: number): void {
     const { gx, gy, width, height, solid } = S;
     let k = 0;
+    // the liquid's velocities carry this substep's gravity kick g·dt, not yet projected out (see emit): foam and
+    // bubbles follow the liquid's velocity without it
     for (let d = 0; d < n; d++) {
       gather(x[d], y[d]);
       let du = u[d], dv = v[d], l = life[d];
@@ -124,10 +161,10 @@ export function createDiffuse(S: FlipState, scene: Scene): DiffuseStage {
         kind[k] = SPRAY; du += gx * dt; dv += gy * dt; // spray: ballistic, does not age
       } else if (gW > bubbleAbove) {
         kind[k] = BUBBLE; // bubble: rises against gravity, dragged towards the liquid's velocity, does not age
-        du += -K_BUOYANCY * gx * dt + K_DRAG * (gU - du);
-        dv += -K_BUOYANCY * gy * dt + K_DRAG * (gV - dv);
+        du += -K_BUOYANCY * gx * dt + K_DRAG * (gU - gx * dt - du);
+        dv += -K_BUOYANCY * gy * dt + K_DRAG * (gV - gy * dt - dv);
       } else {
-        kind[k] = FOAM; du = gU; dv = gV; l -= dt; // foam: carried by the liquid, ages
+        kind[k] = FOAM; du = gU - gx * dt; dv = gV - gy * dt; l -= dt; // foam: carried by the liquid, ages
       }
       const px = x[d] + du * dt, py = y[d] + dv * dt;
       if (l <= 0 || !(px >= 0 && px <= width && py >= 0 && py <= height) || solid[S.cellOf(px, py)]) continue;
@@ -139,7 +176,14 @@ export function createDiffuse(S: FlipState, scene: Scene): DiffuseStage {
   /** Φ(I, τmin, τmax) of the paper: (min(I, τmax) − min(I, τmin)) / (τmax − τmin). */
   const clampPotential = (I: number, t: readonly [number, number]) => (Math.min(I, t[1]) - Math.min(I, t[0])) / (t[1] - t[0]);
 
-  function emit(dtGen: number): void {
+  /**
+   * Emits the frame's new diffuse particles (dtGen: the time they stand for, s). The liquid's velocities here are the
+   * last projected ones plus this substep's gravity kick g·dt (the stage runs between 'gravity and advection' and the
+   * projection, which takes the kick back out of liquid at rest), so the potentials read v − g·dt: the liquid's own
+   * motion. Relative velocities are unchanged by it.
+   */
+  function emit(dtGen: number, dt: number): void {
+    const kx = S.gx * dt, ky = S.gy * dt;
     const { hstart, hnx, hny, invHs, h } = S;
     const X = S.x, Y = S.y, U = S.u, V = S.v, count = S.n;
     // Normals are read only for particles that can emit (kinetic potential > 0) and for their neighbours, all
@@ -147,7 +191,7 @@ export function createDiffuse(S: FlipState, scene: Scene): DiffuseStage {
     // normals of particles elsewhere (a pool at rest) uncomputed; they are never read.
     hot.fill(0);
     for (let p = 0; p < count; p++) {
-      const pu = U[p], pv = V[p];
+      const pu = U[p] - kx, pv = V[p] - ky;
       if (!(clampPotential(0.5 * (pu * pu + pv * pv), KE) > 0)) continue;
       const ci = Math.min(hnx - 1, Math.max(0, Math.floor((X[p] + h) * invHs))), cj = Math.min(hny - 1, Math.max(0, Math.floor((Y[p] + h) * invHs)));
       hot[ci + hnx * cj] = 1;
@@ -184,7 +228,7 @@ export function createDiffuse(S: FlipState, scene: Scene): DiffuseStage {
       if (w > tiny && m / w > SURFACE_INDICATOR) { nx[p] = gxs / m; ny[p] = gys / m; } else { nx[p] = 0; ny[p] = 0; }
     }
     for (let p = 0; p < count && n < cap; p++) {
-      const pu = U[p], pv = V[p], s2 = pu * pu + pv * pv;
+      const pu = U[p] - kx, pv = V[p] - ky, s2 = pu * pu + pv * pv;
       const fk = clampPotential(0.5 * s2, KE);
       if (fk <= 0) continue;
       const px = X[p], py = Y[p];
@@ -200,7 +244,7 @@ export function createDiffuse(S: FlipState, scene: Scene): DiffuseStage {
             if (r2 >= R2 || r2 < tiny) continue;
             const r = Math.sqrt(r2), k = 1 - r * invR;
             // trapped air: |v_ij|·(1 − v̂_ij·x̂_ij)·W, v_ij = v_i − v_j, x_ij = x_i − x_j
-            const ru = pu - U[q], rv = pv - V[q], rs = Math.sqrt(ru * ru + rv * rv);
+            const ru = pu + kx - U[q], rv = pv + ky - V[q], rs = Math.sqrt(ru * ru + rv * rv);
             if (rs > tiny) ta += rs * (1 - (ru * ex + rv * ey) / (rs * r)) * k;
             // wave crest: (1 − n̂_i·n̂_j)·W over neighbours behind the surface (x̂_ji·n̂_i < 0)
             if (surface && (nx[q] !== 0 || ny[q] !== 0) && -(ex * nx[p] + ey * ny[p]) < 0) wc += (1 - (nx[p] * nx[q] + ny[p] * ny[q])) * k;
@@ -239,7 +283,7 @@ export function createDiffuse(S: FlipState, scene: Scene): DiffuseStage {
     run(dt, f0, f1) {
       advect(dt);
       // emit once per frame, on the substep that reaches the frame's end (rates are per second of shot time)
-      if (Math.floor(f1 + 1e-6) > Math.floor(f0 + 1e-6)) emit(frameDt);
+      if (Math.floor(f1 + 1e-6) > Math.floor(f0 + 1e-6)) emit(frameDt, dt);
     },
   };
 }
