@@ -220,7 +220,7 @@ export default function Editor({ boot }: { boot: EditorBoot }) {
               </>
             )}
             {snap.tool === 'select' && <span className="text-ink-muted">Click to pick · drag to move · corners resize · knob rotates</span>}
-            {snap.tool === 'tank' && <span className="text-ink-muted">Drag anywhere: the tank's top-right corner follows, in whole cells</span>}
+            {snap.tool === 'tank' && <span className="text-ink-muted">Drag anywhere: the tank's top-right corner follows, to the millimetre (hold Shift for whole cells)</span>}
             {shapeTool && snap.shapeModes[shapeTool] === 'polygon' && <span className="text-ink-muted">Click points · click the first point or press Enter to close</span>}
             <label className="ml-auto flex items-center gap-1 text-ink-soft">Snap
               <select value={snap.snap} onChange={(e) => store.setSnap(e.target.value as SnapMode)} className="rounded border border-sand-line bg-white px-1 py-0.5">

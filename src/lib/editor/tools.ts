@@ -1,7 +1,7 @@
 // The editor's tools, each a small state machine (idle → pointing → dragging → idle, plus placing for polygons and
 // painting for the brush) with onPointerDown/Move/Up. Tools hold only their own gesture state; they show work in
 // progress through the context (a draft document, an overlay) and change the scene only by executing commands.
-import type { ShapeDoc } from '../scene/schema';
+import { SCENE_LIMITS, type ShapeDoc } from '../scene/schema';
 import { shapeBounds, shapeCentroid, type Bounds } from '../scene/shapes';
 import type { SolvedPose } from '../scene/pose';
 import { type EditorDoc, type Group, type ItemRef, type AnyItem, findItem, makeItem, sameRef, toWholeCells } from './document';
@@ -368,7 +368,20 @@ function stamp(mask: Mask, mpp: number, a: Vec, b: Vec, radius: number) {
   }
 }
 
-// ── Tank: drag to size the tank in whole cells from its lower-left corner ───────────────────────────────────────
+// ── Tank: drag to size the tank from its lower-left corner (whole cells while Shift is held) ─────────────────────
+
+/** Step a dragged tank side moves in, m (1 mm): a tank need not be a whole number of cells (scene tankCells). */
+const TANK_DRAG_STEP = 1e-3;
+
+/**
+ * A tank side dragged to `length` m: to the millimetre, or to whole cells when the artist asks (Shift); never
+ * fewer than 2 cells nor more than the scene's cells per side, so the dragged tank is always a valid scene.
+ */
+export function draggedTankLength(length: number, cellSize: number, wholeCells: boolean): number {
+  const lo = 2 * cellSize, hi = SCENE_LIMITS.maxCellsPerSide * cellSize;
+  const v = wholeCells ? toWholeCells(length, cellSize) : Number((Math.round(length / TANK_DRAG_STEP) * TANK_DRAG_STEP).toFixed(6));
+  return v < lo ? lo : v > hi ? (wholeCells ? toWholeCells(hi, cellSize) : Number(hi.toFixed(6))) : v;
+}
 
 type TankState = { name: 'idle' } | { name: 'pointing'; start: Vec } | { name: 'dragging'; tank: EditorDoc['tank'] };
 
@@ -383,7 +396,7 @@ export class TankTool implements Tool {
     if (this.s.name === 'idle') return;
     if (this.s.name === 'pointing' && !far(ctx, this.s.start, pt(p))) return;
     const h = ctx.doc.tank.cellSize;
-    const tank = { ...ctx.doc.tank, width: toWholeCells(Math.max(p.x, 2 * h), h), height: toWholeCells(Math.max(p.y, 2 * h), h) };
+    const tank = { ...ctx.doc.tank, width: draggedTankLength(p.x, h, p.shift), height: draggedTankLength(p.y, h, p.shift) };
     this.s = { name: 'dragging', tank };
     ctx.setDraft({ ...ctx.doc, tank });
   }
