@@ -1,0 +1,240 @@
+// One bake on several threads: a team of threads (the caller's thread is rank 0) runs the heavy stages of the
+// step over the solver's own arrays, moved onto SharedArrayBuffers, each thread on a fixed share (particles by
+// index range, grid rows by band, hash rows as a wavefront; parallel-kernels.ts). Every threaded stage gives
+// the serial stage's bytes (fixed partitions, and every sum made in the serial order), so a bake on N threads is
+// a bake on one, and run twice it is bit-identical. Pure TypeScript over SharedArrayBuffer and Atomics: the
+// threads themselves are started by the host (Node worker_threads: src/lib/bake/solver-team.ts).
+// Synchronisation: the main thread writes a task into the control block, bumps `gen` and notifies; each
+// worker runs its share and counts itself into `done`; the main thread runs its own share, then waits for all.
+import type { FlipState } from './stages';
+import { CTRL, PARAM, TASK, TeamKernels, type TeamLayout } from './parallel-kernels';
+
+export type { TeamLayout } from './parallel-kernels';
+
+/** The host's side of a team: how to reach its worker threads. */
+export interface TeamTransport {
+  /** Worker threads (the caller's thread is one more). */
+  readonly workers: number;
+  /** Sends the attach message to every worker (each calls runTeamMember with it). */
+  post(message: TeamAttach): void;
+}
+
+export interface TeamAttach { type: 'attach'; layout: TeamLayout }
+
+/** How many spins the main thread makes on `done` before it sleeps on it. */
+const SPINS = 4000;
+/** A task no worker finished for this long means a worker thread died (its exit cannot reach a blocked thread). */
+const STALL_MS = 120_000;
+
+/** Sleeps on ctrl[slot] until it reaches `value`; throws after STALL_MS without a change. */
+function waitFor(ctrl: Int32Array, slot: number, value: number, spins: number): void {
+  let spin = 0, since = 0;
+  for (let d = Atomics.load(ctrl, slot); d < value; d = Atomics.load(ctrl, slot)) {
+    if (++spin <= spins) continue;
+    if (since === 0) since = Date.now();
+    else if (Date.now() - since > STALL_MS) throw new Error('solver team: a worker thread stopped answering');
+    Atomics.wait(ctrl, slot, d, 50);
+  }
+}
+
+/**
+ * A team of threads for solvers: `threads` = workers + the caller. Attached to one solver at a time (the one
+ * that stepped last; stepping another re-attaches, which costs a message round trip).
+ */
+export class SolverTeam {
+  readonly threads: number;
+  private readonly ctrlBuffer = new SharedArrayBuffer(4 * CTRL.size);
+  private readonly paramsBuffer = new SharedArrayBuffer(8 * PARAM.size);
+  readonly ctrl = new Int32Array(this.ctrlBuffer);
+  readonly params = new Float64Array(this.paramsBuffer);
+  private current: ThreadedStages | null = null;
+  private closed = false;
+
+  constructor(private readonly transport: TeamTransport) {
+    this.threads = transport.workers + 1;
+  }
+
+  /** Moves the solver state's arrays onto shared memory and returns its threaded stages. */
+  attach(S: FlipState): ThreadedStages {
+    return new ThreadedStages(this, S, shareArrays(S), this.ctrlBuffer, this.paramsBuffer);
+  }
+
+  /** Makes `stages` the attached solver (workers build their views of its arrays); waits until they have. */
+  use(stages: ThreadedStages): void {
+    if (this.current === stages) return;
+    if (this.closed) throw new Error('solver team: used after close()');
+    if (this.current) this.runTask(TASK.detach, null);
+    this.current = null;
+    Atomics.store(this.ctrl, CTRL.ready, 0);
+    this.transport.post({ type: 'attach', layout: stages.layout });
+    waitFor(this.ctrl, CTRL.ready, this.threads - 1, 0);
+    this.current = stages;
+  }
+
+  /** Runs `task` on every thread (rank 0 here, with `main`'s kernels) and returns when all are done. */
+  runTask(task: number, main: TeamKernels | null): void {
+    const ctrl = this.ctrl;
+    Atomics.store(ctrl, CTRL.done, 0);
+    Atomics.store(ctrl, CTRL.task, task);
+    Atomics.add(ctrl, CTRL.gen, 1);
+    Atomics.notify(ctrl, CTRL.gen);
+    if (main) main.run(task, this.threads);
+    waitFor(ctrl, CTRL.done, this.threads - 1, SPINS);
+  }
+
+  /** Ends the workers' loops (they return to their event loop; the host then ends them). */
+  close(): void {
+    if (this.closed) return;
+    this.closed = true;
+    Atomics.store(this.ctrl, CTRL.stop, 1);
+    Atomics.add(this.ctrl, CTRL.gen, 1);
+    Atomics.notify(this.ctrl, CTRL.gen);
+    this.current = null;
+  }
+}
+
+/**
+ * A worker's part: builds its kernels over the attached solver, then runs tasks until the main thread detaches
+ * it (returns, so that the worker's event loop receives the next attach) or closes the team.
+ */
+export function runTeamMember(message: TeamAttach, rank: number): void {
+  const K = new TeamKernels(message.layout, rank);
+  const ctrl = K.ctrl, threads = message.layout.threads;
+  let seen = Atomics.load(ctrl, CTRL.gen);
+  Atomics.add(ctrl, CTRL.ready, 1);
+  Atomics.notify(ctrl, CTRL.ready);
+  for (;;) {
+    let g = Atomics.load(ctrl, CTRL.gen);
+    for (let spin = 0; g === seen; spin++) {
+      if (spin > SPINS) Atomics.wait(ctrl, CTRL.gen, seen, 1000);
+      g = Atomics.load(ctrl, CTRL.gen);
+    }
+    seen = g;
+    if (Atomics.load(ctrl, CTRL.stop) !== 0) return;
+    const task = Atomics.load(ctrl, CTRL.task);
+    if (task !== TASK.detach) K.run(task, threads);
+    const d = Atomics.add(ctrl, CTRL.done, 1) + 1;
+    if (d === threads - 1) Atomics.notify(ctrl, CTRL.done);
+    if (task === TASK.detach) return;
+  }
+}
+
+type Typed = Float32Array | Float64Array | Int32Array | Uint8Array;
+
+/**
+ * Replaces every typed array of the solver state by a copy on a SharedArrayBuffer (same contents); returns
+ * them by field name. Called before anything else holds the arrays (createSolver, right after the state).
+ */
+function shareArrays(S: FlipState): TeamLayout['arrays'] {
+  const out: TeamLayout['arrays'] = {};
+  const fields = S as unknown as Record<string, unknown>;
+  for (const name of Object.keys(fields)) {
+    const a = fields[name];
+    let kind: 'f32' | 'f64' | 'i32' | 'u8';
+    if (a instanceof Float32Array) kind = 'f32';
+    else if (a instanceof Float64Array) kind = 'f64';
+    else if (a instanceof Int32Array) kind = 'i32';
+    else if (a instanceof Uint8Array) kind = 'u8';
+    else continue;
+    const src = a as Typed;
+    let shared: Typed;
+    if (src.buffer instanceof SharedArrayBuffer) shared = src;
+    else {
+      const buffer = new SharedArrayBuffer(Math.max(1, src.byteLength));
+      shared = kind === 'f32' ? new Float32Array(buffer, 0, src.length) : kind === 'f64' ? new Float64Array(buffer, 0, src.length)
+        : kind === 'i32' ? new Int32Array(buffer, 0, src.length) : new Uint8Array(buffer, 0, src.length);
+      (shared as Float64Array).set(src as Float64Array);
+      fields[name] = shared;
+    }
+    out[name] = { kind, buffer: shared.buffer as SharedArrayBuffer };
+  }
+  return out;
+}
+
+/** The threaded stages of one solver (createSolver uses these in place of the serial ones when it has a team). */
+export class ThreadedStages {
+  readonly layout: TeamLayout;
+  readonly threads: number;
+  private readonly K: TeamKernels;
+  private readonly xA: Float32Array;
+  private readonly progress: Int32Array;
+
+  constructor(private readonly team: SolverTeam, private readonly S: FlipState, arrays: TeamLayout['arrays'], ctrl: SharedArrayBuffer, params: SharedArrayBuffer) {
+    const T = team.threads;
+    this.threads = T;
+    const stride = Math.ceil(S.cap / T) + 1;
+    this.layout = {
+      threads: T, arrays, ctrl, params,
+      touch: new SharedArrayBuffer(T * S.ny), deferRows: new SharedArrayBuffer(T * S.ny),
+      deferred: new SharedArrayBuffer(4 * T * stride), deferredCount: new SharedArrayBuffer(4 * T), deferredStride: stride,
+      progress: new SharedArrayBuffer(4 * Math.max(1, S.hny)), partials: new SharedArrayBuffer(8 * T * 4),
+      nx: S.nx, ny: S.ny, invH: S.invH, gx: S.gx, gy: S.gy, flipRatio: S.flipRatio, hnx: S.hnx, hny: S.hny, radius: S.radius,
+    };
+    this.K = new TeamKernels(this.layout, 0);
+    this.xA = S.x;
+    this.progress = new Int32Array(this.layout.progress);
+  }
+
+  /** Attaches and writes the per-step values every task reads (particle count, which particle buffers are current). */
+  private begin(): void {
+    this.team.use(this);
+    const ctrl = this.team.ctrl;
+    ctrl[CTRL.n] = this.S.n;
+    ctrl[CTRL.parity] = this.S.x === this.xA ? 0 : 1;
+  }
+
+  /** Stage 1, integrate (stages.ts). */
+  integrate(dt: number): void {
+    this.begin();
+    this.team.params[PARAM.dt] = dt;
+    this.team.runTask(TASK.integrate, this.K);
+  }
+
+  /** Stage 2, separate (stages.ts): each iteration one wavefront over the hash rows. */
+  separate(iterations: number): void {
+    this.begin();
+    for (let it = 0; it < iterations; it++) {
+      this.progress.fill(0);
+      this.team.runTask(TASK.separate, this.K);
+    }
+  }
+
+  /** Stage 5, particlesToGrid (stages.ts). */
+  particlesToGrid(): void {
+    this.begin();
+    this.team.runTask(TASK.p2gClear, this.K);
+    this.team.runTask(TASK.p2gSplat, this.K);
+    this.K.replayDeferred(this.threads);
+    this.team.runTask(TASK.p2gFinish, this.K);
+  }
+
+  /** Stage 9, gridToParticles (stages.ts); sets S.maxSpeed from the threads' largest squared speeds (a max: exact). */
+  gridToParticles(dt: number): void {
+    this.begin();
+    this.team.params[PARAM.dt] = dt;
+    this.team.runTask(TASK.g2pFaces, this.K);
+    this.team.runTask(TASK.g2pParticles, this.K);
+    let max2 = 0;
+    const partials = this.K.partials;
+    for (let r = 0; r < this.threads; r++) if (partials[r] > max2) max2 = partials[r];
+    this.S.maxSpeed = Math.sqrt(max2);
+  }
+}
+
+let defaultTeam: SolverTeam | null = null;
+
+/** A team every createSolver without a `team` option uses (tests set it from TIDEMARK_TEST_THREADS); null for none. */
+export function setDefaultSolverTeam(team: SolverTeam | null): void {
+  defaultTeam = team;
+}
+
+/** The team createSolver uses when its options name none. */
+export function defaultSolverTeam(): SolverTeam | null {
+  return defaultTeam;
+}
+
+/** Options of createSolver for a threaded bake. */
+export interface ThreadOptions {
+  /** Run the heavy stages on this team's threads (a team of 1 thread, or none, is the serial step). */
+  team?: SolverTeam | null;
+}
