@@ -29,8 +29,9 @@ const same = (a: Float32Array[], b: Float32Array[]) =>
 describe('a bake on several threads', () => {
   const teams: Record<number, NodeSolverTeam> = {};
   beforeAll(async () => {
-    teams[2] = await createSolverTeam(2);
-    teams[4] = await createSolverTeam(4);
+    // 'threaded': every step runs the threaded stages (the adaptive schedule may pick the serial ones)
+    teams[2] = await createSolverTeam(2, 'threaded');
+    teams[4] = await createSolverTeam(4, 'threaded');
   });
   afterAll(async () => {
     await Promise.all(Object.values(teams).map((t) => t.end()));

@@ -6,7 +6,7 @@ import { createSolverTeam } from '../../src/lib/bake/solver-team';
 
 const threads = Number(process.env.TIDEMARK_TEST_THREADS ?? 1);
 if (threads > 1) {
-  const team = await createSolverTeam(threads);
+  const team = await createSolverTeam(threads, 'threaded'); // always the threaded stages, never the serial fallback
   setDefaultSolverTeam(team);
   afterAll(async () => {
     setDefaultSolverTeam(null);

@@ -4,7 +4,7 @@ import { Worker } from 'node:worker_threads';
 import { availableParallelism } from 'node:os';
 import { fileURLToPath } from 'node:url';
 import path from 'node:path';
-import { SolverTeam, type TeamAttach } from '../sim/parallel';
+import { SolverTeam, type TeamAttach, type TeamSchedule } from '../sim/parallel';
 
 /** Heap a team worker may use, MB: it holds only views of the shared state and the kernels' code. */
 const MEMBER_HEAP_MB = 64;
@@ -30,9 +30,9 @@ export interface NodeSolverTeam extends SolverTeam {
 
 /**
  * Starts threads − 1 worker threads and resolves once each has loaded the kernels; the caller's thread is the
- * team's first. Workers are unref'd: an idle team does not keep the process alive.
+ * team's first; `schedule` as in parallel.ts (TeamSchedule). Workers are unref'd: an idle team does not keep the process alive.
  */
-export async function createSolverTeam(threads: number): Promise<NodeSolverTeam> {
+export async function createSolverTeam(threads: number, schedule: TeamSchedule = 'adaptive'): Promise<NodeSolverTeam> {
   if (!Number.isInteger(threads) || threads < 1) throw new Error(`a solver team needs a whole number ≥ 1 of threads (got ${threads})`);
   const here = path.dirname(fileURLToPath(import.meta.url));
   const boot = path.join(here, 'thread-boot.mjs');
@@ -61,7 +61,7 @@ export async function createSolverTeam(threads: number): Promise<NodeSolverTeam>
   const team = new SolverTeam({
     workers: workers.length,
     post: (message: TeamAttach) => { for (const w of workers) w.postMessage(message); },
-  }) as NodeSolverTeam;
+  }, schedule) as NodeSolverTeam;
   team.end = async () => {
     team.close();
     await Promise.all(workers.map((w) => w.terminate()));

@@ -62,6 +62,9 @@ function view(layout: TeamLayout, name: string): Arr {
   }
 }
 
+/** Hash cells a row waits for beyond the 3 it needs, once it has to wait for the row below (fewer, longer waits). */
+const WAVE_SLACK = 8;
+
 /** How long a waiting thread spins on a shared counter before it sleeps on it (loads). */
 const SPINS = 2000;
 
@@ -306,7 +309,8 @@ export class TeamKernels {
    * thread cy mod threads. Cell (cx, cy) moves particles of cells (cx…cx+1, cy) and (cx−1…cx+1, cy+1), so it
    * may run once row cy−1 has done its cells up to cx+2 (the last ones whose pairs reach those cells) and
    * before row cy+1 reaches cx−2: each pair is then handled in the serial order, on the serial positions.
-   * progress[cy] counts the cells of row cy done (the main thread zeroes it before each iteration).
+   * progress[cy] counts the cells of row cy done, progress[hny + cy] says a thread sleeps on it (the main thread
+   * zeroes both before each iteration).
    */
   private separateRows(threads: number): void {
     const { hnx, hny, hstart, progress } = this;
@@ -316,11 +320,11 @@ export class TeamKernels {
     for (let cy = this.rank; cy < hny - 1; cy += threads) {
       let avail = cy === 0 ? rowEnd : 0;
       for (let cx = 0; cx < rowEnd; cx++) {
-        const need = cx + 3 < rowEnd ? cx + 3 : rowEnd;
-        if (avail < need) {
-          // publish this row's progress first, then wait for the row below
-          Atomics.store(progress, cy, cx);
-          avail = waitAtLeast(progress, cy - 1, need);
+        if (avail < (cx + 3 < rowEnd ? cx + 3 : rowEnd)) {
+          // publish this row's progress first, then wait for the row below to be a stretch ahead (fewer waits)
+          publish(progress, cy, cx, hny + cy);
+          const ahead = cx + 3 + WAVE_SLACK;
+          avail = waitAtLeast(progress, cy - 1, ahead < rowEnd ? ahead : rowEnd, hny + cy - 1);
         }
         const c = cx + hnx * cy;
         const a = hstart[c], b = hstart[c + 1];
@@ -350,22 +354,39 @@ export class TeamKernels {
             x[i] = xi; y[i] = yi;
           }
         }
-        if ((cx & 7) === 7) Atomics.store(progress, cy, cx + 1);
+        if ((cx & 7) === 7) publish(progress, cy, cx + 1, hny + cy);
       }
-      Atomics.store(progress, cy, rowEnd);
-      Atomics.notify(progress, cy);
+      publish(progress, cy, rowEnd, hny + cy);
     }
   }
 }
 
-/** Waits until a[i] ≥ value (spinning, then sleeping in short timed waits); returns the value seen. */
-export function waitAtLeast(a: Int32Array, i: number, value: number): number {
+/**
+ * Waits until a[i] ≥ value and returns the value seen: spins, then sleeps on a[i] after raising a[flag] so that
+ * the writer (publish) wakes it. Atomics.wait sleeps only while a[i] still holds the value last seen, so a store
+ * between the check and the sleep is never missed.
+ */
+export function waitAtLeast(a: Int32Array, i: number, value: number, flag: number): number {
   let seen = Atomics.load(a, i);
+  let slept = false;
   for (let spin = 0; seen < value; spin++) {
-    if (spin > SPINS) Atomics.wait(a, i, seen, 0.05);
+    if (spin > SPINS) {
+      if (!slept) { Atomics.store(a, flag, 1); slept = true; }
+      seen = Atomics.load(a, i);
+      if (seen >= value) break;
+      Atomics.wait(a, i, seen, 20);
+    }
     seen = Atomics.load(a, i);
   }
+  if (slept) Atomics.store(a, flag, 0);
   return seen;
+}
+
+/** Stores a[i] = value and wakes a thread sleeping on it (one that raised a[flag]). */
+export function publish(a: Int32Array, i: number, value: number, flag: number): void {
+  Atomics.store(a, i, value);
+  // the sleeper lowers the flag itself once it has what it waited for: a notify is never lost
+  if (Atomics.load(a, flag) !== 0) Atomics.notify(a, i);
 }
 
 /**

@@ -6,7 +6,7 @@
 // threads themselves are started by the host (Node worker_threads: src/lib/bake/solver-team.ts).
 // Synchronisation: the main thread writes a task into the control block, bumps `gen` and notifies; each
 // worker runs its share and counts itself into `done`; the main thread runs its own share, then waits for all.
-import type { FlipState } from './stages';
+import { integrate, separate, particlesToGrid, gridToParticles, type FlipState } from './stages';
 import { CTRL, PARAM, TASK, TeamKernels, type TeamLayout } from './parallel-kernels';
 
 export type { TeamLayout } from './parallel-kernels';
@@ -20,6 +20,14 @@ export interface TeamTransport {
 }
 
 export interface TeamAttach { type: 'attach'; layout: TeamLayout }
+
+/**
+ * How a team's solvers pick between a stage's threaded and serial run, which give the same bytes:
+ * 'adaptive' (default) runs whichever was faster lately, trying the other now and then — on a machine whose
+ * cores are busy with other work, waiting on a descheduled thread can cost more than the threads save;
+ * 'threaded' always runs the threaded stage (tests, benchmarks).
+ */
+export type TeamSchedule = 'adaptive' | 'threaded';
 
 /** How many spins the main thread makes on `done` before it sleeps on it. */
 const SPINS = 4000;
@@ -50,7 +58,7 @@ export class SolverTeam {
   private current: ThreadedStages | null = null;
   private closed = false;
 
-  constructor(private readonly transport: TeamTransport) {
+  constructor(private readonly transport: TeamTransport, readonly schedule: TeamSchedule = 'adaptive') {
     this.threads = transport.workers + 1;
   }
 
@@ -151,6 +159,35 @@ function shareArrays(S: FlipState): TeamLayout['arrays'] {
   return out;
 }
 
+/** Calls between two tries of the run not currently chosen (adaptive schedule). */
+const PROBE_EVERY = 16;
+
+/**
+ * One stage's choice between its threaded and serial run (the same bytes either way): an exponential mean of
+ * each's wall time, the faster chosen, the other tried every PROBE_EVERY calls.
+ */
+class StageChoice {
+  private threadedMs = -1; private serialMs = -1; private calls = 0;
+  constructor(private readonly adaptive: boolean) {}
+
+  run(threaded: () => void, serial: () => void): void {
+    if (!this.adaptive) { threaded(); return; }
+    const k = this.calls++;
+    let useThreads: boolean;
+    if (this.threadedMs < 0) useThreads = true;
+    else if (this.serialMs < 0) useThreads = false;
+    else {
+      const faster = this.threadedMs <= this.serialMs;
+      useThreads = k % PROBE_EVERY === 0 ? !faster : faster;
+    }
+    const t0 = performance.now();
+    if (useThreads) threaded(); else serial();
+    const ms = performance.now() - t0;
+    if (useThreads) this.threadedMs = this.threadedMs < 0 ? ms : 0.75 * this.threadedMs + 0.25 * ms;
+    else this.serialMs = this.serialMs < 0 ? ms : 0.75 * this.serialMs + 0.25 * ms;
+  }
+}
+
 /** The threaded stages of one solver (createSolver uses these in place of the serial ones when it has a team). */
 export class ThreadedStages {
   readonly layout: TeamLayout;
@@ -158,6 +195,7 @@ export class ThreadedStages {
   private readonly K: TeamKernels;
   private readonly xA: Float32Array;
   private readonly progress: Int32Array;
+  private readonly choice: Record<'integrate' | 'separate' | 'p2g' | 'g2p', StageChoice>;
 
   constructor(private readonly team: SolverTeam, private readonly S: FlipState, arrays: TeamLayout['arrays'], ctrl: SharedArrayBuffer, params: SharedArrayBuffer) {
     const T = team.threads;
@@ -167,11 +205,13 @@ export class ThreadedStages {
       threads: T, arrays, ctrl, params,
       touch: new SharedArrayBuffer(T * S.ny), deferRows: new SharedArrayBuffer(T * S.ny),
       deferred: new SharedArrayBuffer(4 * T * stride), deferredCount: new SharedArrayBuffer(4 * T), deferredStride: stride,
-      progress: new SharedArrayBuffer(4 * Math.max(1, S.hny)), partials: new SharedArrayBuffer(8 * T * 4),
+      progress: new SharedArrayBuffer(4 * 2 * Math.max(1, S.hny)), partials: new SharedArrayBuffer(8 * T * 4),
       nx: S.nx, ny: S.ny, invH: S.invH, gx: S.gx, gy: S.gy, flipRatio: S.flipRatio, hnx: S.hnx, hny: S.hny, radius: S.radius,
     };
     this.K = new TeamKernels(this.layout, 0);
     this.xA = S.x;
+    const adaptive = team.schedule === 'adaptive';
+    this.choice = { integrate: new StageChoice(adaptive), separate: new StageChoice(adaptive), p2g: new StageChoice(adaptive), g2p: new StageChoice(adaptive) };
     this.progress = new Int32Array(this.layout.progress);
   }
 
@@ -185,39 +225,47 @@ export class ThreadedStages {
 
   /** Stage 1, integrate (stages.ts). */
   integrate(dt: number): void {
-    this.begin();
-    this.team.params[PARAM.dt] = dt;
-    this.team.runTask(TASK.integrate, this.K);
+    this.choice.integrate.run(() => {
+      this.begin();
+      this.team.params[PARAM.dt] = dt;
+      this.team.runTask(TASK.integrate, this.K);
+    }, () => integrate(this.S, dt));
   }
 
   /** Stage 2, separate (stages.ts): each iteration one wavefront over the hash rows. */
   separate(iterations: number): void {
-    this.begin();
-    for (let it = 0; it < iterations; it++) {
-      this.progress.fill(0);
-      this.team.runTask(TASK.separate, this.K);
-    }
+    this.choice.separate.run(() => {
+      this.begin();
+      for (let it = 0; it < iterations; it++) {
+        this.progress.fill(0);
+        this.team.runTask(TASK.separate, this.K);
+      }
+    }, () => separate(this.S, iterations));
   }
 
   /** Stage 5, particlesToGrid (stages.ts). */
   particlesToGrid(): void {
-    this.begin();
-    this.team.runTask(TASK.p2gClear, this.K);
-    this.team.runTask(TASK.p2gSplat, this.K);
-    this.K.replayDeferred(this.threads);
-    this.team.runTask(TASK.p2gFinish, this.K);
+    this.choice.p2g.run(() => {
+      this.begin();
+      this.team.runTask(TASK.p2gClear, this.K);
+      this.team.runTask(TASK.p2gSplat, this.K);
+      this.K.replayDeferred(this.threads);
+      this.team.runTask(TASK.p2gFinish, this.K);
+    }, () => particlesToGrid(this.S));
   }
 
   /** Stage 9, gridToParticles (stages.ts); sets S.maxSpeed from the threads' largest squared speeds (a max: exact). */
   gridToParticles(dt: number): void {
-    this.begin();
-    this.team.params[PARAM.dt] = dt;
-    this.team.runTask(TASK.g2pFaces, this.K);
-    this.team.runTask(TASK.g2pParticles, this.K);
-    let max2 = 0;
-    const partials = this.K.partials;
-    for (let r = 0; r < this.threads; r++) if (partials[r] > max2) max2 = partials[r];
-    this.S.maxSpeed = Math.sqrt(max2);
+    this.choice.g2p.run(() => {
+      this.begin();
+      this.team.params[PARAM.dt] = dt;
+      this.team.runTask(TASK.g2pFaces, this.K);
+      this.team.runTask(TASK.g2pParticles, this.K);
+      let max2 = 0;
+      const partials = this.K.partials;
+      for (let r = 0; r < this.threads; r++) if (partials[r] > max2) max2 = partials[r];
+      this.S.maxSpeed = Math.sqrt(max2);
+    }, () => gridToParticles(this.S, dt));
   }
 }
 
