@@ -12,6 +12,7 @@ const UFX = U_FACES[0], UFY = U_FACES[1], VFX = V_FACES[0], VFY = V_FACES[1];
 /** Kernel numbers written into the control block's TASK slot. */
 export const TASK = {
   detach: 1, integrate: 2, p2gClear: 3, p2gSplat: 4, p2gFinish: 5, g2pFaces: 6, g2pParticles: 7, separate: 8,
+  micForward: 9, micBackward: 10,
 } as const;
 
 /** Control block slots (Int32, shared by the team). */
@@ -45,6 +46,8 @@ export interface TeamLayout {
   touch: SharedArrayBuffer; deferRows: SharedArrayBuffer; deferred: SharedArrayBuffer; deferredCount: SharedArrayBuffer;
   deferredStride: number;
   progress: SharedArrayBuffer; partials: SharedArrayBuffer;
+  /** MIC(0) wavefront: first fluid-list entry of each grid row (ny + 1), and per-row progress and sleep flags (2·ny). */
+  rowStart: SharedArrayBuffer; micProgress: SharedArrayBuffer;
   nx: number; ny: number; invH: number; gx: number; gy: number; flipRatio: number;
   hnx: number; hny: number; radius: number;
 }
@@ -85,6 +88,8 @@ export class TeamKernels {
   private readonly touch: Uint8Array; private readonly deferRows: Uint8Array;
   private readonly deferred: Int32Array; private readonly deferredCount: Int32Array; private readonly deferredStride: number;
   private readonly progress: Int32Array; readonly partials: Float64Array;
+  private readonly fluid: Int32Array; private readonly precon: Float64Array; private readonly res: Float64Array; private readonly zv: Float64Array;
+  readonly rowStart: Int32Array; private readonly micProgress: Int32Array;
 
   constructor(layout: TeamLayout, readonly rank: number) {
     this.ctrl = new Int32Array(layout.ctrl); this.params = new Float64Array(layout.params);
@@ -104,6 +109,8 @@ export class TeamKernels {
     this.deferred = new Int32Array(layout.deferred); this.deferredCount = new Int32Array(layout.deferredCount);
     this.deferredStride = layout.deferredStride;
     this.progress = new Int32Array(layout.progress); this.partials = new Float64Array(layout.partials);
+    this.fluid = view(layout, 'fluid') as Int32Array; this.precon = f64('precon'); this.res = f64('res'); this.zv = f64('zv');
+    this.rowStart = new Int32Array(layout.rowStart); this.micProgress = new Int32Array(layout.micProgress);
   }
 
   /** Runs task `task` for this thread's share; `threads` threads share it. */
@@ -116,6 +123,8 @@ export class TeamKernels {
       case TASK.g2pFaces: this.g2pFaces(threads); break;
       case TASK.g2pParticles: this.g2pParticles(threads); break;
       case TASK.separate: this.separateRows(threads); break;
+      case TASK.micForward: this.micForward(threads); break;
+      case TASK.micBackward: this.micBackward(threads); break;
       default: throw new Error(`solver team: unknown task ${task}`);
     }
   }
@@ -357,6 +366,53 @@ export class TeamKernels {
         if ((cx & 7) === 7) publish(progress, cy, cx + 1, hny + cy);
       }
       publish(progress, cy, rowEnd, hny + cy);
+    }
+  }
+
+  /**
+   * MIC(0) forward substitution (applyMic0 in pressure.ts) as a wavefront over grid rows: row j (thread
+   * (j − 1) mod threads) computes zv[c] from zv[c − 1] (its own row) and zv[c − nx], so cell c may run once row
+   * j − 1 is done up to its column. Same formula, same inputs: the serial bytes. micProgress[j] = columns of
+   * row j done (exclusive), micProgress[ny + j] its sleep flag; the main thread zeroes them before.
+   */
+  private micForward(threads: number): void {
+    const { nx, ny, fluid, precon, res, zv, rowStart, micProgress: prog } = this;
+    for (let j = 1 + this.rank; j < ny - 1; j += threads) {
+      const k0 = rowStart[j], k1 = rowStart[j + 1], row = nx * j;
+      let avail = j === 1 ? nx : 0, sinceLast = 0;
+      for (let k = k0; k < k1; k++) {
+        const c = fluid[k], i = c - row;
+        if (avail <= i) {
+          publish(prog, j, i, ny + j);
+          avail = waitAtLeast(prog, j - 1, i + 1, ny + j - 1);
+        }
+        zv[c] = (res[c] + precon[c - 1] * zv[c - 1] + precon[c - nx] * zv[c - nx]) * precon[c];
+        if (++sinceLast === 8) { sinceLast = 0; publish(prog, j, i + 1, ny + j); }
+      }
+      publish(prog, j, nx, ny + j);
+    }
+  }
+
+  /**
+   * MIC(0) backward substitution, the wavefront from the top row down: row j needs row j + 1 done from the
+   * right down to its column. micProgress[j] = nx − (the last column done), nx + 1 once the row is done.
+   */
+  private micBackward(threads: number): void {
+    const { nx, ny, fluid, precon, zv, rowStart, micProgress: prog } = this;
+    for (let j = ny - 2 - this.rank; j >= 1; j -= threads) {
+      const k0 = rowStart[j], k1 = rowStart[j + 1], row = nx * j;
+      let avail = j === ny - 2 ? nx + 1 : 0, sinceLast = 0;
+      for (let k = k1 - 1; k >= k0; k--) {
+        const c = fluid[k], i = c - row;
+        if (avail < nx - i) {
+          publish(prog, j, nx - i - 1, ny + j);
+          avail = waitAtLeast(prog, j + 1, nx - i, ny + j + 1);
+        }
+        const pc = precon[c];
+        zv[c] = (zv[c] + pc * (zv[c + 1] + zv[c + nx])) * pc;
+        if (++sinceLast === 8) { sinceLast = 0; publish(prog, j, nx - i, ny + j); }
+      }
+      publish(prog, j, nx + 1, ny + j);
     }
   }
 }

@@ -7,6 +7,7 @@
 // Synchronisation: the main thread writes a task into the control block, bumps `gen` and notifies; each
 // worker runs its share and counts itself into `done`; the main thread runs its own share, then waits for all.
 import { integrate, separate, particlesToGrid, gridToParticles, type FlipState } from './stages';
+import { applyMic0, useMic0Applier } from './pressure';
 import { CTRL, PARAM, TASK, TeamKernels, type TeamLayout } from './parallel-kernels';
 
 export type { TeamLayout } from './parallel-kernels';
@@ -195,7 +196,8 @@ export class ThreadedStages {
   private readonly K: TeamKernels;
   private readonly xA: Float32Array;
   private readonly progress: Int32Array;
-  private readonly choice: Record<'integrate' | 'separate' | 'p2g' | 'g2p', StageChoice>;
+  private readonly choice: Record<'integrate' | 'separate' | 'p2g' | 'g2p' | 'mic0', StageChoice>;
+  private readonly micProgress: Int32Array;
 
   constructor(private readonly team: SolverTeam, private readonly S: FlipState, arrays: TeamLayout['arrays'], ctrl: SharedArrayBuffer, params: SharedArrayBuffer) {
     const T = team.threads;
@@ -206,12 +208,19 @@ export class ThreadedStages {
       touch: new SharedArrayBuffer(T * S.ny), deferRows: new SharedArrayBuffer(T * S.ny),
       deferred: new SharedArrayBuffer(4 * T * stride), deferredCount: new SharedArrayBuffer(4 * T), deferredStride: stride,
       progress: new SharedArrayBuffer(4 * 2 * Math.max(1, S.hny)), partials: new SharedArrayBuffer(8 * T * 4),
+      rowStart: new SharedArrayBuffer(4 * (S.ny + 1)), micProgress: new SharedArrayBuffer(4 * 2 * S.ny),
       nx: S.nx, ny: S.ny, invH: S.invH, gx: S.gx, gy: S.gy, flipRatio: S.flipRatio, hnx: S.hnx, hny: S.hny, radius: S.radius,
     };
     this.K = new TeamKernels(this.layout, 0);
     this.xA = S.x;
     const adaptive = team.schedule === 'adaptive';
-    this.choice = { integrate: new StageChoice(adaptive), separate: new StageChoice(adaptive), p2g: new StageChoice(adaptive), g2p: new StageChoice(adaptive) };
+    this.choice = {
+      integrate: new StageChoice(adaptive), separate: new StageChoice(adaptive), p2g: new StageChoice(adaptive), g2p: new StageChoice(adaptive),
+      mic0: new StageChoice(adaptive),
+    };
+    this.micProgress = new Int32Array(this.layout.micProgress);
+    // the pressure and drift solves' MIC(0) preconditioner (pressure.ts) as two wavefronts
+    useMic0Applier(S, { prepare: () => this.prepareMic0(), apply: () => this.applyMic0() });
     this.progress = new Int32Array(this.layout.progress);
   }
 
@@ -252,6 +261,29 @@ export class ThreadedStages {
       this.K.replayDeferred(this.threads);
       this.team.runTask(TASK.p2gFinish, this.K);
     }, () => particlesToGrid(this.S));
+  }
+
+  /** After each MIC(0) build: where each grid row's cells start in the fluid list (for the wavefronts). */
+  private prepareMic0(): void {
+    const { nx, ny, fluid, fluidCount } = this.S;
+    const rowStart = this.K.rowStart;
+    let k = 0;
+    for (let j = 0; j <= ny; j++) {
+      const first = j * nx;
+      while (k < fluidCount && fluid[k] < first) k++;
+      rowStart[j] = k;
+    }
+  }
+
+  /** z = M⁻¹ r with MIC(0) (applyMic0 in pressure.ts): the forward and the backward substitution, each a wavefront. */
+  private applyMic0(): void {
+    this.choice.mic0.run(() => {
+      this.begin();
+      this.micProgress.fill(0);
+      this.team.runTask(TASK.micForward, this.K);
+      this.micProgress.fill(0);
+      this.team.runTask(TASK.micBackward, this.K);
+    }, () => applyMic0(this.S));
   }
 
   /** Stage 9, gridToParticles (stages.ts); sets S.maxSpeed from the threads' largest squared speeds (a max: exact). */

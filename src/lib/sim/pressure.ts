@@ -155,7 +155,7 @@ function buildMic0(g: ProjectionGrid): void {
 }
 
 /** z = M⁻¹ r with M = (L)(Lᵀ) from MIC(0): forward then backward substitution; zv is the forward scratch too. */
-function applyMic0(g: ProjectionGrid): void {
+export function applyMic0(g: ProjectionGrid): void {
   const { nx, fluid, fluidCount, precon, res, zv } = g;
   // forward: t_c = r_c + P_{c−1} t_{c−1} + P_{c−nx} t_{c−nx};  y_c = t_c·P_c
   for (let k = 0; k < fluidCount; k++) {
@@ -185,13 +185,30 @@ const multigrids = new WeakMap<ProjectionGrid, MultigridPreconditioner>();
 /** The preconditioner of each grid's last projection: solvePoisson uses the same one. */
 const lastPreconditioner = new WeakMap<ProjectionGrid, Preconditioner>();
 
+/**
+ * Another way to compute applyMic0's z = M⁻¹ r with the same bytes, per grid (parallel.ts: on several threads):
+ * prepare() runs after each MIC(0) build, apply() in place of applyMic0.
+ */
+export interface Mic0Applier { prepare(): void; apply(): void }
+const mic0Appliers = new WeakMap<ProjectionGrid, Mic0Applier>();
+
+/** Makes CG on grid g apply its MIC(0) preconditioner with `applier` (null: applyMic0 again). */
+export function useMic0Applier(g: ProjectionGrid, applier: Mic0Applier | null): void {
+  if (applier) mic0Appliers.set(g, applier);
+  else mic0Appliers.delete(g);
+}
+
 function preconditionerOps(g: ProjectionGrid, kind: Preconditioner): PreconditionerOps {
   const once = (build: () => void) => () => {
     if (preconditionerReady.get(g) === kind) return;
     build();
     preconditionerReady.set(g, kind);
   };
-  if (kind === 'mic0') return { setup: once(() => buildMic0(g)), apply: () => applyMic0(g) };
+  if (kind === 'mic0') {
+    const threaded = mic0Appliers.get(g);
+    if (threaded) return { setup: once(() => { buildMic0(g); threaded.prepare(); }), apply: () => threaded.apply() };
+    return { setup: once(() => buildMic0(g)), apply: () => applyMic0(g) };
+  }
   let mg = multigrids.get(g);
   if (!mg || mg.nx !== g.nx || mg.ny !== g.ny) { mg = createMultigrid(g); multigrids.set(g, mg); }
   const m = mg;
