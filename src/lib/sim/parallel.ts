@@ -160,32 +160,40 @@ function shareArrays(S: FlipState): TeamLayout['arrays'] {
   return out;
 }
 
-/** Calls between two tries of the run not currently chosen (adaptive schedule). */
-const PROBE_EVERY = 16;
+/** Calls between two tries of the run not currently chosen (adaptive schedule): from the first, doubling while the chosen one stays faster. */
+const PROBE_FIRST = 8, PROBE_MOST = 512;
 
 /**
  * One stage's choice between its threaded and serial run (the same bytes either way): an exponential mean of
- * each's wall time, the faster chosen, the other tried every PROBE_EVERY calls.
+ * each's wall time, the faster chosen, the other tried again after a number of calls that doubles each time
+ * the try confirms the choice (so a run far slower costs little), and starts over when it does not.
  */
 class StageChoice {
-  private threadedMs = -1; private serialMs = -1; private calls = 0;
+  private threadedMs = -1; private serialMs = -1;
+  private sinceProbe = 0; private probeEvery = PROBE_FIRST;
   constructor(private readonly adaptive: boolean) {}
 
   run(threaded: () => void, serial: () => void): void {
     if (!this.adaptive) { threaded(); return; }
-    const k = this.calls++;
-    let useThreads: boolean;
+    let useThreads: boolean, probing = false;
     if (this.threadedMs < 0) useThreads = true;
     else if (this.serialMs < 0) useThreads = false;
     else {
       const faster = this.threadedMs <= this.serialMs;
-      useThreads = k % PROBE_EVERY === 0 ? !faster : faster;
+      probing = ++this.sinceProbe >= this.probeEvery;
+      useThreads = probing ? !faster : faster;
     }
     const t0 = performance.now();
     if (useThreads) threaded(); else serial();
     const ms = performance.now() - t0;
+    const before = this.threadedMs <= this.serialMs;
     if (useThreads) this.threadedMs = this.threadedMs < 0 ? ms : 0.75 * this.threadedMs + 0.25 * ms;
     else this.serialMs = this.serialMs < 0 ? ms : 0.75 * this.serialMs + 0.25 * ms;
+    if (probing) {
+      this.sinceProbe = 0;
+      const after = this.threadedMs <= this.serialMs;
+      this.probeEvery = after === before ? Math.min(PROBE_MOST, 2 * this.probeEvery) : PROBE_FIRST;
+    }
   }
 }
 
