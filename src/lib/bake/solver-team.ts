@@ -2,7 +2,7 @@
 // says how many threads one bake uses (BAKE_THREADS, default: this process's share of the cores).
 import { Worker } from 'node:worker_threads';
 import { availableParallelism } from 'node:os';
-import { fileURLToPath } from 'node:url';
+import { fileURLToPath, pathToFileURL } from 'node:url';
 import path from 'node:path';
 import { SolverTeam, type TeamAttach, type TeamSchedule } from '../sim/parallel';
 
@@ -41,7 +41,7 @@ export async function createSolverTeam(threads: number, schedule: TeamSchedule =
   const ready: Promise<void>[] = [];
   for (let rank = 1; rank < threads; rank++) {
     const w = new Worker(boot, {
-      workerData: { entry: new URL(`file://${entry}`).href, rank },
+      workerData: { entry: pathToFileURL(entry).href, rank },
       resourceLimits: { maxOldGenerationSizeMb: MEMBER_HEAP_MB },
     });
     ready.push(new Promise<void>((resolve, reject) => {
