@@ -13,6 +13,7 @@ const UFX = U_FACES[0], UFY = U_FACES[1], VFX = V_FACES[0], VFY = V_FACES[1];
 export const TASK = {
   detach: 1, integrate: 2, p2gClear: 3, p2gSplat: 4, p2gFinish: 5, g2pFaces: 6, g2pParticles: 7, separate: 8,
   micForward: 9, micBackward: 10,
+  cgResidual: 11, cgSquares: 12, cgStart: 13, cgMatvec: 14, cgUpdate: 15, cgDot: 16, cgDirection: 17,
 } as const;
 
 /** Control block slots (Int32, shared by the team). */
@@ -30,11 +31,13 @@ export const CTRL = {
   ready: 5,
   /** Set to 1 to end the workers' loops for good. */
   stop: 6,
-  size: 8,
+  /** CG: fluid cells, and which vector is the unknown (0: q, 1: driftPotential). */
+  fluidCount: 7, cgVector: 8,
+  size: 12,
 } as const;
 
 /** Float64 parameters of the current task. */
-export const PARAM = { dt: 0, size: 4 } as const;
+export const PARAM = { dt: 0, coefficient: 1, size: 4 } as const;
 
 /** What a thread needs to see one solver's state: shared buffers by FlipState field name, and its constants. */
 export interface TeamLayout {
@@ -48,6 +51,8 @@ export interface TeamLayout {
   progress: SharedArrayBuffer; partials: SharedArrayBuffer;
   /** MIC(0) wavefront: first fluid-list entry of each grid row (ny + 1), and per-row progress and sleep flags (2·ny). */
   rowStart: SharedArrayBuffer; micProgress: SharedArrayBuffer;
+  /** CG: per fluid-list entry, the term of the current dot product (f64, nc), summed by the main thread in order. */
+  terms: SharedArrayBuffer;
   nx: number; ny: number; invH: number; gx: number; gy: number; flipRatio: number;
   hnx: number; hny: number; radius: number;
 }
@@ -90,6 +95,8 @@ export class TeamKernels {
   private readonly progress: Int32Array; readonly partials: Float64Array;
   private readonly fluid: Int32Array; private readonly precon: Float64Array; private readonly res: Float64Array; private readonly zv: Float64Array;
   readonly rowStart: Int32Array; private readonly micProgress: Int32Array;
+  private readonly q: Float64Array; private readonly dir: Float64Array; private readonly adir: Float64Array; private readonly diag: Float64Array;
+  readonly terms: Float64Array;
 
   constructor(layout: TeamLayout, readonly rank: number) {
     this.ctrl = new Int32Array(layout.ctrl); this.params = new Float64Array(layout.params);
@@ -111,6 +118,8 @@ export class TeamKernels {
     this.progress = new Int32Array(layout.progress); this.partials = new Float64Array(layout.partials);
     this.fluid = view(layout, 'fluid') as Int32Array; this.precon = f64('precon'); this.res = f64('res'); this.zv = f64('zv');
     this.rowStart = new Int32Array(layout.rowStart); this.micProgress = new Int32Array(layout.micProgress);
+    this.q = f64('q'); this.dir = f64('dir'); this.adir = f64('adir'); this.diag = f64('diag');
+    this.terms = new Float64Array(layout.terms);
   }
 
   /** Runs task `task` for this thread's share; `threads` threads share it. */
@@ -125,6 +134,8 @@ export class TeamKernels {
       case TASK.separate: this.separateRows(threads); break;
       case TASK.micForward: this.micForward(threads); break;
       case TASK.micBackward: this.micBackward(threads); break;
+      case TASK.cgResidual: case TASK.cgSquares: case TASK.cgStart: case TASK.cgMatvec: case TASK.cgUpdate: case TASK.cgDot: case TASK.cgDirection:
+        this.cg(task, threads); break;
       default: throw new Error(`solver team: unknown task ${task}`);
     }
   }
@@ -413,6 +424,56 @@ export class TeamKernels {
         if (++sinceLast === 8) { sinceLast = 0; publish(prog, j, nx - i, ny + j); }
       }
       publish(prog, j, nx + 1, ny + j);
+    }
+  }
+
+  /**
+   * One loop of pcgSolve (pressure.ts) over this thread's range of the fluid list. The per-cell work is the
+   * serial loop's; each term of a dot product goes to terms[k], which the main thread sums in fluid-list order,
+   * the serial sum's order (a sum split between threads would round differently).
+   */
+  private cg(task: number, threads: number): void {
+    const { nx, fluid, res, zv, dir, adir, diag, terms } = this;
+    const x = this.ctrl[CTRL.cgVector] === 0 ? this.q : this.drift;
+    const m = this.ctrl[CTRL.fluidCount], r = this.rank;
+    const k0 = Math.floor((r * m) / threads), k1 = Math.floor(((r + 1) * m) / threads);
+    const coef = this.params[PARAM.coefficient];
+    switch (task) {
+      case TASK.cgResidual: // r = b − A·x0
+        for (let k = k0; k < k1; k++) {
+          const c = fluid[k];
+          const ax = diag[c] * x[c] - x[c - 1] - x[c + 1] - x[c - nx] - x[c + nx];
+          res[c] -= ax;
+        }
+        break;
+      case TASK.cgSquares:
+        for (let k = k0; k < k1; k++) terms[k] = res[fluid[k]] ** 2;
+        break;
+      case TASK.cgStart: // dir = z; σ = z·r
+        for (let k = k0; k < k1; k++) { const c = fluid[k]; dir[c] = zv[c]; terms[k] = zv[c] * res[c]; }
+        break;
+      case TASK.cgMatvec: // adir = A·dir; dir·adir
+        for (let k = k0; k < k1; k++) {
+          const c = fluid[k];
+          const a = diag[c] * dir[c] - dir[c - 1] - dir[c + 1] - dir[c - nx] - dir[c + nx];
+          adir[c] = a;
+          terms[k] = dir[c] * a;
+        }
+        break;
+      case TASK.cgUpdate: // x += α·dir; r −= α·adir; r·r
+        for (let k = k0; k < k1; k++) {
+          const c = fluid[k];
+          x[c] += coef * dir[c];
+          const rc = res[c] - coef * adir[c];
+          res[c] = rc;
+          terms[k] = rc * rc;
+        }
+        break;
+      case TASK.cgDot: // z·r
+        for (let k = k0; k < k1; k++) { const c = fluid[k]; terms[k] = zv[c] * res[c]; }
+        break;
+      default: // TASK.cgDirection: dir = z + β·dir
+        for (let k = k0; k < k1; k++) { const c = fluid[k]; dir[c] = zv[c] + coef * dir[c]; }
     }
   }
 }

@@ -7,7 +7,7 @@
 // Synchronisation: the main thread writes a task into the control block, bumps `gen` and notifies; each
 // worker runs its share and counts itself into `done`; the main thread runs its own share, then waits for all.
 import { integrate, separate, particlesToGrid, gridToParticles, type FlipState } from './stages';
-import { applyMic0, useMic0Applier } from './pressure';
+import { applyMic0, useMic0Applier, useCgSolver, type Coupling, type PreconditionerOps } from './pressure';
 import { CTRL, PARAM, TASK, TeamKernels, type TeamLayout } from './parallel-kernels';
 
 export type { TeamLayout } from './parallel-kernels';
@@ -204,7 +204,7 @@ export class ThreadedStages {
   private readonly K: TeamKernels;
   private readonly xA: Float32Array;
   private readonly progress: Int32Array;
-  private readonly choice: Record<'integrate' | 'separate' | 'p2g' | 'g2p' | 'mic0', StageChoice>;
+  private readonly choice: Record<'integrate' | 'separate' | 'p2g' | 'g2p' | 'mic0' | 'cg', StageChoice>;
   private readonly micProgress: Int32Array;
 
   constructor(private readonly team: SolverTeam, private readonly S: FlipState, arrays: TeamLayout['arrays'], ctrl: SharedArrayBuffer, params: SharedArrayBuffer) {
@@ -217,6 +217,7 @@ export class ThreadedStages {
       deferred: new SharedArrayBuffer(4 * T * stride), deferredCount: new SharedArrayBuffer(4 * T), deferredStride: stride,
       progress: new SharedArrayBuffer(4 * 2 * Math.max(1, S.hny)), partials: new SharedArrayBuffer(8 * T * 4),
       rowStart: new SharedArrayBuffer(4 * (S.ny + 1)), micProgress: new SharedArrayBuffer(4 * 2 * S.ny),
+      terms: new SharedArrayBuffer(8 * S.nc),
       nx: S.nx, ny: S.ny, invH: S.invH, gx: S.gx, gy: S.gy, flipRatio: S.flipRatio, hnx: S.hnx, hny: S.hny, radius: S.radius,
     };
     this.K = new TeamKernels(this.layout, 0);
@@ -224,11 +225,13 @@ export class ThreadedStages {
     const adaptive = team.schedule === 'adaptive';
     this.choice = {
       integrate: new StageChoice(adaptive), separate: new StageChoice(adaptive), p2g: new StageChoice(adaptive), g2p: new StageChoice(adaptive),
-      mic0: new StageChoice(adaptive),
+      mic0: new StageChoice(adaptive), cg: new StageChoice(adaptive),
     };
     this.micProgress = new Int32Array(this.layout.micProgress);
     // the pressure and drift solves' MIC(0) preconditioner (pressure.ts) as two wavefronts
     useMic0Applier(S, { prepare: () => this.prepareMic0(), apply: () => this.applyMic0() });
+    // and their conjugate gradient: the per-cell loops on the threads, every dot product summed here in order
+    useCgSolver(S, (x, bNorm, maxIterations, tolerance, pre, coupling, here) => this.pcgSolve(x, bNorm, maxIterations, tolerance, pre, coupling, here));
     this.progress = new Int32Array(this.layout.progress);
   }
 
@@ -292,6 +295,70 @@ export class ThreadedStages {
       this.micProgress.fill(0);
       this.team.runTask(TASK.micBackward, this.K);
     }, () => applyMic0(this.S));
+  }
+
+  /** Σ terms[0 … m) in order (the serial loop's running sum). */
+  private sumTerms(m: number): number {
+    const t = this.K.terms;
+    let s = 0;
+    for (let k = 0; k < m; k++) s += t[k];
+    return s;
+  }
+
+  /**
+   * pcgSolve (pressure.ts) with its per-cell loops on the team; returns its iterations. `here` (pcgSolve's own
+   * loop) runs instead when x is not one of the state's two unknowns, or when the adaptive schedule picks it.
+   */
+  private pcgSolve(x: Float64Array, bNorm: number, maxIterations: number, tolerance: number, pre: PreconditionerOps, coupling: Coupling | undefined, here: () => number): number {
+    const S = this.S;
+    const vector = x === S.q ? 0 : x === S.driftPotential ? 1 : -1;
+    if (vector < 0) return here();
+    let it = 0;
+    this.choice.cg.run(() => { it = this.pcgThreaded(vector, x, bNorm, maxIterations, tolerance, pre, coupling); }, () => { it = here(); });
+    return it;
+  }
+
+  private pcgThreaded(vector: number, x: Float64Array, bNorm: number, maxIterations: number, tolerance: number, pre: PreconditionerOps, coupling?: Coupling): number {
+    const { team, K, S } = this;
+    const m = S.fluidCount;
+    this.begin();
+    team.ctrl[CTRL.fluidCount] = m;
+    team.ctrl[CTRL.cgVector] = vector;
+    const params = team.params;
+    // r = b − (A + C) x0
+    team.runTask(TASK.cgResidual, K);
+    coupling?.apply(x, S.res, -1);
+    team.runTask(TASK.cgSquares, K);
+    let rr = this.sumTerms(m);
+    const stop = tolerance * bNorm;
+    let it = 0;
+    if (Math.sqrt(rr) > stop) {
+      pre.setup();
+      pre.apply();
+      this.begin(); // the preconditioner may have run serially: re-state the team's values
+      team.ctrl[CTRL.fluidCount] = m;
+      team.ctrl[CTRL.cgVector] = vector;
+      team.runTask(TASK.cgStart, K);
+      let sigma = this.sumTerms(m);
+      for (it = 1; it <= maxIterations; it++) {
+        team.runTask(TASK.cgMatvec, K);
+        let dAd = this.sumTerms(m);
+        if (coupling) dAd += coupling.apply(S.dir, S.adir, 1);
+        if (!(dAd > 0)) break;
+        params[PARAM.coefficient] = sigma / dAd;
+        team.runTask(TASK.cgUpdate, K);
+        rr = this.sumTerms(m);
+        if (Math.sqrt(rr) <= stop) break;
+        pre.apply();
+        team.runTask(TASK.cgDot, K);
+        const sigmaNew = this.sumTerms(m);
+        params[PARAM.coefficient] = sigmaNew / sigma;
+        sigma = sigmaNew;
+        team.runTask(TASK.cgDirection, K);
+      }
+      if (it > maxIterations) it = maxIterations;
+    }
+    return it;
   }
 
   /** Stage 9, gridToParticles (stages.ts); sets S.maxSpeed from the threads' largest squared speeds (a max: exact). */

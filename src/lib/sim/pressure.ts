@@ -173,7 +173,7 @@ export function applyMic0(g: ProjectionGrid): void {
 /** How CG is preconditioned: z = M⁻¹·r, from g.res into g.zv. */
 export type Preconditioner = 'mic0' | 'multigrid';
 
-interface PreconditionerOps { setup(): void; apply(): void }
+export interface PreconditionerOps { setup(): void; apply(): void }
 
 /**
  * The preconditioner built for each grid's current matrix (cleared by assembleSystem): solvePoisson, on the
@@ -277,10 +277,34 @@ function clearOutsideFluid(g: ProjectionGrid, x: Float64Array): void {
 }
 
 /**
+ * Another implementation of pcgSolve with the same bytes, per grid (parallel.ts: on several threads): returns
+ * the iterations; `here` runs pcgSolve's own loop instead (and returns its iterations).
+ */
+export type CgSolver = (
+  x: Float64Array, bNorm: number, maxIterations: number, tolerance: number, pre: PreconditionerOps, coupling: Coupling | undefined, here: () => number,
+) => number;
+const cgSolvers = new WeakMap<ProjectionGrid, CgSolver>();
+
+/** Makes CG on grid g run `solver` (null: pcgSolve again). */
+export function useCgSolver(g: ProjectionGrid, solver: CgSolver | null): void {
+  if (solver) cgSolvers.set(g, solver);
+  else cgSolvers.delete(g);
+}
+
+/**
  * PCG on (A + C)·x = b over the fluid cells (C: the optional coupling): on entry res holds b and x the starting guess (0 outside fluid);
  * on exit x is the solution and res = b − A·x. Returns the iterations used.
  */
 function pcgSolve(
+  g: ProjectionGrid, x: Float64Array, bNorm: number, maxIterations: number, tolerance: number, pre: PreconditionerOps, coupling?: Coupling,
+): number {
+  const other = cgSolvers.get(g);
+  if (other) return other(x, bNorm, maxIterations, tolerance, pre, coupling, () => pcgSolveHere(g, x, bNorm, maxIterations, tolerance, pre, coupling));
+  return pcgSolveHere(g, x, bNorm, maxIterations, tolerance, pre, coupling);
+}
+
+/** pcgSolve on this thread. */
+function pcgSolveHere(
   g: ProjectionGrid, x: Float64Array, bNorm: number, maxIterations: number, tolerance: number, pre: PreconditionerOps, coupling?: Coupling,
 ): number {
   const { nx, fluid, fluidCount, res, zv, dir, adir, diag } = g;
