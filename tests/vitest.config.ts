@@ -8,7 +8,7 @@ export default defineConfig({
   test: {
     root: fileURLToPath(new URL('..', import.meta.url)),
     include: ['tests/**/*.test.{ts,tsx}'],
-    setupFiles: ['tests/support/yield-between-tests.ts'],
+    setupFiles: ['tests/support/yield-between-tests.ts', 'tests/support/solver-threads.ts'],
     pool: 'forks',
     poolOptions: { forks: { maxForks: 2, minForks: 1 } },
     testTimeout: 60_000,

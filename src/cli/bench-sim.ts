@@ -9,6 +9,7 @@
 // scene with one free prop (cost ratio to a keyed one) and with ν = 1e-2 m²/s (cost ratio to water).
 // Usage: npx tsx src/cli/bench-sim.ts [--ref] [--rounds N] [--scales 1,2,4] [--scale-steps 60]
 //        [--solver pcg-mic0|pcg-multigrid|gauss-seidel] [--props-only | --viscous-only]
+// Then the dam break on 1, 2 and N threads (bench-threads.ts; --threads 1,2,4 to choose, --threads-only for that alone).
 // Also runs the dam break with the other CG preconditioner (multigrid vs MIC(0)) at the default tolerance, and the
 // pressure-solver section (bench-pressure.ts: iterations and ms per solve at 64², 128², 256²).
 import { execFileSync } from 'node:child_process';
@@ -17,6 +18,7 @@ import { resolve } from 'node:path';
 import { createSolver } from '../lib/sim/solver';
 import { referenceDamBreak } from '../lib/sim/reference';
 import { benchPressure } from './bench-pressure';
+import { benchThreads, threadCounts } from './bench-threads';
 import { DEFAULT_PRESSURE_SOLVER, DEFAULT_PRESSURE_TOLERANCE, parseScene, type PressureSolverName } from '../lib/scene/schema';
 
 interface RunFigures {
@@ -189,7 +191,14 @@ function runScaling(scales: number[], steps: number): Record<string, unknown> {
   return out;
 }
 
-function main(): void {
+async function main(): Promise<void> {
+  if (process.argv.includes('--threads-only')) {
+    const native = process.argv.includes('--ref') ? runNative() : null;
+    if (native) console.log(`native                 ${native.line}`);
+    const figures = await benchThreads(threadCounts(arg('--threads')), 240, native?.psteps_per_s);
+    console.log(JSON.stringify({ native_psteps_per_s: native?.psteps_per_s, threads: figures }));
+    return;
+  }
   if (process.argv.includes('--props-only')) { console.log(JSON.stringify({ free_prop: runPropCost() })); return; }
   if (process.argv.includes('--viscous-only')) { console.log(JSON.stringify({ viscous: runViscousCost() })); return; }
   const rounds = Number(arg('--rounds') ?? 1);
@@ -197,7 +206,7 @@ function main(): void {
   const scaleSteps = Number(arg('--scale-steps') ?? 60);
   const defaultSolver = (arg('--solver') as PressureSolverName | undefined) ?? DEFAULT_PRESSURE_SOLVER;
   const withRef = process.argv.includes('--ref');
-  const summary: Record<string, unknown> = { default_solver: defaultSolver, default_tolerance: DEFAULT_PRESSURE_TOLERANCE, threads: 1 };
+  const summary: Record<string, unknown> = { default_solver: defaultSolver, default_tolerance: DEFAULT_PRESSURE_TOLERANCE };
   for (let round = 0; round < rounds; round++) {
     // 1) the textbook pressure solve inside our solver: 50 sweeps of SOR (ω = 1.9), no early stop
     const gs = runDamBreak('gauss-seidel-50', 1, 'gauss-seidel', 1e-12);
@@ -242,6 +251,13 @@ function main(): void {
       summary.ratio_ours_native_cpu_with_foam = +foamRatio.toFixed(4);
     }
   }
+  // the same dam break on 1, 2 and N threads, with ours ÷ native for each (the native stick's figure from above)
+  const nativePsteps = typeof summary.native_psteps_per_s === 'number' ? summary.native_psteps_per_s : undefined;
+  const threadFigures = await benchThreads(threadCounts(arg('--threads')), 240, nativePsteps);
+  summary.threads = threadFigures.map((f) => ({
+    threads: f.threads, schedule: f.schedule, psteps_per_s: Math.round(f.psteps_per_s), speedup: +f.speedup.toFixed(4),
+    ...(nativePsteps ? { ratio_ours_native: +(f.psteps_per_s / nativePsteps).toFixed(4) } : {}), stage_ms: f.stage_ms,
+  }));
   summary.scaling = runScaling(scales, scaleSteps);
   summary.pressure = benchPressure(3);
   summary.free_prop = runPropCost();
@@ -249,4 +265,4 @@ function main(): void {
   console.log(JSON.stringify(summary));
 }
 
-main();
+await main();

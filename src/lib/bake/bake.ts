@@ -1,6 +1,7 @@
 // Bakes a scene into a clip: runs the solver frame by frame and encodes every frame. Pure TypeScript.
 import { parseScene, formatSceneErrors, type Scene } from '../scene';
 import { createSolver, type FrameStats } from '../sim';
+import type { SolverTeam } from '../sim/parallel';
 import { ClipWriter } from '../clip/encode';
 import { clipLookOf } from '../clip/look';
 import { SOLVER_BUILD } from './build';
@@ -30,11 +31,14 @@ export function sceneFromDocument(doc: unknown): Scene {
   return parsed.scene;
 }
 
-/** Bakes every frame of the scene's range; returns null when a hook stopped it. */
-export async function bakeScene(scene: Scene, sceneHash: string, hooks: BakeHooks = {}): Promise<BakeResult | null> {
+/**
+ * Bakes every frame of the scene's range; returns null when a hook stopped it. With a team of N threads
+ * (src/lib/sim/parallel.ts) the heavy stages run on them; the frames are the same bytes as on one thread.
+ */
+export async function bakeScene(scene: Scene, sceneHash: string, hooks: BakeHooks = {}, options: { team?: SolverTeam | null } = {}): Promise<BakeResult | null> {
   const { startFrame, endFrame, fps } = scene.timing;
   const framesTotal = endFrame - startFrame + 1;
-  const sim = createSolver(scene);
+  const sim = createSolver(scene, { team: options.team });
   const writer = new ClipWriter({
     startFrame,
     endFrame,

@@ -8,6 +8,7 @@ import path from 'node:path';
 import { pathToFileURL } from 'node:url';
 import type { FrameStats } from '../sim';
 import type { Scene } from '../scene';
+import { bakeThreads } from './solver-team';
 
 export type ToThread = {
   type: 'bake';
@@ -16,11 +17,13 @@ export type ToThread = {
   /** Int32 [0]: chunk bytes sent and not yet acknowledged. */
   credit: SharedArrayBuffer;
   windowBytes: number;
+  /** Threads the solver may use (BAKE_THREADS; solver-team.ts). */
+  threads: number;
 };
 export type FromThread =
   | { type: 'frame'; done: number; total: number }
   | { type: 'chunk'; bytes: Uint8Array }
-  | { type: 'baked'; head: Uint8Array; stats: FrameStats[]; framesTotal: number; particleCapacity: number }
+  | { type: 'baked'; head: Uint8Array; stats: FrameStats[]; framesTotal: number; particleCapacity: number; threads: number }
   | { type: 'failed'; message: string };
 
 export interface ThreadBake {
@@ -29,6 +32,8 @@ export interface ThreadBake {
   stats: FrameStats[];
   framesTotal: number;
   particleCapacity: number;
+  /** Threads the solver ran on. */
+  threads: number;
 }
 
 /** The bake thread ran out of the memory it may use: the same scene will again, so retrying will not help. */
@@ -58,6 +63,8 @@ export class BakeThread {
   constructor(
     private readonly log: (s: string) => void = () => {},
     private readonly windowBytes = chunkWindowBytes(),
+    /** Threads each bake's solver uses (the bake thread starts threads − 1 more): BAKE_THREADS, or a share of the cores. */
+    readonly solverThreads = bakeThreads(),
   ) {}
 
   private start(): Worker {
@@ -151,7 +158,7 @@ export class BakeThread {
       worker.on('error', onError);
       worker.on('exit', onExit);
       signal.addEventListener('abort', onAbort, { once: true });
-      worker.postMessage({ type: 'bake', scene, sceneHash, credit, windowBytes: this.windowBytes } satisfies ToThread);
+      worker.postMessage({ type: 'bake', scene, sceneHash, credit, windowBytes: this.windowBytes, threads: this.solverThreads } satisfies ToThread);
     });
   }
 

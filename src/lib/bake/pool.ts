@@ -4,6 +4,7 @@
 import { availableParallelism } from 'node:os';
 import { defaultWorkerId, runBakeLoop } from './runner';
 import { BakeThread } from './host';
+import { bakeThreads } from './solver-team';
 
 /** Pool size: BAKE_WORKERS, else cores − 1, at least 1. 0 disables baking in this process. */
 export function poolSize(): number {
@@ -26,7 +27,7 @@ export function startBakePool(size = poolSize(), log = (s: string) => console.lo
     const slotLog = (s: string) => console.log(`[bake ${workerId}] ${s}`);
     while (!controller.signal.aborted) {
       try {
-        await runBakeLoop({ workerId, signal: controller.signal, thread: new BakeThread(slotLog), log: slotLog });
+        await runBakeLoop({ workerId, signal: controller.signal, thread: new BakeThread(slotLog, undefined, bakeThreads(size)), log: slotLog });
       } catch (err) {
         log(`slot ${n} stopped: ${err instanceof Error ? err.message : err}; starting again`);
         await new Promise((r) => setTimeout(r, 2000));

@@ -4,14 +4,20 @@ import { parentPort } from 'node:worker_threads';
 import { bakeScene } from './bake';
 import type { Scene } from '../scene';
 import type { FromThread, ToThread } from './host';
+import { createSolverTeam, type NodeSolverTeam } from './solver-team';
 
 const port = parentPort!;
 const send = (m: FromThread, transfer: ArrayBuffer[] = []) => port.postMessage(m, transfer);
+/** The solver's helper threads, kept from bake to bake (started again when the thread count changes). */
+let team: NodeSolverTeam | null = null;
 
 port.on('message', async (m: ToThread) => {
   if (m.type !== 'bake') return;
   const unacked = new Int32Array(m.credit);
   try {
+    const threads = Math.max(1, m.threads | 0);
+    if (team && team.threads !== threads) { await team.end(); team = null; }
+    if (!team && threads > 1) team = await createSolverTeam(threads);
     const result = await bakeScene(m.scene as Scene, m.sceneHash, {
       onFrame: (done, total) => {
         send({ type: 'frame', done, total });
@@ -28,9 +34,9 @@ port.on('message', async (m: ToThread) => {
         const own = chunk.byteOffset === 0 && chunk.byteLength === chunk.buffer.byteLength;
         send({ type: 'chunk', bytes: chunk }, own ? [chunk.buffer as ArrayBuffer] : []);
       },
-    });
+    }, { team });
     if (!result) throw new Error('the bake stopped');
-    send({ type: 'baked', head: result.clip, stats: result.stats, framesTotal: result.framesTotal, particleCapacity: result.particleCapacity });
+    send({ type: 'baked', head: result.clip, stats: result.stats, framesTotal: result.framesTotal, particleCapacity: result.particleCapacity, threads });
   } catch (err) {
     send({ type: 'failed', message: err instanceof Error ? err.message : String(err) });
   }

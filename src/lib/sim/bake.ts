@@ -2,13 +2,13 @@
 // Web Worker must give identical frames. Pure TypeScript (no Node or DOM APIs).
 import type { Scene } from '../scene/schema';
 import { sha256Hex } from '../scene/hash';
-import { createSolver, type SolverOptions } from './solver';
+import { createSolver, type SolverOptions, type ThreadOptions } from './solver';
 
 /**
  * Bakes nFrames frames after the initial state; returns one Float32Array per frame holding
  * [x₀, y₀, u₀, v₀, x₁, y₁, …] (m, m/s) for the particles in id order (stable across steps).
  */
-export function bakeFrames(scene: Scene, nFrames: number, options?: SolverOptions): Float32Array[] {
+export function bakeFrames(scene: Scene, nFrames: number, options?: SolverOptions & ThreadOptions): Float32Array[] {
   const sim = createSolver(scene, options);
   const frames: Float32Array[] = [];
   for (let f = 0; f < nFrames; f++) {
@@ -50,6 +50,6 @@ export function framesChecksum(frames: readonly Float32Array[]): string {
 }
 
 /** Bakes and checksums in one call: what a Node worker thread and a browser Web Worker each run and compare. */
-export function bakeChecksum(scene: Scene, nFrames: number, options?: SolverOptions): string {
+export function bakeChecksum(scene: Scene, nFrames: number, options?: SolverOptions & ThreadOptions): string {
   return framesChecksum(bakeFrames(scene, nFrames, options));
 }

@@ -155,7 +155,7 @@ function buildMic0(g: ProjectionGrid): void {
 }
 
 /** z = M⁻¹ r with M = (L)(Lᵀ) from MIC(0): forward then backward substitution; zv is the forward scratch too. */
-function applyMic0(g: ProjectionGrid): void {
+export function applyMic0(g: ProjectionGrid): void {
   const { nx, fluid, fluidCount, precon, res, zv } = g;
   // forward: t_c = r_c + P_{c−1} t_{c−1} + P_{c−nx} t_{c−nx};  y_c = t_c·P_c
   for (let k = 0; k < fluidCount; k++) {
@@ -173,7 +173,7 @@ function applyMic0(g: ProjectionGrid): void {
 /** How CG is preconditioned: z = M⁻¹·r, from g.res into g.zv. */
 export type Preconditioner = 'mic0' | 'multigrid';
 
-interface PreconditionerOps { setup(): void; apply(): void }
+export interface PreconditionerOps { setup(): void; apply(): void }
 
 /**
  * The preconditioner built for each grid's current matrix (cleared by assembleSystem): solvePoisson, on the
@@ -185,13 +185,30 @@ const multigrids = new WeakMap<ProjectionGrid, MultigridPreconditioner>();
 /** The preconditioner of each grid's last projection: solvePoisson uses the same one. */
 const lastPreconditioner = new WeakMap<ProjectionGrid, Preconditioner>();
 
+/**
+ * Another way to compute applyMic0's z = M⁻¹ r with the same bytes, per grid (parallel.ts: on several threads):
+ * prepare() runs after each MIC(0) build, apply() in place of applyMic0.
+ */
+export interface Mic0Applier { prepare(): void; apply(): void }
+const mic0Appliers = new WeakMap<ProjectionGrid, Mic0Applier>();
+
+/** Makes CG on grid g apply its MIC(0) preconditioner with `applier` (null: applyMic0 again). */
+export function useMic0Applier(g: ProjectionGrid, applier: Mic0Applier | null): void {
+  if (applier) mic0Appliers.set(g, applier);
+  else mic0Appliers.delete(g);
+}
+
 function preconditionerOps(g: ProjectionGrid, kind: Preconditioner): PreconditionerOps {
   const once = (build: () => void) => () => {
     if (preconditionerReady.get(g) === kind) return;
     build();
     preconditionerReady.set(g, kind);
   };
-  if (kind === 'mic0') return { setup: once(() => buildMic0(g)), apply: () => applyMic0(g) };
+  if (kind === 'mic0') {
+    const threaded = mic0Appliers.get(g);
+    if (threaded) return { setup: once(() => { buildMic0(g); threaded.prepare(); }), apply: () => threaded.apply() };
+    return { setup: once(() => buildMic0(g)), apply: () => applyMic0(g) };
+  }
   let mg = multigrids.get(g);
   if (!mg || mg.nx !== g.nx || mg.ny !== g.ny) { mg = createMultigrid(g); multigrids.set(g, mg); }
   const m = mg;
@@ -260,10 +277,34 @@ function clearOutsideFluid(g: ProjectionGrid, x: Float64Array): void {
 }
 
 /**
+ * Another implementation of pcgSolve with the same bytes, per grid (parallel.ts: on several threads): returns
+ * the iterations; `here` runs pcgSolve's own loop instead (and returns its iterations).
+ */
+export type CgSolver = (
+  x: Float64Array, bNorm: number, maxIterations: number, tolerance: number, pre: PreconditionerOps, coupling: Coupling | undefined, here: () => number,
+) => number;
+const cgSolvers = new WeakMap<ProjectionGrid, CgSolver>();
+
+/** Makes CG on grid g run `solver` (null: pcgSolve again). */
+export function useCgSolver(g: ProjectionGrid, solver: CgSolver | null): void {
+  if (solver) cgSolvers.set(g, solver);
+  else cgSolvers.delete(g);
+}
+
+/**
  * PCG on (A + C)·x = b over the fluid cells (C: the optional coupling): on entry res holds b and x the starting guess (0 outside fluid);
  * on exit x is the solution and res = b − A·x. Returns the iterations used.
  */
 function pcgSolve(
+  g: ProjectionGrid, x: Float64Array, bNorm: number, maxIterations: number, tolerance: number, pre: PreconditionerOps, coupling?: Coupling,
+): number {
+  const other = cgSolvers.get(g);
+  if (other) return other(x, bNorm, maxIterations, tolerance, pre, coupling, () => pcgSolveHere(g, x, bNorm, maxIterations, tolerance, pre, coupling));
+  return pcgSolveHere(g, x, bNorm, maxIterations, tolerance, pre, coupling);
+}
+
+/** pcgSolve on this thread. */
+function pcgSolveHere(
   g: ProjectionGrid, x: Float64Array, bNorm: number, maxIterations: number, tolerance: number, pre: PreconditionerOps, coupling?: Coupling,
 ): number {
   const { nx, fluid, fluidCount, res, zv, dir, adir, diag } = g;

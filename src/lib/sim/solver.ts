@@ -14,11 +14,13 @@ import { freeSurface } from './surface';
 import { validateAfter } from './validate';
 import { createViscousStep, sceneIsViscous } from './viscosity';
 import { createDiffuse, foamScale, NO_DIFFUSE, type DiffuseView } from './diffuse';
+import { defaultSolverTeam, type ThreadOptions } from './parallel';
 
 export type { SolverOptions } from './stages';
 export type { PropState } from './rigid';
 export { WATER_DENSITY } from './stages';
 export type { DiffuseView } from './diffuse';
+export type { ThreadOptions } from './parallel';
 
 /** Statistics of one shot frame. */
 export interface FrameStats {
@@ -115,8 +117,11 @@ export interface Solver {
 }
 
 /** Creates a solver for a parsed scene (see parseScene); the state is allocated here, once. */
-export function createSolver(scene: Scene, options: SolverOptions = {}): Solver {
+export function createSolver(scene: Scene, options: SolverOptions & ThreadOptions = {}): Solver {
   const S = new FlipState(scene, options);
+  // several threads (parallel.ts): the state moves to shared memory before anything else holds its arrays
+  const team = options.team === undefined ? defaultSolverTeam() : options.team;
+  const par = team && team.threads > 1 ? team.attach(S) : null;
   const validating = options.validate ?? (typeof process !== 'undefined' && process.env?.TIDEMARK_VALIDATE === '1');
   const { timing, physics } = scene;
   const frameDt = 1 / timing.fps;
@@ -159,13 +164,13 @@ export function createSolver(scene: Scene, options: SolverOptions = {}): Solver 
   const stages: Stage[] = [
     ...(hasFree ? [{ name: 'free props', run: (dt: number, f0: number) => rigid.advance(dt, f0) }] : []),
     { name: 'solids', run: (dt, f0, f1) => placeSolids(S, f0, f1, dt) },
-    { name: 'gravity and advection', run: (dt) => integrate(S, dt) },
+    { name: 'gravity and advection', run: par ? (dt) => par.integrate(dt) : (dt) => integrate(S, dt) },
     { name: 'spatial hash', run: () => S.sortByHashCell() },
     ...(diffuse ? [{ name: 'foam and spray', run: (dt: number, f0: number, f1: number) => diffuse.run(dt, f0, f1) }] : []),
-    { name: 'separation', run: () => separate(S, physics.separationIterations) },
+    { name: 'separation', run: par ? () => par.separate(physics.separationIterations) : () => separate(S, physics.separationIterations) },
     { name: 'collision', run: () => collide(S) },
     { name: 'emission', run: (_dt, f0) => emit(S, f0) },
-    { name: 'particles to grid', run: () => particlesToGrid(S) },
+    { name: 'particles to grid', run: par ? () => par.particlesToGrid() : () => particlesToGrid(S) },
     { name: 'density and drift', run: (dt) => densityAndDrift(S, dt) },
     { name: 'free surface', run: () => freeSurface(S) },
     // after the transfer to the grid (and the densities its liquid fractions read), before the projection
@@ -173,7 +178,7 @@ export function createSolver(scene: Scene, options: SolverOptions = {}): Solver 
     { name: 'pressure', run: (dt) => { lastResidual = project(dt); } },
     ...(hasFree ? [{ name: 'prop contacts', run: () => rigid.settle() }] : []),
     { name: 'drift correction', run: () => driftSolve(S, physics.pressureIterations, physics.pressureTolerance) },
-    { name: 'grid to particles', run: (dt) => gridToParticles(S, dt) },
+    { name: 'grid to particles', run: par ? (dt) => par.gridToParticles(dt) : (dt) => gridToParticles(S, dt) },
   ];
   const stageMs = new Float64Array(stages.length);
 
