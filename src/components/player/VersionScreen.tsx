@@ -176,9 +176,10 @@ function Version({ studioId, studioSlug, version, shot, plate, clip, canBake, ro
         </dl>
       </header>
 
-      {reviewState === 'returned' && role !== 'client' && (
+      {(reviewState === 'returned' || (reviewState === 'superseded' && decision?.toState === 'returned')) && role !== 'client' && (
         <section className="card border-coral-500/40 bg-coral-50 p-4" data-testid="returned-banner">
           <h2 className="font-semibold text-coral-700">Sent back for changes{decision?.actorName ? ` by ${decision.actorName}` : ''}</h2>
+          {reviewState === 'superseded' && <p className="mt-1 text-sm text-ink-soft">A newer version of the shot has been saved since; this stays the list of what to change until the next one is submitted.</p>}
           {decision?.comment && <p className="mt-1 max-w-3xl whitespace-pre-wrap">“{decision.comment}”</p>}
           <p className="mt-1 text-sm text-ink-soft">The notes pinned to frames are listed below the player. Start the next version from this scene: the plate and its scale come with it.</p>
           {canBake && (

@@ -55,7 +55,9 @@ export interface InboxItem {
   clientComment: string | null;
   clientDecidedAt: string | null;
   notes?: NoteView[];
-  /** When what asks for the reader happened, and whether it came after they last opened the inbox. */
+  /** A version sent back that a newer one superseded: the newest version of the shot saved since (not submitted yet). */
+  nextVersion?: { id: number; number: number; reviewState: string } | null;
+  /** When what asks for the reader happened, and whether they have not read it since (opened it or marked it read). */
   at: string;
   unread: boolean;
 }
@@ -76,7 +78,7 @@ type InboxSections = 'assigned' | 'toReview' | 'returned' | 'newNotes' | 'client
 
 export interface InboxAnswer {
   counts: Record<InboxSections | 'total', number>;
-  /** Items that came after the reader last opened the inbox, per section. */
+  /** Items the reader has not read since they asked for something (opened, or marked read), per section. */
   unread: Record<InboxSections | 'total', number>;
   assigned: InboxAssignment[];
   toReview: InboxItem[];
