@@ -226,6 +226,7 @@ function Version({ studioId, studioSlug, version, shot, plate, clip, canBake, ro
         onStateChange={setReviewState}
         onClientStateChange={setClientState}
         tcShot={shot}
+        bakeState={bakeState}
       />
     </div>
   );

@@ -127,7 +127,8 @@ export default function CompareScreen({ studioId, studioSlug, compare, frameRate
       const t = e.target as HTMLElement | null;
       if (t && ['INPUT', 'TEXTAREA', 'SELECT'].includes(t.tagName) && (t as HTMLInputElement).type !== 'range') return;
       if (frame === null) return;
-      if (e.key === ' ' && t?.tagName === 'BUTTON') return; // the focused button's own click
+      // the focused button's own click, except the layout's radios: after picking "Side by side" Space still plays
+      if (e.key === ' ' && t?.tagName === 'BUTTON' && t.getAttribute('role') !== 'radio') return;
       if (e.key === ' ') setPlaying((p) => !p);
       else if (e.key === 'ArrowRight') {
         setPlaying(false);

@@ -120,9 +120,11 @@ function Inbox({ studioId, studioSlug, role, initial, dailyDigest }: Props) {
                 {v.showCode} · {v.shotCode} {versionLabel(v.number)}
               </a>
               {v.unread && <NewMark />}
-              <button type="button" className="btn-quiet ml-2 text-xs" disabled={marks.busy} onClick={() => readVersion(v.versionId)} data-testid="inbox-notes-mark-read">
-                Mark all {v.notes.length} read
-              </button>
+              {v.notes.length > 1 && (
+                <button type="button" className="btn-quiet ml-2 text-xs" disabled={marks.busy} onClick={() => readVersion(v.versionId)} data-testid="inbox-notes-mark-read">
+                  Mark all {v.notes.length} read
+                </button>
+              )}
               <ul className="mt-2 space-y-1.5">
                 {v.notes.map((n) => (
                   <li key={n.id} className="flex gap-3 text-sm" data-testid="inbox-note" data-note-id={n.id}>
