@@ -258,7 +258,9 @@ describe('the whole loop, four people in Chromium', () => {
       await s.waitForURL(new RegExp(`/compare\\?a=${v1}&b=${v2}$`));
       expect(await s.getByTestId('compare-pick-a').inputValue()).toBe(String(v1));
       expect(await s.getByTestId('compare-pick-b').inputValue()).toBe(String(v2));
+      await hydrated(s, 'compare-view');
       await s.getByTestId('compare-mode-side').click();
+      expect(await s.getByTestId('compare-view').getAttribute('data-mode')).toBe('side');
       await expect.poll(() => s.getByTestId('compare-frame-number').textContent(), { timeout: 30_000 }).toBe(String(FIRST));
       await s.waitForTimeout(300);
       const sidesAt = async () => [await s.getByTestId('compare-a').screenshot(), await s.getByTestId('compare-b').screenshot()];

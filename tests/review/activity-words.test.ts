@@ -17,6 +17,15 @@ describe('activity words', () => {
     expect(activityLine({ action: 'bake.failed', actorName: 'Tom Aro', detail: { error: 'out of memory' }, versionNumber: 4 })).toBe('The bake of v004 failed: out of memory (bake asked for by Tom Aro)');
     expect(activityLine({ action: 'shot.update', actorName: null, detail: { plateWidth: { from: 1920, to: 2048 } } })).toBe('Someone changed the details: Plate width changed from 1920 to 2048 px');
   });
+  it('says where a shot came from, and who commented from outside the studio and how', () => {
+    expect(activityLine({ action: 'shot.create', actorName: 'Ines Falk', detail: { code: 'PR_0010', importedFrom: 'edl' } })).toBe('Ines Falk created the shot from an edit list import');
+    expect(activityLine({ action: 'shot.create', actorName: 'Ines Falk', detail: { code: 'PR_0010' } })).toBe('Ines Falk created the shot');
+    expect(activityLine({ action: 'note.client', actorName: 'Mara Quist', detail: { frame: 1008 }, versionNumber: 2 })).toBe('Mara Quist commented on v002 at frame 1008 (client account)');
+    // a guest on a share link has no account: the name they gave stands in front
+    expect(activityLine({ action: 'share.note', actorName: null, detail: { guestName: 'Robin at the agency', frame: 1012 }, versionNumber: 3 })).toBe(
+      'Robin at the agency commented on v003 at frame 1012 (share link)',
+    );
+  });
 });
 
 describe('compare change words', () => {
