@@ -208,10 +208,10 @@ describe('the whole loop, four people in Chromium', () => {
         await next.click();
         await expect.poll(() => s.getByTestId('frame-readout').textContent(), { timeout: 10_000 }).toBe(String(f + 1));
       }
-      await expect.poll(() => s.getByTestId('composer-frame').textContent()).toBe('1005');
+      await expect.poll(() => s.getByTestId('composer-frame').textContent(), { timeout: 10_000 }).toBe('1005');
       await s.getByPlaceholder('What do you see on this frame?').fill('the block lands too far left');
       await s.getByRole('button', { name: 'Add note' }).click();
-      await expect.poll(() => s.getByTestId('note-thread').count()).toBe(1);
+      await expect.poll(() => s.getByTestId('note-thread').count(), { timeout: 15_000 }).toBe(1);
       await s.getByLabel('Comment (needed to send it back)').fill('move the drop to the middle');
       await s.getByRole('button', { name: 'Send back for changes' }).click();
       await expect.poll(() => s.getByTestId('review-panel-state').getAttribute('data-state'), { timeout: 15_000 }).toBe('returned');
@@ -361,9 +361,11 @@ describe('the whole loop, four people in Chromium', () => {
         await cNext.click();
         await expect.poll(() => c.getByTestId('frame-readout').textContent(), { timeout: 10_000 }).toBe(String(f + 1));
       }
-      await c.getByPlaceholder('What do you see on this frame?').fill('Lovely. Could the spray be a touch lower?');
-      await c.getByRole('button', { name: 'Add note' }).click();
-      await expect.poll(() => c.getByTestId('note-thread').count()).toBe(1);
+      await expect.poll(() => c.getByTestId('composer-frame').textContent(), { timeout: 10_000 }).toBe('1008');
+      const composer = await hydrated(c, 'note-composer');
+      await composer.getByPlaceholder('What do you see on this frame?').fill('Lovely. Could the spray be a touch lower?');
+      await composer.getByRole('button', { name: 'Add note' }).click();
+      await expect.poll(() => c.getByTestId('note-thread').count(), { timeout: 15_000 }).toBe(1);
       await shot(c, 'client-commented');
 
       // ── The artist and the supervisor each get one mail about the comment ──

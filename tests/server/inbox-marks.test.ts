@@ -33,10 +33,11 @@ async function saved(shotId: number, seed: number): Promise<number> {
   return res.body.version.id;
 }
 
-/** Saved, submitted and sent back with a comment. */
-async function returned(shotId: number, seed: number, comment: string): Promise<number> {
+/** Saved, submitted and sent back with a comment (and a note pinned to a frame when `note` is given). */
+async function returned(shotId: number, seed: number, comment: string, note?: string): Promise<number> {
   const id = await saved(shotId, seed);
   expect((await artist().post(`/api/versions/${id}/review/submit`, {})).status).toBe(200);
+  if (note) expect((await supervisor().post(`/api/versions/${id}/notes`, { frame: 1003, body: note })).status).toBe(201);
   const back = await supervisor().post(`/api/versions/${id}/review/decide`, { decision: 'returned', comment });
   expect(back.status, JSON.stringify(back.body)).toBe(200);
   return id;
@@ -45,7 +46,7 @@ async function returned(shotId: number, seed: number, comment: string): Promise<
 describe('a version sent back stays in the inbox', () => {
   it('while drafts are saved after it, until the next version is submitted', async () => {
     const shotId = await makeShot(studio);
-    const v1 = await returned(shotId, 1, 'lower the crown');
+    const v1 = await returned(shotId, 1, 'lower the crown', 'the crown peaks here');
     expect((await inbox()).returned.map((r: any) => r.versionId)).toContain(v1);
 
     // a draft saved after it supersedes v001, which still waits for its answer, with the return's comment
@@ -56,6 +57,9 @@ describe('a version sent back stays in the inbox', () => {
     const item = box.returned.find((r: any) => r.versionId === v1);
     expect(item).toMatchObject({ lastEvent: { comment: 'lower the crown' }, nextVersion: { id: v2, number: 2, reviewState: 'draft' } });
     expect(box.counts.returned).toBe(box.returned.length);
+    // its unread note stays among the new notes too
+    expect(box.newNotes.find((r: any) => r.versionId === v1)?.notes.map((n: any) => n.body)).toEqual(['the crown peaks here']);
+    expect(box.counts.newNotes).toBe(box.newNotes.reduce((n: number, r: any) => n + r.notes.length, 0));
 
     // another draft: still there, now pointing at v003
     const v3 = await saved(shotId, 3);
@@ -72,6 +76,7 @@ describe('a version sent back stays in the inbox', () => {
     box = await inbox();
     expect(box.returned.map((r: any) => r.versionId)).not.toContain(v1);
     expect(box.counts.returned).toBe(box.returned.length);
+    expect(box.newNotes.find((r: any) => r.versionId === v1)).toBeUndefined();
   });
 
   it('until the artist dismisses it (their own inbox only; twice is harmless)', async () => {

@@ -419,7 +419,8 @@ async function latestEvents(versionIds: number[]) {
 
 /**
  * Condition for notes that are new to the user on their own versions: by someone else, open, after their last read
- * of the version, and not marked read one by one in the inbox.
+ * of the version, and not marked read one by one in the inbox. A superseded version's notes count only while it
+ * waits as sent back (returnedWhere): they are what the next version answers.
  */
 function newNotesWhere(studioId: number, userId: string): SQL {
   return and(
@@ -427,7 +428,7 @@ function newNotesWhere(studioId: number, userId: string): SQL {
     eq(versions.authorId, userId),
     or(isNull(notes.authorId), ne(notes.authorId, userId)),
     isNull(notes.resolvedAt),
-    ne(versions.reviewState, 'superseded'),
+    or(ne(versions.reviewState, 'superseded'), returnedWhere(studioId, userId)),
     or(isNull(noteReads.seenAt), gt(notes.createdAt, noteReads.seenAt)),
     notExists(markOf(userId, 'note', notes.id, 'read')),
   )!;
