@@ -1,7 +1,7 @@
 // Words of the shot activity and the compare table: what a studio reads instead of field names.
 import { describe, it, expect } from 'vitest';
 import { activityLine, shotFieldChange } from '../../src/lib/review/activity';
-import { changeInWords } from '../../src/components/review/ChangeTable';
+import { changeInWords, shapeInWords } from '../../src/components/review/ChangeTable';
 import { diffScenes } from '../../src/lib/review/diff';
 import { tinyScene } from '../support/scenes';
 
@@ -37,5 +37,14 @@ describe('compare change words', () => {
     const end = rows.find((r) => r.path === 'timing.endFrame');
     expect(end).toBeDefined();
     expect(changeInWords(end!)).toBe(`Timing · end frame changed from ${a.timing.endFrame} to ${a.timing.endFrame + 5}`);
+  });
+});
+
+describe('shapes in the compare table', () => {
+  it('reads a shape in metres, not as the document’s JSON', () => {
+    expect(shapeInWords({ type: 'rect', x: 0.65, y: 0.3, width: 0.3, height: 0.4 })).toBe('rectangle 0.3 × 0.4 m at 0.65, 0.3 m');
+    expect(shapeInWords({ type: 'circle', x: 0.2, y: 0.25, radius: 0.05 })).toBe('circle of radius 0.05 m at 0.2, 0.25 m');
+    expect(shapeInWords({ type: 'polygon', points: [[0, 0], [1, 0], [0, 1]] })).toBe('polygon of 3 points');
+    expect(shapeInWords({ gravity: [0, -9.81] })).toBeNull();
   });
 });
