@@ -222,7 +222,13 @@ describe('the whole loop, four people in Chromium', () => {
       const returned = a.locator(`[data-testid="inbox-returned"] [data-version-id="${v1}"]`);
       await returned.waitFor();
       expect(await returned.textContent()).toContain('move the drop to the middle');
+      // the note pinned to frame 1005 is new; marking it read on its own leaves the return new
+      const newNote = a.getByTestId('inbox-note').filter({ hasText: 'the block lands too far left' });
+      await newNote.waitFor();
       await shot(a, 'artist-inbox-returned');
+      await newNote.getByTestId('inbox-note-mark-read').click();
+      await newNote.waitFor({ state: 'detached' });
+      expect(await returned.getAttribute('data-unread')).toBe('true');
       await returned.getByRole('link').first().click();
       await a.waitForURL(new RegExp(`/versions/${v1}$`));
       const banner = a.getByTestId('returned-banner');
@@ -245,8 +251,20 @@ describe('the whole loop, four people in Chromium', () => {
       expect(moved[1].shape.x).toBeCloseTo(0.65, 1);
       await shot(a, 'artist-v002-blocked');
       const v2 = await saveBakeOpen(a, 'the drop in the middle', 'v002');
+      // saved, not submitted: v001 still waits in the inbox as sent back, and leads to v002
+      await nav(a, 'Inbox');
+      const stillReturned = a.locator(`[data-testid="inbox-returned"] [data-version-id="${v1}"]`);
+      await stillReturned.waitFor();
+      const nextLine = stillReturned.getByTestId('inbox-next-version');
+      expect(await nextLine.textContent()).toContain('v002 saved since');
+      await shot(a, 'artist-inbox-returned-after-saving');
+      await nextLine.getByRole('link', { name: 'v002' }).click();
+      await a.waitForURL(new RegExp(`/versions/${v2}$`));
       await submit(a, 'moved to the middle');
       await shot(a, 'artist-v002-submitted');
+      await nav(a, 'Inbox');
+      await a.getByTestId('inbox-returned').waitFor();
+      expect(await a.locator(`[data-testid="inbox-returned"] [data-version-id="${v1}"]`).count()).toBe(0); // answered
 
       // ── The supervisor compares the returned and the new version, plays both, and approves ──
       await nav(s, 'Inbox');
@@ -258,6 +276,8 @@ describe('the whole loop, four people in Chromium', () => {
       await s.waitForURL(new RegExp(`/compare\\?a=${v1}&b=${v2}$`));
       expect(await s.getByTestId('compare-pick-a').inputValue()).toBe(String(v1));
       expect(await s.getByTestId('compare-pick-b').inputValue()).toBe(String(v2));
+      // v001 reads as sent back, though saving v002 superseded it
+      expect(await s.getByTestId('compare-pick-a').locator('option:checked').textContent()).toBe('v001 · Sent back, then replaced');
       await hydrated(s, 'compare-view');
       await s.getByTestId('compare-mode-side').click();
       expect(await s.getByTestId('compare-view').getAttribute('data-mode')).toBe('side');

@@ -90,7 +90,7 @@ export interface InboxAnswer {
 
 export interface CompareAnswer {
   /** Every version of the shot the reader may see, newest first (the pickers). */
-  versions: { id: number; number: number; reviewState: string; bakeState: string }[];
+  versions: { id: number; number: number; reviewState: string; bakeState: string; /** it was sent back (before a newer one superseded it) */ sentBack: boolean }[];
   shot: { id: number; code: string; showCode: string | null; firstFrame: number; lastFrame: number; plateFirstFrame: number | null; plateWidth: number; plateHeight: number; metresPerPixel: number | null; plateAssetId: number | null };
   a: ReviewVersion & { scene: unknown; plateAssetId: number | null };
   b: ReviewVersion & { scene: unknown; plateAssetId: number | null };

@@ -814,8 +814,19 @@ export async function compareVersions(locals: Locals, studioId: number, aId: num
     .from(versions)
     .where(and(eq(versions.shotId, shot.id), eq(versions.studioId, access.studioId), ...(isClient(access) ? [inArray(versions.id, clientVersionIds(access))] : [])))
     .orderBy(desc(versions.number));
+  // a version sent back and then superseded still reads as sent back in the pickers (clients are not told)
+  const sentBack = new Set(
+    isClient(access) || !pickable.length
+      ? []
+      : (
+          await db()
+            .select({ id: reviewEvents.versionId })
+            .from(reviewEvents)
+            .where(and(inArray(reviewEvents.versionId, pickable.map((p) => p.id)), eq(reviewEvents.toState, 'returned')))
+        ).map((r) => r.id),
+  );
   return {
-    versions: pickable,
+    versions: pickable.map((p) => ({ ...p, sentBack: sentBack.has(p.id) })),
     shot: {
       id: shot.id,
       code: shot.code,
