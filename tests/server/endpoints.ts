@@ -346,6 +346,8 @@ export async function reviewVersion(s: TestStudio, state: 'draft' | 'submitted' 
   return made;
 }
 
+let dismissedVersionId = 0;
+
 async function reviewNote(s: TestStudio) {
   const { versionId } = await reviewVersion(s);
   const [res] = await db().insert(tables.notes).values({ studioId: s.id, versionId, frame: 1002, body: 'matrix note', internal: false });
@@ -396,6 +398,18 @@ ENDPOINTS.push(
   },
   { method: 'PATCH', route: '/api/notes/[noteId]', access: 'artist', path: async (s) => `/api/notes/${await reviewNote(s)}`, body: () => ({ resolved: true }) },
   { method: 'GET', route: '/api/studios/[studioId]/inbox', access: 'client', path: (s) => `/api/studios/${s.id}/inbox` },
+  { method: 'POST', route: '/api/studios/[studioId]/inbox/read', access: 'client', path: (s) => `/api/studios/${s.id}/inbox/read`, body: () => ({ all: true }) },
+  {
+    method: 'POST',
+    route: '/api/studios/[studioId]/inbox/dismiss',
+    access: 'artist',
+    // the path makes the version the body names (path is built first)
+    path: async (s) => {
+      dismissedVersionId = (await reviewVersion(s)).versionId;
+      return `/api/studios/${s.id}/inbox/dismiss`;
+    },
+    body: () => ({ versionId: dismissedVersionId }),
+  },
   { method: 'GET', route: '/api/studios/[studioId]/compare', access: 'client', path: comparePair },
   { method: 'GET', route: '/api/me/preferences', access: 'signed-in', path: () => '/api/me/preferences' },
   { method: 'PATCH', route: '/api/me/preferences', access: 'signed-in', path: () => '/api/me/preferences', body: () => ({ dailyDigest: false }) },

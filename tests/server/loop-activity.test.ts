@@ -1,6 +1,6 @@
 // The review loop as the shot's activity and the inbox record it: assignment, versions saved, real bakes, submit,
 // return, a draft saved in between, resubmission, approval and a shot detail change, read back in order and in words;
-// the inbox's assignments and unread counts; the version page's default compare partner (the version sent back).
+// the inbox's assignments and unread counts (an assignment read by opening the shot); the version page's default compare partner (the version sent back).
 import { describe, it, expect, beforeAll, afterAll } from 'vitest';
 import { makeStudio, type TestStudio } from '../support/app';
 import { bakedVersion } from '../support/bake';
@@ -27,7 +27,7 @@ describe('the loop in the shot activity and the inbox', () => {
       return res.body;
     };
 
-    // assigned: it shows in the artist's inbox, unread until they open the inbox page
+    // assigned: it shows in the artist's inbox, unread until they open the shot
     const assign = await supervisor().patch(`/api/studios/${studio.id}/shots/${shotId}/workflow`, { assigneeId: studio.members.artist.id });
     expect(assign.status, JSON.stringify(assign.body)).toBe(200);
     let inbox = await inboxOf(artist);
@@ -36,7 +36,7 @@ describe('the loop in the shot activity and the inbox', () => {
     expect(inbox.counts.assigned).toBeGreaterThanOrEqual(1);
     expect(inbox.unread.assigned).toBeGreaterThanOrEqual(1);
     expect(inbox.counts.total).toBeGreaterThanOrEqual(inbox.counts.assigned);
-    const page = await artist().get(`/studios/${studio.slug}/inbox`);
+    const page = await artist().get(`/studios/${studio.slug}/shots/${shotId}`);
     expect(page.status).toBe(200);
     inbox = await inboxOf(artist);
     expect(inbox.assigned.find((a: any) => a.shotId === shotId).unread).toBe(false);

@@ -101,6 +101,9 @@ function Version({ studioId, studioSlug, version, shot, plate, clip, canBake, ro
     refetchIntervalInBackground: true,
   });
   const bakeState: BakeState = canBake ? (progress.data?.bakeState ?? version.bakeState) : version.bakeState;
+  // the banner of a version sent back, for whoever opens it later (even once a newer one superseded it); the one
+  // who just sent it back reads the review panel's confirmation instead
+  const sentBack = decision?.toState === 'returned' && (reviewState === 'returned' || reviewState === 'superseded') && role !== 'client';
 
   // Remember that a bake ran while the page was open, to confirm its end above the player.
   const sawActive = useRef(false);
@@ -150,7 +153,7 @@ function Version({ studioId, studioSlug, version, shot, plate, clip, canBake, ro
             <a className="btn-quiet" href={`/studios/${studioSlug}/shots/${shot.id}`} data-testid="open-shot">
               Shot {shot.code}: all versions
             </a>
-            {canBake && reviewState !== 'returned' && <NewVersionLink studioSlug={studioSlug} shotId={shot.id} versionId={version.id} quiet />}
+            {canBake && !sentBack && <NewVersionLink studioSlug={studioSlug} shotId={shot.id} versionId={version.id} quiet />}
             {compareWith && (
               <a className="btn-quiet" href={`/studios/${studioSlug}/compare?a=${compareWith.id}&b=${version.id}`} data-testid="compare-link">
                 Compare with {versionLabel(compareWith.number)}
@@ -176,9 +179,10 @@ function Version({ studioId, studioSlug, version, shot, plate, clip, canBake, ro
         </dl>
       </header>
 
-      {reviewState === 'returned' && role !== 'client' && (
+      {sentBack && (
         <section className="card border-coral-500/40 bg-coral-50 p-4" data-testid="returned-banner">
           <h2 className="font-semibold text-coral-700">Sent back for changes{decision?.actorName ? ` by ${decision.actorName}` : ''}</h2>
+          {reviewState === 'superseded' && <p className="mt-1 text-sm text-ink-soft">A newer version of the shot has been saved since; this stays the list of what to change until the next one is submitted.</p>}
           {decision?.comment && <p className="mt-1 max-w-3xl whitespace-pre-wrap">“{decision.comment}”</p>}
           <p className="mt-1 text-sm text-ink-soft">The notes pinned to frames are listed below the player. Start the next version from this scene: the plate and its scale come with it.</p>
           {canBake && (
@@ -225,6 +229,7 @@ function Version({ studioId, studioSlug, version, shot, plate, clip, canBake, ro
         onStateChange={setReviewState}
         onClientStateChange={setClientState}
         tcShot={shot}
+        bakeState={bakeState}
       />
     </div>
   );

@@ -49,9 +49,24 @@ export function changeInWords(c: SceneChange): string {
 const isPicture = (path: string) => /^props\[[^\]]*\]\.picture$/.test(path);
 const valueText = (path: string, v: unknown): string => (isPicture(path) ? (v === undefined ? 'fill colour' : `picture ${show(v)}`) : show(v));
 
+const metres = (n: number) => String(Number(n.toFixed(3)));
+
+/** A shape in words ("rectangle 0.3 × 0.4 m at 0.1, 0.3 m"), or null when `v` is no shape. */
+export function shapeInWords(v: unknown): string | null {
+  if (typeof v !== 'object' || v === null) return null;
+  const s = v as { type?: unknown; x?: number; y?: number; width?: number; height?: number; radius?: number; points?: unknown[] };
+  if (s.type === 'rect' && [s.x, s.y, s.width, s.height].every((n) => typeof n === 'number')) return `rectangle ${metres(s.width!)} × ${metres(s.height!)} m at ${metres(s.x!)}, ${metres(s.y!)} m`;
+  if (s.type === 'circle' && [s.x, s.y, s.radius].every((n) => typeof n === 'number')) return `circle of radius ${metres(s.radius!)} m at ${metres(s.x!)}, ${metres(s.y!)} m`;
+  if (s.type === 'polygon' && Array.isArray(s.points)) return `polygon of ${s.points.length} points`;
+  return null;
+}
+
 const show = (v: unknown): string => {
   if (v === undefined) return '—';
   if (typeof v === 'number') return Number.isInteger(v) ? String(v) : String(Number(v.toPrecision(6)));
+  // shapes, and whole items (added or removed) by their shape, in words rather than as the document's JSON
+  const shape = shapeInWords(v) ?? (typeof v === 'object' && v !== null && 'shape' in v ? shapeInWords((v as { shape: unknown }).shape) : null);
+  if (shape) return shape;
   const s = JSON.stringify(v, (_k, x) => (typeof x === 'number' && !Number.isInteger(x) ? Number(x.toPrecision(5)) : x));
   return s.length > 120 ? `${s.slice(0, 117)}…` : s;
 };

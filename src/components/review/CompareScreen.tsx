@@ -22,6 +22,10 @@ interface Props {
 
 type Mode = 'wipe' | 'side';
 
+/** A version's review state in words; one sent back and superseded since says both. */
+const stateWord = (v: { reviewState: string; sentBack?: boolean }) =>
+  v.reviewState === 'superseded' && v.sentBack ? 'Sent back, then replaced' : (STATE_WORDS[v.reviewState] ?? v.reviewState);
+
 export default function CompareScreen({ studioId, studioSlug, compare, frameRate }: Props) {
   const { a, b, shot } = compare;
   const bothBaked = a.bakeState === 'baked' && b.bakeState === 'baked';
@@ -133,7 +137,8 @@ export default function CompareScreen({ studioId, studioSlug, compare, frameRate
       const t = e.target as HTMLElement | null;
       if (t && ['INPUT', 'TEXTAREA', 'SELECT'].includes(t.tagName) && (t as HTMLInputElement).type !== 'range') return;
       if (frame === null) return;
-      if (e.key === ' ' && t?.tagName === 'BUTTON') return; // the focused button's own click
+      // the focused button's own click, except the layout's radios: after picking "Side by side" Space still plays
+      if (e.key === ' ' && t?.tagName === 'BUTTON' && t.getAttribute('role') !== 'radio') return;
       if (e.key === ' ') setPlaying((p) => !p);
       else if (e.key === 'ArrowRight') {
         setPlaying(false);
@@ -163,7 +168,7 @@ export default function CompareScreen({ studioId, studioSlug, compare, frameRate
     >
       {compare.versions.map((o) => (
         <option key={o.id} value={o.id} disabled={o.id === (side === 'a' ? b.id : a.id)}>
-          {versionLabel(o.number)} · {STATE_WORDS[o.reviewState] ?? o.reviewState}
+          {versionLabel(o.number)} · {stateWord(o)}
           {o.bakeState !== 'baked' ? ' · not baked' : ''}
         </option>
       ))}
@@ -174,7 +179,7 @@ export default function CompareScreen({ studioId, studioSlug, compare, frameRate
       <a className="font-semibold hover:underline" href={`/studios/${studioSlug}/versions/${v.id}${frame !== null ? `?frame=${frame}` : ''}`}>
         {versionLabel(v.number)}
       </a>
-      <span className={`rounded-full px-2 py-0.5 text-xs font-medium ${STATE_TONE[v.reviewState] ?? ''}`}>{STATE_WORDS[v.reviewState] ?? v.reviewState}</span>
+      <span className={`rounded-full px-2 py-0.5 text-xs font-medium ${STATE_TONE[v.reviewState] ?? ''}`}>{stateWord(compare.versions.find((o) => o.id === v.id) ?? v)}</span>
     </span>
   );
   const aspect = `${shot.plateWidth} / ${shot.plateHeight}`;

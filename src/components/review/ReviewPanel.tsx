@@ -37,6 +37,8 @@ export interface ReviewPanelProps {
   onClientStateChange?: (state: ClientState) => void;
   /** The shot's cut in, rate and source timecode at the cut in: a note's frame is shown with its source timecode. */
   tcShot?: SourceTimecodeShot;
+  /** The version's bake state as the page follows it: when a bake finishes here, submitting becomes possible. */
+  bakeState?: string;
 }
 
 /** A note's frame as shown: its number with its source timecode when the shot is known. */
@@ -69,6 +71,14 @@ function Panel(p: ReviewPanelProps) {
     void qc.invalidateQueries({ queryKey: reviewKey });
     void qc.invalidateQueries({ queryKey: notesKey });
   };
+
+  // a bake that finishes while the page is open changes what may be done (submit needs a baked version)
+  const seenBake = useRef(p.bakeState);
+  useEffect(() => {
+    if (seenBake.current === p.bakeState) return;
+    seenBake.current = p.bakeState;
+    void qc.invalidateQueries({ queryKey: ['review', p.versionId] });
+  }, [p.bakeState, p.versionId, qc]);
 
   const markers = useMemo(() => markersOf(notes.data?.notes ?? []), [notes.data]);
   const { onMarkers, onStateChange, onClientStateChange } = p;

@@ -55,7 +55,9 @@ export interface InboxItem {
   clientComment: string | null;
   clientDecidedAt: string | null;
   notes?: NoteView[];
-  /** When what asks for the reader happened, and whether it came after they last opened the inbox. */
+  /** A version sent back that a newer one superseded: the newest version of the shot saved since (not submitted yet). */
+  nextVersion?: { id: number; number: number; reviewState: string } | null;
+  /** When what asks for the reader happened, and whether they have not read it since (opened it or marked it read). */
   at: string;
   unread: boolean;
 }
@@ -76,7 +78,7 @@ type InboxSections = 'assigned' | 'toReview' | 'returned' | 'newNotes' | 'client
 
 export interface InboxAnswer {
   counts: Record<InboxSections | 'total', number>;
-  /** Items that came after the reader last opened the inbox, per section. */
+  /** Items the reader has not read since they asked for something (opened, or marked read), per section. */
   unread: Record<InboxSections | 'total', number>;
   assigned: InboxAssignment[];
   toReview: InboxItem[];
@@ -88,7 +90,7 @@ export interface InboxAnswer {
 
 export interface CompareAnswer {
   /** Every version of the shot the reader may see, newest first (the pickers). */
-  versions: { id: number; number: number; reviewState: string; bakeState: string }[];
+  versions: { id: number; number: number; reviewState: string; bakeState: string; /** it was sent back (before a newer one superseded it) */ sentBack: boolean }[];
   shot: { id: number; code: string; showCode: string | null; firstFrame: number; lastFrame: number; plateFirstFrame: number | null; plateWidth: number; plateHeight: number; metresPerPixel: number | null; plateAssetId: number | null };
   a: ReviewVersion & { scene: unknown; plateAssetId: number | null };
   b: ReviewVersion & { scene: unknown; plateAssetId: number | null };

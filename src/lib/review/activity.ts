@@ -11,6 +11,7 @@ export const ACTIVITY_ACTIONS = [
   'version.client.send', 'version.client.sign-off', 'version.client.ask-changes',
   'bake.reuse', 'bake.done', 'bake.failed', 'bake.cancel',
   'export.create', 'share.create', 'share.email', 'share.revoke',
+  'note.client', 'share.note',
 ] as const;
 
 export interface ActivityItem {
@@ -72,7 +73,7 @@ export function describeActivity(e: ActivityItem): string {
   const quoted = (s: unknown) => (typeof s === 'string' && s.trim() ? `: “${s.trim().length > 160 ? `${s.trim().slice(0, 157)}…` : s.trim()}”` : '');
   switch (e.action) {
     case 'shot.create':
-      return 'created the shot';
+      return d.importedFrom === 'edl' ? 'created the shot from an edit list import' : d.importedFrom === 'csv' ? 'created the shot from a shot list import' : 'created the shot';
     case 'shot.workflow': {
       const parts: string[] = [];
       if (d.status) parts.push(`changed the status from ${d.status.from} to ${d.status.to}`);
@@ -132,6 +133,10 @@ export function describeActivity(e: ActivityItem): string {
       return `e-mailed the share link for ${v}${d.to ? ` to ${d.to}` : ''}`;
     case 'share.revoke':
       return `revoked a share link for ${v}`;
+    case 'note.client':
+      return `commented on ${v}${typeof d.frame === 'number' ? ` at frame ${d.frame}` : ''} (client account)`;
+    case 'share.note':
+      return `commented on ${v}${typeof d.frame === 'number' ? ` at frame ${d.frame}` : ''} (share link)`;
     default:
       return e.action.replace(/[._-]/g, ' ');
   }
@@ -144,5 +149,7 @@ export function activityLine(e: ActivityItem): string {
     const opening = /^v\d/.test(words) ? words : `${words[0].toUpperCase()}${words.slice(1)}`;
     return `${opening}${e.actorName ? ` (bake asked for by ${e.actorName})` : ''}`;
   }
-  return `${e.actorName ?? 'Someone'} ${words}`;
+  // a comment through a share link has no account behind it: the name the viewer gave stands in front
+  const guest = e.action === 'share.note' && typeof e.detail?.guestName === 'string' ? e.detail.guestName : null;
+  return `${e.actorName ?? guest ?? 'Someone'} ${words}`;
 }

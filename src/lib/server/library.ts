@@ -634,6 +634,10 @@ export async function confirmShowImport(access: StudioAccess, showId: number, bo
     return { preview, kept, created };
   });
   const { preview, kept, created } = result;
+  // each new shot's activity starts with where it came from
+  for (const c of created) {
+    await audit({ studioId: access.studioId, actorId: access.userId, action: 'shot.create', targetType: 'shot', targetId: c.id, detail: { code: c.code, showId, importedFrom: body.format } });
+  }
   await audit({
     studioId: access.studioId,
     actorId: access.userId,

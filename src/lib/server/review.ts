@@ -1,10 +1,11 @@
 // Review on the server: version review transitions (with review events, the audit log and the shot's status in one
 // transaction), sharing with clients, frame-pinned notes, the review inbox and version comparison.
 // A client sees only versions shared with clients that are past draft, and never internal notes.
-import { and, asc, desc, eq, gt, inArray, isNull, lt, ne, or, sql, type SQL } from 'drizzle-orm';
+import { and, asc, desc, eq, exists, gt, inArray, isNotNull, isNull, lt, ne, notExists, or, sql, type SQL } from 'drizzle-orm';
 import { alias } from 'drizzle-orm/mysql-core';
 import { db, type Db } from './db';
-import { assets, auditLog, memberships, noteReads, notes, reviewEvents, shots, shows, users, versions } from './db/schema';
+import { assets, auditLog, inboxMarks, memberships, noteReads, notes, reviewEvents, shots, shows, users, versions } from './db/schema';
+import { audit } from './audit';
 import { HttpError } from './http';
 import type { StudioAccess } from './authz';
 import { asSeenBy, clientVersionIds, loadVersion, STUDIO_ACTOR } from './access';
@@ -332,7 +333,10 @@ export async function createNote(access: StudioAccess, v: VersionRow, shot: Shot
     });
   const id = Number(res.insertId);
   await markNotesRead(access, v.id);
-  if (isClient(access)) tellStudioOfClientNotes(v.id);
+  if (isClient(access)) {
+    await audit({ studioId: access.studioId, actorId: access.userId, action: 'note.client', targetType: 'version', targetId: v.id, detail: { noteId: id, frame } });
+    tellStudioOfClientNotes(v.id);
+  }
   const [row] = await notesQuery().where(eq(notes.id, id));
   return noteView(row as NoteRow);
 }
@@ -386,22 +390,67 @@ async function latestEvents(versionIds: number[]) {
     .select({ versionId: reviewEvents.versionId, id: reviewEvents.id, comment: reviewEvents.comment, actorName: users.name, createdAt: reviewEvents.createdAt })
     .from(reviewEvents)
     .leftJoin(users, eq(users.id, reviewEvents.actorId))
-    .where(inArray(reviewEvents.versionId, versionIds))
+    // a supersede is bookkeeping: a returned version keeps showing the return and its comment
+    .where(and(inArray(reviewEvents.versionId, versionIds), ne(reviewEvents.toState, 'superseded')))
     .orderBy(asc(reviewEvents.id));
   const out = new Map<number, { comment: string | null; actorName: string | null; createdAt: Date }>();
   for (const r of rows) out.set(r.versionId, r);
   return out;
 }
 
-/** Condition for notes that are new to the user on their own versions: by someone else, open, after their last read. */
+/**
+ * Condition for notes that are new to the user on their own versions: by someone else, open, after their last read
+ * of the version, and not marked read one by one in the inbox. A superseded version's notes count only while it
+ * waits as sent back (returnedWhere): they are what the next version answers.
+ */
 function newNotesWhere(studioId: number, userId: string): SQL {
   return and(
     eq(notes.studioId, studioId),
     eq(versions.authorId, userId),
     or(isNull(notes.authorId), ne(notes.authorId, userId)),
     isNull(notes.resolvedAt),
-    ne(versions.reviewState, 'superseded'),
+    or(ne(versions.reviewState, 'superseded'), returnedWhere(studioId, userId)),
     or(isNull(noteReads.seenAt), gt(notes.createdAt, noteReads.seenAt)),
+    notExists(markOf(userId, 'note', notes.id, 'read')),
+  )!;
+}
+
+/** The user's mark of one kind on an inbox item (a subquery for EXISTS). */
+function markOf(userId: string, type: 'shot' | 'version' | 'note', itemId: SQL | typeof notes.id | typeof versions.id, kind: 'read' | 'dismissed') {
+  return db()
+    .select({ one: sql`1` })
+    .from(inboxMarks)
+    .where(and(eq(inboxMarks.userId, userId), eq(inboxMarks.itemType, type), eq(inboxMarks.itemId, itemId), isNotNull(kind === 'read' ? inboxMarks.readAt : inboxMarks.dismissedAt)));
+}
+
+const laterVersions = alias(versions, 'later_versions');
+const returnEvents = alias(reviewEvents, 'return_events');
+
+/**
+ * The user's versions that were sent back and still wait for their answer: returned, and (once a newer version was
+ * saved, which supersedes them) still shown until a newer version of the shot is submitted or the user dismisses
+ * it. Saving a draft is not an answer: the artist works on the notes over several saves, and the returned version
+ * with its notes is their list of what to change until they hand the next one in.
+ */
+function returnedWhere(studioId: number, userId: string): SQL {
+  return and(
+    eq(versions.studioId, studioId),
+    eq(versions.authorId, userId),
+    or(
+      eq(versions.reviewState, 'returned'),
+      and(
+        eq(versions.reviewState, 'superseded'),
+        exists(db().select({ one: sql`1` }).from(returnEvents).where(and(eq(returnEvents.versionId, versions.id), eq(returnEvents.toState, 'returned')))),
+      ),
+    ),
+    notExists(
+      db()
+        .select({ one: sql`1` })
+        .from(reviewEvents)
+        .innerJoin(laterVersions, eq(laterVersions.id, reviewEvents.versionId))
+        .where(and(eq(laterVersions.shotId, versions.shotId), gt(laterVersions.number, versions.number), eq(reviewEvents.toState, 'submitted'))),
+    ),
+    notExists(markOf(userId, 'version', versions.id, 'dismissed')),
   )!;
 }
 
@@ -470,9 +519,7 @@ export async function inboxCounts(studioId: number, userId: string, role: Role):
         : and(eq(versions.studioId, studioId), eq(versions.reviewState, 'submitted'));
   const [toReview, returned, newNotes, client, assigned] = await Promise.all([
     reviewWhere ? db().select({ n: count }).from(versions).where(reviewWhere) : Promise.resolve([{ n: 0 }]),
-    role === 'client'
-      ? Promise.resolve([{ n: 0 }])
-      : db().select({ n: count }).from(versions).where(and(eq(versions.studioId, studioId), eq(versions.authorId, userId), eq(versions.reviewState, 'returned'))),
+    role === 'client' ? Promise.resolve([{ n: 0 }]) : db().select({ n: count }).from(versions).where(returnedWhere(studioId, userId)),
     role === 'client' ? Promise.resolve([{ n: 0 }]) : newNotesCount().where(newNotesWhere(studioId, userId)),
     db().select({ n: count }).from(versions).where(clientInboxWhere({ studioId, userId, role } as StudioAccess)),
     role === 'client' ? Promise.resolve([{ n: 0 }]) : db().select({ n: count }).from(shots).innerJoin(shows, eq(shows.id, shots.showId)).where(assignedWhere(studioId, userId)),
@@ -501,10 +548,7 @@ export async function inboxFor(access: StudioAccess) {
     reviewWhere ? versionRowsQuery().where(reviewWhere).orderBy(asc(versions.updatedAt)).limit(200) : Promise.resolve([]),
     role === 'client'
       ? Promise.resolve([])
-      : versionRowsQuery()
-          .where(and(eq(versions.studioId, studioId), eq(versions.authorId, userId), eq(versions.reviewState, 'returned')))
-          .orderBy(desc(versions.updatedAt))
-          .limit(200),
+      : versionRowsQuery().where(returnedWhere(studioId, userId)).orderBy(desc(versions.updatedAt)).limit(200),
     role === 'client'
       ? Promise.resolve([])
       : newNotesRows()
@@ -539,19 +583,31 @@ export async function inboxFor(access: StudioAccess) {
     };
   };
   const [assigned, seenAt] = await Promise.all([role === 'client' ? Promise.resolve([]) : assignedShots(studioId, userId), inboxSeenAt(studioId, userId)]);
-  // unread: what happened after the member last opened the inbox (everything, the first time)
-  const mark = <T extends { at: string }>(rows: T[]) => rows.map((r) => ({ ...r, unread: !seenAt || new Date(r.at) > seenAt }));
+  const versionIds = [...new Set([...toReview, ...returned, ...noteVersions, ...clientRows].map((r) => r.versionId))];
+  const [reads, nextOf] = await Promise.all([readMarks(studioId, userId, assigned.map((a) => a.shotId), versionIds), newerVersions(studioId, returned)]);
+  // unread: what asks for the reader happened after they read the item (opened the version or the shot, or marked
+  // it read) and after their last "mark all read"
+  const mark = <T extends { at: string }>(rows: T[], readOf: (r: T) => Date | undefined) =>
+    rows.map((r) => {
+      const read = [seenAt, readOf(r)].filter((d): d is Date => !!d).reduce<Date | null>((a, b) => (!a || b > a ? b : a), null);
+      return { ...r, unread: !read || new Date(r.at) > read };
+    });
+  const byVersion = (r: { versionId: number }) => reads.version.get(r.versionId);
   const sections = {
-    assigned: mark(assigned),
-    toReview: mark(toReview.map(item).map((i) => ({ ...i, at: i.lastEvent?.at ?? i.updatedAt }))),
-    returned: mark(returned.map(item).map((i) => ({ ...i, at: i.lastEvent?.at ?? i.updatedAt }))),
+    assigned: mark(assigned, (r) => reads.shot.get(r.shotId)),
+    toReview: mark(toReview.map(item).map((i) => ({ ...i, at: i.lastEvent?.at ?? i.updatedAt })), byVersion),
+    returned: mark(
+      returned.map(item).map((i) => ({ ...i, at: i.lastEvent?.at ?? i.updatedAt, nextVersion: nextOf.get(i.versionId) ?? null })),
+      byVersion,
+    ),
     newNotes: mark(
       noteVersions.map((r) => {
         const own = freshNotes.filter((n) => n.versionId === r.versionId);
         return { ...item(r), notes: own, at: own.map((n) => n.createdAt).sort().at(-1) ?? r.updatedAt.toISOString() };
       }),
+      byVersion,
     ),
-    client: mark(clientRows.map(item).map((i) => ({ ...i, at: i.clientDecidedAt ?? i.updatedAt }))),
+    client: mark(clientRows.map(item).map((i) => ({ ...i, at: i.clientDecidedAt ?? i.updatedAt })), byVersion),
   };
   const unreadOf = (rows: { unread: boolean }[]) => rows.filter((r) => r.unread).length;
   const unread = {
@@ -570,9 +626,114 @@ async function inboxSeenAt(studioId: number, userId: string): Promise<Date | nul
   return m?.at ?? null;
 }
 
-/** Records that the member has seen their inbox now (the inbox page calls it once it has read what is unread). */
+/**
+ * When the user last read each inbox item: a shot by its read mark, a version by the later of its read mark's
+ * and their last read of its notes (opening the version page reads them).
+ */
+async function readMarks(studioId: number, userId: string, shotIds: number[], versionIds: number[]) {
+  const which: SQL[] = [];
+  if (shotIds.length) which.push(and(eq(inboxMarks.itemType, 'shot'), inArray(inboxMarks.itemId, shotIds))!);
+  if (versionIds.length) which.push(and(eq(inboxMarks.itemType, 'version'), inArray(inboxMarks.itemId, versionIds))!);
+  const [marks, noteSeen] = await Promise.all([
+    which.length
+      ? db()
+          .select({ type: inboxMarks.itemType, id: inboxMarks.itemId, at: inboxMarks.readAt })
+          .from(inboxMarks)
+          .where(and(eq(inboxMarks.studioId, studioId), eq(inboxMarks.userId, userId), isNotNull(inboxMarks.readAt), or(...which)))
+      : Promise.resolve([]),
+    versionIds.length
+      ? db().select({ id: noteReads.versionId, at: noteReads.seenAt }).from(noteReads).where(and(eq(noteReads.userId, userId), inArray(noteReads.versionId, versionIds)))
+      : Promise.resolve([]),
+  ]);
+  const shot = new Map<number, Date>();
+  const version = new Map<number, Date>();
+  for (const m of marks) if (m.at) (m.type === 'shot' ? shot : version).set(m.id, m.at);
+  for (const r of noteSeen) if (!version.has(r.id) || r.at > version.get(r.id)!) version.set(r.id, r.at);
+  return { shot, version };
+}
+
+/** For each returned version that a newer one superseded: the newest version of its shot saved since. */
+async function newerVersions(studioId: number, returned: { versionId: number; shotId: number; number: number; reviewState: string }[]) {
+  const out = new Map<number, { id: number; number: number; reviewState: string }>();
+  const superseded = returned.filter((r) => r.reviewState === 'superseded');
+  if (!superseded.length) return out;
+  const rows = await db()
+    .select({ id: versions.id, shotId: versions.shotId, number: versions.number, reviewState: versions.reviewState })
+    .from(versions)
+    .where(and(eq(versions.studioId, studioId), inArray(versions.shotId, [...new Set(superseded.map((r) => r.shotId))])));
+  for (const r of superseded) {
+    const newest = rows.filter((v) => v.shotId === r.shotId && v.number > r.number).sort((a, b) => b.number - a.number)[0];
+    if (newest) out.set(r.versionId, { id: newest.id, number: newest.number, reviewState: newest.reviewState });
+  }
+  return out;
+}
+
+export type InboxItemRef = { type: 'shot' | 'version' | 'note'; id: number };
+
+/**
+ * Marks inbox items read for the user: a shot (an assignment), a version (as opening it does: its notes count as
+ * read) or one note. Each must be one the user may see in the studio (404 otherwise).
+ */
+export async function markInboxItemsRead(access: StudioAccess, items: InboxItemRef[]) {
+  const now = new Date();
+  for (const it of items) {
+    if (it.type === 'version') {
+      const { version } = await loadVersion(access, it.id);
+      await markNotesRead(access, version.id);
+      continue;
+    }
+    if (it.type === 'shot') {
+      const [row] = await db().select({ id: shots.id }).from(shots).where(and(eq(shots.id, it.id), eq(shots.studioId, access.studioId)));
+      if (!row || isClient(access)) throw new HttpError('not_found', `No such shot: ${it.id}`, { items: `shot ${it.id} is not in this studio` });
+    } else {
+      const [row] = await db()
+        .select({ id: notes.id, versionId: notes.versionId, internal: notes.internal })
+        .from(notes)
+        .where(and(eq(notes.id, it.id), eq(notes.studioId, access.studioId)));
+      if (!row || (isClient(access) && row.internal)) throw new HttpError('not_found', `No such note: ${it.id}`, { items: `note ${it.id} is not in this studio` });
+      await loadVersion(access, row.versionId);
+    }
+    await db()
+      .insert(inboxMarks)
+      .values({ studioId: access.studioId, userId: access.userId, itemType: it.type, itemId: it.id, readAt: now })
+      .onDuplicateKeyUpdate({ set: { readAt: now } });
+  }
+}
+
+/** Records that the user has read the shot (its page was opened): an assignment to them stops counting as new. */
+export async function markShotRead(access: StudioAccess, shotId: number) {
+  const now = new Date();
+  await db()
+    .insert(inboxMarks)
+    .values({ studioId: access.studioId, userId: access.userId, itemType: 'shot', itemId: shotId, readAt: now })
+    .onDuplicateKeyUpdate({ set: { readAt: now } });
+}
+
+/** "Mark all read": everything in the member's inbox now counts as read, and the new notes on their versions too. */
 export async function markInboxSeen(access: StudioAccess) {
   await db().update(memberships).set({ inboxSeenAt: new Date() }).where(and(eq(memberships.studioId, access.studioId), eq(memberships.userId, access.userId)));
+  if (isClient(access)) return;
+  const withNotes = await db()
+    .selectDistinct({ versionId: notes.versionId })
+    .from(notes)
+    .innerJoin(versions, eq(versions.id, notes.versionId))
+    .leftJoin(noteReads, and(eq(noteReads.versionId, notes.versionId), eq(noteReads.userId, versions.authorId)))
+    .where(newNotesWhere(access.studioId, access.userId))
+    .limit(500);
+  for (const v of withNotes) await markNotesRead(access, v.versionId);
+}
+
+/**
+ * Takes a version sent back off the user's inbox before a newer version is submitted (they answered it another way).
+ * The mark concerns only the user's own inbox, so dismissing twice, or a version not listed there, changes nothing.
+ */
+export async function dismissReturned(access: StudioAccess, versionId: number) {
+  const { version } = await loadVersion(access, versionId);
+  const now = new Date();
+  await db()
+    .insert(inboxMarks)
+    .values({ studioId: access.studioId, userId: access.userId, itemType: 'version', itemId: version.id, dismissedAt: now })
+    .onDuplicateKeyUpdate({ set: { dismissedAt: now } });
 }
 
 /**
@@ -633,8 +794,19 @@ export async function compareVersions(access: StudioAccess, aId: number, bId: nu
     .from(versions)
     .where(and(eq(versions.shotId, shot.id), eq(versions.studioId, access.studioId), ...(isClient(access) ? [inArray(versions.id, clientVersionIds(access))] : [])))
     .orderBy(desc(versions.number));
+  // a version sent back and then superseded still reads as sent back in the pickers (clients are not told)
+  const sentBack = new Set(
+    isClient(access) || !pickable.length
+      ? []
+      : (
+          await db()
+            .select({ id: reviewEvents.versionId })
+            .from(reviewEvents)
+            .where(and(inArray(reviewEvents.versionId, pickable.map((p) => p.id)), eq(reviewEvents.toState, 'returned')))
+        ).map((r) => r.id),
+  );
   return {
-    versions: pickable,
+    versions: pickable.map((p) => ({ ...p, sentBack: sentBack.has(p.id) })),
     shot: {
       id: shot.id,
       code: shot.code,

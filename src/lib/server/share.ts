@@ -360,6 +360,7 @@ export async function addGuestNote(opened: OpenedShare, body: { name: string; bo
     clientSource: 'share link',
   });
   tellStudioOfClientNotes(version.id);
-  await audit({ studioId: link.studioId, actorId: null, action: 'share.note', targetType: 'note', targetId: Number(res.insertId), detail: { shareLinkId: link.id, guestName: body.name } });
+  // filed under the version (the note's id in the detail), so the shot's activity lists the comment
+  await audit({ studioId: link.studioId, actorId: null, action: 'share.note', targetType: 'version', targetId: version.id, detail: { noteId: Number(res.insertId), shareLinkId: link.id, guestName: body.name, frame: body.frame } });
   return { name: body.name, body: body.body, frame: body.frame, createdAt: new Date().toISOString() };
 }

@@ -388,6 +388,30 @@ export const noteReads = mysqlTable(
   (t) => [uniqueIndex('note_reads_user_version_uq').on(t.userId, t.versionId)],
 );
 
+/**
+ * A member's marks on single inbox items: a shot assigned to them, a version (in any section), or one note read
+ * (read_at), and a returned version they took off their inbox (dismissed_at). An item counts as unread while what
+ * it asks happened after its read mark, the member's "mark all read" (memberships.inbox_seen_at) and, for a
+ * version, their last read of its notes (note_reads).
+ */
+export const inboxMarks = mysqlTable(
+  'inbox_marks',
+  {
+    id: id(),
+    studioId: ref('studio_id')
+      .notNull()
+      .references(() => studios.id, { onDelete: 'cascade' }),
+    userId: varchar('user_id', { length: 40 })
+      .notNull()
+      .references(() => users.id, { onDelete: 'cascade' }),
+    itemType: mysqlEnum('item_type', ['shot', 'version', 'note']).notNull(),
+    itemId: bigint('item_id', { mode: 'number', unsigned: true }).notNull(),
+    readAt: datetime('read_at', { mode: 'date', fsp: 3 }),
+    dismissedAt: datetime('dismissed_at', { mode: 'date', fsp: 3 }),
+  },
+  (t) => [uniqueIndex('inbox_marks_user_item_uq').on(t.userId, t.itemType, t.itemId), index('inbox_marks_studio_idx').on(t.studioId)],
+);
+
 export const bakeJobs = mysqlTable(
   'bake_jobs',
   {
