@@ -20,7 +20,11 @@ beforeAll(async () => {
   const [shot] = await db()
     .insert(shots)
     .values({ studioId: studio.id, showId: Number(show.insertId), code: unique('LHK_0300').slice(0, 20), firstFrame: FIRST, lastFrame: LAST, frameRate: '24' });
-  const saved = await artist.post(`/api/shots/${Number(shot.insertId)}/versions`, { scene: demoScene('LHK_0300', 24, FIRST, LAST)!.scene, comment: 'Paint down the steps' });
+  // Foam and spray off: their white dots have the wall line's colour, and this test counts wall-line pixels
+  // (foam is checked in hero-look.test.ts and the foam tests).
+  const scene = structuredClone(demoScene('LHK_0300', 24, FIRST, LAST)!.scene) as { look?: Record<string, unknown> };
+  scene.look = { ...(scene.look ?? {}), foam: 0 };
+  const saved = await artist.post(`/api/shots/${Number(shot.insertId)}/versions`, { scene, comment: 'Paint down the steps' });
   expect(saved.status, JSON.stringify(saved.body)).toBe(201);
   versionId = saved.body.version.id;
   await bakeAndWait(artist, versionId, 420_000);
