@@ -160,7 +160,11 @@ describe('slate', () => {
 
 describe('names and encoder settings', () => {
   it('names files and ZIP entries predictably', () => {
-    expect(exportFileName(labels, 1001, 1048, 'mp4')).toBe('LT_LT_010_v003_1001-1048.mp4');
+    // Show code, shot code, v003, frame range (common practice, no source); a shot code that already carries the
+    // show's code is not prefixed twice.
+    expect(exportFileName(labels, 1001, 1048, 'mp4')).toBe('LT_010_v003_1001-1048.mp4');
+    expect(exportFileName({ ...labels, shotCode: '010' }, 1001, 1048, 'gif')).toBe('LT_010_v003_1001-1048.gif');
+    expect(exportFileName({ ...labels, shotCode: 'LTX_010' }, 1001, 1048, 'gif')).toBe('LT_LTX_010_v003_1001-1048.gif');
     expect(zipEntryName(labels, 1001)).toBe('LT_010_v003.1001.png');
     expect(zipEntryName(labels, 'slate')).toBe('LT_010_v003.0000_slate.png');
   });

@@ -64,6 +64,8 @@ export default function Player({ studioId, version, shot, plate, clip, onFrame, 
   const [inOut, setInOut] = useState<{ inFrame: number; outFrame: number } | null>(null);
   const [look, setLook] = useState<RenderLook>('surface');
   const [stats, setStats] = useState<BakeStats | null>(null);
+  // No statistics URL: none stored with the bake, or withheld (clients see no solver statistics): no card at all.
+  const [statsOffered, setStatsOffered] = useState(true);
   const [plateNote, setPlateNote] = useState<string | null>(null);
   const [firstFrameMs, setFirstFrameMs] = useState<number | null>(null);
   const [rateNote, setRateNote] = useState<string | null>(null);
@@ -97,6 +99,7 @@ export default function Player({ studioId, version, shot, plate, clip, onFrame, 
           })
         : Promise.resolve(null);
       const [opened, plateOpened] = await Promise.all([openClip(version.id, clip), platePromise]);
+      if (!opened.info.statsUrl) setStatsOffered(false);
       const statsPromise = loadStats<BakeStats>(opened.info.statsUrl);
       // The props' pictures (a few small images) are part of the look: the first frame waits for them.
       const [bakeStats, pictures] = await Promise.all([
@@ -278,7 +281,7 @@ export default function Player({ studioId, version, shot, plate, clip, onFrame, 
   const tc = sourceTimecodeLabel(shot, frame, '—');
 
   return (
-    <div className="grid gap-5 lg:grid-cols-[minmax(0,1fr)_18rem]">
+    <div className={`grid gap-5 ${statsOffered ? 'lg:grid-cols-[minmax(0,1fr)_18rem]' : ''}`}>
       <section aria-label="Player" className="card overflow-hidden" data-testid="player" data-status={status.kind} data-drawn-frame={drawnFrame ?? ''}>
         <div className="relative aspect-video w-full bg-[#0b1418]">
           <div ref={host} className="absolute inset-0" data-testid="player-view" />
@@ -399,7 +402,7 @@ export default function Player({ studioId, version, shot, plate, clip, onFrame, 
         </div>
       </section>
 
-      <aside>{stats ? <StatsCharts stats={stats} frame={frame} onSeek={goTo} /> : <StatsPlaceholder ready={status.kind === 'ready'} />}</aside>
+      {statsOffered && <aside>{stats ? <StatsCharts stats={stats} frame={frame} onSeek={goTo} /> : <StatsPlaceholder ready={status.kind === 'ready'} />}</aside>}
     </div>
   );
 }

@@ -283,10 +283,16 @@ export function slateLayout(labels: ExportLabels, first: number, last: number, w
   };
 }
 
-/** A file name for an export: SHOW_SHOT_v003_1001-1048.gif (only letters, digits, '-', '_' and '.'). */
+/**
+ * A file name for an export: SHOW_SHOT_v003_1001-1048.gif (only letters, digits, '-', '_' and '.'). A shot code that
+ * already starts with the show's code (HW_0040 in show HW, as edit lists name shots) is not prefixed twice.
+ */
 export function exportFileName(labels: Pick<ExportLabels, 'showCode' | 'shotCode' | 'versionNumber'>, first: number, last: number, format: ExportFormat): string {
   const clean = (s: string) => s.replace(/[^A-Za-z0-9_-]+/g, '-').replace(/^-+|-+$/g, '');
-  const parts = [labels.showCode ? clean(labels.showCode) : '', clean(labels.shotCode), versionLabel(labels.versionNumber), `${first}-${last}`, format === 'passes' ? 'passes' : ''].filter(Boolean);
+  const show = labels.showCode ? clean(labels.showCode) : '';
+  const shot = clean(labels.shotCode);
+  const prefixed = show !== '' && (shot.toUpperCase() === show.toUpperCase() || shot.toUpperCase().startsWith(`${show.toUpperCase()}_`));
+  const parts = [prefixed ? '' : show, shot, versionLabel(labels.versionNumber), `${first}-${last}`, format === 'passes' ? 'passes' : ''].filter(Boolean);
   return `${parts.join('_')}.${FORMAT_EXTENSIONS[format]}`;
 }
 
