@@ -3,7 +3,7 @@ import { useState } from 'react';
 import { useForm } from 'react-hook-form';
 import { zodResolver } from '@hookform/resolvers/zod';
 import { z } from 'zod';
-import { email } from '~/lib/server/validation';
+import { email } from '~/lib/forms/fields';
 import { api } from '../shared/api';
 import { applyServerError, FormMessage, SubmitButton, TextField } from '../shared/form';
 

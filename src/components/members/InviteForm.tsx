@@ -4,7 +4,7 @@ import { useForm } from 'react-hook-form';
 import { zodResolver } from '@hookform/resolvers/zod';
 import { z } from 'zod';
 import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
-import { email, role } from '~/lib/server/validation';
+import { email, role } from '~/lib/forms/fields';
 import { api } from '../shared/api';
 import { applyServerError, fieldMessage, FormMessage, SubmitButton, TextField } from '../shared/form';
 import { keys, ROLE_HELP, ROLE_ORDER, type Notice, type RoleName } from './types';

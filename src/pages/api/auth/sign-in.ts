@@ -7,7 +7,7 @@ import { lucia } from '~/lib/server/auth';
 import { db } from '~/lib/server/db';
 import { users } from '~/lib/server/db/schema';
 import { verifyPassword, hashPassword } from '~/lib/server/password';
-import { email } from '~/lib/server/validation';
+import { email } from '~/lib/forms/fields';
 import { clientAddressOf } from '~/lib/server/client-address';
 import { RULES, forgive, recordAttempt, throttled } from '~/lib/server/throttle';
 

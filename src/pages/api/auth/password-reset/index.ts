@@ -1,7 +1,7 @@
 // POST /api/auth/password-reset {email} → 202; e-mails a reset link when the account exists (says nothing either way).
 import { z } from 'zod';
 import { endpoint, json, readJson, PUBLIC_FORM_BYTES } from '~/lib/server/http';
-import { email } from '~/lib/server/validation';
+import { email } from '~/lib/forms/fields';
 import { requestPasswordReset } from '~/lib/server/members';
 import { clientAddressOf } from '~/lib/server/client-address';
 

@@ -1,7 +1,7 @@
 // POST /api/invitations/:token/accept {name?, password?} → 200 {studio}; joins the studio (creating the account if new) and signs in.
 import { z } from 'zod';
 import { endpoint, json, readJson, PUBLIC_FORM_BYTES } from '~/lib/server/http';
-import { personName, password } from '~/lib/server/validation';
+import { personName, password } from '~/lib/forms/fields';
 import { acceptInvitation } from '~/lib/server/members';
 import { lucia } from '~/lib/server/auth';
 

@@ -3,7 +3,7 @@ import { z } from 'zod';
 import { endpoint, json, idParam, readJson } from '~/lib/server/http';
 import { requireRole } from '~/lib/server/authz';
 import { invite, listInvitations } from '~/lib/server/members';
-import { email, role } from '~/lib/server/validation';
+import { email, role } from '~/lib/forms/fields';
 
 export const GET = endpoint(async ({ params, locals }) => {
   const access = await requireRole(locals, idParam(params, 'studioId'), 'owner');

@@ -3,7 +3,7 @@ import { z } from 'zod';
 import { endpoint, json, idParam, readJson } from '~/lib/server/http';
 import { requireRole } from '~/lib/server/authz';
 import { changeMember, setClientShows } from '~/lib/server/members';
-import { role } from '~/lib/server/validation';
+import { role } from '~/lib/forms/fields';
 
 export const PATCH = endpoint(async ({ params, locals, request }) => {
   const access = await requireRole(locals, idParam(params, 'studioId'), 'owner');

@@ -1,4 +1,4 @@
-// Input rules shared by endpoints and forms (the same zod schemas run in the browser and on the server).
+// Input rules for people and accounts, shared by endpoints and forms (the same zod schemas run in the browser and on the server).
 import { z } from 'zod';
 import { ROLES } from '../vocab';
 
