@@ -8,7 +8,7 @@ import { createSolver } from '../../src/lib/sim/solver';
 import { bakeChecksum } from '../../src/lib/sim/bake';
 import { parseScene } from '../../src/lib/scene/schema';
 import { sha256Hex } from '../../src/lib/scene/hash';
-import { FOAM, SPRAY } from '../../src/lib/sim/diffuse';
+import { breakupFactor, FOAM, SPRAY } from '../../src/lib/sim/diffuse';
 import { sceneFrom } from './helpers/scenes';
 
 const FRAMES = 14;
@@ -74,6 +74,23 @@ describe('foam and spray', () => {
     expect(total(off)).toBe(0);
     expect(Object.keys(off.sim.stepFrame().stageMs)).not.toContain('foam and spray');
     expect(total(bakeDiffuse(splashDoc(2)))).toBeGreaterThan(total(bakeDiffuse(splashDoc(1))));
+  });
+
+  it('a viscous liquid breaks up less: thick paint in the same splash throws no foam or spray, water keeps all', () => {
+    // Ohnesorge number Oh = ν·√(ρ/(σ·R)) at the kernel radius, σ = 0.072 N/m (water–air, from memory):
+    // water ν = 1e-6 m²/s → Oh ≈ 1e-3 (factor 1); ν = 1e-2 (thick paint) → Oh ≈ 9 (0); in between log-linear.
+    const R = 0.0165;
+    expect(breakupFactor(1e-6, R)).toBe(1);
+    expect(breakupFactor(1e-2, R)).toBe(0);
+    const mid = breakupFactor(0.1 / Math.sqrt(1000 / (0.072 * R)) * Math.sqrt(10), R); // Oh = 10^−0.5
+    expect(mid).toBeCloseTo(0.5, 6);
+    const water = splashDoc();
+    const paint = splashDoc();
+    paint.version = 2;
+    paint.liquids = (paint.liquids ?? [{ id: 'water', name: 'Water', colour: '#3A8FB7' }]).map((l: Record<string, unknown>) => ({ ...l, viscosity: 1e-2 }));
+    for (const key of ['pours', 'spouts']) for (const o of paint[key] ?? []) if (o.liquid === undefined) o.liquid = paint.liquids[0].id;
+    expect(total(bakeDiffuse(water))).toBeGreaterThan(0);
+    expect(total(bakeDiffuse(paint))).toBe(0);
   });
 
   it('look.foam outside 0 … 2 is refused, naming the field', () => {

@@ -10,4 +10,6 @@
 //    pressure tolerance is below 1e-2 bake differently; at 1e-2 and above (the default) frames are unchanged.
 // 6: foam and spray's potentials clamped in the kernel's own units, read without the substep's gravity kick, and
 //    capped at half the liquid's capacity (sim/diffuse.ts): clips' foam sections change; liquid frames do not.
-export const SOLVER_BUILD = 'tidemark-flip/6';
+// 7: viscous liquids emit foam and spray by their Ohnesorge number (sim/diffuse.ts breakupFactor): thick paint
+//    throws none; water's foam, and every liquid frame, bake as before.
+export const SOLVER_BUILD = 'tidemark-flip/7';
