@@ -15,10 +15,10 @@ export const POST = endpoint(async ({ params, locals }) => {
 
 export const GET = endpoint(async ({ params, locals }) => {
   const { version, access } = await versionAccess(locals, idParam(params, 'versionId'), 'artist');
-  // The state is read again beside the progress (not the row loaded above), so the two agree when a bake just ended.
-  const [progress, [fresh]] = await Promise.all([
-    bakeProgress(version.id, access.studioId),
-    db().select({ bakeState: versions.bakeState }).from(versions).where(eq(versions.id, version.id)),
-  ]);
+  // The state is read again (not the row loaded above), and before the progress: the bake's end commits both in one
+  // transaction, so a 'baked' read first means the progress read after it sees the finished job. (Read in parallel,
+  // on two connections, 'baked' could come with the progress of a moment before: 0 % on a short bake.)
+  const [fresh] = await db().select({ bakeState: versions.bakeState }).from(versions).where(eq(versions.id, version.id));
+  const progress = await bakeProgress(version.id, access.studioId);
   return json({ bakeState: fresh?.bakeState ?? version.bakeState, bake: progress });
 });
