@@ -11,7 +11,7 @@ import path from 'node:path';
 import { unzipSync } from 'fflate';
 import { PNG } from 'pngjs';
 import type { Page } from 'playwright-core';
-import { SHOTS_DIR, countPixels, openBrowser, openPlayerAt, screenshot, signInAs } from '../support/browser';
+import { SHOTS_DIR, countPixels, openBrowser, openPlayerAt, screenshot, signInAs, signedIn } from '../support/browser';
 import { bakeAndWait } from '../support/bake';
 import { makeStudio, unique, type TestStudio } from '../support/app';
 import { uploadPngPlate } from '../support/plates';
@@ -98,10 +98,7 @@ describe('the hero demo shot on its version page', () => {
     const b = await openBrowser();
     try {
       const { page } = b;
-      const errors: string[] = [];
-      page.on('pageerror', (e) => errors.push(e.message));
-      await signInAs(page, studio.members.artist.email, studio.members.artist.password);
-      await page.waitForURL((url) => !url.pathname.startsWith('/sign-in'));
+      const errors = await signedIn(page, studio.members.artist);
       await openPlayerAt(page, studio.slug, versionId, MID);
 
       // The looks say what they show; the liquid look is the one open.

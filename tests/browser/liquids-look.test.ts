@@ -2,7 +2,7 @@
 // demo seed) baked and opened in the player: the two liquids keep their colours on the GPU path, the steps (walls)
 // are outlined, and the player's wall button hides them for a plate that already shows them.
 import { describe, it, expect, beforeAll, afterAll } from 'vitest';
-import { countPixels, openBrowser, openPlayerAt, screenshot, signInAs } from '../support/browser';
+import { countPixels, openBrowser, openPlayerAt, screenshot, signedIn } from '../support/browser';
 import { bakeAndWait } from '../support/bake';
 import { makeStudio, unique, type TestStudio } from '../support/app';
 import { closeDb, db } from '../../src/lib/server/db';
@@ -41,10 +41,7 @@ describe('two liquids and walls in the player', () => {
     const b = await openBrowser();
     try {
       const { page } = b;
-      const errors: string[] = [];
-      page.on('pageerror', (e) => errors.push(e.message));
-      await signInAs(page, studio.members.artist.email, studio.members.artist.password);
-      await page.waitForURL((url) => !url.pathname.startsWith('/sign-in'));
+      const errors = await signedIn(page, studio.members.artist);
       await openPlayerAt(page, studio.slug, versionId, SHOWN);
       await screenshot(page, 'liquids-look-two-liquids');
       const view = await page.getByTestId('player-view').screenshot({ path: 'test-results/screenshots/liquids-look-two-liquids-view.png' });

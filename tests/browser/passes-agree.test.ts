@@ -11,7 +11,7 @@ import { eq } from 'drizzle-orm';
 import { unzipSync } from 'fflate';
 import { PNG } from 'pngjs';
 import { makeStudio, unique, type TestStudio } from '../support/app';
-import { SHOTS_DIR, openBrowser, openPlayerAt, screenshot, signInAs } from '../support/browser';
+import { SHOTS_DIR, openBrowser, openPlayerAt, screenshot, signedIn } from '../support/browser';
 import { bakeAndWait } from '../support/bake';
 import { closeDb, db } from '../../src/lib/server/db';
 import { shots, shows } from '../../src/lib/server/db/schema';
@@ -57,10 +57,7 @@ describe('comp passes and the player agree', () => {
     const b = await openBrowser();
     try {
       const { page } = b;
-      const errors: string[] = [];
-      page.on('pageerror', (e) => errors.push(e.message));
-      await signInAs(page, studio.members.artist.email, studio.members.artist.password);
-      await page.waitForURL((url) => !url.pathname.startsWith('/sign-in'));
+      const errors = await signedIn(page, studio.members.artist);
       await openPlayerAt(page, studio.slug, versionId, SHOWN);
       mkdirSync(SHOTS_DIR, { recursive: true });
       const viewPng = await page.getByTestId('player-view').screenshot({ path: path.join(SHOTS_DIR, 'passes-agree-player-view.png') });

@@ -2,7 +2,7 @@
 // appears by itself; scrub on the ruler, step with ←/→ (the frame and timecode readouts move by exactly one), and
 // screenshots show the splash over the plate in both looks.
 import { describe, it, expect, beforeAll, afterAll } from 'vitest';
-import { openBrowser, screenshot, signInAs } from '../support/browser';
+import { openBrowser, screenshot, signedIn } from '../support/browser';
 import { makeStudio, unique, type TestStudio } from '../support/app';
 import { uploadPngPlate } from '../support/plates';
 import { closeDb, db } from '../../src/lib/server/db';
@@ -60,10 +60,7 @@ describe('version page and player in Chromium', () => {
     const b = await openBrowser();
     try {
       const { page } = b;
-      const errors: string[] = [];
-      page.on('pageerror', (e) => errors.push(e.message));
-      await signInAs(page, studio.members.artist.email, studio.members.artist.password);
-      await page.waitForURL((url) => !url.pathname.startsWith('/sign-in'));
+      const errors = await signedIn(page, studio.members.artist);
       await page.goto(`/studios/${studio.slug}/versions/${versionId}`);
 
       const header = page.getByTestId('version-header');

@@ -8,7 +8,7 @@ import { PNG } from 'pngjs';
 import { unzipSync } from 'fflate';
 import { mkdirSync, readFileSync, writeFileSync } from 'node:fs';
 import path from 'node:path';
-import { countPixels, hydrated, openBrowser, openPlayerAt, screenshot, signInAs, SHOTS_DIR } from '../support/browser';
+import { countPixels, hydrated, openBrowser, openPlayerAt, screenshot, signInAs, SHOTS_DIR, signedIn } from '../support/browser';
 import { bakeAndWait } from '../support/bake';
 import { makeStudio, unique, type TestStudio } from '../support/app';
 import { postUploadForm, uploadPngPlate } from '../support/plates';
@@ -75,10 +75,7 @@ describe('the hero demo can drawn as its picture', () => {
     const b = await openBrowser();
     try {
       const { page } = b;
-      const errors: string[] = [];
-      page.on('pageerror', (e) => errors.push(e.message));
-      await signInAs(page, studio.members.artist.email, studio.members.artist.password);
-      await page.waitForURL((url) => !url.pathname.startsWith('/sign-in'));
+      const errors = await signedIn(page, studio.members.artist);
       await openPlayerAt(page, studio.slug, versionId, MID);
       await screenshot(page, 'prop-picture-mid-clip');
       const view = await page.getByTestId('player-view').screenshot({ path: 'test-results/screenshots/prop-picture-mid-clip-view.png' });
@@ -167,10 +164,7 @@ describe('the hero demo can drawn as its picture', () => {
     const b = await openBrowser();
     try {
       const { page } = b;
-      const errors: string[] = [];
-      page.on('pageerror', (e) => errors.push(e.message));
-      await signInAs(page, studio.members.artist.email, studio.members.artist.password);
-      await page.waitForURL((url) => !url.pathname.startsWith('/sign-in'));
+      const errors = await signedIn(page, studio.members.artist);
       await page.goto(`/studios/${studio.slug}/shots/${shotId}/edit`);
       const canvas = page.getByTestId('editor-canvas');
       await canvas.waitFor();

@@ -76,6 +76,18 @@ export async function signInAs(page: Page, email: string, password: string) {
   await page.getByRole('button', { name: 'Sign in' }).click();
 }
 
+/**
+ * Collects the page's uncaught errors from now on, signs in as `who` and waits until the app has left the sign-in
+ * page; returns the errors (tests end with `expect(errors).toEqual([])`).
+ */
+export async function signedIn(page: Page, who: { email: string; password: string }): Promise<string[]> {
+  const errors: string[] = [];
+  page.on('pageerror', (e) => errors.push(e.message));
+  await signInAs(page, who.email, who.password);
+  await page.waitForURL((url) => !url.pathname.startsWith('/sign-in'));
+  return errors;
+}
+
 /** The test S3 stand-in's CORS rules name the dev origins, not this run's random app port: answer for it here. */
 export async function answerCors(context: BrowserContext) {
   const appOrigin = new URL(APP).origin;
