@@ -341,6 +341,23 @@ const EDL_V1 = [
 ].join('\n');
 
 describe('import', () => {
+  it('reads a shot as approved by its own versions only (an approved version of another shot changes nothing)', async () => {
+    // A shot and an approved version with the same id, in another show: a subquery that compared a version's
+    // shot with a bare `id` matched that version for every shot of every show.
+    const [{ m }] = await db().select({ m: sql<number>`GREATEST(COALESCE((SELECT MAX(id) FROM shots), 0), COALESCE((SELECT MAX(id) FROM versions), 0)) + 1` }).from(sql`dual`);
+    const k = Number(m);
+    const elsewhere = await newShow();
+    await db().insert(shots).values({ id: k, studioId: studio.id, showId: elsewhere.id, code: unique('AP').slice(0, 20), firstFrame: 1001, lastFrame: 1010, frameRate: '24' });
+    await db().insert(versions).values({ id: k, studioId: studio.id, shotId: k, number: 1, scene: {}, sceneHash: unique('h'), reviewState: 'approved', bakeState: 'baked' });
+
+    const show = await newShow({ frameRate: '24' });
+    const body = { format: 'edl', text: EDL_V1, options: { headHandles: 8, tailHandles: 8, startFrame: 1001 }, skipErrors: true };
+    expect((await supervisor().post(`${api()}/shows/${show.id}/import/confirm`, body)).status).toBe(200);
+    const trimmed = EDL_V1.replace('11:00:02:00 01:00:03:00 01:00:05:00', '11:00:01:12 01:00:03:00 01:00:04:12');
+    const preview = await supervisor().post(`${api()}/shows/${show.id}/import/preview`, { ...body, text: trimmed });
+    expect(preview.body.preview.update).toEqual([expect.objectContaining({ code: 'HW_0200', approved: false })]);
+  });
+
   it('previews an EDL (errors by line), refuses to confirm with errors, then imports the readable lines in one go', async () => {
     const show = await newShow({ frameRate: '24' });
     const body = { format: 'edl', text: EDL_V1, options: { headHandles: 8, tailHandles: 8, startFrame: 1001 } };

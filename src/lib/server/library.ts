@@ -559,8 +559,11 @@ function existingShotColumns() {
     lastFrame: shots.lastFrame,
     headHandles: shots.headHandles,
     tailHandles: tailHandlesColumn(),
-    // Approved: by its status, or by an approved version (a range change on it needs an explicit tick).
-    approved: sql<boolean>`(${shots.status} = 'approved' OR EXISTS (SELECT 1 FROM versions av WHERE av.shot_id = ${shots.id} AND av.review_state = 'approved'))`.mapWith((v) => Number(v) === 1),
+    // Approved: by its status, or by an approved version (a range change on it needs an explicit tick). The outer
+    // shot's id is named with its table: drizzle writes `${shots.id}` as a bare `id` in a one-table select, which
+    // inside the subquery means the version's own id (every shot then read as approved once any approved version's
+    // id equalled its shot's id).
+    approved: sql<boolean>`(${shots.status} = 'approved' OR EXISTS (SELECT 1 FROM versions av WHERE av.shot_id = ${sql.identifier('shots')}.${sql.identifier('id')} AND av.review_state = 'approved'))`.mapWith((v) => Number(v) === 1),
   };
 }
 
