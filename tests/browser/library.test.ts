@@ -97,6 +97,8 @@ describe('shot library in Chromium', () => {
       // Import the edit: preview first, then confirm.
       await page.getByRole('link', { name: 'Import EDL / CSV' }).click();
       await page.waitForURL(/\/import$/);
+      // Text typed before the import island has hydrated is reset by it, and Preview then answers nothing.
+      await page.locator('astro-island:not([ssr])').filter({ has: page.getByLabel('Edit decision list') }).waitFor({ timeout: 30_000 });
       // A malformed line (a letter O in a timecode) is reported by its line number and blocks a plain confirm.
       await page.getByLabel('Edit decision list').fill(`${EDL}004  A002C002 V     C        12:10:00:00 12:10:01:00 01:00:06:12 01:00:O7:12\n`);
       await page.getByRole('button', { name: 'Preview', exact: true }).click();
