@@ -6,11 +6,10 @@
 // The foam and spray (a read-only stage, not in the liquid's frames) have a checksum of their own from build /6 on.
 // The checksums are our own recordings (no outside source): this is a regression lock, not a physics check.
 import { describe, it, expect } from 'vitest';
-import { readFileSync } from 'node:fs';
 import { bakeChecksum, framesChecksum } from '../../src/lib/sim/bake';
 import { createSolver } from '../../src/lib/sim/solver';
 import { SOLVER_BUILD } from '../../src/lib/bake/build';
-import { sceneFrom } from './helpers/scenes';
+import { goldenScene } from './helpers/scenes';
 
 /** Checksum of GOLDEN_FRAMES frames of goldenScene(), per solver build id. */
 const GOLDEN: Record<string, string> = {
@@ -29,19 +28,6 @@ const GOLDEN_FOAM: Record<string, string> = {
   'tidemark-flip/7': 'deb902af6fc90a33612adbc8d25ae7bef6cec4d48b81727df87380fe61befab3',
 };
 const GOLDEN_FRAMES = 8;
-
-function goldenScene() {
-  const doc = JSON.parse(readFileSync(new URL('../fixtures/scenes/harbour-splash.json', import.meta.url), 'utf8'));
-  doc.version = 2;
-  doc.tank.cellSize = 1 / 32;
-  doc.liquids = [
-    { id: 'water', name: 'Water', colour: '#3A8FB7', viscosity: 1e-6 },
-    { id: 'paint', name: 'Paint', colour: '#C8341E', viscosity: 1e-6 },
-  ];
-  doc.spouts[0].liquid = 'paint';
-  doc.props.push({ id: 'float', shape: { type: 'rect', x: 0.2, y: 0.85, width: 0.1, height: 0.06 }, motion: 'free', density: 500 });
-  return sceneFrom(doc);
-}
 
 describe('golden bake', () => {
   it(`frames match the checksum recorded for solver build ${SOLVER_BUILD}`, () => {

@@ -2,26 +2,11 @@
 // serial order, so the frames on N threads are the frames on one thread, bit for bit (not merely within the clip's
 // quantisation), and a threaded bake run twice is bit-identical. Our own design property (no outside source).
 import { describe, it, expect, beforeAll, afterAll } from 'vitest';
-import { readFileSync } from 'node:fs';
 import { bakeFrames, framesChecksum } from '../../src/lib/sim/bake';
 import { createSolver } from '../../src/lib/sim/solver';
 import { referenceDamBreak } from '../../src/lib/sim/reference';
 import { createSolverTeam, type NodeSolverTeam } from '../../src/lib/bake/solver-team';
-import { sceneFrom } from './helpers/scenes';
-
-/** The golden test's scene: two liquids, a spout (particles appended anywhere), a drain and a wall, a keyed and a free prop. */
-function everyStageScene() {
-  const doc = JSON.parse(readFileSync(new URL('../fixtures/scenes/harbour-splash.json', import.meta.url), 'utf8'));
-  doc.version = 2;
-  doc.tank.cellSize = 1 / 32;
-  doc.liquids = [
-    { id: 'water', name: 'Water', colour: '#3A8FB7', viscosity: 1e-6 },
-    { id: 'paint', name: 'Paint', colour: '#C8341E', viscosity: 1e-6 },
-  ];
-  doc.spouts[0].liquid = 'paint';
-  doc.props.push({ id: 'float', shape: { type: 'rect', x: 0.2, y: 0.85, width: 0.1, height: 0.06 }, motion: 'free', density: 500 });
-  return sceneFrom(doc);
-}
+import { goldenScene } from './helpers/scenes';
 
 const same = (a: Float32Array[], b: Float32Array[]) =>
   a.length === b.length && a.every((f, i) => Buffer.from(f.buffer, f.byteOffset, f.byteLength).equals(Buffer.from(b[i].buffer, b[i].byteOffset, b[i].byteLength)));
@@ -40,8 +25,8 @@ describe('a bake on several threads', () => {
   it('two bakes on 1, on 2 and on 4 threads give identical bytes', () => {
     for (const n of [1, 2, 4]) {
       const team = n === 1 ? null : teams[n];
-      const a = bakeFrames(everyStageScene(), 10, { team });
-      const b = bakeFrames(everyStageScene(), 10, { team });
+      const a = bakeFrames(goldenScene(), 10, { team });
+      const b = bakeFrames(goldenScene(), 10, { team });
       expect(a).toHaveLength(10);
       expect(same(a, b), `${n} threads`).toBe(true);
     }
@@ -50,16 +35,16 @@ describe('a bake on several threads', () => {
   it('the adaptive schedule (threaded or serial per stage, by speed) gives the 1-thread bytes too', async () => {
     const adaptive = await createSolverTeam(2, 'adaptive');
     try {
-      expect(framesChecksum(bakeFrames(everyStageScene(), 10, { team: adaptive }))).toBe(framesChecksum(bakeFrames(everyStageScene(), 10, { team: null })));
+      expect(framesChecksum(bakeFrames(goldenScene(), 10, { team: adaptive }))).toBe(framesChecksum(bakeFrames(goldenScene(), 10, { team: null })));
     } finally {
       await adaptive.end();
     }
   });
 
   it('1, 2 and 4 threads give the same bytes on a scene that runs every stage', () => {
-    const one = bakeFrames(everyStageScene(), 10, { team: null });
-    const two = bakeFrames(everyStageScene(), 10, { team: teams[2] });
-    const four = bakeFrames(everyStageScene(), 10, { team: teams[4] });
+    const one = bakeFrames(goldenScene(), 10, { team: null });
+    const two = bakeFrames(goldenScene(), 10, { team: teams[2] });
+    const four = bakeFrames(goldenScene(), 10, { team: teams[4] });
     expect(framesChecksum(two)).toBe(framesChecksum(one));
     expect(framesChecksum(four)).toBe(framesChecksum(one));
     // the scene moves: a bake that froze would also agree with itself

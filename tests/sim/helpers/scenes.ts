@@ -1,4 +1,5 @@
 // Small scenes for solver tests (coarse grids keep the suite fast).
+import { readFileSync } from 'node:fs';
 import { parseScene, type Scene } from '../../../src/lib/scene/schema';
 
 /**
@@ -22,4 +23,22 @@ export function mean(a: ArrayLike<number>, n = a.length): number {
   let s = 0;
   for (let i = 0; i < n; i++) s += a[i];
   return s / n;
+}
+
+/**
+ * The golden scene (tests/sim/golden.test.ts, also baked on several threads in threads.test.ts): the harbour splash
+ * at 1/32 m with two liquids, a spout of the second (particles appended anywhere), a drain and a wall, a keyed and a
+ * free prop — every stage runs.
+ */
+export function goldenScene(): Scene {
+  const doc = JSON.parse(readFileSync(new URL('../../fixtures/scenes/harbour-splash.json', import.meta.url), 'utf8'));
+  doc.version = 2;
+  doc.tank.cellSize = 1 / 32;
+  doc.liquids = [
+    { id: 'water', name: 'Water', colour: '#3A8FB7', viscosity: 1e-6 },
+    { id: 'paint', name: 'Paint', colour: '#C8341E', viscosity: 1e-6 },
+  ];
+  doc.spouts[0].liquid = 'paint';
+  doc.props.push({ id: 'float', shape: { type: 'rect', x: 0.2, y: 0.85, width: 0.1, height: 0.06 }, motion: 'free', density: 500 });
+  return sceneFrom(doc);
 }
